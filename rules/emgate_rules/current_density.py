@@ -1,0 +1,84 @@
+"""Conductor current density."""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+from pydantic import Field
+
+from emgate.calc import Calculation
+from emgate.model import AnyDesign
+from emgate.quantity import quantity
+from emgate.rule import Check, Context, Options, Problem, Rule
+
+CurrentDensityLimit = quantity("current_density")
+_MM2 = 1e6  # A/mm^2 in A/m^2
+
+#: Upper ends of the ranges by cooling [mem: Hendershot and Miller, Design of Brushless
+#: Permanent-Magnet Machines]: totally enclosed non-ventilated 1.5-5 A/mm^2, fan-cooled 5-10,
+#: liquid-cooled 10-30. A water jacket cools the winding only through the iron, so its default
+#: sits between the fan-cooled and liquid-cooled ends (common practice, no source).
+DEFAULT_LIMITS = {
+    "enclosed_natural": 5.0 * _MM2,
+    "enclosed_fan": 10.0 * _MM2,
+    "open_ventilated": 10.0 * _MM2,
+    "liquid_jacket": 20.0 * _MM2,
+    "direct_liquid": 30.0 * _MM2,
+}
+SOURCES = {
+    "enclosed_natural": "Hendershot and Miller, totally enclosed non-ventilated, from memory",
+    "enclosed_fan": "Hendershot and Miller, fan-cooled, from memory",
+    "open_ventilated": "Hendershot and Miller, fan-cooled, from memory",
+    "liquid_jacket": "common practice, no source",
+    "direct_liquid": "Hendershot and Miller, liquid-cooled, from memory",
+}
+
+
+class CurrentDensityOptions(Options):
+    enclosed_natural: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["enclosed_natural"])
+    enclosed_fan: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["enclosed_fan"])
+    open_ventilated: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["open_ventilated"])
+    liquid_jacket: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["liquid_jacket"])
+    direct_liquid: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["direct_liquid"])
+
+
+class CurrentDensity(Rule):
+    """Current density in the stator winding against a limit set by the cooling method.
+
+    Method: the winding phase current follows from the rated line current and the connection
+    (star: I_ph = I; delta: I_ph = I / sqrt 3); it divides over the parallel paths a and the
+    strands in hand n, so the density in a strand of bare section S is J = I_ph / (a n S).
+    The strand section is pi d^2 / 4 for round wire, and w h - (4 - pi) r^2 for a rectangular
+    strand with corner radius r.
+
+    Default limits (upper ends of the usual ranges): totally enclosed, no fan 5 A/mm^2;
+    fan-cooled or open ventilated 10 A/mm^2; liquid-cooled 30 A/mm^2 [from memory: Hendershot
+    and Miller, Design of Brushless Permanent-Magnet Machines]; water jacket 20 A/mm^2
+    (common practice, no source). Set the team's own limits in emgate.yaml, e.g.
+    ``options: {current-density: {enclosed_fan: 7 A/mm^2}}``.
+    """
+
+    id = "current-density"
+    summary = "conductor current density within the limit for the cooling method"
+    version = "1"
+    tags = ("electrical", "thermal")
+    options = CurrentDensityOptions
+
+    def check(
+        self, design: AnyDesign, options: Options, context: Context
+    ) -> Iterable[Check | Problem]:
+        assert isinstance(options, CurrentDensityOptions)
+        calc: Calculation = context.calc
+        method = design.cooling.method
+        limit = getattr(options, method)
+        source = SOURCES[method] if limit == DEFAULT_LIMITS[method] else "the team's limit"
+        yield Check(
+            quantity="stator.current_density",
+            label="stator current density",
+            path=("winding", "conductor"),
+            value=calc.stator_current_density,
+            limit=limit,
+            bound="max",
+            unit="A/mm^2",
+            basis=f"{method.replace('_', ' ')}: {source}",
+        )

@@ -1,0 +1,3 @@
+from emgate.cli import entry
+
+entry()

@@ -1,0 +1,187 @@
+"""Command line: ``emgate check|show|rules|explain|plugins|schema``.
+
+Exit codes: 0 clean; 1 a rule found an error; 2 input, configuration or usage error; 3 a rule,
+a plugin or emgate itself crashed (fail closed: a crash never passes a merge).
+"""
+
+from __future__ import annotations
+
+import argparse
+import datetime as dt
+import os
+import sys
+from pathlib import Path
+
+from emgate import __version__
+
+EXIT_OK, EXIT_FINDINGS, EXIT_INPUT, EXIT_CRASH = 0, 1, 2, 3
+
+
+def _untrusted_path_guard() -> None:
+    """Drop the working directory from the import path: plugins come only from installed
+    distributions, never from the repository being checked."""
+    cwd = os.path.realpath(os.getcwd())
+    sys.path[:] = [p for p in sys.path if p not in ("", ".") and os.path.realpath(p) != cwd]
+
+
+def _date(text: str) -> dt.date:
+    try:
+        return dt.date.fromisoformat(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a date YYYY-MM-DD, found {text!r}") from None
+
+
+def _parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="emgate",
+        description="Design-verification gate for electric machines. Results support, and do"
+        " not replace, review by a qualified engineer under the applicable standards and local"
+        " codes.",
+    )
+    p.add_argument("--version", action="version", version=f"emgate {__version__}")
+    sub = p.add_subparsers(dest="command", required=True, metavar="COMMAND")
+    c = sub.add_parser("check", help="check design records against the rules")
+    c.add_argument("paths", nargs="*", type=Path, metavar="PATH",
+                   help="record files or folders (default: the config's files, or '.')")
+    c.add_argument("--format", default="text", choices=["text", "json"])
+    c.add_argument("--config", type=Path, help="project config (default: nearest emgate.yaml)")
+    c.add_argument("--today", type=_date, help="judge waiver expiry as of this date")
+    s = sub.add_parser("show", help="print the calculation sheet of a design")
+    s.add_argument("file", type=Path)
+    s.add_argument("--format", default="text", choices=["text", "json"])
+    s.add_argument("--config", type=Path)
+    r = sub.add_parser("rules", help="list every installed rule")
+    r.add_argument("--format", default="text", choices=["text", "json"])
+    e = sub.add_parser("explain", help="print a rule's method, formulas and sources")
+    e.add_argument("rule")
+    sub.add_parser("plugins", help="list installed plugin packs")
+    sc = sub.add_parser("schema", help="print a JSON Schema")
+    sc.add_argument("kind", nargs="?", default="design", choices=["design", "materials", "config"])
+    return p
+
+
+def main(argv: list[str] | None = None) -> int:
+    args = _parser().parse_args(argv)
+    try:
+        return _dispatch(args)
+    except KeyboardInterrupt:
+        print("emgate: interrupted", file=sys.stderr)
+        return EXIT_CRASH
+    except BrokenPipeError:
+        return EXIT_OK
+    except Exception as exc:  # fail closed, without a traceback for the user
+        if os.environ.get("EMGATE_DEBUG"):
+            raise
+        print(f"emgate: internal error: {type(exc).__name__}: {exc}\n"
+              "Set EMGATE_DEBUG=1 for the traceback; please report it.", file=sys.stderr)
+        return EXIT_CRASH
+
+
+def _dispatch(args: argparse.Namespace) -> int:
+    if args.command == "schema":
+        import json
+
+        if args.kind == "config":
+            from emgate.config import config_json_schema
+
+            schema = config_json_schema()
+        else:
+            from emgate.model import json_schema
+
+            schema = json_schema(args.kind)
+        print(json.dumps(schema, indent=2))
+        return EXIT_OK
+    _untrusted_path_guard()
+    from emgate.plugins import load_plugins
+
+    plugins = load_plugins()
+    if args.command == "plugins":
+        for pack in plugins.packs:
+            n = sum(1 for lr in plugins.rules.values() if lr.pack == pack)
+            print(f"{pack.name:<16} {pack.distribution} {pack.version}  ({pack.value}; {n} rules)")
+        return _plugin_errors(plugins)
+    if args.command == "rules":
+        return _rules(plugins, args.format)
+    if args.command == "explain":
+        return _explain(plugins, args.rule)
+    if args.command == "show":
+        from emgate.sheet import show
+
+        return show(args.file, args.format)
+    return _check(args, plugins)
+
+
+def _plugin_errors(plugins) -> int:  # type: ignore[no-untyped-def]
+    for err in plugins.errors:
+        print(f"emgate: {err}", file=sys.stderr)
+    return EXIT_INPUT if plugins.errors else EXIT_OK
+
+
+def _rules(plugins, fmt: str) -> int:  # type: ignore[no-untyped-def]
+    rows = [(rid, lr.rule, lr.pack) for rid, lr in sorted(plugins.rules.items())]
+    if fmt == "json":
+        import json
+
+        print(json.dumps([
+            {"id": rid, "summary": r.summary, "version": r.version, "severity": r.severity,
+             "machines": list(r.machines), "tags": list(r.tags),
+             "origin": {"distribution": p.distribution, "version": p.version}}
+            for rid, r, p in rows], indent=2))
+    else:
+        for rid, r, p in rows:
+            print(f"{rid:<24} {r.severity:<8} {p.distribution} {p.version:<8} {r.summary}")
+    return _plugin_errors(plugins)
+
+
+def _explain(plugins, rid: str) -> int:  # type: ignore[no-untyped-def]
+    if rid not in plugins.rules:
+        import difflib
+
+        close = difflib.get_close_matches(rid, list(plugins.rules), n=1, cutoff=0.5)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        print(f"emgate: no installed rule has the id {rid!r}{hint}", file=sys.stderr)
+        return EXIT_INPUT
+    lr = plugins.rules[rid]
+    rule = lr.rule
+    print(f"{rid} v{rule.version} ({lr.pack.distribution} {lr.pack.version})")
+    print(f"{rule.summary}")
+    print(f"applies to: {', '.join(rule.machines)}; default severity: {rule.severity}\n")
+    print(rule.explain())
+    fields = rule.options.model_fields
+    if fields:
+        print("\noptions (defaults, in SI units):")
+        for name, info in fields.items():
+            desc = f"  {info.description}" if info.description else ""
+            print(f"  {name} = {info.default!r}{desc}")
+    return EXIT_OK
+
+
+def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped-def]
+    from emgate.config import find_config, load_policy
+    from emgate.engine import Run, execute, input_findings
+    from emgate.errors import InputError, InputErrors
+    from emgate.findings import RunResult
+    from emgate.report import reporter
+
+    start = args.paths[0] if args.paths else Path.cwd()
+    config = args.config or find_config(start if start.is_dir() else start.parent)
+    try:
+        rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
+        policy = load_policy(config, rules, Path.cwd())
+    except (InputError, InputErrors) as exc:
+        result = RunResult(findings=input_findings(exc))
+        sys.stdout.write(reporter(args.format)(result))
+        return result.exit_code
+    paths = list(args.paths)
+    if not paths:
+        paths = [policy.root] if policy.source else [Path(".")]
+    run = Run(paths=paths, policy=policy, plugins=plugins)
+    if args.today:
+        run.today = args.today
+    result = execute(run)
+    sys.stdout.write(reporter(args.format)(result))
+    return result.exit_code
+
+
+def entry() -> None:
+    sys.exit(main())

@@ -1,0 +1,216 @@
+"""The flow of one run: discover, load, validate, check, waive, collect.
+
+Each stage has one home: loading in :mod:`emgate.loader`, validation in :mod:`emgate.validate`,
+policy in :mod:`emgate.config`, plugins in :mod:`emgate.plugins`; this module only sequences
+them and turns rule output into findings.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import re
+import traceback
+from collections.abc import Iterable
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from emgate.config import CONFIG_NAME, Policy
+from emgate.errors import InputError, InputErrors, display_path
+from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.loader import Document, load_text, read_text
+from emgate.materials import Catalogue
+from emgate.model import DESIGN_SCHEMA, MATERIALS_SCHEMA, AnyDesign
+from emgate.plugins import PluginSet
+from emgate.rule import Check, Context, Problem
+
+_DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
+SKIP_DIRS = {".git", ".hg", ".svn", ".nox", ".tox", ".venv", "venv", "node_modules", "__pycache__"}
+
+
+@dataclass
+class Source:
+    path: Path
+    text: str
+    declared: str | None
+    explicit: bool
+
+
+@dataclass
+class LoadedDesign:
+    doc: Document
+    design: AnyDesign
+    file: str
+
+
+@dataclass
+class Run:
+    """Inputs of a run; ``today`` is injectable so waiver expiry is testable."""
+
+    paths: list[Path]
+    policy: Policy
+    plugins: PluginSet
+    today: dt.date = field(default_factory=dt.date.today)
+
+
+def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
+    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema."""
+    out: list[Source] = []
+    seen: set[Path] = set()
+    for root in paths:
+        if root.is_dir():
+            candidates = sorted(
+                p for p in root.rglob("*")
+                if p.suffix in (".yaml", ".yml") and p.is_file() and p.name != CONFIG_NAME
+                and not SKIP_DIRS.intersection(p.relative_to(root).parts[:-1])
+            )
+            explicit = False
+        elif root.exists():
+            candidates, explicit = [root], True
+        else:
+            result.findings.append(_input_finding(InputError(f"no such file or folder: {root}")))
+            continue
+        for path in candidates:
+            key = path.resolve()
+            if key in seen:
+                continue
+            seen.add(key)
+            try:
+                text = read_text(path)
+            except InputError as exc:
+                result.findings.append(_input_finding(exc))
+                continue
+            m = _DECLARES.search(text[:4096])
+            declared = m.group(1) if m else None
+            if declared is None and not explicit:
+                continue
+            out.append(Source(path, text, declared, explicit))
+    return out
+
+
+def _input_finding(exc: InputError) -> Finding:
+    loc = exc.location
+    return Finding(
+        rule="input",
+        severity="error",
+        file=display_path(loc.file) if loc else "",
+        line=loc.line if loc else 0,
+        column=loc.column if loc else 0,
+        record_path=loc.record_path if loc else "$",
+        message=exc.message,
+        kind="input",
+    )
+
+
+def input_findings(exc: InputError | InputErrors) -> list[Finding]:
+    errors = exc.errors if isinstance(exc, InputErrors) else [exc]
+    return [_input_finding(e) for e in errors]
+
+
+def execute(run: Run) -> RunResult:
+    """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
+    from emgate.validate import schema_of, validate_design, validate_materials
+
+    result = RunResult()
+    for error in run.plugins.errors:
+        result.findings.append(_input_finding(error))
+    result.rules = [
+        RuleInfo(rid, lr.rule.version, lr.rule.summary, lr.pack.distribution, lr.pack.version)
+        for rid, lr in sorted(run.plugins.rules.items())
+    ]
+    sources = discover(run.paths, result)
+    result.files_read = len(sources)
+    docs: list[tuple[Source, Document, str]] = []
+    for src in sources:
+        try:
+            doc = load_text(src.path, src.text)
+            docs.append((src, doc, schema_of(doc)))
+        except (InputError, InputErrors) as exc:
+            result.findings.extend(input_findings(exc))
+    catalogue = Catalogue()
+    for _, doc, kind in docs:
+        if kind == MATERIALS_SCHEMA:
+            try:
+                catalogue.add_file(doc, validate_materials(doc))
+            except (InputError, InputErrors) as exc:
+                result.findings.extend(input_findings(exc))
+    for _, doc, kind in docs:
+        if kind != DESIGN_SCHEMA:
+            continue
+        try:
+            design = validate_design(doc)
+            catalogue.resolve(doc, design)
+        except (InputError, InputErrors) as exc:
+            result.findings.extend(input_findings(exc))
+            continue
+        _check_design(run, LoadedDesign(doc, design, display_path(doc.path)), catalogue, result)
+    result.sort()
+    return result
+
+
+def _check_design(run: Run, ld: LoadedDesign, catalogue: Catalogue, result: RunResult) -> None:
+    from emgate.calc import Calculation
+
+    design = ld.design
+    record = RecordResult(ld.file, design.id, design.machine)
+    result.records.append(record)
+    calc = Calculation(design, catalogue)
+    context = Context(calc=calc, file=ld.file)
+    produced: list[Finding] = []
+    for rid, loaded in sorted(run.plugins.rules.items()):
+        rule = loaded.rule
+        if not run.policy.selected(rule):
+            continue
+        if design.machine not in rule.machines:
+            record.outcomes.append(RuleOutcome(rid, "not_applicable"))
+            continue
+        severity = run.policy.severity_for(rule)
+        outcome = RuleOutcome(rid, "pass")
+        try:
+            items = list(rule().check(design, run.policy.options_for(rule), context))
+        except Exception as exc:
+            frame = traceback.extract_tb(exc.__traceback__)[-1]
+            message = (
+                f"rule crashed: {type(exc).__name__}: {exc} (at {Path(frame.filename).name}:"
+                f"{frame.lineno}); the record is not verified by this rule"
+            )
+            outcome.status, outcome.message = "crash", message
+            record.outcomes.append(outcome)
+            produced.append(_finding(ld, rid, "error", (), message, kind="crash"))
+            continue
+        for item in items:
+            if isinstance(item, Check):
+                outcome.checks.append(item)
+                if not item.passed:
+                    produced.append(_finding(ld, rid, severity, item.path, _describe(item), item))
+            elif isinstance(item, Problem):
+                produced.append(_finding(ld, rid, item.severity or severity, item.path,
+                                         item.message))
+        if any(f.rule == rid for f in produced):
+            outcome.status = "fail"
+        record.outcomes.append(outcome)
+    from emgate.waivers import apply_record_waivers
+
+    result.findings.extend(apply_record_waivers(ld, produced, record, run.today))
+
+
+def _finding(
+    ld: LoadedDesign, rule: str, severity: str, path: tuple, message: str,
+    check: Check | None = None, kind: str = "violation",
+) -> Finding:
+    loc = ld.doc.locate(path)
+    return Finding(
+        rule=rule, severity=severity, file=ld.file, line=loc.line, column=loc.column,  # type: ignore[arg-type]
+        record_path=loc.record_path, message=message, record_id=ld.design.id,
+        kind=kind, check=check,  # type: ignore[arg-type]
+    )
+
+
+def _describe(check: Check) -> str:
+    from emgate.units import format_value
+
+    word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
+    basis = f" ({check.basis})" if check.basis else ""
+    return (
+        f"{check.label} {format_value(check.value, check.unit)} {word}"
+        f" {format_value(check.limit, check.unit)}{basis}; margin {check.margin:+.1%}"
+    )

@@ -1,0 +1,52 @@
+"""Located errors: what reaches a user instead of a traceback."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+
+
+@dataclass(frozen=True)
+class Location:
+    """Where something stands: file, 1-based line and column, and the record path."""
+
+    file: Path
+    line: int
+    column: int
+    record_path: str = "$"
+
+    def __str__(self) -> str:
+        return f"{display_path(self.file)}:{self.line}:{self.column}"
+
+
+def display_path(path: Path) -> str:
+    """A path relative to the working directory where possible, with forward slashes."""
+    try:
+        rel = path.resolve().relative_to(Path.cwd().resolve())
+    except (ValueError, OSError):
+        rel = path
+    return rel.as_posix()
+
+
+class InputError(Exception):
+    """Input or configuration that cannot be read or validated (exit code 2)."""
+
+    def __init__(self, message: str, location: Location | None = None) -> None:
+        super().__init__(message)
+        self.message = message
+        self.location = location
+
+    def __str__(self) -> str:
+        if self.location is None:
+            return self.message
+        where = str(self.location)
+        at = f" at {self.location.record_path}" if self.location.record_path != "$" else ""
+        return f"{where}: {self.message}{at}"
+
+
+class InputErrors(Exception):
+    """Several located input errors from one file, reported together."""
+
+    def __init__(self, errors: list[InputError]) -> None:
+        super().__init__(f"{len(errors)} input errors")
+        self.errors = errors

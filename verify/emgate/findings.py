@@ -1,0 +1,101 @@
+"""Findings and the result of a run: the one structure every reporter reads."""
+
+from __future__ import annotations
+
+import hashlib
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Literal
+
+from emgate.errors import display_path
+from emgate.rule import Check, Severity
+
+Status = Literal["pass", "fail", "waived", "crash", "not_applicable"]
+DISCLAIMER = (
+    "emgate results support, and do not replace, review by a qualified engineer under the"
+    " applicable standards and local codes."
+)
+
+
+def fingerprint(rule: str, file: str, record_id: str, record_path: str) -> str:
+    """Stable identity of a finding: survives edits that move lines."""
+    text = "\x1f".join((rule, file, record_id, record_path))
+    return hashlib.sha256(text.encode()).hexdigest()[:32]
+
+
+@dataclass
+class Finding:
+    rule: str
+    severity: Severity
+    file: str
+    line: int
+    column: int
+    record_path: str
+    message: str
+    record_id: str = ""
+    kind: Literal["violation", "crash", "input", "waiver"] = "violation"
+    check: Check | None = None
+    waived_by: str | None = None
+
+    @property
+    def fingerprint(self) -> str:
+        return fingerprint(self.rule, self.file, self.record_id, self.record_path)
+
+    def sort_key(self) -> tuple[str, int, int, str, str]:
+        return (self.file, self.line, self.column, self.rule, self.message)
+
+
+@dataclass
+class RuleOutcome:
+    rule: str
+    status: Status
+    checks: list[Check] = field(default_factory=list)
+    message: str = ""
+
+
+@dataclass
+class RecordResult:
+    file: str
+    record_id: str
+    machine: str
+    outcomes: list[RuleOutcome] = field(default_factory=list)
+
+
+@dataclass(frozen=True)
+class RuleInfo:
+    id: str
+    version: str
+    summary: str
+    distribution: str
+    distribution_version: str
+
+
+@dataclass
+class RunResult:
+    records: list[RecordResult] = field(default_factory=list)
+    findings: list[Finding] = field(default_factory=list)
+    rules: list[RuleInfo] = field(default_factory=list)
+    files_read: int = 0
+
+    def sort(self) -> None:
+        self.findings.sort(key=Finding.sort_key)
+        self.records.sort(key=lambda r: (r.file, r.record_id))
+
+    def active(self, severity: Severity) -> list[Finding]:
+        return [f for f in self.findings if f.severity == severity and f.waived_by is None]
+
+    @property
+    def exit_code(self) -> int:
+        """0 clean, 1 a rule found an error, 2 input or configuration, 3 a crash."""
+        live = [f for f in self.findings if f.waived_by is None]
+        if any(f.kind == "crash" for f in live):
+            return 3
+        if any(f.kind == "input" for f in live):
+            return 2
+        if any(f.severity == "error" for f in live):
+            return 1
+        return 0
+
+
+def relative_file(path: Path) -> str:
+    return display_path(path)

@@ -1,0 +1,270 @@
+"""Guarded YAML loading that keeps the line and column of every node.
+
+The document is built from libyaml's event stream (the C parser; never PyYAML's pure-Python
+loader, measured ten times slower), so every hostile construct is refused before anything walks
+the data: anchors and aliases (expansion bombs and cycles), merge keys, explicit tags, duplicate
+keys, deep nesting, oversized files and scalars, and the YAML 1.1 scalars that silently change
+meaning (yes/no/on/off, octal-looking numbers). Plain scalars resolve by the YAML 1.2 core
+schema, restricted: null, true/false, decimal integers and floats; everything else is a string
+(dates and sexagesimal numbers stay text; the model parses them where it wants them).
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import yaml
+
+from emgate.errors import InputError, Location
+
+MAX_BYTES = 1 << 20
+MAX_DEPTH = 24
+MAX_SCALAR = 4096
+MAX_NODES = 100_000
+MAX_NUMBER_CHARS = 40
+
+RecordPath = tuple[str | int, ...]
+
+_INT = re.compile(r"[-+]?(0|[1-9][0-9]*)")
+_FLOAT = re.compile(r"[-+]?(\.[0-9]+|[0-9]+(\.[0-9]*)?)([eE][-+]?[0-9]+)?")
+_OCTALISH = re.compile(r"[-+]?0[0-9_]+|0o[0-7]+|0x[0-9a-fA-F]+|0b[01]+")
+_BOOL11 = {"yes", "no", "on", "off", "y", "n"}
+_NONFINITE = re.compile(r"[-+]?\.(inf|nan)", re.IGNORECASE)
+_PLAIN_TAGS = {
+    None,
+    "!",
+    "tag:yaml.org,2002:str",
+    "tag:yaml.org,2002:map",
+    "tag:yaml.org,2002:seq",
+}
+
+
+@dataclass
+class Document:
+    """A loaded YAML document: its data and where each node stands in the file."""
+
+    path: Path
+    data: Any
+    marks: dict[RecordPath, tuple[int, int]] = field(default_factory=dict)
+    key_marks: dict[RecordPath, tuple[int, int]] = field(default_factory=dict)
+
+    def locate(self, path: RecordPath) -> Location:
+        """Location of the deepest existing node along ``path`` (1-based line and column)."""
+        for n in range(len(path), -1, -1):
+            mark = self.marks.get(tuple(path[:n]))
+            if mark is not None:
+                return Location(self.path, mark[0] + 1, mark[1] + 1, path_string(path))
+        return Location(self.path, 1, 1, path_string(path))
+
+    def locate_key(self, path: RecordPath) -> Location:
+        """Location of the mapping key that names ``path`` (falls back to the value)."""
+        mark = self.key_marks.get(tuple(path))
+        if mark is None:
+            return self.locate(path)
+        return Location(self.path, mark[0] + 1, mark[1] + 1, path_string(path))
+
+
+def path_string(path: RecordPath) -> str:
+    """A record path as a JSON path: ``$.stator.slot.opening``, ``$.waivers[0]``."""
+    out = "$"
+    for part in path:
+        if isinstance(part, int):
+            out += f"[{part}]"
+        elif re.fullmatch(r"[A-Za-z_][A-Za-z0-9_]*", part):
+            out += f".{part}"
+        else:
+            out += f"[{part!r}]"
+    return out
+
+
+class _Builder:
+    def __init__(self, path: Path, text: str) -> None:
+        self.path = path
+        self.doc = Document(path, None)
+        self.loader = yaml.CSafeLoader(text)
+        self.nodes = 0
+
+    def fail(self, mark: Any, message: str, record_path: RecordPath = ()) -> InputError:
+        line = getattr(mark, "line", 0) + 1
+        col = getattr(mark, "column", 0) + 1
+        return InputError(message, Location(self.path, line, col, path_string(record_path)))
+
+    def events(self) -> Iterator[Any]:
+        try:
+            while True:
+                event = self.loader.get_event()
+                if event is None:
+                    return
+                yield event
+        except yaml.MarkedYAMLError as exc:
+            mark = exc.problem_mark or exc.context_mark
+            raise self.fail(mark, f"YAML syntax error: {exc.problem or exc.context}") from None
+        except yaml.YAMLError as exc:
+            raise InputError(f"YAML error: {exc}", Location(self.path, 1, 1, "$")) from None
+
+    def build(self) -> Document:
+        try:
+            stream = self.events()
+            documents = 0
+            for event in stream:
+                if isinstance(event, yaml.DocumentStartEvent):
+                    documents += 1
+                    if documents > 1:
+                        raise self.fail(event.start_mark, "expected one YAML document, found more")
+                    self.doc.data = self.node(stream, next(stream), (), 0)
+        finally:
+            self.loader.dispose()
+        if documents == 0:
+            raise InputError("the file is empty", Location(self.path, 1, 1, "$"))
+        return self.doc
+
+    def node(self, stream: Iterator[Any], event: Any, path: RecordPath, depth: int) -> Any:
+        self.nodes += 1
+        if self.nodes > MAX_NODES:
+            raise self.fail(event.start_mark, f"more than {MAX_NODES} YAML nodes", path)
+        if isinstance(event, yaml.AliasEvent):
+            raise self.fail(
+                event.start_mark,
+                f"YAML aliases (*{event.anchor}) are not allowed: write the value out",
+                path,
+            )
+        if getattr(event, "anchor", None) is not None:
+            raise self.fail(
+                event.start_mark,
+                f"YAML anchors (&{event.anchor}) are not allowed: write each value out",
+                path,
+            )
+        tag = getattr(event, "tag", None)
+        implicit = getattr(event, "implicit", True)
+        explicit_tag = tag not in _PLAIN_TAGS and not (
+            isinstance(event, yaml.ScalarEvent) and implicit[0]
+        )
+        if explicit_tag or (tag is not None and tag.startswith("!") and tag != "!"):
+            raise self.fail(event.start_mark, f"YAML tags such as {tag!r} are not allowed", path)
+        self.doc.marks[path] = (event.start_mark.line, event.start_mark.column)
+        if isinstance(event, yaml.ScalarEvent):
+            return self.scalar(event, path)
+        if depth >= MAX_DEPTH:
+            raise self.fail(event.start_mark, f"nesting deeper than {MAX_DEPTH} levels", path)
+        if isinstance(event, yaml.SequenceStartEvent):
+            items: list[Any] = []
+            for item in stream:
+                if isinstance(item, yaml.SequenceEndEvent):
+                    return items
+                items.append(self.node(stream, item, (*path, len(items)), depth + 1))
+        if isinstance(event, yaml.MappingStartEvent):
+            mapping: dict[str, Any] = {}
+            for key_event in stream:
+                if isinstance(key_event, yaml.MappingEndEvent):
+                    return mapping
+                key = self.key(key_event, path)
+                if key in mapping:
+                    first = self.doc.key_marks[(*path, key)]
+                    raise self.fail(
+                        key_event.start_mark,
+                        f"duplicate key {key!r} (first given at line {first[0] + 1})",
+                        (*path, key),
+                    )
+                self.doc.key_marks[(*path, key)] = (
+                    key_event.start_mark.line,
+                    key_event.start_mark.column,
+                )
+                mapping[key] = self.node(stream, next(stream), (*path, key), depth + 1)
+        raise self.fail(event.start_mark, f"unexpected YAML event {type(event).__name__}", path)
+
+    def key(self, event: Any, path: RecordPath) -> str:
+        if not isinstance(event, yaml.ScalarEvent):
+            raise self.fail(event.start_mark, "mapping keys must be plain text", path)
+        if event.anchor is not None or (event.tag not in _PLAIN_TAGS and not event.implicit[0]):
+            raise self.fail(event.start_mark, "mapping keys cannot carry anchors or tags", path)
+        if event.value == "<<" and not event.style:
+            raise self.fail(event.start_mark, "YAML merge keys (<<) are not allowed", path)
+        if len(event.value) > 200:
+            raise self.fail(event.start_mark, "mapping key longer than 200 characters", path)
+        return event.value
+
+    def scalar(self, event: Any, path: RecordPath) -> Any:
+        value: str = event.value
+        if len(value) > MAX_SCALAR:
+            raise self.fail(event.start_mark, f"text longer than {MAX_SCALAR} characters", path)
+        if event.style or event.tag == "tag:yaml.org,2002:str":
+            return value  # quoted or block scalars are text
+        if value in ("", "~", "null", "Null", "NULL"):
+            return None
+        if value in ("true", "True", "TRUE"):
+            return True
+        if value in ("false", "False", "FALSE"):
+            return False
+        if value.lower() in _BOOL11:
+            raise self.fail(
+                event.start_mark,
+                f"ambiguous value {value!r}: YAML 1.1 reads it as a boolean; write true or false,"
+                " or quote it for text",
+                path,
+            )
+        if _NONFINITE.fullmatch(value):
+            raise self.fail(event.start_mark, f"{value!r} is not a finite number", path)
+        if _OCTALISH.fullmatch(value) and not _INT.fullmatch(value):
+            raise self.fail(
+                event.start_mark,
+                f"ambiguous number {value!r}: YAML 1.1 reads leading zeros as octal or a prefix"
+                " as another base; write a plain decimal number, or quote it for text",
+                path,
+            )
+        if _INT.fullmatch(value) or _FLOAT.fullmatch(value):
+            if len(value) > MAX_NUMBER_CHARS:
+                raise self.fail(
+                    event.start_mark, f"number longer than {MAX_NUMBER_CHARS} characters", path
+                )
+            if _INT.fullmatch(value):
+                return int(value)
+            number = float(value)
+            if number in (float("inf"), float("-inf")):
+                raise self.fail(event.start_mark, f"{value!r} is not a finite number", path)
+            return number
+        return value
+
+
+def read_text(path: Path) -> str:
+    """Read a file as UTF-8 text, refusing oversized, binary or wrongly encoded files."""
+    try:
+        with path.open("rb") as handle:
+            raw = handle.read(MAX_BYTES + 1)
+    except OSError as exc:
+        raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
+    if len(raw) > MAX_BYTES:
+        raise InputError(
+            f"file larger than {MAX_BYTES // 1024} KiB; a design record is a few KiB",
+            Location(path, 1, 1, "$"),
+        )
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = raw[: exc.start].count(b"\n") + 1
+        col = exc.start - (raw.rfind(b"\n", 0, exc.start) + 1) + 1
+        raise InputError(
+            f"expected UTF-8 text, found byte 0x{raw[exc.start]:02x}", Location(path, line, col, "$")
+        ) from None
+    bad = re.search(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f\ufffe\uffff]", text)
+    if bad:
+        line = text.count("\n", 0, bad.start()) + 1
+        col = bad.start() - (text.rfind("\n", 0, bad.start()) + 1) + 1
+        raise InputError(
+            f"expected text, found control character U+{ord(bad.group()):04X} (binary file?)",
+            Location(path, line, col, "$"),
+        )
+    return text.removeprefix("\ufeff")
+
+
+def load_text(path: Path, text: str) -> Document:
+    """Build a :class:`Document` from YAML text, refusing hostile constructs."""
+    return _Builder(path, text).build()
+
+
+def load(path: Path) -> Document:
+    """Read and load one YAML file."""
+    return load_text(path, read_text(path))

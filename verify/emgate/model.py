@@ -1,0 +1,332 @@
+"""The design record, version 1, as pydantic models.
+
+Every quantity is converted to SI on validation (metres, amperes, kelvin, revolutions per
+second); rules read these floats and never the record's text. The models are the one source of
+the JSON Schemas in schemas/ (``nox -s schema`` regenerates them).
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+from typing import Annotated, Any, Literal
+
+from pydantic import BaseModel, ConfigDict, Field, StringConstraints
+
+from emgate.quantity import (
+    Current,
+    FieldStrength,
+    FluxDensity,
+    Frequency,
+    Length,
+    LengthOrZero,
+    PerTemperature,
+    Power,
+    Speed,
+    Temperature,
+    Voltage,
+)
+
+DESIGN_SCHEMA = "emgate/design@1"
+MATERIALS_SCHEMA = "emgate/materials@1"
+
+Slug = Annotated[str, StringConstraints(pattern=r"^[a-z0-9][a-z0-9._-]{0,63}$")]
+Fraction = Annotated[float, Field(gt=0.0, le=1.0)]
+
+
+class Strict(BaseModel):
+    """Unknown keys are errors; numbers are not read from quoted text."""
+
+    model_config = ConfigDict(extra="forbid", strict=True, frozen=True)
+
+
+# --- shared parts -----------------------------------------------------------------------
+
+
+class Rating(Strict):
+    """Rated operating point, as on the nameplate."""
+
+    power: Power = Field(description="rated output power (shaft power of a motor)")
+    line_voltage: Voltage = Field(description="rated line-to-line voltage, rms")
+    line_current: Current = Field(
+        description="rated line current, rms, as on the nameplate; the winding's phase current"
+        " follows from the connection"
+    )
+    frequency: Frequency
+    speed: Speed = Field(description="rated speed, e.g. '1470 rpm'")
+    connection: Literal["star", "delta"]
+
+
+class SemiClosedSlot(Strict):
+    """Trapezoidal semi-closed slot of a random-wound machine, measured from the air gap.
+
+    Opening ``opening`` wide over ``opening_height`` (the tooth tip); a wedge zone
+    ``wedge_height`` high widening to ``top_width``; then the winding zone, tapering from
+    ``top_width`` to ``bottom_width`` at the slot bottom. ``height`` is the total depth.
+    """
+
+    shape: Literal["semi_closed"]
+    opening: Length
+    opening_height: Length
+    wedge_height: LengthOrZero
+    top_width: Length
+    bottom_width: Length
+    height: Length
+
+
+class OpenSlot(Strict):
+    """Open rectangular slot of a form-wound machine: ``width`` wide, ``height`` deep from the
+    air gap, with a wedge ``wedge_height`` high at the gap side."""
+
+    shape: Literal["open"]
+    width: Length
+    height: Length
+    wedge_height: LengthOrZero
+
+
+Slot = Annotated[SemiClosedSlot | OpenSlot, Field(discriminator="shape")]
+
+
+class Stator(Strict):
+    outer_diameter: Length
+    bore_diameter: Length
+    stack_length: Length
+    stacking_factor: Fraction = Field(description="iron fraction of the stack length, e.g. 0.97")
+    steel: str = Field(description="steel grade: a built-in one such as 'M400-50A', or one"
+                       " defined in the design repository's materials files")
+    slots: int = Field(ge=3, le=1000)
+    slot: Slot
+
+
+class RoundConductor(Strict):
+    """Round enamelled strands, ``strands`` in hand."""
+
+    shape: Literal["round"]
+    strands: int = Field(default=1, ge=1, le=200)
+    bare_diameter: Length
+    insulated_diameter: Length
+    material: Literal["copper", "aluminium"] = "copper"
+
+
+class RectangularConductor(Strict):
+    """Rectangular strands (form-wound coils or field coils), ``strands`` in hand."""
+
+    shape: Literal["rectangular"]
+    strands: int = Field(default=1, ge=1, le=200)
+    width: Length
+    height: Length
+    corner_radius: LengthOrZero = 0.0
+    insulated_width: Length
+    insulated_height: Length
+    material: Literal["copper", "aluminium"] = "copper"
+
+
+Conductor = Annotated[RoundConductor | RectangularConductor, Field(discriminator="shape")]
+
+SlotEntry = Annotated[
+    str,
+    StringConstraints(pattern=r"^\s*[-+]?[A-Z](\s+[-+]?[A-Z])?\s*$"),
+    Field(description="coil sides in the slot, top layer first: '+A', '+A -C'"),
+]
+
+
+class Winding(Strict):
+    phases: int = Field(default=3, ge=1, le=12)
+    layers: Literal[1, 2]
+    coil_pitch: int = Field(ge=1, description="coil span in slot pitches")
+    turns_per_coil: int = Field(ge=1, le=10000)
+    parallel_paths: int = Field(default=1, ge=1, le=100)
+    conductor: Conductor
+    insulation_class: Literal["A", "E", "B", "F", "H", "N"] = Field(
+        description="thermal class letter of IEC 60085"
+    )
+    slot_liner: LengthOrZero | None = Field(
+        default=None, description="slot liner (ground insulation) thickness"
+    )
+    layout: list[SlotEntry] | None = Field(
+        default=None,
+        description="explicit slot table, one entry per slot from slot 1; otherwise emgate"
+        " generates the layout from the star of slots",
+    )
+
+
+class Cooling(Strict):
+    method: Literal[
+        "enclosed_natural", "enclosed_fan", "open_ventilated", "liquid_jacket", "direct_liquid"
+    ]
+    code: Annotated[str, StringConstraints(pattern=r"^IC[0-9A-Z]{2,12}$")] | None = Field(
+        default=None, description="IEC 60034-6 cooling code, e.g. IC411"
+    )
+    ambient: Temperature = Field(description="coolant (ambient air or inlet liquid) temperature")
+
+
+class Waiver(Strict):
+    rule: str
+    path: str | None = Field(default=None, description="record path the waiver covers, e.g."
+                             " '$.stator.slot'; all of the record when absent")
+    reason: Annotated[str, StringConstraints(min_length=10)]
+    owner: Annotated[str, StringConstraints(min_length=2)]
+    expires: dt.date
+
+
+# --- rotors -----------------------------------------------------------------------------
+
+
+class EndRing(Strict):
+    axial_width: Length
+    radial_height: Length
+
+
+class Bar(Strict):
+    width: Length
+    height: Length
+
+
+class Cage(Strict):
+    material: Literal["aluminium", "copper"]
+    bar: Bar | None = Field(
+        default=None, description="fabricated bar section; a cast bar fills its slot"
+    )
+    end_ring: EndRing
+
+
+class CageRotor(Strict):
+    slots: int = Field(ge=3, le=1000)
+    slot: Slot
+    inner_diameter: Length = Field(description="inner diameter of the rotor lamination")
+    cage: Cage
+    skew: float = Field(default=0.0, ge=0.0, le=3.0, description="skew in stator slot pitches")
+    steel: str | None = Field(default=None, description="rotor steel; the stator's when absent")
+
+
+class MagnetMaterial(Strict):
+    remanence: FluxDensity = Field(description="remanent flux density at reference_temperature")
+    recoil_permeability: float = Field(ge=1.0, le=2.0)
+    remanence_temperature_coefficient: PerTemperature = Field(description="e.g. '-0.12 %/K'")
+    intrinsic_coercivity: FieldStrength = Field(description="H_cJ at reference_temperature")
+    coercivity_temperature_coefficient: PerTemperature = Field(
+        default=-0.006, description="temperature coefficient of H_cJ, e.g. '-0.6 %/K'"
+    )
+    reference_temperature: Temperature = 293.15
+
+
+class Magnet(Strict):
+    thickness: Length
+    pole_arc: Fraction = Field(description="magnet arc as a fraction of the pole pitch")
+    material: MagnetMaterial
+    operating_temperature: Temperature
+
+
+class SurfacePMRotor(Strict):
+    magnet: Magnet
+    sleeve_thickness: LengthOrZero = 0.0
+    inner_diameter: Length = Field(description="inner diameter of the rotor yoke")
+    steel: str | None = None
+
+
+class Pole(Strict):
+    shoe_arc: Fraction = Field(description="pole-shoe arc as a fraction of the pole pitch")
+    shoe_height: Length
+    body_width: Length
+    body_height: Length
+
+
+class FieldCoil(Strict):
+    turns_per_pole: int = Field(ge=1, le=100000)
+    current: Current
+    conductor: Conductor
+
+
+class SalientRotor(Strict):
+    pole: Pole
+    field: FieldCoil
+    inner_diameter: Length = Field(description="inner diameter of the rotor yoke (hub)")
+    steel: str | None = None
+
+
+# --- designs ----------------------------------------------------------------------------
+
+
+class DesignBase(Strict):
+    schema_: Literal["emgate/design@1"] = Field(alias="schema")
+    id: Slug
+    title: str
+    poles: int = Field(ge=2, le=400, multiple_of=2)
+    rating: Rating
+    stator: Stator
+    air_gap: Length = Field(description="mechanical air gap (under the pole centre for salient"
+                            " poles)")
+    winding: Winding
+    cooling: Cooling
+    declared: dict[str, str | float] = Field(
+        default_factory=dict,
+        description="the designer's own figures, by emgate quantity name, for the"
+        " declared-values rule",
+    )
+    waivers: list[Waiver] = Field(default_factory=list)
+
+    @property
+    def pole_pairs(self) -> int:
+        return self.poles // 2
+
+
+class InductionDesign(DesignBase):
+    machine: Literal["induction"]
+    rotor: CageRotor
+
+
+class SurfacePMDesign(DesignBase):
+    machine: Literal["surface_pm"]
+    rotor: SurfacePMRotor
+
+
+class SalientFieldDesign(DesignBase):
+    machine: Literal["salient_field"]
+    rotor: SalientRotor
+
+
+Design = Annotated[
+    InductionDesign | SurfacePMDesign | SalientFieldDesign, Field(discriminator="machine")
+]
+AnyDesign = InductionDesign | SurfacePMDesign | SalientFieldDesign
+MACHINE_KINDS = ("induction", "surface_pm", "salient_field")
+
+#: Tags that pydantic inserts into error locations for discriminated unions.
+UNION_TAGS = frozenset({*MACHINE_KINDS, "semi_closed", "open", "round", "rectangular"})
+
+
+# --- materials file ---------------------------------------------------------------------
+
+
+class SteelTable(Strict):
+    """A steel grade given as a B-H table."""
+
+    source: Annotated[str, StringConstraints(min_length=3)] = Field(
+        description="where the curve comes from (supplier datasheet, measurement report)"
+    )
+    density: Annotated[str, Field(description="mass density, e.g. '7650 kg/m^3'")] | None = None
+    columns: Annotated[list[str], Field(min_length=2, max_length=2)] = Field(
+        description="units of the two columns, e.g. ['T', 'A/m']"
+    )
+    points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
+        min_length=3, max_length=500, description="(B, H) pairs from (0, 0), increasing"
+    )
+
+
+class MaterialsFile(Strict):
+    schema_: Literal["emgate/materials@1"] = Field(alias="schema")
+    steels: dict[str, SteelTable] = Field(default_factory=dict)
+
+
+def json_schema(kind: str) -> dict[str, Any]:
+    """The JSON Schema of a record kind ('design' or 'materials')."""
+    from pydantic import TypeAdapter
+
+    target: Any = {"design": Design, "materials": MaterialsFile}[kind]
+    schema = TypeAdapter(target).json_schema(by_alias=True)
+    schema = {
+        "$schema": "https://json-schema.org/draft/2020-12/schema",
+        "$id": f"urn:emgate:schema:{kind}:1",
+        "title": f"emgate {kind} record, version 1",
+        **schema,
+    }
+    return schema

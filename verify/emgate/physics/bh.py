@@ -1,0 +1,96 @@
+"""Magnetisation curves of soft-magnetic steels.
+
+A curve is a table of (B, H) points, monotone in both. Between points H(B) is
+interpolated linearly; above the last point the material is taken as fully saturated,
+so the differential permeability is mu0 (dB/dH = mu0): this keeps the magnetic circuit
+solvable, and conservative, when a design drives the iron past the tabulated range.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from emgate.physics.constants import MU0
+
+
+@dataclass(frozen=True)
+class BHCurve:
+    """A tabulated B-H curve.
+
+    Parameters
+    ----------
+    name : str
+        Grade designation, e.g. ``"M400-50A"``.
+    b : numpy.ndarray
+        Flux density points [T], strictly increasing, starting at 0.
+    h : numpy.ndarray
+        Field strength points [A/m], strictly increasing, starting at 0.
+    source : str
+        Where the curve comes from (standard, fit, measurement).
+    density : float
+        Mass density [kg/m^3], 0 when unknown.
+    """
+
+    name: str
+    b: np.ndarray
+    h: np.ndarray
+    source: str
+    density: float = 0.0
+
+    def __post_init__(self) -> None:
+        b = np.asarray(self.b, dtype=float)
+        h = np.asarray(self.h, dtype=float)
+        if b.ndim != 1 or b.shape != h.shape or b.size < 2:
+            raise ValueError("a B-H curve needs two equal-length tables of at least 2 points")
+        if b[0] != 0.0 or h[0] != 0.0:
+            raise ValueError("a B-H curve starts at B = 0, H = 0")
+        if np.any(np.diff(b) <= 0) or np.any(np.diff(h) <= 0):
+            raise ValueError("B and H must both increase strictly along a B-H curve")
+        if not (np.all(np.isfinite(b)) and np.all(np.isfinite(h))):
+            raise ValueError("B-H points must be finite")
+        object.__setattr__(self, "b", b)
+        object.__setattr__(self, "h", h)
+
+
+def h_from_b(curve: BHCurve, b: float | np.ndarray) -> float | np.ndarray:
+    """Field strength for a flux density, odd-symmetric in B.
+
+    Parameters
+    ----------
+    curve : BHCurve
+    b : float or numpy.ndarray
+        Flux density [T].
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Field strength [A/m]; beyond the last tabulated point it grows at slope 1/mu0.
+    """
+    babs = np.abs(np.asarray(b, dtype=float))
+    inside = np.interp(babs, curve.b, curve.h)
+    beyond = curve.h[-1] + (babs - curve.b[-1]) / MU0
+    h = np.where(babs <= curve.b[-1], inside, beyond) * np.sign(b)
+    return float(h) if np.ndim(h) == 0 else h
+
+
+def b_from_h(curve: BHCurve, h: float | np.ndarray) -> float | np.ndarray:
+    """Flux density for a field strength, the inverse of :func:`h_from_b`.
+
+    Parameters
+    ----------
+    curve : BHCurve
+    h : float or numpy.ndarray
+        Field strength [A/m].
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Flux density [T].
+    """
+    habs = np.abs(np.asarray(h, dtype=float))
+    inside = np.interp(habs, curve.h, curve.b)
+    beyond = curve.b[-1] + MU0 * (habs - curve.h[-1])
+    b = np.where(habs <= curve.h[-1], inside, beyond) * np.sign(h)
+    return float(b) if np.ndim(b) == 0 else b

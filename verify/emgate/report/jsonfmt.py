@@ -1,0 +1,84 @@
+"""JSON: the whole result, for tools. Values are SI; each check also names its display unit."""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any
+
+from emgate import __version__
+from emgate.findings import DISCLAIMER, Finding, RunResult
+from emgate.rule import Check
+
+
+def _num(x: float) -> float | None:
+    return x if math.isfinite(x) else None
+
+
+def check_dict(c: Check) -> dict[str, Any]:
+    return {
+        "quantity": c.quantity,
+        "label": c.label,
+        "record_path": _path(c.path),
+        "value": _num(c.value),
+        "limit": _num(c.limit),
+        "bound": c.bound,
+        "margin": _num(c.margin),
+        "unit": c.unit,
+        "basis": c.basis,
+        "passed": c.passed,
+    }
+
+
+def _path(path: tuple) -> str:
+    from emgate.loader import path_string
+
+    return path_string(path)
+
+
+def finding_dict(f: Finding) -> dict[str, Any]:
+    return {
+        "rule": f.rule,
+        "severity": f.severity,
+        "kind": f.kind,
+        "file": f.file,
+        "line": f.line,
+        "column": f.column,
+        "record_id": f.record_id,
+        "record_path": f.record_path,
+        "message": f.message,
+        "fingerprint": f.fingerprint,
+        "waived": f.waived_by is not None,
+        "waiver": f.waived_by,
+        "check": check_dict(f.check) if f.check else None,
+    }
+
+
+def render(result: RunResult) -> str:
+    doc = {
+        "tool": {"name": "emgate", "version": __version__},
+        "exit_code": result.exit_code,
+        "rules": [r.__dict__ for r in result.rules],
+        "summary": {
+            "records": len(result.records),
+            "errors": len(result.active("error")),
+            "warnings": len(result.active("warning")),
+            "waived": sum(1 for f in result.findings if f.waived_by),
+        },
+        "findings": [finding_dict(f) for f in result.findings],
+        "records": [
+            {
+                "file": r.file,
+                "record_id": r.record_id,
+                "machine": r.machine,
+                "outcomes": [
+                    {"rule": o.rule, "status": o.status, "message": o.message,
+                     "checks": [check_dict(c) for c in o.checks]}
+                    for o in r.outcomes
+                ],
+            }
+            for r in result.records
+        ],
+        "notice": DISCLAIMER,
+    }
+    return json.dumps(doc, indent=2, sort_keys=False) + "\n"

@@ -1,0 +1,245 @@
+"""Validation of loaded documents: the model, then the physical consistency of the record.
+
+pydantic error locations are mapped back to the YAML nodes through the document's marks, so each
+message names file:line:column, the record path, what was expected and what was found.
+"""
+
+from __future__ import annotations
+
+import difflib
+from functools import cache
+from typing import Any
+
+from pydantic import BaseModel, TypeAdapter, ValidationError
+
+from emgate.errors import InputError, InputErrors
+from emgate.loader import Document, RecordPath
+from emgate.model import (
+    DESIGN_SCHEMA,
+    MATERIALS_SCHEMA,
+    UNION_TAGS,
+    AnyDesign,
+    Design,
+    MaterialsFile,
+)
+
+KNOWN_SCHEMAS = (DESIGN_SCHEMA, MATERIALS_SCHEMA)
+
+
+@cache
+def _design_adapter() -> TypeAdapter[Any]:
+    return TypeAdapter(Design)
+
+
+@cache
+def _vocabulary() -> tuple[str, ...]:
+    """Every field name of the record models, for 'did you mean' hints."""
+    names: set[str] = set()
+    seen: set[type] = set()
+
+    def walk(model: type[BaseModel]) -> None:
+        if model in seen:
+            return
+        seen.add(model)
+        for name, info in model.model_fields.items():
+            names.add(info.alias or name)
+            for sub in _models_in(info.annotation):
+                walk(sub)
+
+    from emgate import model as m
+
+    for cls in vars(m).values():
+        if isinstance(cls, type) and issubclass(cls, BaseModel) and cls is not BaseModel:
+            walk(cls)
+    return tuple(sorted(names))
+
+
+def _models_in(annotation: Any) -> list[type[BaseModel]]:
+    out = []
+    if isinstance(annotation, type) and issubclass(annotation, BaseModel):
+        out.append(annotation)
+    for arg in getattr(annotation, "__args__", ()) or ():
+        out.extend(_models_in(arg))
+    return out
+
+
+def record_path(data: Any, loc: tuple[Any, ...]) -> RecordPath:
+    """Map a pydantic error location onto the record, dropping discriminated-union tags."""
+    path: list[str | int] = []
+    node = data
+    for part in loc:
+        if isinstance(node, dict) and part in node:
+            node = node[part]
+            path.append(part)
+        elif isinstance(node, list) and isinstance(part, int) and part < len(node):
+            node = node[part]
+            path.append(part)
+        elif isinstance(part, str) and part in UNION_TAGS:
+            continue
+        elif isinstance(part, str) and "[" in part:  # tuple or function-validator labels
+            continue
+        else:
+            path.append(part)
+            node = None
+    return tuple(path)
+
+
+def _found(value: Any) -> str:
+    if isinstance(value, dict):
+        return "a mapping"
+    if isinstance(value, list):
+        return "a list"
+    if isinstance(value, bool):
+        return f"the boolean {str(value).lower()}"
+    if value is None:
+        return "nothing (null)"
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def _message(error: dict[str, Any], doc: Document, path: RecordPath) -> str:
+    kind = error["type"]
+    msg: str = error["msg"].removeprefix("Value error, ")
+    if kind == "extra_forbidden":
+        key = str(path[-1])
+        close = difflib.get_close_matches(key, _vocabulary(), n=1, cutoff=0.7)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        return f"unknown key {key!r}{hint}"
+    if kind == "missing":
+        return f"required key {str(path[-1])!r} is missing"
+    found = _found(error.get("input"))
+    if kind == "literal_error":
+        expected = msg.removeprefix("Input should be ")
+        return f"expected {expected}, found {found}"
+    if kind == "union_tag_invalid":
+        expected = error.get("ctx", {}).get("expected_tags", "")
+        return f"expected one of {expected}, found {found}"
+    if kind == "union_tag_not_found":
+        tag = error.get("ctx", {}).get("discriminator", "")
+        return f"required key {tag} is missing"
+    if kind in ("int_type", "float_type", "string_type", "bool_type", "date_type",
+                "dict_type", "list_type", "model_type", "tuple_type"):
+        wanted = kind.removesuffix("_type").replace("model", "mapping").replace("dict", "mapping")
+        wanted = {"int": "a whole number", "float": "a number", "string": "text",
+                  "bool": "true or false", "date": "a date (YYYY-MM-DD)"}.get(wanted, f"a {wanted}")
+        return f"expected {wanted}, found {found}"
+    if msg.startswith("Input should be"):
+        return f"expected {msg.removeprefix('Input should be ').rstrip('.')}, found {found}"
+    return msg[0].lower() + msg[1:] if msg else kind
+
+
+def model_errors(exc: ValidationError, doc: Document) -> list[InputError]:
+    out = []
+    for error in exc.errors(include_url=False):
+        path = record_path(doc.data, tuple(error["loc"]))
+        loc = doc.locate_key(path) if error["type"] == "extra_forbidden" else doc.locate(path)
+        out.append(InputError(_message(error, doc, path), loc))
+    return out
+
+
+def schema_of(doc: Document) -> str:
+    """The record kind a document declares, or an InputError."""
+    if not isinstance(doc.data, dict):
+        raise InputError(
+            f"expected a mapping with a 'schema' key, found {_found(doc.data)}", doc.locate(())
+        )
+    declared = doc.data.get("schema")
+    if declared not in KNOWN_SCHEMAS:
+        expected = " or ".join(repr(s) for s in KNOWN_SCHEMAS)
+        raise InputError(
+            f"expected schema {expected}, found {_found(declared)}", doc.locate(("schema",))
+        )
+    return declared
+
+
+def validate_design(doc: Document) -> AnyDesign:
+    """Validate a design document: the model, then physical consistency."""
+    try:
+        design = _design_adapter().validate_python(doc.data)
+    except ValidationError as exc:
+        raise InputErrors(model_errors(exc, doc)) from None
+    problems = [
+        InputError(message, doc.locate(path)) for path, message in consistency_problems(design)
+    ]
+    if problems:
+        raise InputErrors(problems)
+    return design
+
+
+def validate_materials(doc: Document) -> MaterialsFile:
+    try:
+        return MaterialsFile.model_validate(doc.data)
+    except ValidationError as exc:
+        raise InputErrors(model_errors(exc, doc)) from None
+
+
+def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
+    """Physically impossible combinations of otherwise valid values."""
+    from emgate import geometry
+    from emgate.physics.winding import feasibility
+
+    out: list[tuple[RecordPath, str]] = []
+    st = d.stator
+    if st.bore_diameter >= st.outer_diameter:
+        out.append(
+            (("stator", "bore_diameter"),
+             f"bore diameter {st.bore_diameter * 1e3:g} mm must be smaller than the outer"
+             f" diameter {st.outer_diameter * 1e3:g} mm")
+        )
+        return out
+    yoke = geometry.stator_yoke_height(d)
+    if yoke <= 0.0:
+        out.append(
+            (("stator", "slot", "height"),
+             f"slot height {st.slot.height * 1e3:g} mm leaves no stator yoke: the section between"
+             f" bore and outer diameter is {(st.outer_diameter - st.bore_diameter) * 500:g} mm")
+        )
+    if geometry.stator_tooth_width_min(d) <= 0.0:
+        pitch = geometry.stator_slot_pitch_at(d, geometry.stator_widest_radius(d))
+        out.append(
+            (("stator", "slot"),
+             f"slots {geometry.stator_slot_width_max(d) * 1e3:g} mm wide leave no tooth at a"
+             f" slot pitch of {pitch * 1e3:.4g} mm")
+        )
+    out.extend(geometry.slot_shape_problems(st.slot, ("stator", "slot")))
+    w = d.winding
+    if not 1 <= w.coil_pitch <= st.slots - 1:
+        out.append(
+            (("winding", "coil_pitch"),
+             f"coil pitch {w.coil_pitch} must lie between 1 and Q-1 = {st.slots - 1} slots")
+        )
+    if w.layout is None:
+        reason = feasibility(st.slots, d.pole_pairs, w.phases, w.layers)
+        if reason:
+            out.append((("stator", "slots"), f"no balanced winding: {reason}"))
+    elif len(w.layout) != st.slots:
+        out.append(
+            (("winding", "layout"),
+             f"expected one layout entry per slot ({st.slots}), found {len(w.layout)}")
+        )
+    else:
+        letters = {chr(ord("A") + k) for k in range(w.phases)}
+        for s, entry in enumerate(w.layout):
+            wrong = sorted({side.lstrip("+-") for side in entry.split()} - letters)
+            if wrong:
+                out.append((("winding", "layout", s), f"phase {wrong[0]!r} is not one of the"
+                            f" {w.phases} phases {''.join(sorted(letters))}"))
+            elif len(entry.split()) != w.layers:
+                out.append((("winding", "layout", s), f"expected {w.layers} coil side(s) in"
+                            f" the slot (layers: {w.layers}), found {len(entry.split())}"))
+    if w.conductor.shape == "round" and w.conductor.insulated_diameter < w.conductor.bare_diameter:
+        out.append(
+            (("winding", "conductor", "insulated_diameter"),
+             "insulated diameter must not be smaller than the bare diameter")
+        )
+    if w.conductor.shape == "rectangular" and (
+        w.conductor.insulated_width < w.conductor.width
+        or w.conductor.insulated_height < w.conductor.height
+    ):
+        out.append(
+            (("winding", "conductor"), "insulated dimensions must not be smaller than bare ones")
+        )
+    if d.air_gap * 2 >= st.bore_diameter:
+        out.append((("air_gap",), "air gap leaves no rotor inside the bore"))
+    out.extend(geometry.rotor_problems(d))
+    return out

@@ -1,0 +1,216 @@
+"""Iron flux densities and magnetic voltages against closed forms, REFERENCE.md and scipy."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from scipy.integrate import quad
+from scipy.optimize import brentq
+
+from emgate.physics.bh import BHCurve, h_from_b
+from emgate.physics.constants import MU0
+from emgate.physics.iron import (
+    apparent_tooth_flux_density,
+    real_tooth_flux_density,
+    slot_flux_sharing_factor,
+    solve_increasing,
+    tooth_magnetic_voltage,
+    yoke_flux_density,
+    yoke_magnetic_voltage,
+)
+
+# Bounded, untimed property runs: keeps the suite at a few seconds and never fails on time.
+PROPERTY = settings(max_examples=40, deadline=None)
+
+
+def m350_50a_curve(b_max: float = 2.2, points: int = 221) -> BHCurve:
+    """M350-50A tabulated from a published relative-permeability fit.
+
+    mu_r(B) = 1 + (mu_i - 1 + c_a B_N) / (1 + c_b B_N + B_N^n), B_N = B / B_muMax.
+    """
+    # [pub: Modelica Standard Library, FluxTubes soft-magnetic materials] M350-50A:
+    # mu_i 1210, B_muMax 1.16 T, c_a 24630, c_b 2.44, n 14 (values as in REFERENCE.md).
+    mu_i, b_mu_max, c_a, c_b, n = 1210.0, 1.16, 24630.0, 2.44, 14.0
+    b = np.linspace(0.0, b_max, points)
+    b_n = b[1:] / b_mu_max
+    mu_r = 1.0 + (mu_i - 1.0 + c_a * b_n) / (1.0 + c_b * b_n + b_n**n)
+    h = np.concatenate(([0.0], b[1:] / (MU0 * mu_r)))
+    return BHCurve("M350-50A", b, h, "Modelica FluxTubes fit")
+
+
+def linear_curve(mu_r: float, b_max: float = 10.0) -> BHCurve:
+    """A linear steel, tabulated far enough that no test reaches the table end."""
+    return BHCurve(
+        f"linear mu_r={mu_r:g}",
+        np.array([0.0, b_max]),
+        np.array([0.0, b_max / (MU0 * mu_r)]),
+        "linear",
+    )
+
+
+M350 = m350_50a_curve()
+
+# REFERENCE.md tooth check: tau_s 11.5 mm, b_t 6 mm, k_Fe 0.97, l = l_Fe.
+TAU_S, B_T, K_FE, LENGTH = 11.5e-3, 6e-3, 0.97, 0.14
+TOOTH = (TAU_S, B_T, LENGTH, LENGTH, K_FE)
+
+
+def test_apparent_tooth_flux_density_reference_check() -> None:
+    # [calc] REFERENCE.md (method [mem: Pyrhonen]): B_g 0.75 T -> 1.482 T apparent.
+    # Tolerance 5e-4 T: the check value is rounded to three decimals.
+    assert apparent_tooth_flux_density(0.75, *TOOTH) == pytest.approx(1.482, abs=5e-4)
+
+
+def test_slot_flux_sharing_factor_closed_form() -> None:
+    # [calc] k_s = (tau_s l - k_Fe l_Fe b_t) / (k_Fe l_Fe b_t) = (11.5 - 5.82) / 5.82.
+    # Tolerance 1e-12: the same arithmetic, only rounding differs.
+    assert slot_flux_sharing_factor(*TOOTH) == pytest.approx(5.68 / 5.82, rel=1e-12)
+
+
+def test_real_equals_apparent_without_slot_sharing() -> None:
+    # [calc] k_s = 0 reduces B_app = B_real + mu0 k_s H to B_real = B_app: exact.
+    assert real_tooth_flux_density(1.9, 0.0, M350) == 1.9
+
+
+def test_real_tooth_flux_density_of_an_air_tooth_is_the_gap_flux_density() -> None:
+    # [calc] with mu_r = 1 the tooth and the slot beside it are one uniform section, so the
+    # "tooth" carries the gap flux density: B_real = B_app / (1 + k_s) = B_g.
+    # Tolerance 1e-10 relative: the solver converges to 1e-13 T.
+    b_app = apparent_tooth_flux_density(0.75, *TOOTH)
+    b_real = real_tooth_flux_density(b_app, slot_flux_sharing_factor(*TOOTH), linear_curve(1.0))
+    assert b_real == pytest.approx(0.75, rel=1e-10)
+
+
+@pytest.mark.parametrize("b_app", [0.5, 1.482, 1.9, 2.1, 2.5, 3.0])
+def test_real_tooth_flux_density_matches_brentq(b_app: float) -> None:
+    # [calc] external check: scipy.optimize.brentq on the same equation
+    # B_app = B_real + mu0 k_s H(B_real), including apparent values past the table end (2.2 T).
+    # Tolerance 1e-11 T: both solvers are asked for better than 1e-12 T.
+    k_s = slot_flux_sharing_factor(*TOOTH)
+
+    def residual(b: float) -> float:
+        return b + MU0 * k_s * h_from_b(M350, b) - b_app
+
+    expected = brentq(residual, 0.0, b_app, xtol=1e-14, rtol=4 * np.finfo(float).eps)
+    assert real_tooth_flux_density(b_app, k_s, M350) == pytest.approx(expected, abs=1e-11)
+
+
+def test_real_tooth_flux_density_beyond_the_table_end_closed_form() -> None:
+    # [calc] past the last point H = h_end + (B - b_end) / mu0, so the equation is linear:
+    # B_real = (B_app - mu0 k_s h_end + k_s b_end) / (1 + k_s).
+    # Tolerance 1e-11 T: solver convergence.
+    k_s, b_app = 1.5, 3.2
+    b_end, h_end = M350.b[-1], M350.h[-1]
+    expected = (b_app - MU0 * k_s * h_end + k_s * b_end) / (1.0 + k_s)
+    assert expected > b_end  # the case is really past the table
+    assert real_tooth_flux_density(b_app, k_s, M350) == pytest.approx(expected, abs=1e-11)
+
+
+def test_real_tooth_flux_density_is_odd() -> None:
+    # [calc] the B-H curve is odd, so is the solution. Tolerance: exact by construction.
+    assert real_tooth_flux_density(-2.0, 0.9, M350) == -real_tooth_flux_density(2.0, 0.9, M350)
+
+
+def test_real_tooth_rejects_negative_sharing() -> None:
+    with pytest.raises(ValueError):
+        real_tooth_flux_density(1.5, -0.1, M350)
+
+
+@PROPERTY
+@given(
+    b_app=st.floats(0.0, 3.0),
+    k_s=st.floats(0.0, 3.0),
+)
+def test_real_tooth_at_most_apparent_and_solves_the_equation(b_app: float, k_s: float) -> None:
+    # [calc] H >= 0 for B >= 0, so B_real <= B_app; the residual must vanish.
+    # Tolerance 1e-10 T on the residual: solver convergence plus rounding of mu0 k_s H.
+    b_real = real_tooth_flux_density(b_app, k_s, M350)
+    assert 0.0 <= b_real <= b_app
+    assert b_real + MU0 * k_s * h_from_b(M350, b_real) == pytest.approx(b_app, abs=1e-10)
+
+
+def test_tooth_magnetic_voltage_closed_form() -> None:
+    # [calc] linear steel: V = B h_t / (mu0 mu_r); 1.5 T, 20 mm, mu_r 1000 -> 23.87 A.
+    # Tolerance 1e-12 relative: one interpolation on a straight line.
+    expected = 1.5 * 0.02 / (MU0 * 1000.0)
+    assert tooth_magnetic_voltage(1.5, 0.02, linear_curve(1000.0)) == pytest.approx(
+        expected, rel=1e-12
+    )
+
+
+def test_yoke_flux_density_closed_form() -> None:
+    # [calc] B_y = Phi / (2 k_Fe l_Fe h_y): 10 mWb, 20 mm, 140 mm, 0.97 -> 1.8409 T.
+    # Tolerance 1e-4 T: the check value is rounded to four decimals.
+    assert yoke_flux_density(0.01, 0.02, 0.14, 0.97) == pytest.approx(1.8409, abs=1e-4)
+
+
+@pytest.mark.parametrize(
+    ("ramp", "mean_over_peak"),
+    [
+        (None, 2.0 / math.pi),  # [calc] mean of sin over a quarter period
+        (0.0, 1.0),  # [calc] uniform yoke
+        (0.7, 1.0 - 0.7 / 2.0),  # [calc] linear ramp over 70 % of the path, flat after
+        (1.0, 0.5),  # [calc] ramp over the whole path: triangle
+    ],
+)
+def test_yoke_magnetic_voltage_linear_steel(ramp: float | None, mean_over_peak: float) -> None:
+    # With a linear steel the voltage is path * mean(B)/(mu0 mu_r): closed forms above.
+    # Tolerance 1e-10 relative: Gauss-Legendre integrates the sine to ~1e-15, lines exactly.
+    b_peak, path, mu_r = 1.4, 0.12, 2000.0
+    expected = path * mean_over_peak * b_peak / (MU0 * mu_r)
+    got = yoke_magnetic_voltage(b_peak, path, linear_curve(mu_r), ramp)
+    assert got == pytest.approx(expected, rel=1e-10)
+
+
+@pytest.mark.parametrize("b_peak", [0.8, 1.4, 1.7, 2.0, 2.5])
+@pytest.mark.parametrize("ramp", [None, 0.6])
+def test_yoke_magnetic_voltage_matches_scipy_quad(b_peak: float, ramp: float | None) -> None:
+    # [calc] external check: scipy.integrate.quad of H along the same distribution, with the
+    # curve's kinks given as break points. Tolerance 1e-5 relative: the composite 768-point
+    # rule meets a kink of the piecewise-linear H in some panels (measured error ~1e-6).
+    path = 0.1
+    kinks = M350.b[(M350.b > 0.0) & (M350.b < b_peak)] / b_peak
+    if ramp is None:
+        mean = quad(
+            lambda t: h_from_b(M350, b_peak * math.sin(t)),
+            0.0,
+            math.pi / 2,
+            points=np.arcsin(kinks),
+            limit=1000,
+        )[0] / (math.pi / 2)
+    else:
+        ramp_mean = quad(lambda u: h_from_b(M350, b_peak * u), 0.0, 1.0, points=kinks, limit=1000)[
+            0
+        ]
+        mean = ramp * ramp_mean + (1.0 - ramp) * h_from_b(M350, b_peak)
+    got = yoke_magnetic_voltage(b_peak, path, M350, ramp)
+    assert got == pytest.approx(path * mean, rel=1e-5)
+
+
+def test_yoke_magnetic_voltage_rejects_bad_ramp() -> None:
+    with pytest.raises(ValueError):
+        yoke_magnetic_voltage(1.0, 0.1, M350, 1.5)
+
+
+@pytest.mark.parametrize(
+    ("func", "lo", "hi"),
+    [
+        (lambda x: x**3 + x - 3.0, 0.0, 2.0),
+        (lambda x: math.tanh(50.0 * (x - 0.3)), -1.0, 5.0),  # steep: regula falsi stalls
+        (lambda x: max(x - 1.0, 0.0) * 1e6 + x - 1.2, 0.0, 10.0),  # a kink, as on a B-H table
+    ],
+)
+def test_solve_increasing_matches_brentq(func, lo: float, hi: float) -> None:
+    # [calc] external check against scipy.optimize.brentq.
+    # Tolerance 1e-11 absolute: both are asked for ~1e-12 on roots of order 1.
+    expected = brentq(func, lo, hi, xtol=1e-14)
+    assert solve_increasing(func, lo, hi) == pytest.approx(expected, abs=1e-11)
+
+
+def test_solve_increasing_rejects_a_bracket_without_a_root() -> None:
+    with pytest.raises(ValueError):
+        solve_increasing(lambda x: x + 1.0, 0.0, 1.0)

@@ -9,5 +9,25 @@ from emgate.rule import Rule
 @hookimpl
 def emgate_rules() -> list[type[Rule]]:
     from emgate_rules.current_density import CurrentDensity
+    from emgate_rules.declared_values import DeclaredValues
+    from emgate_rules.gap_flux import GapFlux
+    from emgate_rules.mmf_thd import MmfThd
+    from emgate_rules.slot_fill import SlotFill
+    from emgate_rules.temperature_rise import TemperatureRise
+    from emgate_rules.thermal_load import ThermalLoadRule
+    from emgate_rules.tooth_flux import ToothFlux
+    from emgate_rules.winding_balance import WindingBalance
+    from emgate_rules.yoke_flux import YokeFlux
 
-    return [CurrentDensity]
+    return [
+        CurrentDensity,
+        DeclaredValues,
+        GapFlux,
+        MmfThd,
+        SlotFill,
+        TemperatureRise,
+        ThermalLoadRule,
+        ToothFlux,
+        WindingBalance,
+        YokeFlux,
+    ]

@@ -34,12 +34,21 @@ SOURCES = {
 }
 
 
+#: Cage bars and rings: aluminium 3-8 A/mm^2 [from memory: Pyrhonen, Design of Rotating
+#: Electrical Machines, Table 6.2]; salient-pole field coils 2-5 A/mm^2 [same, from memory].
+ROTOR_DEFAULTS = {"cage_bar": 8.0 * _MM2, "end_ring": 8.0 * _MM2, "field_coil": 5.0 * _MM2}
+ROTOR_SOURCE = "Pyrhonen et al., Table 6.2 (from memory)"
+
+
 class CurrentDensityOptions(Options):
     enclosed_natural: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["enclosed_natural"])
     enclosed_fan: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["enclosed_fan"])
     open_ventilated: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["open_ventilated"])
     liquid_jacket: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["liquid_jacket"])
     direct_liquid: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["direct_liquid"])
+    cage_bar: CurrentDensityLimit = Field(default=ROTOR_DEFAULTS["cage_bar"])
+    end_ring: CurrentDensityLimit = Field(default=ROTOR_DEFAULTS["end_ring"])
+    field_coil: CurrentDensityLimit = Field(default=ROTOR_DEFAULTS["field_coil"])
 
 
 class CurrentDensity(Rule):
@@ -54,7 +63,17 @@ class CurrentDensity(Rule):
     Default limits (upper ends of the usual ranges): totally enclosed, no fan 5 A/mm^2;
     fan-cooled or open ventilated 10 A/mm^2; liquid-cooled 30 A/mm^2 [from memory: Hendershot
     and Miller, Design of Brushless Permanent-Magnet Machines]; water jacket 20 A/mm^2
-    (common practice, no source). Set the team's own limits in emgate.yaml, e.g.
+    (common practice, no source).
+
+    Rotor conductors: a cage bar carries the stator current referred by equal fundamental
+    MMF, I_bar = 2 m N_ph kw1 I_ph / Q_r (the magnetising share is not deducted, so this is an
+    upper bound), over the bar section (a cast bar fills its slot); an end ring carries
+    I_ring = I_bar / (2 sin(pi p / Q_r)) over its section; a field coil carries the field
+    current over its conductor section. Defaults 8 A/mm^2 for bars and rings (aluminium) and
+    5 A/mm^2 for field coils, the upper ends of the usual ranges [from memory: Pyrhonen,
+    Jokinen, Hrabovcova, Design of Rotating Electrical Machines, Table 6.2].
+
+    Set the team's own limits in emgate.yaml, e.g.
     ``options: {current-density: {enclosed_fan: 7 A/mm^2}}``.
     """
 
@@ -82,3 +101,35 @@ class CurrentDensity(Rule):
             unit="A/mm^2",
             basis=f"{method.replace('_', ' ')}: {source}",
         )
+        rotor: list[tuple[str, str, str, tuple[str, ...], float]] = []
+        if design.machine == "induction":
+            rotor += [
+                (
+                    "cage_bar",
+                    "rotor.bar_current_density",
+                    "cage bar current density",
+                    ("rotor", "slot"),
+                    calc.bar_current_density,
+                ),
+                (
+                    "end_ring",
+                    "rotor.ring_current_density",
+                    "end-ring current density",
+                    ("rotor", "cage", "end_ring"),
+                    calc.ring_current_density,
+                ),
+            ]
+        elif design.machine == "salient_field":
+            rotor.append(
+                (
+                    "field_coil",
+                    "rotor.field_current_density",
+                    "field coil current density",
+                    ("rotor", "field", "conductor"),
+                    calc.field_current_density,
+                )
+            )
+        for field, name, label, path, value in rotor:
+            limit = getattr(options, field)
+            src = ROTOR_SOURCE if limit == ROTOR_DEFAULTS[field] else "the team's limit"
+            yield Check(name, label, path, value, limit, "max", "A/mm^2", src)

@@ -24,6 +24,9 @@ if TYPE_CHECKING:
     from emgate.materials import Catalogue
     from emgate.model import AnyDesign
     from emgate.physics.bh import BHCurve
+    from emgate.physics.conductors import ConductorMaterial
+    from emgate.physics.magnetic import GapResult, PolePath
+    from emgate.physics.thermal import ThermalEstimate
 
 
 @dataclass(frozen=True)
@@ -39,9 +42,24 @@ class SheetEntry:
 
 SHEET: dict[str, SheetEntry] = {}
 
+#: Slot liner when the record gives none: 0.25 mm of insulating paper is usual for
+#: low-voltage random windings (common practice, no source).
+DEFAULT_LINER = 0.25e-3
+#: Cooling-surface factors of the lumped thermal estimate (common practice, no source):
+#: a finned cast frame wets 3 to 5 times its bare cylinder; the frame with its end shields
+#: is about 1.5 stack lengths long; an open machine's air washes bore, core back and end
+#: windings, about 3 times the core back.
+FIN_AREA_FACTOR = 4.0
+FRAME_LENGTH_FACTOR = 1.5
+CORE_AREA_FACTOR = 3.0
+#: Flux of a salient pole's body over its gap flux, for the pole-to-pole leakage
+#: (1.1 to 1.25 is usual; common practice, no source).
+POLE_LEAKAGE = 1.15
 
-def sheet(name: str, unit: str, method: str, machines: tuple[str, ...] = MACHINE_KINDS
-          ) -> Callable[[Callable[[Any], float]], cached_property[float]]:
+
+def sheet(
+    name: str, unit: str, method: str, machines: tuple[str, ...] = MACHINE_KINDS
+) -> Callable[[Callable[[Any], float]], cached_property[float]]:
     """Register a Calculation property as a named quantity of the sheet."""
 
     def register(fn: Callable[[Any], float]) -> cached_property[float]:
@@ -57,6 +75,7 @@ class Calculation:
     def __init__(self, design: AnyDesign, catalogue: Catalogue) -> None:
         self.d = design
         self.catalogue = catalogue
+        self._thermal: dict[tuple[float, float, float], ThermalEstimate] = {}
 
     def value(self, name: str) -> float:
         return float(getattr(self, SHEET[name].attribute))
@@ -89,20 +108,24 @@ class Calculation:
         w = self.d.winding
         if w.layout is not None:
             return layout_from_table(w.layout, w.phases)
-        return wk.star_of_slots(self.d.stator.slots, self.d.pole_pairs, w.phases, w.layers,
-                                w.coil_pitch)
+        return wk.star_of_slots(
+            self.d.stator.slots, self.d.pole_pairs, w.phases, w.layers, w.coil_pitch
+        )
 
-    @sheet("winding.series_turns", "1", "coils per phase times turns per coil over parallel"
-           " paths")
+    @sheet("winding.series_turns", "1", "coils per phase times turns per coil over parallel paths")
     def series_turns(self) -> float:
         from emgate.physics.winding import series_turns_per_phase
 
         w = self.d.winding
-        return series_turns_per_phase(self.d.stator.slots, w.layers, w.phases,
-                                      w.turns_per_coil, w.parallel_paths)
+        return series_turns_per_phase(
+            self.d.stator.slots, w.layers, w.phases, w.turns_per_coil, w.parallel_paths
+        )
 
-    @sheet("winding.phase_current", "A", "rated line current through the connection (star:"
-           " equal; delta: over sqrt 3)")
+    @sheet(
+        "winding.phase_current",
+        "A",
+        "rated line current through the connection (star: equal; delta: over sqrt 3)",
+    )
     def phase_current(self) -> float:
         from emgate.physics.conductors import phase_current
 
@@ -117,14 +140,545 @@ class Calculation:
             return ck.round_strand_area(c.bare_diameter)
         return ck.rectangular_strand_area(c.width, c.height, c.corner_radius)
 
-    @sheet("stator.current_density", "A/mm^2", "phase current over parallel paths, strands in"
-           " hand and bare strand section")
+    @sheet(
+        "stator.current_density",
+        "A/mm^2",
+        "phase current over parallel paths, strands in hand and bare strand section",
+    )
     def stator_current_density(self) -> float:
         from emgate.physics.conductors import winding_current_density
 
         w = self.d.winding
-        return winding_current_density(self.phase_current, w.parallel_paths,
-                                       w.conductor.strands, self.strand_area)
+        return winding_current_density(
+            self.phase_current, w.parallel_paths, w.conductor.strands, self.strand_area
+        )
+
+    @cached_property
+    def conductor_material(self) -> ConductorMaterial:
+        from emgate.physics import conductors as ck
+
+        return ck.COPPER if self.d.winding.conductor.material == "copper" else ck.ALUMINIUM
+
+    # --- slots and conductors ------------------------------------------------------------
+
+    @cached_property
+    def liner(self) -> float:
+        w = self.d.winding
+        return DEFAULT_LINER if w.slot_liner is None else w.slot_liner
+
+    def _slot_area(self, liner: float) -> float:
+        from emgate.physics import conductors as ck
+
+        sl = self.d.stator.slot
+        if sl.shape == "semi_closed":
+            return ck.semi_closed_slot_area(
+                sl.opening,
+                sl.opening_height,
+                sl.wedge_height,
+                sl.top_width,
+                sl.bottom_width,
+                sl.height,
+                liner=liner,
+            )
+        return ck.open_slot_area(sl.width, sl.height, sl.wedge_height, liner=liner)
+
+    @sheet("stator.slot_area_gross", "mm^2", "winding zone of the slot (below opening and wedge)")
+    def slot_area_gross(self) -> float:
+        return self._slot_area(0.0)
+
+    @sheet(
+        "stator.slot_area", "mm^2", "winding zone net of the slot liner laid along its perimeter"
+    )
+    def slot_area(self) -> float:
+        return self._slot_area(self.liner)
+
+    @sheet("stator.conductors_per_slot", "1", "layers times turns per coil")
+    def conductors_per_slot(self) -> float:
+        return self.d.winding.layers * self.d.winding.turns_per_coil
+
+    @sheet(
+        "stator.copper_area",
+        "mm^2",
+        "bare copper per slot: conductors, strands in hand and strand section",
+    )
+    def copper_area(self) -> float:
+        from emgate.physics.conductors import copper_area_per_slot
+
+        return copper_area_per_slot(
+            int(self.conductors_per_slot), self.d.winding.conductor.strands, self.strand_area
+        )
+
+    @sheet("stator.slot_fill", "1", "bare copper area over the slot area net of liner")
+    def slot_fill(self) -> float:
+        from emgate.physics.conductors import fill_factor
+
+        return fill_factor(self.copper_area, self.slot_area)
+
+    @sheet("stator.electric_loading", "kA/m", "A = 2 m N_ph I / (pi D), rms")
+    def electric_loading(self) -> float:
+        from emgate.physics.conductors import electric_loading
+
+        return electric_loading(
+            self.d.winding.phases,
+            self.series_turns,
+            self.phase_current,
+            self.d.stator.bore_diameter,
+        )
+
+    @sheet("stator.thermal_load", "A^2/mm^3", "electric loading times current density, A J")
+    def thermal_load(self) -> float:
+        from emgate.physics.conductors import thermal_load
+
+        return thermal_load(self.electric_loading, self.stator_current_density)
+
+    @sheet(
+        "winding.mean_turn_length",
+        "mm",
+        "2 l + end windings from the coil span (low-voltage estimate)",
+    )
+    def mean_turn_length(self) -> float:
+        from emgate.physics import conductors as ck
+
+        d = self.d
+        span = ck.coil_span_width(
+            d.stator.bore_diameter, d.stator.slot.height, d.stator.slots, d.winding.coil_pitch
+        )
+        return ck.mean_turn_length(
+            d.stator.stack_length, span, high_voltage=d.rating.line_voltage > 1000.0
+        )
+
+    def _phase_resistance(self, temperature: float) -> float:
+        from emgate.physics import conductors as ck
+
+        w = self.d.winding
+        return ck.phase_resistance(
+            ck.resistivity(self.conductor_material, temperature),
+            self.series_turns,
+            self.mean_turn_length,
+            w.parallel_paths,
+            w.conductor.strands,
+            self.strand_area,
+        )
+
+    @sheet("winding.phase_resistance_20c", "ohm", "rho20 N_ph l_av / (a n S), IEC 60028")
+    def phase_resistance_20c(self) -> float:
+        return self._phase_resistance(293.15)
+
+    @cached_property
+    def class_reference_temperature(self) -> float:
+        from emgate.physics.conductors import reference_temperature
+
+        return reference_temperature(self.d.winding.insulation_class)
+
+    @sheet(
+        "winding.phase_resistance_hot",
+        "ohm",
+        "phase resistance at the reference temperature of the insulation class",
+    )
+    def phase_resistance_hot(self) -> float:
+        return self._phase_resistance(self.class_reference_temperature)
+
+    @sheet("winding.copper_loss", "W", "m I^2 R at the class reference temperature")
+    def copper_loss(self) -> float:
+        from emgate.physics.conductors import copper_loss
+
+        return copper_loss(self.d.winding.phases, self.phase_current, self.phase_resistance_hot)
+
+    def thermal_estimate(
+        self,
+        fin_area_factor: float = FIN_AREA_FACTOR,
+        frame_length_factor: float = FRAME_LENGTH_FACTOR,
+        core_area_factor: float = CORE_AREA_FACTOR,
+    ) -> ThermalEstimate:
+        """The lumped winding-temperature estimate, for the given cooling-surface factors."""
+        key = (fin_area_factor, frame_length_factor, core_area_factor)
+        if key not in self._thermal:
+            self._thermal[key] = self._thermal_estimate(*key)
+        return self._thermal[key]
+
+    def _thermal_estimate(self, fins: float, frame: float, core: float) -> ThermalEstimate:
+        from emgate.physics import thermal as tk
+
+        d = self.d
+        top, bottom, w_top, w_bottom = geo.winding_zone(d.stator.slot)
+        height = bottom - top
+        perimeter = w_top + w_bottom + 2.0 * math.hypot(height, (w_bottom - w_top) / 2.0)
+        geometry = tk.StatorThermalGeometry(
+            bore_diameter=d.stator.bore_diameter,
+            outer_diameter=d.stator.outer_diameter,
+            stack_length=d.stator.stack_length,
+            slots=d.stator.slots,
+            slot_depth=d.stator.slot.height,
+            winding_area=self.slot_area_gross,
+            winding_height=height,
+            winding_perimeter=perimeter,
+            liner_thickness=self.liner,
+            stacking_factor=d.stator.stacking_factor,
+            frame_length=frame * d.stator.stack_length,
+        )
+        params = tk.ThermalParameters(fin_area_factor=fins, core_area_factor=core)
+        return tk.winding_temperature_rise(
+            self.copper_loss,
+            geometry,
+            d.cooling.method,
+            coolant_temperature=d.cooling.ambient,
+            parameters=params,
+        )
+
+    @sheet(
+        "winding.temperature_rise",
+        "K",
+        "lumped steady-state estimate of the mean winding"
+        " rise over the coolant, copper loss only (an estimate, to be confirmed by test)",
+    )
+    def temperature_rise(self) -> float:
+        return self.thermal_estimate().winding_rise
+
+    # --- rotor conductors ----------------------------------------------------------------
+
+    @cached_property
+    def bar_area(self) -> float:
+        from emgate.physics import conductors as ck
+
+        cage = self.d.rotor.cage
+        if cage.bar is not None:
+            return ck.rectangular_strand_area(cage.bar.width, cage.bar.height)
+        sl = self.d.rotor.slot
+        if sl.shape == "semi_closed":
+            return ck.semi_closed_full_area(
+                sl.opening,
+                sl.opening_height,
+                sl.wedge_height,
+                sl.top_width,
+                sl.bottom_width,
+                sl.height,
+            )
+        return ck.open_full_area(sl.width, sl.height)
+
+    @sheet(
+        "rotor.bar_current",
+        "A",
+        "stator current referred to a bar by equal fundamental MMF,"
+        " 2 m N_ph kw1 I / Q_r (magnetising share not deducted: an upper bound)",
+        ("induction",),
+    )
+    def bar_current(self) -> float:
+        from emgate.physics.conductors import bar_current
+
+        return bar_current(
+            self.phase_current,
+            self.d.winding.phases,
+            self.series_turns,
+            self.winding_factor,
+            self.d.rotor.slots,
+        )
+
+    @sheet(
+        "rotor.bar_current_density",
+        "A/mm^2",
+        "bar current over bar section (a cast bar fills its slot)",
+        ("induction",),
+    )
+    def bar_current_density(self) -> float:
+        from emgate.physics.conductors import current_density
+
+        return current_density(self.bar_current, self.bar_area)
+
+    @sheet(
+        "rotor.ring_current_density",
+        "A/mm^2",
+        "ring current I_bar / (2 sin(pi p / Q_r)) over the ring section",
+        ("induction",),
+    )
+    def ring_current_density(self) -> float:
+        from emgate.physics.conductors import current_density, end_ring_current
+
+        ring = self.d.rotor.cage.end_ring
+        current = end_ring_current(self.bar_current, self.d.pole_pairs, self.d.rotor.slots)
+        return current_density(current, ring.axial_width * ring.radial_height)
+
+    @sheet(
+        "rotor.field_current_density",
+        "A/mm^2",
+        "field current over the conductor section",
+        ("salient_field",),
+    )
+    def field_current_density(self) -> float:
+        from emgate.physics import conductors as ck
+
+        f = self.d.rotor.field
+        c = f.conductor
+        strand = (
+            ck.round_strand_area(c.bare_diameter)
+            if c.shape == "round"
+            else ck.rectangular_strand_area(c.width, c.height, c.corner_radius)
+        )
+        return ck.current_density(f.current, strand, c.strands)
+
+    # --- winding factors and MMF ---------------------------------------------------------
+
+    @sheet(
+        "winding.winding_factor",
+        "1",
+        "general winding factor of phase A at the working"
+        " order p from the slot layout: |sum c_s exp(j p theta_s)| / sum |c_s|",
+    )
+    def winding_factor(self) -> float:
+        import numpy as np
+
+        from emgate.physics.winding import winding_factors
+
+        return float(winding_factors(self.layout[0], np.array([self.d.pole_pairs]))[0])
+
+    @cached_property
+    def winding_problems(self) -> list[str]:
+        from emgate.physics.winding import balance, feasibility
+
+        w = self.d.winding
+        problems = list(balance(self.layout, self.d.pole_pairs))
+        if w.layout is not None:
+            reason = feasibility(self.d.stator.slots, self.d.pole_pairs, w.phases, w.layers)
+            if reason:
+                problems.append(reason)
+        return problems
+
+    @sheet(
+        "winding.mmf_thd",
+        "1",
+        "total harmonic distortion of the staircase MMF, all orders"
+        " including sub-harmonics, over the working harmonic (Parseval)",
+    )
+    def mmf_thd(self) -> float:
+        from emgate.physics.mmf import mmf_thd
+
+        return mmf_thd(self.layout, self.d.pole_pairs)
+
+    @sheet(
+        "winding.mmf_fundamental",
+        "A",
+        "peak rotating fundamental ampere-turns per pole, (sqrt 2 m / pi) kw1 N_ph I / p",
+    )
+    def mmf_fundamental(self) -> float:
+        from emgate.physics.mmf import mmf_fundamental_peak
+
+        return mmf_fundamental_peak(
+            self.d.winding.phases,
+            self.series_turns,
+            self.winding_factor,
+            self.phase_current,
+            self.d.pole_pairs,
+        )
+
+    # --- air gap -------------------------------------------------------------------------
+
+    @cached_property
+    def slotting_gap(self) -> float:
+        """The gap Carter's coefficient is taken on: with a surface magnet, the magnetic gap
+        g + sleeve + h_m / mu_rec (the magnet is nearly air to the slot field)."""
+        from emgate.physics.airgap import magnetic_gap
+
+        if self.d.machine == "surface_pm":
+            r = self.d.rotor
+            return magnetic_gap(
+                self.d.air_gap,
+                sleeve=r.sleeve_thickness,
+                magnet_thickness=r.magnet.thickness,
+                recoil_permeability=r.magnet.material.recoil_permeability,
+            )
+        return self.d.air_gap
+
+    @sheet(
+        "air_gap.carter_coefficient",
+        "1",
+        "Carter's coefficient of the stator slotting,"
+        " times that of the rotor slotting for a cage rotor",
+    )
+    def carter_coefficient(self) -> float:
+        from emgate.physics.airgap import carter_coefficient
+
+        kc = carter_coefficient(
+            geo.stator_slot_pitch(self.d),
+            geo.slot_width_at_gap(self.d.stator.slot),
+            self.slotting_gap,
+        )
+        if self.d.machine == "induction":
+            kc *= carter_coefficient(
+                geo.rotor_slot_pitch(self.d),
+                geo.slot_width_at_gap(self.d.rotor.slot),
+                self.d.air_gap,
+            )
+        return kc
+
+    @sheet(
+        "air_gap.effective_length",
+        "mm",
+        "kc times the gap Carter's coefficient is taken on"
+        " (for surface magnets, the magnetic gap including the magnet)",
+    )
+    def effective_gap(self) -> float:
+        return self.carter_coefficient * self.slotting_gap
+
+    # --- magnetic circuit ----------------------------------------------------------------
+
+    @cached_property
+    def pole_path(self) -> PolePath:
+        from emgate.physics.magnetic import PolePath, Teeth, Yoke
+
+        d = self.d
+        two_p = d.poles
+        rotor_teeth = None
+        if d.machine == "induction":
+            rotor_teeth = Teeth(
+                geo.rotor_slot_pitch(d), geo.rotor_tooth_width_min(d), d.rotor.slot.height
+            )
+        gap = self.effective_gap
+        if d.machine == "surface_pm":
+            # The kernel adds the magnet's h_m / mu_rec itself; hand it the rest of kc g'.
+            m = d.rotor.magnet
+            gap -= m.thickness / m.material.recoil_permeability
+        return PolePath(
+            pole_pitch=geo.pole_pitch(d),
+            stack_length=d.stator.stack_length,
+            iron_length=d.stator.stack_length,
+            stacking_factor=d.stator.stacking_factor,
+            effective_gap=gap,
+            stator_teeth=Teeth(
+                geo.stator_slot_pitch(d), geo.stator_tooth_width_min(d), geo.stator_tooth_height(d)
+            ),
+            stator_yoke=Yoke(
+                geo.stator_yoke_height(d), math.pi * geo.stator_yoke_mean_diameter(d) / two_p
+            ),
+            rotor_yoke=Yoke(
+                geo.rotor_yoke_height(d), math.pi * geo.rotor_yoke_mean_diameter(d) / two_p
+            ),
+            rotor_teeth=rotor_teeth,
+        )
+
+    @cached_property
+    def magnetic(self) -> GapResult:
+        """The machine's magnetic circuit at its rated (no-load for PM and field) point."""
+        from emgate.physics import magnetic as mk
+
+        d = self.d
+        if d.machine == "induction":
+            u_ph = d.rating.line_voltage / (
+                math.sqrt(3.0) if d.rating.connection == "star" else 1.0
+            )
+            return mk.induction_gap(
+                self.pole_path,
+                self.stator_steel,
+                self.rotor_steel,
+                phase_voltage=u_ph,
+                frequency=d.rating.frequency,
+                series_turns=self.series_turns,
+                winding_factor=self.winding_factor,
+            )
+        if d.machine == "surface_pm":
+            m = d.rotor.magnet
+            br = mk.remanence_at(
+                m.material.remanence,
+                m.operating_temperature,
+                m.material.remanence_temperature_coefficient,
+                m.material.reference_temperature,
+            )
+            magnet = mk.SurfaceMagnet(br, m.material.recoil_permeability, m.thickness, m.pole_arc)
+            return mk.surface_pm_gap(self.pole_path, magnet, self.stator_steel, self.rotor_steel)
+        pole = d.rotor.pole
+        shoe = pole.shoe_arc * geo.pole_pitch(d)
+        salient = mk.SalientPole(
+            shoe, pole.body_width, pole.body_height, leakage_factor=POLE_LEAKAGE
+        )
+        return mk.salient_field_gap(
+            self.pole_path,
+            salient,
+            self.stator_steel,
+            self.rotor_steel,
+            field_mmf=d.rotor.field.turns_per_pole * d.rotor.field.current,
+        )
+
+    @sheet(
+        "air_gap.flux_density_peak",
+        "T",
+        "peak gap flux density from the magnetic circuit of the machine kind, iron included",
+    )
+    def gap_flux_density_peak(self) -> float:
+        return self.magnetic.b_peak
+
+    @sheet("air_gap.flux_density_fundamental", "T", "fundamental of the gap flux density wave")
+    def gap_flux_density_fundamental(self) -> float:
+        return self.magnetic.b_fundamental
+
+    @sheet("air_gap.flux_per_pole", "mWb", "gap flux of one pole")
+    def flux_per_pole(self) -> float:
+        return self.magnetic.flux_per_pole
+
+    @sheet("air_gap.saturation_factor", "1", "(gap + teeth ampere-turns) over gap ampere-turns")
+    def saturation_factor(self) -> float:
+        return self.magnetic.saturation_factor
+
+    @sheet(
+        "magnetic.total_mmf",
+        "A",
+        "ampere-turns per pole of the whole loop: gap, teeth, pole body and half of each yoke",
+    )
+    def total_mmf(self) -> float:
+        return self.magnetic.total_mmf
+
+    @sheet(
+        "stator.tooth_flux_density_apparent",
+        "T",
+        "B_g tau_s l / (k_Fe l_Fe b_t) at the narrowest tooth section",
+    )
+    def stator_tooth_b_apparent(self) -> float:
+        return self.magnetic.iron.stator_tooth_b_apparent
+
+    @sheet(
+        "stator.tooth_flux_density",
+        "T",
+        "real tooth flux density with slot-flux sharing: B_app = B + mu0 k_s H(B)",
+    )
+    def stator_tooth_b(self) -> float:
+        return self.magnetic.iron.stator_tooth_b
+
+    @sheet("stator.yoke_flux_density", "T", "peak yoke flux density, Phi / (2 k_Fe l h_y)")
+    def stator_yoke_b(self) -> float:
+        return self.magnetic.iron.stator_yoke_b
+
+    @sheet(
+        "rotor.yoke_flux_density",
+        "T",
+        "peak rotor yoke flux density, Phi / (2 k_Fe l h_y), with pole leakage for salient poles",
+    )
+    def rotor_yoke_b(self) -> float:
+        return self.magnetic.iron.rotor_yoke_b
+
+    @sheet(
+        "rotor.tooth_flux_density_apparent", "T", "rotor tooth, as for the stator", ("induction",)
+    )
+    def rotor_tooth_b_apparent(self) -> float:
+        return self.magnetic.iron.rotor_tooth_b_apparent
+
+    @sheet("rotor.tooth_flux_density", "T", "real rotor tooth flux density", ("induction",))
+    def rotor_tooth_b(self) -> float:
+        return self.magnetic.iron.rotor_tooth_b
+
+    @sheet(
+        "rotor.pole_body_flux_density",
+        "T",
+        "pole-body flux density, leakage included",
+        ("salient_field",),
+    )
+    def pole_body_b(self) -> float:
+        return self.magnetic.iron.pole_body_b
+
+    @sheet(
+        "rotor.magnet_field_strength",
+        "kA/m",
+        "magnet working point H_m on the recoil line (negative: demagnetising)",
+        ("surface_pm",),
+    )
+    def magnet_h(self) -> float:
+        return self.magnetic.magnet_h  # type: ignore[attr-defined]
 
     # --- geometry (for the sheet) --------------------------------------------------------
 
@@ -159,7 +713,3 @@ def layout_from_table(table: list[str], phases: int) -> np.ndarray:
                 raise ValueError(f"slot {s + 1}: phase {letter!r} is not one of {letters}")
             out[letters.index(letter), s] += sign
     return out
-
-
-def finite(x: float) -> bool:
-    return math.isfinite(x)

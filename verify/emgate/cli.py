@@ -41,8 +41,13 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--version", action="version", version=f"emgate {__version__}")
     sub = p.add_subparsers(dest="command", required=True, metavar="COMMAND")
     c = sub.add_parser("check", help="check design records against the rules")
-    c.add_argument("paths", nargs="*", type=Path, metavar="PATH",
-                   help="record files or folders (default: the config's files, or '.')")
+    c.add_argument(
+        "paths",
+        nargs="*",
+        type=Path,
+        metavar="PATH",
+        help="record files or folders (default: the config's files, or '.')",
+    )
     c.add_argument("--format", default="text", choices=["text", "json"])
     c.add_argument("--config", type=Path, help="project config (default: nearest emgate.yaml)")
     c.add_argument("--today", type=_date, help="judge waiver expiry as of this date")
@@ -56,8 +61,32 @@ def _parser() -> argparse.ArgumentParser:
     e.add_argument("rule")
     sub.add_parser("plugins", help="list installed plugin packs")
     sc = sub.add_parser("schema", help="print a JSON Schema")
-    sc.add_argument("kind", nargs="?", default="design", choices=["design", "materials", "config"])
+    sc.add_argument("kind", nargs="?", default="design", choices=list(SCHEMA_KINDS))
+    sc.add_argument(
+        "--write",
+        type=Path,
+        metavar="DIR",
+        help="write every schema as DIR/KIND.schema.json instead",
+    )
     return p
+
+
+SCHEMA_KINDS = ("design", "materials", "config")
+
+
+def schema_text(kind: str) -> str:
+    """The JSON Schema of a record kind, as committed under schemas/."""
+    import json
+
+    if kind == "config":
+        from emgate.config import config_json_schema
+
+        schema = config_json_schema()
+    else:
+        from emgate.model import json_schema
+
+        schema = json_schema(kind)
+    return json.dumps(schema, indent=2, sort_keys=True) + "\n"
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -72,24 +101,23 @@ def main(argv: list[str] | None = None) -> int:
     except Exception as exc:  # fail closed, without a traceback for the user
         if os.environ.get("EMGATE_DEBUG"):
             raise
-        print(f"emgate: internal error: {type(exc).__name__}: {exc}\n"
-              "Set EMGATE_DEBUG=1 for the traceback; please report it.", file=sys.stderr)
+        print(
+            f"emgate: internal error: {type(exc).__name__}: {exc}\n"
+            "Set EMGATE_DEBUG=1 for the traceback; please report it.",
+            file=sys.stderr,
+        )
         return EXIT_CRASH
 
 
 def _dispatch(args: argparse.Namespace) -> int:
     if args.command == "schema":
-        import json
+        if args.write:
+            from emgate.atomic import write_atomic
 
-        if args.kind == "config":
-            from emgate.config import config_json_schema
-
-            schema = config_json_schema()
-        else:
-            from emgate.model import json_schema
-
-            schema = json_schema(args.kind)
-        print(json.dumps(schema, indent=2))
+            for kind in SCHEMA_KINDS:
+                write_atomic(args.write / f"{kind}.schema.json", schema_text(kind))
+            return EXIT_OK
+        sys.stdout.write(schema_text(args.kind))
         return EXIT_OK
     _untrusted_path_guard()
     from emgate.plugins import load_plugins
@@ -122,11 +150,23 @@ def _rules(plugins, fmt: str) -> int:  # type: ignore[no-untyped-def]
     if fmt == "json":
         import json
 
-        print(json.dumps([
-            {"id": rid, "summary": r.summary, "version": r.version, "severity": r.severity,
-             "machines": list(r.machines), "tags": list(r.tags),
-             "origin": {"distribution": p.distribution, "version": p.version}}
-            for rid, r, p in rows], indent=2))
+        print(
+            json.dumps(
+                [
+                    {
+                        "id": rid,
+                        "summary": r.summary,
+                        "version": r.version,
+                        "severity": r.severity,
+                        "machines": list(r.machines),
+                        "tags": list(r.tags),
+                        "origin": {"distribution": p.distribution, "version": p.version},
+                    }
+                    for rid, r, p in rows
+                ],
+                indent=2,
+            )
+        )
     else:
         for rid, r, p in rows:
             print(f"{rid:<24} {r.severity:<8} {p.distribution} {p.version:<8} {r.summary}")

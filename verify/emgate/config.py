@@ -134,7 +134,10 @@ def load_policy(path: Path | None, rules: dict[str, type[Rule]], root: Path) -> 
 
 
 def _known(
-    rid: str, rules: dict[str, type[Rule]], doc: Document, at: tuple[Any, ...],
+    rid: str,
+    rules: dict[str, type[Rule]],
+    doc: Document,
+    at: tuple[Any, ...],
     errors: list[InputError],
 ) -> bool:
     if rid in rules:

@@ -59,8 +59,11 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
     for root in paths:
         if root.is_dir():
             candidates = sorted(
-                p for p in root.rglob("*")
-                if p.suffix in (".yaml", ".yml") and p.is_file() and p.name != CONFIG_NAME
+                p
+                for p in root.rglob("*")
+                if p.suffix in (".yaml", ".yml")
+                and p.is_file()
+                and p.name != CONFIG_NAME
                 and not SKIP_DIRS.intersection(p.relative_to(root).parts[:-1])
             )
             explicit = False
@@ -85,6 +88,33 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
                 continue
             out.append(Source(path, text, declared, explicit))
     return out
+
+
+def repository_root(start: Path) -> Path:
+    """The design repository a path belongs to: the folder of the nearest emgate.yaml, else
+    the git work tree's top, else the path's own folder."""
+    here = (start if start.is_dir() else start.parent).resolve()
+    for folder in (here, *here.parents):
+        if (folder / CONFIG_NAME).is_file() or (folder / ".git").exists():
+            return folder
+    return here
+
+
+def materials_sources(root: Path) -> list[Source]:
+    """Every materials file under a repository root."""
+    scratch = RunResult()
+    return [s for s in discover([root], scratch) if s.declared == MATERIALS_SCHEMA]
+
+
+def discover_materials(start: Path) -> Catalogue:
+    """The steel catalogue of the repository holding ``start`` (for ``emgate show``)."""
+    from emgate.validate import validate_materials
+
+    catalogue = Catalogue()
+    for src in materials_sources(repository_root(start)):
+        doc = load_text(src.path, src.text)
+        catalogue.add_file(doc, validate_materials(doc))
+    return catalogue
 
 
 def _input_finding(exc: InputError) -> Finding:
@@ -118,6 +148,11 @@ def execute(run: Run) -> RunResult:
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     sources = discover(run.paths, result)
+    named = {src.path.resolve() for src in sources}
+    roots = {repository_root(p) for p in run.paths if p.exists()}
+    for root in sorted(roots):
+        sources += [m for m in materials_sources(root) if m.path.resolve() not in named]
+        named |= {m.path.resolve() for m in sources}
     result.files_read = len(sources)
     docs: list[tuple[Source, Document, str]] = []
     for src in sources:
@@ -183,8 +218,9 @@ def _check_design(run: Run, ld: LoadedDesign, catalogue: Catalogue, result: RunR
                 if not item.passed:
                     produced.append(_finding(ld, rid, severity, item.path, _describe(item), item))
             elif isinstance(item, Problem):
-                produced.append(_finding(ld, rid, item.severity or severity, item.path,
-                                         item.message))
+                produced.append(
+                    _finding(ld, rid, item.severity or severity, item.path, item.message)
+                )
         if any(f.rule == rid for f in produced):
             outcome.status = "fail"
         record.outcomes.append(outcome)
@@ -194,14 +230,26 @@ def _check_design(run: Run, ld: LoadedDesign, catalogue: Catalogue, result: RunR
 
 
 def _finding(
-    ld: LoadedDesign, rule: str, severity: str, path: tuple, message: str,
-    check: Check | None = None, kind: str = "violation",
+    ld: LoadedDesign,
+    rule: str,
+    severity: str,
+    path: tuple,
+    message: str,
+    check: Check | None = None,
+    kind: str = "violation",
 ) -> Finding:
     loc = ld.doc.locate(path)
     return Finding(
-        rule=rule, severity=severity, file=ld.file, line=loc.line, column=loc.column,  # type: ignore[arg-type]
-        record_path=loc.record_path, message=message, record_id=ld.design.id,
-        kind=kind, check=check,  # type: ignore[arg-type]
+        rule=rule,
+        severity=severity,
+        file=ld.file,
+        line=loc.line,
+        column=loc.column,  # type: ignore[arg-type]
+        record_path=loc.record_path,
+        message=message,
+        record_id=ld.design.id,
+        kind=kind,
+        check=check,  # type: ignore[arg-type]
     )
 
 

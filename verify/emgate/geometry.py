@@ -34,11 +34,21 @@ def slot_shape_problems(
     out: list[tuple[RecordPath, str]] = []
     if slot.shape == "semi_closed":
         if slot.opening > slot.top_width:
-            out.append(((*at, "opening"), f"opening {slot.opening * 1e3:g} mm is wider than the"
-                        f" slot's top width {slot.top_width * 1e3:g} mm"))
+            out.append(
+                (
+                    (*at, "opening"),
+                    f"opening {slot.opening * 1e3:g} mm is wider than the"
+                    f" slot's top width {slot.top_width * 1e3:g} mm",
+                )
+            )
         if slot.opening_height + slot.wedge_height >= slot.height:
-            out.append(((*at, "height"), "opening and wedge heights leave no winding zone: the"
-                        f" slot is {slot.height * 1e3:g} mm deep"))
+            out.append(
+                (
+                    (*at, "height"),
+                    "opening and wedge heights leave no winding zone: the"
+                    f" slot is {slot.height * 1e3:g} mm deep",
+                )
+            )
     elif slot.wedge_height >= slot.height:
         out.append(((*at, "wedge_height"), "wedge height leaves no winding zone"))
     return out
@@ -147,14 +157,26 @@ def rotor_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     out: list[tuple[RecordPath, str]] = []
     rotor = d.rotor
     if rotor.inner_diameter >= rotor_outer_diameter(d):
-        return [(("rotor", "inner_diameter"), f"rotor inner diameter {rotor.inner_diameter * 1e3:g}"
-                 f" mm is not smaller than the rotor's outer diameter"
-                 f" {rotor_outer_diameter(d) * 1e3:g} mm")]
+        return [
+            (
+                ("rotor", "inner_diameter"),
+                f"rotor inner diameter {rotor.inner_diameter * 1e3:g}"
+                f" mm is not smaller than the rotor's outer diameter"
+                f" {rotor_outer_diameter(d) * 1e3:g} mm",
+            )
+        ]
     if rotor_yoke_height(d) <= 0.0:
-        what = {"induction": ("slot", "height"), "surface_pm": ("magnet", "thickness"),
-                "salient_field": ("pole", "body_height")}[d.machine]
-        out.append((("rotor", *what), f"leaves no rotor yoke above the inner diameter"
-                    f" {rotor.inner_diameter * 1e3:g} mm"))
+        what = {
+            "induction": ("slot", "height"),
+            "surface_pm": ("magnet", "thickness"),
+            "salient_field": ("pole", "body_height"),
+        }[d.machine]
+        out.append(
+            (
+                ("rotor", *what),
+                f"leaves no rotor yoke above the inner diameter {rotor.inner_diameter * 1e3:g} mm",
+            )
+        )
     if d.machine == "induction":
         out.extend(slot_shape_problems(rotor.slot, ("rotor", "slot")))
         if rotor_yoke_height(d) > 0.0 and rotor_tooth_width_min(d) <= 0.0:
@@ -162,6 +184,11 @@ def rotor_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     if d.machine == "salient_field":
         shoe = rotor.pole.shoe_arc * math.pi * rotor_outer_diameter(d) / d.poles
         if rotor.pole.body_width >= shoe:
-            out.append((("rotor", "pole", "body_width"), f"pole body {rotor.pole.body_width * 1e3:g}"
-                        f" mm is not narrower than the pole shoe ({shoe * 1e3:.4g} mm)"))
+            out.append(
+                (
+                    ("rotor", "pole", "body_width"),
+                    f"pole body {rotor.pole.body_width * 1e3:g}"
+                    f" mm is not narrower than the pole shoe ({shoe * 1e3:.4g} mm)",
+                )
+            )
     return out

@@ -247,7 +247,8 @@ def read_text(path: Path) -> str:
         line = raw[: exc.start].count(b"\n") + 1
         col = exc.start - (raw.rfind(b"\n", 0, exc.start) + 1) + 1
         raise InputError(
-            f"expected UTF-8 text, found byte 0x{raw[exc.start]:02x}", Location(path, line, col, "$")
+            f"expected UTF-8 text, found byte 0x{raw[exc.start]:02x}",
+            Location(path, line, col, "$"),
         ) from None
     bad = re.search(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f\ufffe\uffff]", text)
     if bad:

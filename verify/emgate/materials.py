@@ -27,8 +27,13 @@ class Catalogue:
             at = ("steels", name)
             if steels.lookup(name) is not None or name in self.local:
                 where = "built in" if name not in self.local else self.local[name][1]
-                errors.append(InputError(f"steel grade {name!r} is already defined ({where});"
-                                         " give your table its own name", doc.locate_key(at)))
+                errors.append(
+                    InputError(
+                        f"steel grade {name!r} is already defined ({where});"
+                        " give your table its own name",
+                        doc.locate_key(at),
+                    )
+                )
                 continue
             try:
                 fb, db = parse_unit(table.columns[0])
@@ -37,9 +42,13 @@ class Catalogue:
                 errors.append(InputError(str(exc), doc.locate((*at, "columns"))))
                 continue
             if db != (0, 1, -2, -1, 0) or dh != (-1, 0, 0, 1, 0):
-                errors.append(InputError(
-                    "expected columns of flux density and field strength, such as ['T', 'A/m'],"
-                    f" found {list(table.columns)}", doc.locate((*at, "columns"))))
+                errors.append(
+                    InputError(
+                        "expected columns of flux density and field strength, such as ['T', 'A/m'],"
+                        f" found {list(table.columns)}",
+                        doc.locate((*at, "columns")),
+                    )
+                )
                 continue
             pts = np.asarray(table.points, dtype=float)
             try:
@@ -74,8 +83,12 @@ class Catalogue:
             if self.get(name) is None:
                 close = difflib.get_close_matches(name, self.names(), n=1, cutoff=0.6)
                 hint = f"; did you mean {close[0]!r}?" if close else ""
-                errors.append(InputError(
-                    f"unknown steel grade {name!r}{hint} (built in: {', '.join(self.names())};"
-                    " add others in a materials file)", doc.locate(path)))
+                errors.append(
+                    InputError(
+                        f"unknown steel grade {name!r}{hint} (built in: {', '.join(self.names())};"
+                        " add others in a materials file)",
+                        doc.locate(path),
+                    )
+                )
         if errors:
             raise InputErrors(errors)

@@ -91,8 +91,10 @@ class Stator(Strict):
     bore_diameter: Length
     stack_length: Length
     stacking_factor: Fraction = Field(description="iron fraction of the stack length, e.g. 0.97")
-    steel: str = Field(description="steel grade: a built-in one such as 'M400-50A', or one"
-                       " defined in the design repository's materials files")
+    steel: str = Field(
+        description="steel grade: a built-in one such as 'M400-50A', or one"
+        " defined in the design repository's materials files"
+    )
     slots: int = Field(ge=3, le=1000)
     slot: Slot
 
@@ -161,8 +163,11 @@ class Cooling(Strict):
 
 class Waiver(Strict):
     rule: str
-    path: str | None = Field(default=None, description="record path the waiver covers, e.g."
-                             " '$.stator.slot'; all of the record when absent")
+    path: str | None = Field(
+        default=None,
+        description="record path the waiver covers, e.g."
+        " '$.stator.slot'; all of the record when absent",
+    )
     reason: Annotated[str, StringConstraints(min_length=10)]
     owner: Annotated[str, StringConstraints(min_length=2)]
     expires: dt.date
@@ -253,8 +258,9 @@ class DesignBase(Strict):
     poles: int = Field(ge=2, le=400, multiple_of=2)
     rating: Rating
     stator: Stator
-    air_gap: Length = Field(description="mechanical air gap (under the pole centre for salient"
-                            " poles)")
+    air_gap: Length = Field(
+        description="mechanical air gap (under the pole centre for salient poles)"
+    )
     winding: Winding
     cooling: Cooling
     declared: dict[str, str | float] = Field(

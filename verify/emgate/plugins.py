@@ -92,9 +92,7 @@ def load_plugins(eps: list[EntryPoint] | None = None) -> PluginSet:
             impls = [i for i in pm.hook.emgate_rules.get_hookimpls() if i.plugin_name == ep.name]
             rules = [r for impl in impls for r in impl.function()]
         except Exception as exc:
-            out.errors.append(
-                InputError(f"{where} failed to load: {type(exc).__name__}: {exc}")
-            )
+            out.errors.append(InputError(f"{where} failed to load: {type(exc).__name__}: {exc}"))
             continue
         out.packs.append(pack)
         for rule in rules:
@@ -105,8 +103,10 @@ def load_plugins(eps: list[EntryPoint] | None = None) -> PluginSet:
             if rule.id in out.rules:
                 other = out.rules[rule.id].pack
                 out.errors.append(
-                    InputError(f"{where}: rule id {rule.id!r} is already registered by"
-                               f" {other.distribution}")
+                    InputError(
+                        f"{where}: rule id {rule.id!r} is already registered by"
+                        f" {other.distribution}"
+                    )
                 )
                 continue
             out.rules[rule.id] = LoadedRule(rule, pack)

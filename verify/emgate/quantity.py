@@ -61,8 +61,11 @@ def quantity(dimension: str, *, sign: str = "positive") -> Any:
             "description": f"{label} with its unit, e.g. '{example}'",
             "examples": [example],
         }
-    checks = {"positive": [AfterValidator(_positive)], "non_negative": [AfterValidator(
-        _non_negative)], "any": []}[sign]
+    checks = {
+        "positive": [AfterValidator(_positive)],
+        "non_negative": [AfterValidator(_non_negative)],
+        "any": [],
+    }[sign]
     return Annotated[float, BeforeValidator(_converter(dimension)), *checks, WithJsonSchema(schema)]
 
 

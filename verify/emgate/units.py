@@ -130,6 +130,7 @@ DIMENSIONS: dict[str, tuple[Dims, str]] = {
     "magnetic_flux": (_WB, "5 mWb"),
     "field_strength": ((-1, 0, 0, 1, 0), "900 kA/m"),
     "current_density": ((-2, 0, 0, 1, 0), "5.5 A/mm^2"),
+    "thermal_load": ((-3, 0, 0, 2, 0), "200 A^2/mm^3"),
     "resistance": (_OHM, "0.8 ohm"),
     "resistivity": ((3, 1, -3, -2, 0), "0.0172 ohm*mm^2/m"),
     "thermal_conductivity": ((1, 1, -3, 0, -1), "0.2 W/(m*K)"),
@@ -226,6 +227,10 @@ class _UnitParser:
             f, d = self.factor(depth)
             factor *= f**sign
             dims = _mul(dims, d, sign)
+            if not math.isfinite(factor) or factor == 0.0:
+                raise QuantityError("unit factor out of range")
+            if any(abs(e) > MAX_EXPONENT * 2 for e in dims):
+                raise QuantityError("unit exponents too large for a physical quantity")
         return factor, dims
 
     def factor(self, depth: int) -> tuple[float, Dims]:
@@ -244,7 +249,13 @@ class _UnitParser:
         else:
             raise QuantityError(f"unknown unit {tok!r}{_hint(tok)}")
         exp = self.exponent()
-        return f**exp, _mul(_ONE, d, exp)
+        dims = _mul(_ONE, d, exp)
+        if any(abs(e) > MAX_EXPONENT * 2 for e in dims):
+            raise QuantityError("unit exponents too large for a physical quantity")
+        try:
+            return f**exp, dims
+        except OverflowError:
+            raise QuantityError("unit factor out of range") from None
 
     def exponent(self) -> int:
         tok = self.peek()
@@ -268,7 +279,9 @@ class _UnitParser:
 def _hint(tok: str) -> str:
     import difflib  # only on the error path
 
-    close = difflib.get_close_matches(tok, [*UNITS, "degC"], n=1, cutoff=0.6)
+    names = [*UNITS, "degC"]
+    same_letters = [n for n in names if n.lower() == tok.lower()]
+    close = same_letters or difflib.get_close_matches(tok, names, n=1, cutoff=0.6)
     return f" (did you mean {close[0]!r}?)" if close else ""
 
 

@@ -117,11 +117,25 @@ def _message(error: dict[str, Any], doc: Document, path: RecordPath) -> str:
     if kind == "union_tag_not_found":
         tag = error.get("ctx", {}).get("discriminator", "")
         return f"required key {tag} is missing"
-    if kind in ("int_type", "float_type", "string_type", "bool_type", "date_type",
-                "dict_type", "list_type", "model_type", "tuple_type"):
+    if kind in (
+        "int_type",
+        "float_type",
+        "string_type",
+        "bool_type",
+        "date_type",
+        "dict_type",
+        "list_type",
+        "model_type",
+        "tuple_type",
+    ):
         wanted = kind.removesuffix("_type").replace("model", "mapping").replace("dict", "mapping")
-        wanted = {"int": "a whole number", "float": "a number", "string": "text",
-                  "bool": "true or false", "date": "a date (YYYY-MM-DD)"}.get(wanted, f"a {wanted}")
+        wanted = {
+            "int": "a whole number",
+            "float": "a number",
+            "string": "text",
+            "bool": "true or false",
+            "date": "a date (YYYY-MM-DD)",
+        }.get(wanted, f"a {wanted}")
         return f"expected {wanted}, found {found}"
     if msg.startswith("Input should be"):
         return f"expected {msg.removeprefix('Input should be ').rstrip('.')}, found {found}"
@@ -182,31 +196,39 @@ def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     st = d.stator
     if st.bore_diameter >= st.outer_diameter:
         out.append(
-            (("stator", "bore_diameter"),
-             f"bore diameter {st.bore_diameter * 1e3:g} mm must be smaller than the outer"
-             f" diameter {st.outer_diameter * 1e3:g} mm")
+            (
+                ("stator", "bore_diameter"),
+                f"bore diameter {st.bore_diameter * 1e3:g} mm must be smaller than the outer"
+                f" diameter {st.outer_diameter * 1e3:g} mm",
+            )
         )
         return out
-    yoke = geometry.stator_yoke_height(d)
-    if yoke <= 0.0:
+    section = (st.outer_diameter - st.bore_diameter) / 2.0
+    if geometry.stator_yoke_height(d) <= 0.0:
         out.append(
-            (("stator", "slot", "height"),
-             f"slot height {st.slot.height * 1e3:g} mm leaves no stator yoke: the section between"
-             f" bore and outer diameter is {(st.outer_diameter - st.bore_diameter) * 500:g} mm")
+            (
+                ("stator", "slot", "height"),
+                f"slot height {st.slot.height * 1e3:g} mm leaves no stator yoke: the section"
+                f" between bore and outer diameter is {section * 1e3:g} mm",
+            )
         )
     if geometry.stator_tooth_width_min(d) <= 0.0:
         pitch = geometry.stator_slot_pitch_at(d, geometry.stator_widest_radius(d))
         out.append(
-            (("stator", "slot"),
-             f"slots {geometry.stator_slot_width_max(d) * 1e3:g} mm wide leave no tooth at a"
-             f" slot pitch of {pitch * 1e3:.4g} mm")
+            (
+                ("stator", "slot"),
+                f"slots {geometry.stator_slot_width_max(d) * 1e3:g} mm wide leave no tooth at a"
+                f" slot pitch of {pitch * 1e3:.4g} mm",
+            )
         )
     out.extend(geometry.slot_shape_problems(st.slot, ("stator", "slot")))
     w = d.winding
     if not 1 <= w.coil_pitch <= st.slots - 1:
         out.append(
-            (("winding", "coil_pitch"),
-             f"coil pitch {w.coil_pitch} must lie between 1 and Q-1 = {st.slots - 1} slots")
+            (
+                ("winding", "coil_pitch"),
+                f"coil pitch {w.coil_pitch} must lie between 1 and Q-1 = {st.slots - 1} slots",
+            )
         )
     if w.layout is None:
         reason = feasibility(st.slots, d.pole_pairs, w.phases, w.layers)
@@ -214,23 +236,37 @@ def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             out.append((("stator", "slots"), f"no balanced winding: {reason}"))
     elif len(w.layout) != st.slots:
         out.append(
-            (("winding", "layout"),
-             f"expected one layout entry per slot ({st.slots}), found {len(w.layout)}")
+            (
+                ("winding", "layout"),
+                f"expected one layout entry per slot ({st.slots}), found {len(w.layout)}",
+            )
         )
     else:
         letters = {chr(ord("A") + k) for k in range(w.phases)}
         for s, entry in enumerate(w.layout):
             wrong = sorted({side.lstrip("+-") for side in entry.split()} - letters)
             if wrong:
-                out.append((("winding", "layout", s), f"phase {wrong[0]!r} is not one of the"
-                            f" {w.phases} phases {''.join(sorted(letters))}"))
+                out.append(
+                    (
+                        ("winding", "layout", s),
+                        f"phase {wrong[0]!r} is not one of the"
+                        f" {w.phases} phases {''.join(sorted(letters))}",
+                    )
+                )
             elif len(entry.split()) != w.layers:
-                out.append((("winding", "layout", s), f"expected {w.layers} coil side(s) in"
-                            f" the slot (layers: {w.layers}), found {len(entry.split())}"))
+                out.append(
+                    (
+                        ("winding", "layout", s),
+                        f"expected {w.layers} coil side(s) in"
+                        f" the slot (layers: {w.layers}), found {len(entry.split())}",
+                    )
+                )
     if w.conductor.shape == "round" and w.conductor.insulated_diameter < w.conductor.bare_diameter:
         out.append(
-            (("winding", "conductor", "insulated_diameter"),
-             "insulated diameter must not be smaller than the bare diameter")
+            (
+                ("winding", "conductor", "insulated_diameter"),
+                "insulated diameter must not be smaller than the bare diameter",
+            )
         )
     if w.conductor.shape == "rectangular" and (
         w.conductor.insulated_width < w.conductor.width

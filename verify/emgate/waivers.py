@@ -22,8 +22,9 @@ def covers(waiver_path: str | None, finding_path: str) -> bool:
     """Whether a waiver's record path covers a finding's (itself or a descendant)."""
     if waiver_path is None or waiver_path == "$":
         return True
-    return finding_path == waiver_path or finding_path.startswith((waiver_path + ".",
-                                                                   waiver_path + "["))
+    return finding_path == waiver_path or finding_path.startswith(
+        (waiver_path + ".", waiver_path + "[")
+    )
 
 
 def apply_record_waivers(
@@ -35,18 +36,41 @@ def apply_record_waivers(
         label = f"waiver of {waiver.rule!r} owned by {waiver.owner}"
 
         def note(message: str, severity: str, loc=loc) -> Finding:
-            return Finding(WAIVER_RULE, severity, ld.file, loc.line, loc.column,  # type: ignore[arg-type]
-                           loc.record_path, message, ld.design.id, kind="waiver")
+            return Finding(
+                WAIVER_RULE,
+                severity,
+                ld.file,
+                loc.line,
+                loc.column,  # type: ignore[arg-type]
+                loc.record_path,
+                message,
+                ld.design.id,
+                kind="waiver",
+            )
 
-        matching = [f for f in findings if f.rule == waiver.rule and f.kind == "violation"
-                    and covers(waiver.path, f.record_path)]
+        matching = [
+            f
+            for f in findings
+            if f.rule == waiver.rule
+            and f.kind == "violation"
+            and covers(waiver.path, f.record_path)
+        ]
         if waiver.expires < today:
-            out.append(note(f"{label} expired on {waiver.expires.isoformat()} and no longer"
-                            " applies", "error" if matching else "warning"))
+            out.append(
+                note(
+                    f"{label} expired on {waiver.expires.isoformat()} and no longer applies",
+                    "error" if matching else "warning",
+                )
+            )
             continue
         if not matching:
-            out.append(note(f"{label} suppresses nothing: the rule passes or does not run;"
-                            " remove the waiver", "warning"))
+            out.append(
+                note(
+                    f"{label} suppresses nothing: the rule passes or does not run;"
+                    " remove the waiver",
+                    "warning",
+                )
+            )
             continue
         for f in matching:
             f.waived_by = f"{label}, until {waiver.expires.isoformat()}: {waiver.reason}"

@@ -72,8 +72,12 @@ def render(result: RunResult) -> str:
                 "record_id": r.record_id,
                 "machine": r.machine,
                 "outcomes": [
-                    {"rule": o.rule, "status": o.status, "message": o.message,
-                     "checks": [check_dict(c) for c in o.checks]}
+                    {
+                        "rule": o.rule,
+                        "status": o.status,
+                        "message": o.message,
+                        "checks": [check_dict(c) for c in o.checks],
+                    }
                     for o in r.outcomes
                 ],
             }

@@ -24,8 +24,9 @@ def render(result: RunResult) -> str:
         out.append(file or "(configuration)")
         out.extend(_line(f) for f in group)
         out.append("")
-    ran = sorted({o.rule for r in result.records for o in r.outcomes
-                  if o.status != "not_applicable"})
+    ran = sorted(
+        {o.rule for r in result.records for o in r.outcomes if o.status != "not_applicable"}
+    )
     checks = sum(len(o.checks) for r in result.records for o in r.outcomes)
     errors = len(result.active("error"))
     warnings = len(result.active("warning"))

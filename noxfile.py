@@ -1,0 +1,50 @@
+"""Sessions: tests, lint, demo, schema (regenerate the committed JSON Schemas), bench."""
+
+from __future__ import annotations
+
+import nox
+
+nox.options.default_venv_backend = "venv"
+nox.options.reuse_existing_virtualenvs = True
+nox.options.sessions = ["tests"]
+
+PACK = "./examples/company-pack"
+
+
+@nox.session
+def tests(session: nox.Session) -> None:
+    """Install emgate, its test dependencies and the sample company pack; run pytest."""
+    session.install("-e", ".[test]", PACK)
+    session.run("pytest", *session.posargs)
+
+
+@nox.session
+def lint(session: nox.Session) -> None:
+    session.install("ruff>=0.6")
+    session.run("ruff", "check", "verify", "rules", "tests", "examples", "noxfile.py")
+    session.run("ruff", "format", "--check", "verify", "rules", "tests", "noxfile.py")
+
+
+@nox.session
+def demo(session: nox.Session) -> None:
+    """Run the gate on the bundled design repository (one design breaks a limit on purpose,
+    so this session ends with emgate's exit code 1)."""
+    session.install("-e", ".", PACK)
+    session.run("emgate", "rules")
+    session.run("emgate", "show", "examples/design-repo/designs/pump-drive-4p36s.yaml")
+    session.log("The demo holds one design that breaks a limit on purpose: expect exit code 1.")
+    session.run("emgate", "check", "examples/design-repo")
+
+
+@nox.session
+def schema(session: nox.Session) -> None:
+    """Regenerate schemas/ from the pydantic models."""
+    session.install("-e", ".")
+    session.run("emgate", "schema", "--write", "schemas")
+
+
+@nox.session
+def bench(session: nox.Session) -> None:
+    """Start-up and rule timings as ratios measured in one run (no timed assertions)."""
+    session.install("-e", ".", PACK)
+    session.run("python", "bench/bench.py", *session.posargs)

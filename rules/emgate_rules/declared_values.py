@@ -1,0 +1,89 @@
+"""The designer's own figures against the recomputed ones."""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+from pydantic import Field
+
+from emgate.calc import SHEET
+from emgate.model import AnyDesign
+from emgate.rule import Check, Context, Options, Problem, Rule
+from emgate.units import QuantityError, describe, format_value, parse_quantity, parse_unit
+
+
+class DeclaredValuesOptions(Options):
+    tolerance: float = Field(
+        default=0.05, gt=0, description="relative tolerance (common practice, no source)"
+    )
+    tolerances: dict[str, float] = Field(
+        default_factory=dict, description="per quantity name, overriding tolerance"
+    )
+
+
+class DeclaredValues(Rule):
+    """Each figure of the record's `declared` block agrees with emgate's recomputed value.
+
+    Method: every name in `declared` must be a calculation-sheet name (`emgate show` lists
+    them); its value, with a unit of the quantity's dimension, is compared with the value
+    emgate recomputed from the raw record: |recomputed - declared| / |declared| must not
+    exceed the tolerance (default 5 %, common practice, no source; per name in `tolerances`).
+    A name emgate does not compute, or a value of the wrong dimension, is an error: a figure
+    nobody checks must not look checked.
+    """
+
+    id = "declared-values"
+    summary = "declared figures agree with the recomputed ones"
+    tags = ("review",)
+    options = DeclaredValuesOptions
+
+    def check(
+        self, design: AnyDesign, options: Options, context: Context
+    ) -> Iterable[Check | Problem]:
+        import difflib
+
+        assert isinstance(options, DeclaredValuesOptions)
+        calc = context.calc
+        for name, raw in sorted(design.declared.items()):
+            at = ("declared", name)
+            entry = SHEET.get(name)
+            if entry is None or not calc.applies(name):
+                close = difflib.get_close_matches(name, list(SHEET), n=1, cutoff=0.6)
+                hint = f"; did you mean {close[0]!r}?" if close else ""
+                yield Problem(
+                    at,
+                    f"declared {name!r} is not a quantity emgate computes for a"
+                    f" {design.machine} machine{hint} (see `emgate show`)",
+                )
+                continue
+            try:
+                q = parse_quantity(str(raw))
+            except QuantityError as exc:
+                yield Problem(at, f"declared {name!r}: {exc}")
+                continue
+            dims = parse_unit(entry.unit)[1] if entry.unit not in ("", "1") else (0,) * 5
+            if q.dims != dims:
+                yield Problem(
+                    at,
+                    f"declared {name!r} is a {describe(q.dims)}; expected a"
+                    f" {describe(dims)} such as '1 {entry.unit}'",
+                )
+                continue
+            if q.value == 0.0:
+                yield Problem(at, f"declared {name!r} is zero; nothing to compare against")
+                continue
+            value = calc.value(name)
+            unit = entry.unit if entry.unit != "1" else ""
+            yield Check(
+                name,
+                f"{name} recomputed {format_value(value, unit)} against the"
+                f" declared {format_value(q.value, unit)}: relative difference",
+                at,
+                abs(value - q.value) / abs(q.value),
+                options.tolerances.get(name, options.tolerance),
+                "max",
+                "%",
+                "the team's tolerance"
+                if name in options.tolerances
+                else "declared-values tolerance",
+            )

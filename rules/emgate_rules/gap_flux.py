@@ -1,0 +1,69 @@
+"""Peak air-gap flux density."""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+from emgate.model import AnyDesign
+from emgate.quantity import FluxDensity
+from emgate.rule import Check, Context, Options, Problem, Rule
+from emgate_rules._limits import basis, limit
+
+PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1 (from memory)"
+DEFAULTS = {"induction": 0.9, "surface_pm": 1.1, "salient_field": 1.05}
+SOURCES = {
+    "induction": PYRHONEN,
+    "surface_pm": "common practice, no source",
+    "salient_field": PYRHONEN,
+}
+#: What a designer changes to move the gap flux density, by machine kind.
+DRIVERS = {
+    "induction": ("winding", "turns_per_coil"),
+    "surface_pm": ("rotor", "magnet", "thickness"),
+    "salient_field": ("rotor", "field"),
+}
+
+
+class GapFluxOptions(Options):
+    induction: FluxDensity = limit(DEFAULTS["induction"], SOURCES["induction"])
+    surface_pm: FluxDensity = limit(DEFAULTS["surface_pm"], SOURCES["surface_pm"])
+    salient_field: FluxDensity = limit(DEFAULTS["salient_field"], SOURCES["salient_field"])
+
+
+class GapFlux(Rule):
+    """Peak air-gap flux density from the machine's magnetic circuit, iron included.
+
+    Method, by machine kind (emgate.physics.magnetic):
+    - induction: flux per pole from the voltage equation Phi = E / (4.44 f N_ph kw1), E the
+      phase voltage less a 3 % drop; B_peak = (pi/2) Phi / (tau_p l);
+    - surface PM: the magnet working point on its recoil line at the operating temperature,
+      Br(T) = Br20 (1 + alpha (T - 20 degC)), solved in the loop with gap kc g' (Carter on the
+      magnetic gap g' = g + sleeve + h_m / mu_rec) and the iron's B-H curves;
+    - salient field: field ampere-turns per pole against gap, teeth, pole body and yokes.
+    kc is Carter's coefficient (stator, times rotor for a cage rotor); the winding factor
+    comes from the slot layout.
+
+    Default upper limits: induction 0.9 T and salient pole 1.05 T, the upper ends of the usual
+    ranges [from memory: Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical Machines,
+    Table 6.1]; surface PM 1.1 T (common practice, no source).
+    """
+
+    id = "gap-flux"
+    summary = "peak air-gap flux density within the limit for the machine kind"
+    tags = ("magnetic",)
+    options = GapFluxOptions
+
+    def check(
+        self, design: AnyDesign, options: Options, context: Context
+    ) -> Iterable[Check | Problem]:
+        kind = design.machine
+        yield Check(
+            quantity="air_gap.flux_density_peak",
+            label="peak air-gap flux density",
+            path=DRIVERS[kind],
+            value=context.calc.gap_flux_density_peak,
+            limit=getattr(options, kind),
+            bound="max",
+            unit="T",
+            basis=basis(options, kind, DEFAULTS[kind], SOURCES[kind]),
+        )

@@ -1,0 +1,112 @@
+"""``emgate show``: the calculation sheet of one design, for design review."""
+
+from __future__ import annotations
+
+import json
+import math
+import sys
+from pathlib import Path
+from typing import Any
+
+from emgate import __version__
+from emgate.errors import InputError, InputErrors, display_path
+from emgate.findings import DISCLAIMER
+
+
+def sheet_values(path: Path) -> tuple[Any, dict[str, tuple[float | None, str, str, str]]]:
+    """Load one design (with the materials files of its repository) and compute its sheet.
+
+    Returns the design and, per quantity name: (SI value or None, unit, method, error text).
+    """
+    from emgate.calc import SHEET, Calculation
+    from emgate.engine import discover_materials
+    from emgate.loader import load
+    from emgate.validate import schema_of, validate_design
+
+    doc = load(path)
+    kind = schema_of(doc)
+    if kind != "emgate/design@1":
+        raise InputError(f"expected a design record, found a {kind} file", doc.locate(()))
+    design = validate_design(doc)
+    catalogue = discover_materials(path)
+    catalogue.resolve(doc, design)
+    calc = Calculation(design, catalogue)
+    out: dict[str, tuple[float | None, str, str, str]] = {}
+    for name, entry in SHEET.items():
+        if not calc.applies(name):
+            continue
+        try:
+            value: float | None = calc.value(name)
+            error = ""
+        except (ValueError, ArithmeticError) as exc:
+            value, error = None, f"not computed: {exc}"
+        out[name] = (value, entry.unit, entry.method, error)
+    return design, out
+
+
+def show(path: Path, fmt: str) -> int:
+    try:
+        design, values = sheet_values(path)
+    except (InputError, InputErrors) as exc:
+        errors = exc.errors if isinstance(exc, InputErrors) else [exc]
+        for err in errors:
+            print(str(err), file=sys.stderr)
+        return 2
+    if fmt == "json":
+        doc = {
+            "tool": {"name": "emgate", "version": __version__},
+            "file": display_path(path),
+            "record_id": design.id,
+            "machine": design.machine,
+            "quantities": {
+                name: {
+                    "value": v if v is not None and math.isfinite(v) else None,
+                    "unit": _si_unit(unit),
+                    "method": method,
+                    **({"error": err} if err else {}),
+                }
+                for name, (v, unit, method, err) in sorted(values.items())
+            },
+            "notice": DISCLAIMER,
+        }
+        sys.stdout.write(json.dumps(doc, indent=2) + "\n")
+        return 0
+    from emgate.units import format_value
+
+    print(f"{design.id}: {design.title} ({design.machine}, {design.poles} poles)")
+    print(f"file: {display_path(path)}\n")
+    width = max(len(n) for n in values)
+    group = ""
+    for name in sorted(values):
+        value, unit, method, err = values[name]
+        head = name.split(".")[0]
+        if head != group:
+            print(f"[{head}]")
+            group = head
+        shown = err if value is None else format_value(value, "" if unit == "1" else unit, 5)
+        print(f"  {name:<{width}}  {shown:>16}   {method}")
+    print(f"\n{DISCLAIMER}")
+    return 0
+
+
+#: SI unit of each display unit, for the JSON form (values there are SI).
+def _si_unit(unit: str) -> str:
+    from emgate.units import _BASE, parse_unit
+
+    if unit in ("", "1"):
+        return "1"
+    dims = parse_unit(unit)[1]
+    named = {
+        (0, 1, -2, -1, 0): "T",
+        (0, 0, 0, 1, 0): "A",
+        (2, 1, -3, -2, 0): "ohm",
+        (2, 1, -3, 0, 0): "W",
+        (0, 0, 0, 0, 1): "K",
+        (2, 1, -2, -1, 0): "Wb",
+    }
+    if dims in named:
+        return named[dims]
+    parts = [b if e == 1 else f"{b}^{e}" for b, e in zip(_BASE, dims, strict=True) if e > 0]
+    neg = [b if e == -1 else f"{b}^{-e}" for b, e in zip(_BASE, dims, strict=True) if e < 0]
+    text = "*".join(parts) or "1"
+    return f"{text}/{'/'.join(neg)}" if neg else text

@@ -14,6 +14,8 @@ from pathlib import Path
 
 from emgate import __version__
 
+FORMATS = ("text", "json", "sarif", "junit", "annotations", "codequality", "markdown")
+
 EXIT_OK, EXIT_FINDINGS, EXIT_INPUT, EXIT_CRASH = 0, 1, 2, 3
 
 
@@ -48,8 +50,21 @@ def _parser() -> argparse.ArgumentParser:
         metavar="PATH",
         help="record files or folders (default: the config's files, or '.')",
     )
-    c.add_argument("--format", default="text", choices=["text", "json"])
+    c.add_argument(
+        "--format",
+        action="append",
+        metavar="NAME[:FILE]",
+        dest="formats",
+        help=f"output format, one of {', '.join(FORMATS)}; with :FILE, written to"
+        " FILE atomically instead of standard output; repeatable",
+    )
     c.add_argument("--config", type=Path, help="project config (default: nearest emgate.yaml)")
+    c.add_argument(
+        "--changed-since",
+        metavar="REV",
+        help="check only the records changed against git revision REV, and those"
+        " that changed materials or configuration affect",
+    )
     c.add_argument("--today", type=_date, help="judge waiver expiry as of this date")
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path)
@@ -60,6 +75,8 @@ def _parser() -> argparse.ArgumentParser:
     e = sub.add_parser("explain", help="print a rule's method, formulas and sources")
     e.add_argument("rule")
     sub.add_parser("plugins", help="list installed plugin packs")
+    i = sub.add_parser("init", help="write a starter design repository (never overwrites)")
+    i.add_argument("dir", nargs="?", type=Path, default=Path("."))
     sc = sub.add_parser("schema", help="print a JSON Schema")
     sc.add_argument("kind", nargs="?", default="design", choices=list(SCHEMA_KINDS))
     sc.add_argument(
@@ -71,7 +88,7 @@ def _parser() -> argparse.ArgumentParser:
     return p
 
 
-SCHEMA_KINDS = ("design", "materials", "config")
+SCHEMA_KINDS = ("design", "materials", "waivers", "config")
 
 
 def schema_text(kind: str) -> str:
@@ -132,6 +149,10 @@ def _dispatch(args: argparse.Namespace) -> int:
         return _rules(plugins, args.format)
     if args.command == "explain":
         return _explain(plugins, args.rule)
+    if args.command == "init":
+        from emgate.scaffold import init
+
+        return init(args.dir)
     if args.command == "show":
         from emgate.sheet import show
 
@@ -196,31 +217,73 @@ def _explain(plugins, rid: str) -> int:  # type: ignore[no-untyped-def]
     return EXIT_OK
 
 
+def _outputs(specs: list[str] | None) -> list[tuple[str, Path | None]]:
+    out: list[tuple[str, Path | None]] = []
+    for spec in specs or ["text"]:
+        name, _, file = spec.partition(":")
+        if name not in FORMATS:
+            raise _UsageError(f"unknown format {name!r}; expected one of {', '.join(FORMATS)}")
+        out.append((name, Path(file) if file else None))
+    if sum(1 for _, f in out if f is None) > 1:
+        raise _UsageError("only one --format may go to standard output; give the others a FILE")
+    return out
+
+
+class _UsageError(Exception):
+    pass
+
+
 def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped-def]
     from emgate.config import find_config, load_policy
     from emgate.engine import Run, execute, input_findings
     from emgate.errors import InputError, InputErrors
     from emgate.findings import RunResult
-    from emgate.report import reporter
 
+    try:
+        outputs = _outputs(args.formats)
+    except _UsageError as exc:
+        print(f"emgate check: {exc}", file=sys.stderr)
+        return EXIT_INPUT
     start = args.paths[0] if args.paths else Path.cwd()
     config = args.config or find_config(start if start.is_dir() else start.parent)
+    installed = {p.distribution: p.version for p in plugins.packs}
     try:
         rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
-        policy = load_policy(config, rules, Path.cwd())
+        policy = load_policy(config, rules, Path.cwd(), installed)
+        paths = list(args.paths) or (policy.configured_files() if policy.source else [Path(".")])
+        run = Run(paths=paths, policy=policy, plugins=plugins)
+        if args.changed_since:
+            from emgate.changes import changed_since
+
+            run.changes = changed_since(
+                args.changed_since, Path.cwd(), policy.source, policy.waivers_file
+            )
     except (InputError, InputErrors) as exc:
         result = RunResult(findings=input_findings(exc))
-        sys.stdout.write(reporter(args.format)(result))
+        _emit(result, outputs)
         return result.exit_code
-    paths = list(args.paths)
-    if not paths:
-        paths = [policy.root] if policy.source else [Path(".")]
-    run = Run(paths=paths, policy=policy, plugins=plugins)
     if args.today:
         run.today = args.today
     result = execute(run)
-    sys.stdout.write(reporter(args.format)(result))
-    return result.exit_code
+    return max(result.exit_code, _emit(result, outputs))
+
+
+def _emit(result, outputs: list[tuple[str, Path | None]]) -> int:  # type: ignore[no-untyped-def]
+    from emgate.atomic import write_atomic
+    from emgate.report import reporter
+
+    status = EXIT_OK
+    for name, file in outputs:
+        text = reporter(name)(result)
+        if file is None:
+            sys.stdout.write(text)
+            continue
+        try:
+            write_atomic(file, text)
+        except OSError as exc:
+            print(f"emgate: cannot write {name} report to {file}: {exc.strerror}", file=sys.stderr)
+            status = EXIT_INPUT
+    return status
 
 
 def entry() -> None:

@@ -1,29 +1,37 @@
 """The design repository's policy file, ``emgate.yaml``.
 
-It says which files to check, which rules run, at which severity and with which limits. Each
-rule's options are validated against that rule's own options model, with located errors.
+It says which files to check, which rules run, at which severity and with which limits, with
+overrides for path globs, and which plugin packs must be installed. Each rule's options are
+validated against that rule's own options model, with located errors.
 """
 
 from __future__ import annotations
 
+import fnmatch
 from dataclasses import dataclass, field
+from functools import cache
 from pathlib import Path
 from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, StringConstraints, ValidationError
 
 from emgate.errors import InputError, InputErrors
-from emgate.loader import Document, load
+from emgate.loader import Document, RecordPath, load
 from emgate.rule import Options, Rule, Severity
 
 CONFIG_SCHEMA = "emgate/config@1"
 CONFIG_NAME = "emgate.yaml"
+WAIVERS_NAME = "waivers.yaml"
 
 Selector = Annotated[
     str,
-    StringConstraints(pattern=r"^(tag:[a-z][a-z0-9-]*|[a-z][a-z0-9-]*(/([a-z][a-z0-9-]*)?)?)$"),
-    Field(description="a rule id ('slot-fill'), a pack prefix ('acme/') or a tag ('tag:thermal')"),
+    StringConstraints(pattern=r"^(all|tag:[a-z][a-z0-9-]*|[a-z][a-z0-9-]*(/([a-z][a-z0-9-]*)?)?)$"),
+    Field(
+        description="'all', a rule id ('slot-fill'), a pack prefix ('acme/') or a tag"
+        " ('tag:thermal')"
+    ),
 ]
+Level = Literal["error", "warning", "info"]
 
 
 class _Strict(BaseModel):
@@ -35,30 +43,48 @@ class RuleSelection(_Strict):
     ignore: list[Selector] = Field(default_factory=list)
 
 
+class Override(_Strict):
+    files: list[str] = Field(
+        min_length=1,
+        description="glob patterns relative to emgate.yaml; '*' also matches across folders",
+    )
+    rules: RuleSelection | None = None
+    severity: dict[str, Level] = Field(default_factory=dict)
+    options: dict[str, dict[str, Any]] = Field(default_factory=dict)
+
+
 class ConfigFile(_Strict):
     schema_: Literal["emgate/config@1"] = Field(alias="schema")
     files: list[str] = Field(
         default_factory=lambda: ["**/*.yaml", "**/*.yml"],
-        description="glob patterns, relative to this file, of the records to check",
+        description="glob patterns, relative to this file, of the records to check when"
+        " `emgate check` is given no paths",
     )
     rules: RuleSelection = Field(default_factory=RuleSelection)
-    severity: dict[str, Literal["error", "warning", "info"]] = Field(default_factory=dict)
+    severity: dict[str, Level] = Field(default_factory=dict)
     options: dict[str, dict[str, Any]] = Field(
         default_factory=dict, description="per rule id: that rule's options (the team's limits)"
     )
+    overrides: list[Override] = Field(default_factory=list)
+    required_plugins: list[str] = Field(
+        default_factory=list,
+        description="distributions that must be installed, with version"
+        " specifiers, e.g. 'acme-emgate-pack>=1.2'",
+    )
+    waivers: str = Field(
+        default=WAIVERS_NAME,
+        description="the reviewed waivers file, relative to this file (ignored when absent)",
+    )
 
 
-@dataclass
-class Policy:
-    """The resolved configuration the engine applies."""
+@dataclass(frozen=True)
+class RulePolicy:
+    """The policy in force for one record file."""
 
-    root: Path
-    files: list[str] = field(default_factory=lambda: ["**/*.yaml", "**/*.yml"])
-    select: list[str] = field(default_factory=lambda: ["all"])
-    ignore: list[str] = field(default_factory=list)
-    severity: dict[str, Severity] = field(default_factory=dict)
-    options: dict[str, Options] = field(default_factory=dict)
-    source: Path | None = None
+    select: tuple[str, ...]
+    ignore: tuple[str, ...]
+    severity: dict[str, Severity]
+    options: dict[str, Options]
 
     def selected(self, rule: type[Rule]) -> bool:
         return any(_matches(s, rule) for s in self.select) and not any(
@@ -70,6 +96,38 @@ class Policy:
 
     def severity_for(self, rule: type[Rule]) -> Severity:
         return self.severity.get(rule.id, rule.severity)
+
+
+@dataclass
+class Policy:
+    """The resolved configuration: a base rule policy and per-glob overrides."""
+
+    root: Path
+    base: RulePolicy = field(default_factory=lambda: RulePolicy(("all",), (), {}, {}))
+    files: list[str] = field(default_factory=lambda: ["**/*.yaml", "**/*.yml"])
+    overrides: list[tuple[tuple[str, ...], RulePolicy]] = field(default_factory=list)
+    source: Path | None = None
+    waivers_file: Path | None = None
+
+    def for_file(self, path: Path) -> RulePolicy:
+        """The policy for one record: the last matching override wins, else the base."""
+        try:
+            rel = path.resolve().relative_to(self.root.resolve()).as_posix()
+        except ValueError:
+            return self.base
+        for globs, rule_policy in reversed(self.overrides):
+            if any(
+                fnmatch.fnmatchcase(rel, g) or fnmatch.fnmatchcase(rel, g.replace("**/", ""))
+                for g in globs
+            ):
+                return rule_policy
+        return self.base
+
+    def configured_files(self) -> list[Path]:
+        out: set[Path] = set()
+        for pattern in self.files:
+            out.update(p for p in self.root.glob(pattern) if p.is_file())
+        return sorted(out)
 
 
 def _matches(selector: str, rule: type[Rule]) -> bool:
@@ -94,8 +152,63 @@ def find_config(start: Path) -> Path | None:
     return None
 
 
-def load_policy(path: Path | None, rules: dict[str, type[Rule]], root: Path) -> Policy:
-    """Read and check a config file against the installed rules (InputErrors on failure)."""
+class _Loader:
+    def __init__(self, doc: Document, rules: dict[str, type[Rule]]) -> None:
+        self.doc = doc
+        self.rules = rules
+        self.errors: list[InputError] = []
+
+    def known(self, rid: str, at: RecordPath) -> bool:
+        if rid in self.rules:
+            return True
+        import difflib
+
+        close = difflib.get_close_matches(rid, list(self.rules), n=1, cutoff=0.6)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        self.errors.append(
+            InputError(f"no installed rule has the id {rid!r}{hint}", self.doc.locate_key(at))
+        )
+        return False
+
+    def selection(self, sel: RuleSelection, at: RecordPath) -> tuple[tuple[str, ...], ...]:
+        for key in ("select", "ignore"):
+            for i, s in enumerate(getattr(sel, key)):
+                if s != "all" and not s.startswith("tag:") and not s.endswith("/"):
+                    self.known(s, (*at, key, i))
+        return tuple(sel.select), tuple(sel.ignore)
+
+    def options(
+        self, base: dict[str, dict[str, Any]], extra: dict[str, dict[str, Any]], at: RecordPath
+    ) -> dict[str, Options]:
+        out: dict[str, Options] = {}
+        for rid in extra:
+            self.known(rid, (*at, rid))
+        for rid in sorted(set(base) | set(extra)):
+            if rid not in self.rules:
+                continue
+            merged = {**base.get(rid, {}), **extra.get(rid, {})}
+            where = (*at, rid) if rid in extra else ("options", rid)
+            try:
+                out[rid] = self.rules[rid].options.model_validate(merged)
+            except ValidationError as exc:
+                self.errors.extend(_option_errors(exc, self.doc, where, rid))
+        return out
+
+    def severity(self, levels: dict[str, Level], at: RecordPath) -> dict[str, Severity]:
+        return {rid: lvl for rid, lvl in levels.items() if self.known(rid, (*at, rid))}
+
+
+def load_policy(
+    path: Path | None,
+    rules: dict[str, type[Rule]],
+    root: Path,
+    installed: dict[str, str] | None = None,
+) -> Policy:
+    """Read and check a config file against the installed rules (InputErrors on failure).
+
+    ``installed`` maps distribution names of loaded plugin packs to their versions, for
+    ``required_plugins``.
+    """
     if path is None:
         return Policy(root=root)
     from emgate.validate import model_errors
@@ -105,64 +218,92 @@ def load_policy(path: Path | None, rules: dict[str, type[Rule]], root: Path) -> 
         cfg = ConfigFile.model_validate(doc.data)
     except ValidationError as exc:
         raise InputErrors(model_errors(exc, doc)) from None
-    errors: list[InputError] = []
-    policy = Policy(
-        root=path.parent,
-        files=list(cfg.files),
-        select=list(cfg.rules.select),
-        ignore=list(cfg.rules.ignore),
-        source=path,
+    ld = _Loader(doc, rules)
+    select, ignore = ld.selection(cfg.rules, ("rules",))
+    base = RulePolicy(
+        select,
+        ignore,
+        ld.severity(cfg.severity, ("severity",)),
+        ld.options({}, cfg.options, ("options",)),
     )
-    for rid, level in cfg.severity.items():
-        if _known(rid, rules, doc, ("severity", rid), errors):
-            policy.severity[rid] = level
-    for rid, raw in cfg.options.items():
-        if not _known(rid, rules, doc, ("options", rid), errors):
-            continue
+    overrides = []
+    for i, ov in enumerate(cfg.overrides):
+        at = ("overrides", i)
+        sel = ld.selection(ov.rules, (*at, "rules")) if ov.rules else (select, ignore)
+        levels = {**base.severity, **ld.severity(ov.severity, (*at, "severity"))}
+        opts = ld.options(cfg.options, ov.options, (*at, "options"))
+        overrides.append(
+            (tuple(ov.files), RulePolicy(sel[0], sel[1], levels, {**base.options, **opts}))
+        )
+    _check_required(cfg.required_plugins, installed or {}, ld)
+    if ld.errors:
+        raise InputErrors(ld.errors)
+    waivers = path.parent / cfg.waivers
+    return Policy(
+        root=path.parent,
+        base=base,
+        files=list(cfg.files),
+        overrides=overrides,
+        source=path,
+        waivers_file=waivers if waivers.is_file() else None,
+    )
+
+
+def _check_required(required: list[str], installed: dict[str, str], ld: _Loader) -> None:
+    if not required:
+        return
+    from packaging.requirements import InvalidRequirement, Requirement
+    from packaging.utils import canonicalize_name
+
+    have = {canonicalize_name(k): v for k, v in installed.items()}
+    for i, text in enumerate(required):
+        at = ld.doc.locate(("required_plugins", i))
         try:
-            policy.options[rid] = rules[rid].options.model_validate(raw)
-        except ValidationError as exc:
-            errors.extend(_option_errors(exc, doc, rid))
-    for key in ("select", "ignore"):
-        for i, sel in enumerate(getattr(cfg.rules, key)):
-            if sel == "all" or sel.startswith("tag:") or sel.endswith("/"):
-                continue
-            _known(sel, rules, doc, ("rules", key, i), errors)
-    if errors:
-        raise InputErrors(errors)
-    return policy
+            req = Requirement(text)
+        except InvalidRequirement as exc:
+            ld.errors.append(
+                InputError(
+                    f"expected a requirement such as 'acme-pack>=1.2', found {text!r} ({exc})", at
+                )
+            )
+            continue
+        version = have.get(canonicalize_name(req.name))
+        if version is None:
+            ld.errors.append(
+                InputError(
+                    f"required plugin pack {req.name!r} is not installed (or failed to load);"
+                    f" install it, e.g. pip install '{text}'",
+                    at,
+                )
+            )
+        elif req.specifier and not req.specifier.contains(version, prereleases=True):
+            ld.errors.append(
+                InputError(
+                    f"required plugin pack {req.name} {version} does not satisfy {text!r}", at
+                )
+            )
 
 
-def _known(
-    rid: str,
-    rules: dict[str, type[Rule]],
-    doc: Document,
-    at: tuple[Any, ...],
-    errors: list[InputError],
-) -> bool:
-    if rid in rules:
-        return True
-    import difflib
-
-    close = difflib.get_close_matches(rid, list(rules), n=1, cutoff=0.6)
-    hint = f"; did you mean {close[0]!r}?" if close else ""
-    errors.append(InputError(f"no installed rule has the id {rid!r}{hint}", doc.locate_key(at)))
-    return False
-
-
-def _option_errors(exc: ValidationError, doc: Document, rid: str) -> list[InputError]:
+def _option_errors(
+    exc: ValidationError, doc: Document, at: RecordPath, rid: str
+) -> list[InputError]:
     from emgate.validate import record_path
 
     out = []
     for error in exc.errors(include_url=False):
-        path = record_path(doc.data, ("options", rid, *error["loc"]))
+        path = record_path(doc.data, (*at, *error["loc"]))
         msg = error["msg"].removeprefix("Value error, ")
         if error["type"] == "extra_forbidden":
             msg = f"rule {rid!r} has no option {str(path[-1])!r}"
-        out.append(InputError(msg, doc.locate(path)))
+            out.append(InputError(msg, doc.locate_key(path)))
+            continue
+        out.append(
+            InputError(f"option {str(error['loc'][-1])!r} of rule {rid!r}: {msg}", doc.locate(path))
+        )
     return out
 
 
+@cache
 def config_json_schema() -> dict[str, Any]:
     schema = ConfigFile.model_json_schema(by_alias=True)
     return {

@@ -14,14 +14,22 @@ from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from emgate.config import CONFIG_NAME, Policy
+from emgate.changes import ChangeSet
+from emgate.config import CONFIG_NAME, CONFIG_SCHEMA, Policy
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
-from emgate.model import DESIGN_SCHEMA, MATERIALS_SCHEMA, AnyDesign
+from emgate.model import DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, AnyDesign
 from emgate.plugins import PluginSet
 from emgate.rule import Check, Context, Problem
+from emgate.waivers import (
+    WaiverEntry,
+    apply_waivers,
+    load_waivers_file,
+    record_waivers,
+    unknown_record_waivers,
+)
 
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
 SKIP_DIRS = {".git", ".hg", ".svn", ".nox", ".tox", ".venv", "venv", "node_modules", "__pycache__"}
@@ -50,6 +58,9 @@ class Run:
     policy: Policy
     plugins: PluginSet
     today: dt.date = field(default_factory=dt.date.today)
+    #: With --changed-since, only the records the change touches are checked (and a waiver
+    #: for a record outside the run is not reported as unknown).
+    changes: ChangeSet | None = None
 
 
 def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
@@ -86,6 +97,8 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
             declared = m.group(1) if m else None
             if declared is None and not explicit:
                 continue
+            if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
+                continue  # read through the policy, not as records
             out.append(Source(path, text, declared, explicit))
     return out
 
@@ -161,6 +174,12 @@ def execute(run: Run) -> RunResult:
             docs.append((src, doc, schema_of(doc)))
         except (InputError, InputErrors) as exc:
             result.findings.extend(input_findings(exc))
+    file_waivers: dict[str, list[WaiverEntry]] = {}
+    if run.policy.waivers_file is not None:
+        try:
+            file_waivers = load_waivers_file(run.policy.waivers_file)
+        except (InputError, InputErrors) as exc:
+            result.findings.extend(input_findings(exc))
     catalogue = Catalogue()
     for _, doc, kind in docs:
         if kind == MATERIALS_SCHEMA:
@@ -168,24 +187,47 @@ def execute(run: Run) -> RunResult:
                 catalogue.add_file(doc, validate_materials(doc))
             except (InputError, InputErrors) as exc:
                 result.findings.extend(input_findings(exc))
+    seen_ids: dict[str, str] = {}
     for _, doc, kind in docs:
         if kind != DESIGN_SCHEMA:
+            continue
+        if run.changes is not None and not run.changes.touches(doc.path, doc.data):
             continue
         try:
             design = validate_design(doc)
             catalogue.resolve(doc, design)
+            if design.id in seen_ids:
+                raise InputError(
+                    f"record id {design.id!r} is already used by {seen_ids[design.id]}",
+                    doc.locate(("id",)),
+                )
         except (InputError, InputErrors) as exc:
             result.findings.extend(input_findings(exc))
             continue
-        _check_design(run, LoadedDesign(doc, design, display_path(doc.path)), catalogue, result)
+        seen_ids[design.id] = display_path(doc.path)
+        ld = LoadedDesign(doc, design, display_path(doc.path))
+        waivers = record_waivers(doc, design.id, list(design.waivers))
+        waivers += file_waivers.get(design.id, [])
+        _check_design(run, ld, catalogue, result, waivers)
+    if run.changes is None:
+        result.findings.extend(
+            _input_finding(e) for e in unknown_record_waivers(file_waivers, set(seen_ids))
+        )
     result.sort()
     return result
 
 
-def _check_design(run: Run, ld: LoadedDesign, catalogue: Catalogue, result: RunResult) -> None:
+def _check_design(
+    run: Run,
+    ld: LoadedDesign,
+    catalogue: Catalogue,
+    result: RunResult,
+    waivers: list[WaiverEntry],
+) -> None:
     from emgate.calc import Calculation
 
     design = ld.design
+    policy = run.policy.for_file(ld.doc.path)
     record = RecordResult(ld.file, design.id, design.machine)
     result.records.append(record)
     calc = Calculation(design, catalogue)
@@ -193,15 +235,15 @@ def _check_design(run: Run, ld: LoadedDesign, catalogue: Catalogue, result: RunR
     produced: list[Finding] = []
     for rid, loaded in sorted(run.plugins.rules.items()):
         rule = loaded.rule
-        if not run.policy.selected(rule):
+        if not policy.selected(rule):
             continue
         if design.machine not in rule.machines:
             record.outcomes.append(RuleOutcome(rid, "not_applicable"))
             continue
-        severity = run.policy.severity_for(rule)
+        severity = policy.severity_for(rule)
         outcome = RuleOutcome(rid, "pass")
         try:
-            items = list(rule().check(design, run.policy.options_for(rule), context))
+            items = list(rule().check(design, policy.options_for(rule), context))
         except Exception as exc:
             frame = traceback.extract_tb(exc.__traceback__)[-1]
             message = (
@@ -224,9 +266,7 @@ def _check_design(run: Run, ld: LoadedDesign, catalogue: Catalogue, result: RunR
         if any(f.rule == rid for f in produced):
             outcome.status = "fail"
         record.outcomes.append(outcome)
-    from emgate.waivers import apply_record_waivers
-
-    result.findings.extend(apply_record_waivers(ld, produced, record, run.today))
+    result.findings.extend(apply_waivers(waivers, produced, record, run.today))
 
 
 def _finding(

@@ -28,6 +28,7 @@ from emgate.quantity import (
 
 DESIGN_SCHEMA = "emgate/design@1"
 MATERIALS_SCHEMA = "emgate/materials@1"
+WAIVERS_SCHEMA = "emgate/waivers@1"
 
 Slug = Annotated[str, StringConstraints(pattern=r"^[a-z0-9][a-z0-9._-]{0,63}$")]
 Fraction = Annotated[float, Field(gt=0.0, le=1.0)]
@@ -170,7 +171,20 @@ class Waiver(Strict):
     )
     reason: Annotated[str, StringConstraints(min_length=10)]
     owner: Annotated[str, StringConstraints(min_length=2)]
-    expires: dt.date
+    expires: Annotated[
+        dt.date, Field(strict=False, description="last day the waiver applies, YYYY-MM-DD")
+    ]
+
+
+class FileWaiver(Waiver):
+    """A waiver in the repository's reviewed waivers file: it names its record."""
+
+    record: Slug = Field(description="id of the design record the waiver applies to")
+
+
+class WaiversFile(Strict):
+    schema_: Literal["emgate/waivers@1"] = Field(alias="schema")
+    waivers: list[FileWaiver] = Field(default_factory=list)
 
 
 # --- rotors -----------------------------------------------------------------------------
@@ -327,7 +341,7 @@ def json_schema(kind: str) -> dict[str, Any]:
     """The JSON Schema of a record kind ('design' or 'materials')."""
     from pydantic import TypeAdapter
 
-    target: Any = {"design": Design, "materials": MaterialsFile}[kind]
+    target: Any = {"design": Design, "materials": MaterialsFile, "waivers": WaiversFile}[kind]
     schema = TypeAdapter(target).json_schema(by_alias=True)
     schema = {
         "$schema": "https://json-schema.org/draft/2020-12/schema",

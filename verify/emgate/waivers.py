@@ -1,5 +1,6 @@
 """Waivers: a reviewed, dated exception to a rule for one record (or one part of it).
 
+They live in a record's own ``waivers`` list or in the repository's reviewed waivers file.
 An expired waiver stops applying and is itself reported; a waiver that suppresses nothing is
 reported too, so stale exceptions do not pile up. A waived finding stays in every output,
 marked waived.
@@ -8,14 +9,24 @@ marked waived.
 from __future__ import annotations
 
 import datetime as dt
-from typing import TYPE_CHECKING
+from dataclasses import dataclass
+from pathlib import Path
 
+from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import Finding, RecordResult
-
-if TYPE_CHECKING:
-    from emgate.engine import LoadedDesign
+from emgate.loader import Document
+from emgate.model import Waiver
 
 WAIVER_RULE = "waiver"
+
+
+@dataclass(frozen=True)
+class WaiverEntry:
+    """A waiver with the place it was written."""
+
+    waiver: Waiver
+    record: str
+    location: Location
 
 
 def covers(waiver_path: str | None, finding_path: str) -> bool:
@@ -27,38 +38,62 @@ def covers(waiver_path: str | None, finding_path: str) -> bool:
     )
 
 
-def apply_record_waivers(
-    ld: LoadedDesign, findings: list[Finding], record: RecordResult, today: dt.date
-) -> list[Finding]:
-    out = list(findings)
-    for i, waiver in enumerate(ld.design.waivers):
-        loc = ld.doc.locate(("waivers", i))
-        label = f"waiver of {waiver.rule!r} owned by {waiver.owner}"
+def record_waivers(doc: Document, record_id: str, waivers: list[Waiver]) -> list[WaiverEntry]:
+    return [WaiverEntry(w, record_id, doc.locate(("waivers", i))) for i, w in enumerate(waivers)]
 
-        def note(message: str, severity: str, loc=loc) -> Finding:
+
+def load_waivers_file(path: Path) -> dict[str, list[WaiverEntry]]:
+    """The reviewed waivers file, by record id (InputErrors when invalid)."""
+    from pydantic import ValidationError
+
+    from emgate.loader import load
+    from emgate.model import WaiversFile
+    from emgate.validate import model_errors
+
+    doc = load(path)
+    try:
+        parsed = WaiversFile.model_validate(doc.data)
+    except ValidationError as exc:
+        raise InputErrors(model_errors(exc, doc)) from None
+    out: dict[str, list[WaiverEntry]] = {}
+    for i, w in enumerate(parsed.waivers):
+        out.setdefault(w.record, []).append(WaiverEntry(w, w.record, doc.locate(("waivers", i))))
+    return out
+
+
+def apply_waivers(
+    entries: list[WaiverEntry], findings: list[Finding], record: RecordResult, today: dt.date
+) -> list[Finding]:
+    """Mark findings waived; add findings for expired and unused waivers."""
+    out = list(findings)
+    for entry in entries:
+        w, loc = entry.waiver, entry.location
+        label = f"waiver of {w.rule!r} for {entry.record} owned by {w.owner}"
+
+        def note(
+            message: str, severity: str, loc: Location = loc, record: str = entry.record
+        ) -> Finding:
             return Finding(
                 WAIVER_RULE,
                 severity,
-                ld.file,
-                loc.line,
-                loc.column,  # type: ignore[arg-type]
+                display_path(loc.file),
+                loc.line,  # type: ignore[arg-type]
+                loc.column,
                 loc.record_path,
                 message,
-                ld.design.id,
+                record,
                 kind="waiver",
             )
 
         matching = [
             f
             for f in findings
-            if f.rule == waiver.rule
-            and f.kind == "violation"
-            and covers(waiver.path, f.record_path)
+            if f.rule == w.rule and f.kind == "violation" and covers(w.path, f.record_path)
         ]
-        if waiver.expires < today:
+        if w.expires < today:
             out.append(
                 note(
-                    f"{label} expired on {waiver.expires.isoformat()} and no longer applies",
+                    f"{label} expired on {w.expires.isoformat()} and no longer applies",
                     "error" if matching else "warning",
                 )
             )
@@ -66,16 +101,28 @@ def apply_record_waivers(
         if not matching:
             out.append(
                 note(
-                    f"{label} suppresses nothing: the rule passes or does not run;"
-                    " remove the waiver",
+                    f"{label} suppresses nothing (the rule passes, does not run, or the"
+                    " path matches no finding); remove the waiver",
                     "warning",
                 )
             )
             continue
         for f in matching:
-            f.waived_by = f"{label}, until {waiver.expires.isoformat()}: {waiver.reason}"
+            f.waived_by = f"{label}, until {w.expires.isoformat()}: {w.reason}"
     for outcome in record.outcomes:
         mine = [f for f in out if f.rule == outcome.rule and f.kind == "violation"]
         if outcome.status == "fail" and mine and all(f.waived_by for f in mine):
             outcome.status = "waived"
     return out
+
+
+def unknown_record_waivers(
+    by_record: dict[str, list[WaiverEntry]], known: set[str]
+) -> list[InputError]:
+    """Waivers in the file for records that exist nowhere: a typo must not pass silently."""
+    return [
+        InputError(f"waiver names record {rid!r}, which no checked record has", e.location)
+        for rid, entries in sorted(by_record.items())
+        if rid not in known
+        for e in entries
+    ]

@@ -8,7 +8,7 @@ from emgate.findings import DISCLAIMER, Finding, RunResult
 
 
 def _line(f: Finding) -> str:
-    where = f"{f.line}:{f.column}"
+    where = f"{f.line}:{f.column}" if f.line else "-"
     sev = "waived" if f.waived_by else f.severity
     text = f"  {where:<8} {sev:<8} {f.rule:<18} {f.message}"
     if f.record_path != "$":
@@ -21,7 +21,7 @@ def _line(f: Finding) -> str:
 def render(result: RunResult) -> str:
     out: list[str] = []
     for file, group in groupby(result.findings, key=lambda f: f.file):
-        out.append(file or "(configuration)")
+        out.append(file or "(run)")
         out.extend(_line(f) for f in group)
         out.append("")
     ran = sorted(

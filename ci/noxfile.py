@@ -1,0 +1,1 @@
+../verify/emgate/templates/noxfile.py.txt

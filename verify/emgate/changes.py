@@ -1,0 +1,99 @@
+"""``--changed-since REV``: which records a change touches, asked of git itself.
+
+A record is checked when its own file changed, when a materials file defining (before or after
+the change) a steel it uses changed, or when the configuration or the waivers file changed
+(then every record is).
+"""
+
+from __future__ import annotations
+
+import subprocess
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from emgate.errors import InputError
+
+
+@dataclass
+class ChangeSet:
+    files: set[Path] = field(default_factory=set)
+    everything: bool = False
+    grades: set[str] = field(default_factory=set)
+
+    def touches(self, path: Path, data: Any) -> bool:
+        """Whether a design file (with its raw, unvalidated data) is affected."""
+        if self.everything or path.resolve() in self.files:
+            return True
+        if not self.grades or not isinstance(data, dict):
+            return False
+        steels = set()
+        for part in ("stator", "rotor"):
+            node = data.get(part)
+            if isinstance(node, dict) and isinstance(node.get("steel"), str):
+                steels.add(node["steel"])
+        return bool(steels & self.grades)
+
+
+def _git(args: list[str], cwd: Path) -> subprocess.CompletedProcess[str]:
+    try:
+        return subprocess.run(
+            ["git", *args], cwd=cwd, capture_output=True, text=True, check=False, timeout=60
+        )
+    except FileNotFoundError:
+        raise InputError("--changed-since needs git, which is not installed") from None
+    except subprocess.TimeoutExpired:
+        raise InputError(f"git {' '.join(args)} did not answer within 60 s") from None
+
+
+def changed_since(rev: str, cwd: Path, config: Path | None, waivers: Path | None) -> ChangeSet:
+    """The files changed in the work tree against ``rev`` (committed, staged, unstaged and
+    untracked), as a :class:`ChangeSet`."""
+    top = _git(["rev-parse", "--show-toplevel"], cwd)
+    if top.returncode != 0:
+        raise InputError(f"--changed-since needs a git work tree; {cwd} is not in one")
+    root = Path(top.stdout.strip())
+    if (
+        rev.startswith("-")
+        or _git(["rev-parse", "--verify", "--quiet", f"{rev}^{{commit}}"], root).returncode != 0
+    ):
+        raise InputError(
+            f"git revision {rev!r} does not exist in {root.name} (in CI, fetch"
+            " enough history: e.g. a fetch depth of 0)"
+        )
+    diff = _git(["diff", "--name-only", "-z", "--no-renames", rev, "--"], root)
+    untracked = _git(["ls-files", "--others", "--exclude-standard", "-z"], root)
+    if diff.returncode != 0 or untracked.returncode != 0:
+        raise InputError(f"git diff against {rev!r} failed: {diff.stderr.strip()}")
+    names = [n for n in (diff.stdout + untracked.stdout).split("\0") if n]
+    out = ChangeSet(files={(root / n).resolve() for n in names})
+    specials = {p.resolve() for p in (config, waivers) if p is not None}
+    if out.files & specials:
+        out.everything = True
+    for path in out.files:
+        if path.suffix in (".yaml", ".yml"):
+            out.grades |= _grades_defined(path, root, rev)
+    return out
+
+
+def _grades_defined(path: Path, root: Path, rev: str) -> set[str]:
+    """Steel names a materials file defines now or defined at ``rev``."""
+    texts = []
+    if path.is_file():
+        texts.append(path.read_text(encoding="utf-8", errors="replace"))
+    old = _git(["show", f"{rev}:{path.relative_to(root).as_posix()}"], root)
+    if old.returncode == 0:
+        texts.append(old.stdout)
+    grades: set[str] = set()
+    for text in texts:
+        if "emgate/materials@" not in text[:4096]:
+            continue
+        from emgate.loader import load_text
+
+        try:
+            data = load_text(path, text).data
+        except InputError:
+            continue  # the file's own check reports it
+        if isinstance(data, dict) and isinstance(data.get("steels"), dict):
+            grades |= set(data["steels"])
+    return grades

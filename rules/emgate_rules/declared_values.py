@@ -47,7 +47,12 @@ class DeclaredValues(Rule):
         for name, raw in sorted(design.declared.items()):
             at = ("declared", name)
             entry = SHEET.get(name)
-            if entry is None or not calc.applies(name):
+            if entry is not None and not calc.applies(name):
+                kinds = ", ".join(entry.machines)
+                yield Problem(at, f"declared {name!r} is computed for {kinds} machines only,"
+                              f" not for a {design.machine} machine")
+                continue
+            if entry is None:
                 close = difflib.get_close_matches(name, list(SHEET), n=1, cutoff=0.6)
                 hint = f"; did you mean {close[0]!r}?" if close else ""
                 yield Problem(

@@ -13,8 +13,7 @@ import sys
 from pathlib import Path
 
 from emgate import __version__
-
-FORMATS = ("text", "json", "sarif", "junit", "annotations", "codequality", "markdown")
+from emgate.report import FORMATS
 
 EXIT_OK, EXIT_FINDINGS, EXIT_INPUT, EXIT_CRASH = 0, 1, 2, 3
 

@@ -95,7 +95,20 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
                 continue
             m = _DECLARES.search(text[:4096])
             declared = m.group(1) if m else None
-            if declared is None and not explicit:
+            if declared is None:
+                if explicit:  # e.g. a CI file that pre-commit passes along: say, don't fail
+                    result.findings.append(
+                        Finding(
+                            "input",
+                            "info",
+                            display_path(path),
+                            1,
+                            1,
+                            "$",
+                            "skipped: not an emgate file (no 'schema: emgate/...' line)",
+                            kind="note",
+                        )
+                    )
                 continue
             if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
                 continue  # read through the policy, not as records

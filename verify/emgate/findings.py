@@ -33,13 +33,20 @@ class Finding:
     record_path: str
     message: str
     record_id: str = ""
-    kind: Literal["violation", "crash", "input", "waiver"] = "violation"
+    kind: Literal["violation", "crash", "input", "waiver", "note"] = "violation"
     check: Check | None = None
     waived_by: str | None = None
 
     @property
     def fingerprint(self) -> str:
-        return fingerprint(self.rule, self.file, self.record_id, self.record_path)
+        """Rule, file, record and record path, and the quantity of a check: two checks of
+        one rule on one path (a minimum and a maximum) stay distinct; no line number."""
+        where = (
+            self.record_path
+            if self.check is None
+            else (f"{self.record_path}#{self.check.quantity}:{self.check.bound}")
+        )
+        return fingerprint(self.rule, self.file, self.record_id, where)
 
     def sort_key(self) -> tuple[str, int, int, str, str]:
         return (self.file, self.line, self.column, self.rule, self.message)

@@ -51,11 +51,16 @@ class Document:
     data: Any
     marks: dict[RecordPath, tuple[int, int]] = field(default_factory=dict)
     key_marks: dict[RecordPath, tuple[int, int]] = field(default_factory=dict)
+    collections: set[RecordPath] = field(default_factory=set)
 
     def locate(self, path: RecordPath) -> Location:
-        """Location of the deepest existing node along ``path`` (1-based line and column)."""
+        """Location of the deepest existing node along ``path`` (1-based line and column).
+
+        A mapping or list is located at its key (its first item may be lines below)."""
         for n in range(len(path), -1, -1):
-            mark = self.marks.get(tuple(path[:n]))
+            sub = tuple(path[:n])
+            mark = self.key_marks.get(sub) if sub in self.collections else None
+            mark = mark or self.marks.get(sub)
             if mark is not None:
                 return Location(self.path, mark[0] + 1, mark[1] + 1, path_string(path))
         return Location(self.path, 1, 1, path_string(path))
@@ -150,6 +155,7 @@ class _Builder:
             return self.scalar(event, path)
         if depth >= MAX_DEPTH:
             raise self.fail(event.start_mark, f"nesting deeper than {MAX_DEPTH} levels", path)
+        self.doc.collections.add(path)
         if isinstance(event, yaml.SequenceStartEvent):
             items: list[Any] = []
             for item in stream:

@@ -13,7 +13,9 @@ from pydantic import AfterValidator, BeforeValidator, WithJsonSchema
 
 from emgate.units import DIMENSIONS, QuantityError, convert
 
-_NUMBER_PATTERN = r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d{1,3})?\s*\S.*$"
+_NUMBER_PATTERN = (
+    r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d{1,3})?(?![\d.eE])\s*([A-Za-zµΩ°%(]|1\s*/)"
+)
 
 
 def _converter(dimension: str) -> Any:

@@ -155,8 +155,8 @@ class Quantity:
     dims: Dims
 
 
-_NUMBER = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d{1,3})?")
-_TOKEN = re.compile(r"\s*(\*\*|[*/·()^²³]|-?\d+|[A-Za-zµΩ°%]+)")
+_NUMBER = re.compile(r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]{1,3})?")
+_TOKEN = re.compile(r"\s*(\*\*|[*/·()^²³]|-?[0-9]+|[A-Za-zµΩ°%]+)")
 
 
 def describe(dims: Dims) -> str:

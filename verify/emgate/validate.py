@@ -54,6 +54,41 @@ def _vocabulary() -> tuple[str, ...]:
     return tuple(sorted(names))
 
 
+def _allowed_keys(data: Any, path: RecordPath) -> set[str] | None:
+    """The keys the model allows at ``path`` of the record, or None when not found."""
+    from emgate import model as m
+
+    kinds = {
+        "induction": m.InductionDesign,
+        "surface_pm": m.SurfacePMDesign,
+        "salient_field": m.SalientFieldDesign,
+    }
+    node: Any = data
+    current: Any = kinds.get(data.get("machine")) if isinstance(data, dict) else None
+    for part in path:
+        if current is None or not isinstance(node, dict | list):
+            return None
+        node = node[part] if isinstance(node, dict) or isinstance(part, int) else None
+        if isinstance(part, int):
+            continue  # a list item: the item model was chosen at the list's key
+        info = current.model_fields.get(part) or next(
+            (f for f in current.model_fields.values() if f.alias == part), None
+        )
+        if info is None:
+            return None
+        choices = _models_in(info.annotation)
+        shape = node.get("shape") if isinstance(node, dict) else None
+        current = next((c for c in choices if shape is None or _has_tag(c, shape)), None)
+    if current is None:
+        return None
+    return {f.alias or name for name, f in current.model_fields.items()}
+
+
+def _has_tag(model: type[BaseModel], tag: Any) -> bool:
+    field = model.model_fields.get("shape")
+    return field is not None and tag in getattr(field.annotation, "__args__", ())
+
+
 def _models_in(annotation: Any) -> list[type[BaseModel]]:
     out = []
     if isinstance(annotation, type) and issubclass(annotation, BaseModel):
@@ -102,8 +137,12 @@ def _message(error: dict[str, Any], doc: Document, path: RecordPath) -> str:
     msg: str = error["msg"].removeprefix("Value error, ")
     if kind == "extra_forbidden":
         key = str(path[-1])
-        close = difflib.get_close_matches(key, _vocabulary(), n=1, cutoff=0.7)
+        allowed = _allowed_keys(doc.data, path[:-1])
+        candidates = sorted(allowed) if allowed is not None else list(_vocabulary())
+        close = difflib.get_close_matches(key, [c for c in candidates if c != key], n=1, cutoff=0.7)
         hint = f"; did you mean {close[0]!r}?" if close else ""
+        if allowed is not None and not close:
+            hint = f"; expected one of {', '.join(sorted(allowed))}"
         return f"unknown key {key!r}{hint}"
     if kind == "missing":
         return f"required key {str(path[-1])!r} is missing"
@@ -112,8 +151,8 @@ def _message(error: dict[str, Any], doc: Document, path: RecordPath) -> str:
         expected = msg.removeprefix("Input should be ")
         return f"expected {expected}, found {found}"
     if kind == "union_tag_invalid":
-        expected = error.get("ctx", {}).get("expected_tags", "")
-        return f"expected one of {expected}, found {found}"
+        ctx = error.get("ctx", {})
+        return f"expected one of {ctx.get('expected_tags', '')}, found {ctx.get('tag')!r}"
     if kind == "union_tag_not_found":
         tag = error.get("ctx", {}).get("discriminator", "")
         return f"required key {tag} is missing"
@@ -146,6 +185,8 @@ def model_errors(exc: ValidationError, doc: Document) -> list[InputError]:
     out = []
     for error in exc.errors(include_url=False):
         path = record_path(doc.data, tuple(error["loc"]))
+        if error["type"] == "union_tag_invalid":  # point at the discriminator's value
+            path = (*path, error["ctx"]["discriminator"].strip("'"))
         loc = doc.locate_key(path) if error["type"] == "extra_forbidden" else doc.locate(path)
         out.append(InputError(_message(error, doc, path), loc))
     return out

@@ -13,15 +13,23 @@ from emgate.findings import RunResult
 Reporter = Callable[[RunResult], str]
 
 
+# format name -> module under emgate.report, imported on demand to keep start-up lean
+_MODULES = {
+    "text": "text",
+    "json": "jsonfmt",
+    "sarif": "sarif",
+    "junit": "junit",
+    "annotations": "annotations",
+    "codequality": "codequality",
+    "markdown": "markdown",
+}
+
+
 def reporter(name: str) -> Reporter:
     """The reporter function for a format name (imported on demand, to keep start-up lean)."""
-    if name == "text":
-        from emgate.report.text import render
-    elif name == "json":
-        from emgate.report.jsonfmt import render
-    else:
-        raise KeyError(name)
-    return render
+    from importlib import import_module
+
+    return import_module(f"emgate.report.{_MODULES[name]}").render
 
 
-FORMATS = ("text", "json")
+FORMATS = tuple(_MODULES)

@@ -1,20 +1,20 @@
-"""Text for people: grouped by file, sorted, stable."""
+"""Text for people: grouped by file, one line per finding with file:line:col, sorted, stable."""
 
 from __future__ import annotations
 
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
+from emgate.report.common import rules_line, summary_line, where
 
 
 def _line(f: Finding) -> str:
-    where = f"{f.line}:{f.column}" if f.line else "-"
     sev = "waived" if f.waived_by else f.severity
-    text = f"  {where:<8} {sev:<8} {f.rule:<18} {f.message}"
+    text = f"  {where(f)}: {sev} {f.rule}: {f.message}"
     if f.record_path != "$":
-        text += f"  [{f.record_path}]"
+        text += f" [{f.record_path}]"
     if f.waived_by:
-        text += f"\n{'':12}waived: {f.waived_by}"
+        text += f"\n      waived: {f.waived_by}"
     return text
 
 
@@ -24,20 +24,7 @@ def render(result: RunResult) -> str:
         out.append(file or "(run)")
         out.extend(_line(f) for f in group)
         out.append("")
-    ran = sorted(
-        {o.rule for r in result.records for o in r.outcomes if o.status != "not_applicable"}
-    )
-    checks = sum(len(o.checks) for r in result.records for o in r.outcomes)
-    errors = len(result.active("error"))
-    warnings = len(result.active("warning"))
-    waived = sum(1 for f in result.findings if f.waived_by)
-    versions = {r.id: r.version for r in result.rules}
-    verdict = {0: "PASS", 1: "FAIL", 2: "INVALID INPUT", 3: "RULE CRASHED"}[result.exit_code]
-    out.append(
-        f"{verdict}: {len(result.records)} record(s) checked, {len(ran)} rule(s) run"
-        f" ({checks} checks), {errors} error(s), {warnings} warning(s), {waived} waived"
-    )
-    if ran:
-        out.append("rules: " + ", ".join(f"{r} v{versions.get(r, '?')}" for r in ran))
+    out.append(summary_line(result))
+    out.append(rules_line(result))
     out.append(DISCLAIMER)
     return "\n".join(out) + "\n"

@@ -1,0 +1,659 @@
+"""The CI output formats against their outside definitions.
+
+SARIF is validated with jsonschema against the OASIS SARIF 2.1.0 schema (tests/data/sarif/);
+JUnit XML is read back with expat (xml.dom.minidom), a strict XML parser; annotation lines are
+decoded the way the CI runner decodes workflow commands; the code-quality array and the
+Markdown table are parsed back and compared with the RunResult they came from. Most results
+are built by hand, with a waived finding, a crash, input errors with and without a file, and
+a hostile message and file names; the demo repository is also run through the engine.
+"""
+
+from __future__ import annotations
+
+import json
+import re
+import subprocess
+import sys
+import xml.dom.minidom
+from pathlib import Path
+from typing import Any, Literal
+from urllib.parse import unquote
+
+import jsonschema
+import pytest
+
+from emgate import __version__
+from emgate.findings import DISCLAIMER, Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.report import FORMATS, reporter
+from emgate.report.annotations import escape_data, escape_property
+from emgate.report.common import printable
+from emgate.rule import Check
+
+REPO = Path(__file__).resolve().parents[1]
+SARIF_SCHEMA = REPO / "tests" / "data" / "sarif" / "sarif-schema-2.1.0.json"
+
+# Hostile text: table pipes, code and emphasis marks, a second workflow command after a line
+# break, a terminal escape, HTML, a mention, a link, percent signs that look like escapes.
+HOSTILE = (
+    "density | `x` 50%25 a:b,c\nsecond ::warning::line\r\n\x1b[31m<b>&amp;</b>"
+    " @team [x](y) *em* _u_ ~s~ \\ end"
+)
+FILE_A = "designs/motor,a:b%c.yaml"
+FILE_B = "designs/two\nlines%0A.yaml"
+FILE_BAD = "designs/broken.yaml"
+FILE_CI = "ci/pipeline.yaml"  # named on the command line, not an emgate file
+SKIPPED = "skipped: not an emgate file (no 'schema: emgate/...' line)"
+WAIVER = "waiver of 'acme/aspect' owned by Ada, until 2099-01-01: tooling trial, see note"
+CRASH = (
+    "rule crashed: ZeroDivisionError: division by zero (at balance.py:7); the record is not"
+    " verified by this rule"
+)
+PLUGIN_ERROR = "plugin 'acme' failed to load: ImportError: no module named acme_rules"
+
+
+# Demo numbers; the margins follow from Check.margin = (limit - value) / |limit| for a max
+# bound and its negative for a min bound [calc] closed form, the definition in emgate.rule.
+def _density(value: float, limit: float, quantity: str = "stator.current_density") -> Check:
+    """A current-density check, value and limit in A/mm^2 (SI inside: 1 A/mm^2 = 1e6 A/m^2)."""
+    return Check(
+        quantity, quantity, ("winding", "conductor"), value * 1e6, limit * 1e6, "max", "A/mm^2"
+    )
+
+
+def _aspect(value: float, limit: float, bound: Literal["max", "min"]) -> Check:
+    return Check(
+        "stator.aspect_ratio",
+        "stack length / bore",
+        ("stator", "stack_length"),
+        value,
+        limit,
+        bound,
+        "",
+    )
+
+
+J_FAIL = _density(8.8, 8)  # margin (8 - 8.8) / 8 = -10 %
+J_FIELD = _density(4, 5, "rotor.field_current_density")  # margin (5 - 4) / 5 = +20 %
+J_WIDE = _density(4, 8)  # margin (8 - 4) / 8 = +50 %
+J_CLOSE = _density(7.6, 8)  # margin (8 - 7.6) / 8 = +5 %: the worst of record B
+ASPECT_LOW = _aspect(0.54, 0.6, "min")  # margin -(0.6 - 0.54) / 0.6 = -10 %
+ASPECT_OK = _aspect(1.2, 1.6, "max")  # margin (1.6 - 1.2) / 1.6 = +25 %
+
+
+def hand_result() -> RunResult:
+    """Two records, a waived finding, a crash, a warning, a note, two input errors, and a
+    file skipped as not an emgate file."""
+    rules = [
+        RuleInfo("acme/aspect", "2.3", "stack aspect | within `tooling`", "acme-pack", "2.3.0"),
+        RuleInfo("current-density", "1", "current density within the limit", "emgate", "0.1.0"),
+        RuleInfo("gap-flux", "1", "air-gap flux density within the limit", "emgate", "0.1.0"),
+        RuleInfo("winding-balance", "1", "the winding is balanced", "emgate", "0.1.0"),
+    ]
+    rec_a = RecordResult(
+        FILE_A,
+        "m-1",
+        "pmsm",
+        [
+            RuleOutcome("acme/aspect", "waived", [ASPECT_LOW]),
+            RuleOutcome("current-density", "fail", [J_FIELD, J_FAIL]),
+            RuleOutcome("gap-flux", "not_applicable"),
+            RuleOutcome("winding-balance", "crash", [], CRASH),
+        ],
+    )
+    rec_b = RecordResult(
+        FILE_B,
+        "m-2",
+        "pmsm",
+        [
+            RuleOutcome("acme/aspect", "fail", [ASPECT_OK]),
+            RuleOutcome("current-density", "pass", [J_WIDE, J_CLOSE]),
+            RuleOutcome("gap-flux", "not_applicable"),
+            RuleOutcome("winding-balance", "fail", []),
+        ],
+    )
+    findings = [
+        Finding(
+            "current-density",
+            "error",
+            FILE_A,
+            12,
+            5,
+            "$.winding.conductor",
+            HOSTILE,
+            "m-1",
+            check=J_FAIL,
+        ),
+        Finding(
+            "acme/aspect",
+            "error",
+            FILE_A,
+            20,
+            3,
+            "$.stator.stack_length",
+            "stack length / bore 0.54 is below the minimum 0.6",
+            "m-1",
+            check=ASPECT_LOW,
+            waived_by=WAIVER,
+        ),
+        Finding("winding-balance", "error", FILE_A, 1, 1, "$", CRASH, "m-1", kind="crash"),
+        Finding(
+            "winding-balance",
+            "warning",
+            FILE_B,
+            30,
+            9,
+            "$.winding.layout",
+            "coil groups differ by one turn between phases",
+            "m-2",
+        ),
+        Finding(
+            "acme/aspect",
+            "info",
+            FILE_B,
+            8,
+            3,
+            "$.stator.stack_length",
+            "aspect ratio within 30 % of the tooling limit",
+            "m-2",
+        ),
+        Finding(
+            "input",
+            "error",
+            FILE_BAD,
+            3,
+            7,
+            "$.stator.slots",
+            "expected an integer, found 'many'",
+            kind="input",
+        ),
+        Finding("input", "error", "", 0, 0, "$", PLUGIN_ERROR, kind="input"),
+        Finding("input", "info", FILE_CI, 1, 1, "$", SKIPPED, kind="note"),
+    ]
+    result = RunResult([rec_a, rec_b], findings, rules, files_read=3)
+    result.sort()
+    return result
+
+
+def clean_result() -> RunResult:
+    rules = [RuleInfo("current-density", "1", "current density", "emgate", "0.1.0")]
+    rec = RecordResult(
+        "designs/ok.yaml", "ok", "pmsm", [RuleOutcome("current-density", "pass", [J_WIDE])]
+    )
+    return RunResult([rec], [], rules, files_read=1)
+
+
+@pytest.fixture(scope="module")
+def demo() -> RunResult:
+    """The demo repository through the engine, as ``emgate check examples/design-repo``."""
+    import os
+
+    from emgate.config import find_config, load_policy
+    from emgate.engine import Run, execute
+    from emgate.plugins import load_plugins
+
+    here = Path.cwd()
+    os.chdir(REPO)  # findings name files relative to the working folder
+    try:
+        plugins = load_plugins()
+        folder = Path("examples/design-repo")
+        rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
+        policy = load_policy(find_config(folder), rules, Path.cwd())
+        return execute(Run(paths=[folder], policy=policy, plugins=plugins))
+    finally:
+        os.chdir(here)
+
+
+def _ran(result: RunResult) -> set[str]:
+    return {o.rule for r in result.records for o in r.outcomes if o.status != "not_applicable"}
+
+
+# ---------------------------------------------------------------- registration
+
+
+def test_every_format_is_registered_and_renders_an_empty_run() -> None:
+    assert set(FORMATS) >= {
+        "text",
+        "json",
+        "sarif",
+        "junit",
+        "annotations",
+        "codequality",
+        "markdown",
+    }
+    for name in FORMATS:
+        assert isinstance(reporter(name)(RunResult()), str), name
+    with pytest.raises(KeyError):
+        reporter("no-such-format")
+
+
+def test_importing_the_registry_loads_no_reporter() -> None:
+    code = (
+        "import sys, emgate.report\n"
+        "print(sorted(m for m in sys.modules if m.startswith(('emgate.report.', 'xml'))))"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "[]"
+
+
+# ---------------------------------------------------------------- SARIF
+
+
+@pytest.fixture(scope="module")
+def sarif_validator() -> jsonschema.protocols.Validator:
+    schema = json.loads(SARIF_SCHEMA.read_text(encoding="utf-8"))
+    cls = jsonschema.validators.validator_for(schema)  # the draft the schema itself declares
+    cls.check_schema(schema)
+    return cls(schema)
+
+
+@pytest.mark.parametrize(
+    "make", [hand_result, clean_result, RunResult], ids=["hand", "clean", "empty"]
+)
+def test_sarif_is_valid_against_the_oasis_schema(make, sarif_validator) -> None:  # type: ignore[no-untyped-def]
+    # [pub: OASIS SARIF 2.1.0 JSON Schema, tests/data/sarif/]
+    doc = json.loads(reporter("sarif")(make()))
+    errors = sorted(sarif_validator.iter_errors(doc), key=lambda e: list(e.path))
+    assert not errors, [f"{list(e.path)}: {e.message}" for e in errors]
+
+
+def test_sarif_demo_is_valid(demo: RunResult, sarif_validator) -> None:  # type: ignore[no-untyped-def]
+    doc = json.loads(reporter("sarif")(demo))
+    sarif_validator.validate(doc)
+    run = doc["runs"][0]
+    assert len(run["results"]) == len(demo.findings)  # the demo has no file-less input error
+    assert {r["id"] for r in run["tool"]["driver"]["rules"]} == _ran(demo)
+
+
+def test_sarif_structure() -> None:
+    result = hand_result()
+    text = reporter("sarif")(result)
+    doc = json.loads(text)
+    assert doc["version"] == "2.1.0"
+    assert "informationUri" not in text and "://" not in text  # no host names
+    assert len(doc["runs"]) == 1
+    run = doc["runs"][0]
+    driver = run["tool"]["driver"]
+    assert (driver["name"], driver["version"]) == ("emgate", __version__)
+    rules = driver["rules"]
+    # gap-flux was loaded but applied to no record: it did not run; input is emgate's own
+    assert [r["id"] for r in rules] == [
+        "acme/aspect",
+        "current-density",
+        "winding-balance",
+        "input",
+    ]
+    assert rules[0]["shortDescription"]["text"] == "stack aspect | within `tooling`"
+    assert rules[0]["properties"]["version"] == "2.3"
+    assert rules[0]["properties"]["distribution"] == "acme-pack"
+    assert run["properties"]["disclaimer"] == DISCLAIMER
+    assert "acme/aspect v2.3" in run["properties"]["rulesRun"]
+
+    located = [f for f in result.findings if f.file]
+    assert len(run["results"]) == len(located)
+    for f, r in zip(located, run["results"], strict=True):
+        assert r["ruleId"] == f.rule
+        assert rules[r["ruleIndex"]]["id"] == f.rule
+        assert r["level"] == {"error": "error", "warning": "warning", "info": "note"}[f.severity]
+        assert r["message"]["text"] == f.message
+        loc = r["locations"][0]
+        art = loc["physicalLocation"]["artifactLocation"]
+        assert art["uriBaseId"] == "%SRCROOT%"
+        assert unquote(art["uri"]) == f.file
+        assert not re.search(r"[^A-Za-z0-9\-._~/%]", art["uri"])  # RFC 3986 unreserved + '/'
+        region = loc["physicalLocation"]["region"]
+        assert (region["startLine"], region["startColumn"]) == (f.line, f.column)
+        assert loc["logicalLocations"][0]["fullyQualifiedName"] == f.record_path
+        assert r["partialFingerprints"] == {"emgate/v1": f.fingerprint}
+        if f.waived_by:
+            assert r["suppressions"] == [
+                {"kind": "external", "status": "accepted", "justification": WAIVER}
+            ]
+        else:
+            assert "suppressions" not in r
+    by_rule = {r["ruleId"]: r for r in run["results"] if r["ruleId"] != "acme/aspect"}
+    assert by_rule["input"]["locations"][0]["physicalLocation"]["artifactLocation"]["uri"] == (
+        FILE_BAD
+    )
+    assert (
+        unquote(
+            next(r for r in run["results"] if r["ruleId"] == "current-density")["locations"][0][
+                "physicalLocation"
+            ]["artifactLocation"]["uri"]
+        )
+        == FILE_A
+    )
+    invocation = run["invocations"][0]
+    assert invocation["executionSuccessful"] is False  # exit 3: a rule crashed
+    assert invocation["exitCode"] == 3
+    notes = invocation["toolExecutionNotifications"]
+    assert [(n["level"], n["message"]["text"], n["descriptor"]["id"]) for n in notes] == [
+        ("error", PLUGIN_ERROR, "input")
+    ]
+
+
+def test_sarif_file_outside_the_working_folder_is_an_absolute_uri(sarif_validator) -> None:  # type: ignore[no-untyped-def]
+    # display_path keeps a path it cannot make relative; %SRCROOT% would then be wrong
+    f = Finding("current-density", "error", "/elsewhere/a b.yaml", 2, 1, "$", "m", "r")
+    doc = json.loads(reporter("sarif")(RunResult(findings=[f])))
+    sarif_validator.validate(doc)
+    art = doc["runs"][0]["results"][0]["locations"][0]["physicalLocation"]["artifactLocation"]
+    assert art == {"uri": "file:///elsewhere/a%20b.yaml"}  # RFC 8089 file URI, no base
+
+
+@pytest.mark.parametrize(
+    ("keep", "code", "success"),
+    [(("current-density",), 1, True), (("input",), 2, False), ((), 0, True)],
+)
+def test_sarif_execution_success_follows_the_exit_code(keep, code, success) -> None:  # type: ignore[no-untyped-def]
+    result = hand_result()
+    result.findings = [f for f in result.findings if f.rule in keep]
+    assert result.exit_code == code
+    run = json.loads(reporter("sarif")(result))["runs"][0]
+    assert run["invocations"][0]["executionSuccessful"] is success
+
+
+# ---------------------------------------------------------------- JUnit
+
+
+def _children(node: Any, tag: str) -> list[Any]:
+    return [c for c in node.childNodes if c.nodeType == c.ELEMENT_NODE and c.tagName == tag]
+
+
+def _junit(result: RunResult) -> Any:
+    # expat refuses anything that is not well-formed XML 1.0 (raw control characters too)
+    return xml.dom.minidom.parseString(reporter("junit")(result).encode("utf-8")).documentElement
+
+
+def _assert_counts_consistent(root: Any) -> None:
+    totals = dict.fromkeys(("tests", "failures", "errors", "skipped"), 0)
+    for suite in _children(root, "testsuite"):
+        cases = _children(suite, "testcase")
+        counted = {
+            "tests": len(cases),
+            "failures": sum(1 for c in cases if _children(c, "failure")),
+            "errors": sum(1 for c in cases if _children(c, "error")),
+            "skipped": sum(1 for c in cases if _children(c, "skipped")),
+        }
+        for key, n in counted.items():
+            assert suite.getAttribute(key) == str(n), (suite.getAttribute("name"), key)
+            totals[key] += n
+        for c in cases:  # at most one outcome element per testcase
+            assert sum(len(_children(c, t)) for t in ("failure", "error", "skipped")) <= 1
+    for key, n in totals.items():
+        assert root.getAttribute(key) == str(n), key
+
+
+def test_junit_structure_and_counts() -> None:
+    root = _junit(hand_result())
+    assert root.tagName == "testsuites"
+    _assert_counts_consistent(root)
+    # m-1: failure, waived, crash; m-2: three passes (a warning and a note fail nothing);
+    # input: one testcase per file, the file-less one named (configuration); the skipped
+    # non-emgate file passes with its note
+    assert [root.getAttribute(k) for k in ("tests", "failures", "errors", "skipped")] == [
+        "9",
+        "1",
+        "3",
+        "1",
+    ]
+    suites = {s.getAttribute("name"): s for s in _children(root, "testsuite")}
+    assert list(suites) == ["m-1", "m-2", "emgate.input"]
+    assert suites["m-1"].getAttribute("file") == FILE_A
+    assert suites["m-2"].getAttribute("file") == FILE_B  # the newline survives as &#10;
+    cases = {c.getAttribute("name"): c for c in _children(suites["m-1"], "testcase")}
+    assert list(cases) == ["acme/aspect", "current-density", "winding-balance"]  # no gap-flux
+    assert all(c.getAttribute("classname") == "m-1" for c in cases.values())
+
+    (failure,) = _children(cases["current-density"], "failure")
+    assert failure.getAttribute("message") == printable(HOSTILE)
+    assert "\x1b" not in failure.getAttribute("message")
+    assert failure.firstChild.data.startswith(f"{FILE_A}:12:5: error: ")
+    (skipped,) = _children(cases["acme/aspect"], "skipped")
+    assert skipped.getAttribute("message") == f"waived: {WAIVER}"
+    (error,) = _children(cases["winding-balance"], "error")
+    assert (error.getAttribute("type"), error.getAttribute("message")) == ("crash", CRASH)
+
+    m2 = {c.getAttribute("name"): c for c in _children(suites["m-2"], "testcase")}
+    assert not any(_children(c, t) for c in m2.values() for t in ("failure", "error", "skipped"))
+    (out,) = _children(m2["winding-balance"], "system-out")
+    assert "warning: coil groups differ" in out.firstChild.data
+
+    inputs = {c.getAttribute("name"): c for c in _children(suites["emgate.input"], "testcase")}
+    assert list(inputs) == ["(configuration)", FILE_CI, FILE_BAD]
+    assert _children(inputs["(configuration)"], "error")[0].getAttribute("message") == (
+        PLUGIN_ERROR
+    )
+    assert not _children(inputs[FILE_CI], "error")
+    assert SKIPPED in _children(inputs[FILE_CI], "system-out")[0].firstChild.data
+
+    props = {
+        p.getAttribute("name"): p.getAttribute("value")
+        for p in suites["m-1"].getElementsByTagName("property")
+    }
+    assert props["disclaimer"] == DISCLAIMER
+    assert props["rule.acme/aspect"] == "2.3"
+    assert "rule.gap-flux" not in props
+
+
+def test_junit_demo_counts(demo: RunResult) -> None:
+    root = _junit(demo)
+    _assert_counts_consistent(root)
+    ran = [
+        (r.record_id, o.rule)
+        for r in demo.records
+        for o in r.outcomes
+        if o.status != "not_applicable"
+    ]
+    failing = {(f.record_id, f.rule) for f in demo.active("error")}
+    assert root.getAttribute("tests") == str(len(ran))
+    assert root.getAttribute("failures") == str(len(failing))
+    assert int(root.getAttribute("failures")) > 0  # the demo breaks limits on purpose
+    names = [s.getAttribute("name") for s in _children(root, "testsuite")]
+    assert names == [r.record_id for r in demo.records]
+
+
+# ---------------------------------------------------------------- annotations
+
+
+def test_annotation_escaping_rules() -> None:
+    # [mem: GitHub Actions toolkit, @actions/core command.ts escapeData / escapeProperty]
+    assert escape_data("50% a:b,c\r\nz") == "50%25 a:b,c%0D%0Az"
+    assert escape_property("50% a:b,c\r\nz") == "50%25 a%3Ab%2Cc%0D%0Az"
+    assert escape_property("%0A") == "%250A"  # an escape in the input stays literal
+
+
+def _unescape(text: str, prop: bool) -> str:
+    # the runner's decoding: the named escapes first, %25 last
+    # [mem: GitHub Actions runner, ActionCommand unescape of data and properties]
+    pairs = [("%0D", "\r"), ("%0A", "\n")] + ([("%3A", ":"), ("%2C", ",")] if prop else [])
+    for code, char in [*pairs, ("%25", "%")]:
+        text = text.replace(code, char)
+    return text
+
+
+COMMAND = re.compile(r"::(?P<name>[a-z]+)(?: (?P<props>[^:]*))?::(?P<message>.*)")
+
+
+def _parse(line: str) -> tuple[str, dict[str, str], str]:
+    m = COMMAND.fullmatch(line)
+    assert m, line
+    props = {}
+    for item in (m["props"] or "").split(","):
+        if item:
+            key, _, value = item.partition("=")
+            props[key] = _unescape(value, prop=True)
+    return m["name"], props, _unescape(m["message"], prop=False)
+
+
+def test_annotations_of_hostile_findings_round_trip() -> None:
+    result = hand_result()
+    lines = reporter("annotations")(result).splitlines()
+    assert len(lines) == len(result.findings) + 1  # no message leaks a line break
+    parsed = [_parse(line) for line in lines]
+    for f, (name, props, message) in zip(result.findings, parsed[:-1], strict=True):
+        assert props.get("file", "") == f.file
+        if f.file:
+            assert (props["line"], props["col"]) == (str(f.line), str(f.column))
+        assert printable(f.message) in message
+        if f.waived_by:
+            assert (name, props["title"]) == ("notice", f"emgate {f.rule} (waived)")
+            assert message.startswith("waived error: ") and WAIVER in message
+        else:
+            assert name == {"error": "error", "warning": "warning", "info": "notice"}[f.severity]
+    hostile = next(p for p in parsed if p[1].get("title") == "emgate current-density")
+    assert "\x1b" not in hostile[2] and "\\x1b" in hostile[2]
+    name, props, message = parsed[-1]
+    assert (name, props) == ("notice", {"title": "emgate"})
+    assert "acme/aspect v2.3" in message and "current-density v1" in message
+    assert "gap-flux" not in message
+    assert message.endswith(DISCLAIMER)
+
+
+def test_annotations_demo(demo: RunResult) -> None:
+    lines = reporter("annotations")(demo).splitlines()
+    errors = [ln for ln in lines if ln.startswith("::error ")]
+    assert len(errors) == len(demo.active("error"))
+    assert all(_parse(ln)[1]["file"].startswith("examples/design-repo/") for ln in errors)
+
+
+# ---------------------------------------------------------------- code quality
+
+
+def test_codequality_items() -> None:
+    result = hand_result()
+    items = json.loads(reporter("codequality")(result))
+    live = [f for f in result.findings if f.waived_by is None]
+    assert isinstance(items, list) and len(items) == len(live)  # the waived one is left out
+    for f, item in zip(live, items, strict=True):
+        assert set(item) == {"description", "check_name", "fingerprint", "severity", "location"}
+        assert item["check_name"] == f.rule
+        assert item["location"]["path"] == (f.file or ".")
+        begin = item["location"]["lines"]["begin"]
+        assert isinstance(begin, int) and begin >= 1
+        assert f.message in item["description"]
+        assert item["fingerprint"] == f.fingerprint  # no two findings here share one
+    severities = {(f.rule, f.severity): i["severity"] for f, i in zip(live, items, strict=True)}
+    assert severities == {
+        ("current-density", "error"): "critical",
+        ("winding-balance", "error"): "blocker",  # the crash
+        ("winding-balance", "warning"): "minor",
+        ("acme/aspect", "info"): "info",
+        ("input", "error"): "critical",
+        ("input", "info"): "info",  # the skipped non-emgate file
+    }
+
+
+def test_codequality_fingerprints_unique_when_problems_share_a_path() -> None:
+    # Two problems (findings without a check) of one rule on one record path share the
+    # finding fingerprint; the code-quality widget needs them apart.
+    findings = [
+        Finding("acme/aspect", "error", "d.yaml", 4, 3, "$.stator", "too short", "m"),
+        Finding("acme/aspect", "error", "d.yaml", 4, 3, "$.stator", "too long", "m"),
+    ]
+    assert findings[0].fingerprint == findings[1].fingerprint  # the collision being handled
+    first = json.loads(reporter("codequality")(RunResult(findings=findings)))
+    again = json.loads(reporter("codequality")(RunResult(findings=list(reversed(findings)))))
+    fps = {i["description"]: i["fingerprint"] for i in first}
+    assert len(set(fps.values())) == 2
+    assert fps == {i["description"]: i["fingerprint"] for i in again}  # order does not matter
+
+
+def test_codequality_demo(demo: RunResult) -> None:
+    items = json.loads(reporter("codequality")(demo))
+    assert len(items) == sum(1 for f in demo.findings if f.waived_by is None)
+    assert len({i["fingerprint"] for i in items}) == len(items)
+
+
+# ---------------------------------------------------------------- Markdown
+
+
+def _cells(row: str) -> list[str]:
+    """Cells of a Markdown table row, split on unescaped pipes, backslash escapes removed."""
+    cells, cur, i = [], "", 0
+    while i < len(row):
+        ch = row[i]
+        if ch == "\\" and i + 1 < len(row):
+            cur += row[i + 1]
+            i += 2
+            continue
+        if ch == "|":
+            cells.append(cur.strip())
+            cur = ""
+        else:
+            cur += ch
+        i += 1
+    assert cells[0] == "" and cur.strip() == "", row  # a row starts and ends with a pipe
+    return cells[1:]
+
+
+def _table(text: str, heading: str) -> list[list[str]]:
+    section = text.split(f"### {heading}\n", 1)[1].split("\n### ", 1)[0]
+    rows = [ln for ln in section.splitlines() if ln.startswith("|")]
+    return [_cells(r) for r in rows[2:]]  # skip the header and the delimiter row
+
+
+def test_markdown_margins_pick_the_worst_check() -> None:
+    text = reporter("markdown")(hand_result())
+    rows = {(r[0], r[1]): r for r in _table(text, "Margins")}
+    assert all(len(r) == 7 for r in rows.values())
+    # Percentages are shown to 0.1 %, so the closed-form margins above compare exactly.
+    assert rows["m-2", "current-density"][2:] == [
+        "pass",
+        "stator.current_density",
+        "7.6 A/mm^2",
+        "≤ 8 A/mm^2",
+        "+5.0%",
+    ]  # +5 % beats +50 % although it is listed second
+    assert rows["m-1", "current-density"][2:] == [
+        "fail",
+        "stator.current_density",
+        "8.8 A/mm^2",
+        "≤ 8 A/mm^2",
+        "-10.0%",
+    ]  # -10 % beats the +20 % of the field coil listed first
+    assert rows["m-1", "acme/aspect"][2:] == [
+        "waived",
+        "stator.aspect_ratio",
+        "0.54",
+        "≥ 0.6",
+        "-10.0%",
+    ]
+    assert rows["m-1", "winding-balance"][2] == "crash"
+    assert ("m-1", "gap-flux") not in rows  # not applicable: did not run
+
+
+def test_markdown_escapes_hostile_cells() -> None:
+    result = hand_result()
+    text = reporter("markdown")(result)
+    findings = _table(text, "Findings")
+    assert len(findings) == len(result.findings)
+    assert all(len(r) == 4 for r in findings)  # no pipe in a message adds a column
+    hostile = next(r for r in findings if r[2] == "current-density")
+    assert hostile[0] == f"{FILE_A}:12"
+    row = next(ln for ln in text.splitlines() if "density \\|" in ln)
+    for raw in ("<b>", "`x`", "[x](y)", " @team", "*em*", "\x1b", "\r"):
+        assert raw not in row, raw
+    assert "<br>" in row  # the message's line breaks, inside one table row
+    assert hostile[3].startswith("density | `x` 50%25 a:b,c<br>second ::warning::line<br>")
+    waived = next(r for r in findings if r[2] == "acme/aspect" and "waived" in r[1])
+    assert WAIVER in waived[3]
+
+
+def test_markdown_names_rules_verdict_and_disclaimer() -> None:
+    text = reporter("markdown")(hand_result())
+    assert text.startswith("## emgate: RULE CRASHED\n")
+    rules = text.split("### Rules\n", 1)[1]
+    assert "acme/aspect v2.3 (acme-pack 2.3.0)" in rules.replace("\\", "")
+    assert "gap-flux" not in rules
+    assert text.rstrip().endswith(DISCLAIMER)
+
+
+def test_markdown_demo(demo: RunResult) -> None:
+    text = reporter("markdown")(demo)
+    rows = _table(text, "Margins")
+    assert len(rows) == sum(
+        1 for r in demo.records for o in r.outcomes if o.status != "not_applicable"
+    )
+    failing = {(f.record_id, f.rule) for f in demo.active("error")}
+    assert {(r[0], r[1]) for r in rows if r[2] == "fail"} == failing
+    assert all(r[6].startswith("-") for r in rows if (r[0], r[1]) in failing)

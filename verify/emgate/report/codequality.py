@@ -1,0 +1,65 @@
+"""Code-quality JSON array for merge-request widgets.
+
+Each item: ``description``, ``check_name`` (the rule id), ``fingerprint``, ``severity``
+(``blocker`` for a crash, ``critical`` for an error or an input error, ``minor`` for a warning,
+``info`` for info) and ``location`` (``path``, repo-relative, and ``lines.begin``). A finding
+with no file (a plugin that fails to load) has the path ``.``.
+
+Waived findings are left out: the widget lists open issues, and a reviewed, dated waiver is not
+one; every other output keeps them, marked waived. The format has no place for the rules that
+ran, their versions or the disclaimer, so this output cannot carry them: pair it with another
+format (text, Markdown, SARIF) that does.
+
+Fingerprints must be unique within a report. A finding's own fingerprint (rule, file, record,
+record path) is used where it is unique; where two findings share it (two checks of one rule on
+the same record path), the check's quantity (or the message) and an ordinal among equals are
+hashed in.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+from collections import Counter
+from typing import Any
+
+from emgate.findings import Finding, RunResult
+
+SEVERITIES = {"error": "critical", "warning": "minor", "info": "info"}
+
+
+def severity(f: Finding) -> str:
+    return "blocker" if f.kind == "crash" else SEVERITIES[f.severity]
+
+
+def fingerprints(findings: list[Finding]) -> list[str]:
+    """One unique, stable fingerprint per finding, in order."""
+    shared = Counter(f.fingerprint for f in findings)
+    seen: Counter[tuple[str, str]] = Counter()
+    out = []
+    for f in findings:
+        fp = f.fingerprint
+        if shared[fp] > 1:
+            key = (fp, f.check.quantity if f.check else f.message)
+            seen[key] += 1
+            text = "\x1f".join((*key, str(seen[key])))
+            fp = hashlib.sha256(text.encode()).hexdigest()[:32]
+        out.append(fp)
+    return out
+
+
+def render(result: RunResult) -> str:
+    # fingerprints over every finding, so that waiving one does not rename another
+    pairs = zip(result.findings, fingerprints(result.findings), strict=True)
+    items: list[dict[str, Any]] = [
+        {
+            "description": f.message + (f" [{f.record_path}]" if f.record_path != "$" else ""),
+            "check_name": f.rule,
+            "fingerprint": fp,
+            "severity": severity(f),
+            "location": {"path": f.file or ".", "lines": {"begin": max(f.line, 1)}},
+        }
+        for f, fp in pairs
+        if f.waived_by is None
+    ]
+    return json.dumps(items, indent=2) + "\n"

@@ -1,0 +1,96 @@
+"""Markdown summary for a pull-request comment: verdict, findings, worst margins, rules.
+
+Every cell is escaped (``|``, backticks, emphasis, brackets, HTML, mentions, newlines), so a
+message cannot break the table or inject markup. The margins table shows, per record and rule
+that ran, the check with the smallest margin: the one closest to, or furthest beyond, its limit.
+
+The helpers :func:`rules_run`, :func:`rules_line`, :func:`summary_line`, :func:`printable` and
+:func:`where` are shared by the CI formats.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+from emgate import __version__
+from emgate.findings import DISCLAIMER, Finding, RuleOutcome, RunResult
+from emgate.report.common import VERDICTS, printable, rules_run, summary_line
+from emgate.rule import Check
+
+_MD_SPECIAL = re.compile(r"([\\`*_\[\]<>|~@])")
+_NEWLINES = re.compile(r"\r\n|\r|\n")
+
+
+def md(text: str) -> str:
+    """Text safe inside a Markdown table cell."""
+    out = _MD_SPECIAL.sub(r"\\\1", printable(text).replace("&", "&amp;"))
+    return _NEWLINES.sub("<br>", out)
+
+
+def worst_check(outcome: RuleOutcome) -> Check | None:
+    """The check of a rule with the smallest margin, or None if the rule made no check."""
+    return min(outcome.checks, key=lambda c: c.margin, default=None)
+
+
+def _margin_cells(check: Check | None) -> list[str]:
+    if check is None:
+        return ["(no numeric check)", "", "", ""]
+    from emgate.units import format_value
+
+    bound = "≤" if check.bound == "max" else "≥"
+    margin = f"{check.margin:+.1%}" if math.isfinite(check.margin) else "n/a (not finite)"
+    return [
+        check.quantity,
+        format_value(check.value, check.unit),
+        f"{bound} {format_value(check.limit, check.unit)}",
+        margin,
+    ]
+
+
+def _row(cells: list[str]) -> str:
+    return "| " + " | ".join(md(c) for c in cells) + " |"
+
+
+def _table(header: list[str], rows: list[list[str]]) -> list[str]:
+    return [_row(header), "|" + "---|" * len(header), *(_row(r) for r in rows)]
+
+
+def _finding_cells(f: Finding) -> list[str]:
+    location = f"{f.file}:{f.line}" if f.file else "(configuration)"
+    severity = f"{f.severity} (waived)" if f.waived_by else f.severity
+    message = f.message + (f" [{f.record_path}]" if f.record_path != "$" else "")
+    if f.waived_by:
+        message += f"\nwaived: {f.waived_by}"
+    return [location, severity, f.rule, message]
+
+
+def render(result: RunResult) -> str:
+    out = [f"## emgate: {VERDICTS[result.exit_code]}", "", md(summary_line(result)), ""]
+    out += ["### Findings", ""]
+    if result.findings:
+        header = ["Location", "Severity", "Rule", "Message"]
+        out += _table(header, [_finding_cells(f) for f in result.findings])
+    else:
+        out.append("No findings.")
+    margins = [
+        [r.record_id, o.rule, o.status, *_margin_cells(worst_check(o))]
+        for r in result.records
+        for o in r.outcomes
+        if o.status != "not_applicable"
+    ]
+    out += ["", "### Margins", ""]
+    if margins:
+        out.append("Worst margin of each rule on each record (positive: inside the limit).")
+        out.append("")
+        header = ["Record", "Rule", "Status", "Quantity", "Value", "Limit", "Margin"]
+        out += _table(header, margins)
+    else:
+        out.append("No rule ran on any record.")
+    out += ["", "### Rules", ""]
+    ran = rules_run(result)
+    out += [md(f"- {r.id} v{r.version} ({r.distribution} {r.distribution_version})") for r in ran]
+    if not ran:
+        out.append("No rule ran.")
+    out += ["", "---", md(f"emgate {__version__}. {DISCLAIMER}")]
+    return "\n".join(out) + "\n"

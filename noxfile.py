@@ -14,7 +14,8 @@ PACK = "./examples/company-pack"
 @nox.session
 def tests(session: nox.Session) -> None:
     """Install emgate, its test dependencies and the sample company pack; run pytest."""
-    session.install("-e", ".[test]", PACK)
+    session.install("-e", ".[test]")
+    session.install(PACK)  # after emgate, which it depends on
     session.run("pytest", *session.posargs)
 
 
@@ -29,7 +30,8 @@ def lint(session: nox.Session) -> None:
 def demo(session: nox.Session) -> None:
     """Run the gate on the bundled design repository (one design breaks a limit on purpose,
     so this session ends with emgate's exit code 1)."""
-    session.install("-e", ".", PACK)
+    session.install("-e", ".")
+    session.install(PACK)
     session.run("emgate", "rules")
     session.run("emgate", "show", "examples/design-repo/designs/pump-drive-4p36s.yaml")
     session.log("The demo holds one design that breaks a limit on purpose: expect exit code 1.")
@@ -46,5 +48,6 @@ def schema(session: nox.Session) -> None:
 @nox.session
 def bench(session: nox.Session) -> None:
     """Start-up and rule timings as ratios measured in one run (no timed assertions)."""
-    session.install("-e", ".", PACK)
+    session.install("-e", ".")
+    session.install(PACK)
     session.run("python", "bench/bench.py", *session.posargs)

@@ -209,11 +209,25 @@ def _explain(plugins, rid: str) -> int:  # type: ignore[no-untyped-def]
     print(rule.explain())
     fields = rule.options.model_fields
     if fields:
-        print("\noptions (defaults, in SI units):")
+        print("\noptions (emgate.yaml: options: {" + rid + ": {NAME: VALUE}}), with defaults:")
         for name, info in fields.items():
-            desc = f"  {info.description}" if info.description else ""
-            print(f"  {name} = {info.default!r}{desc}")
+            desc = f"  ({info.description})" if info.description else ""
+            print(f"  {name} = {_default_text(info)}{desc}")
     return EXIT_OK
+
+
+def _default_text(info) -> str:  # type: ignore[no-untyped-def]
+    """An option's default in the unit its examples use ('5 A/mm^2', not 5000000.0)."""
+    from emgate.units import format_value
+
+    default = info.get_default(call_default_factory=True)
+    for meta in info.metadata:
+        examples = getattr(meta, "json_schema", None) or {}
+        example = (examples.get("examples") or [None])[0]
+        if isinstance(example, str) and isinstance(default, float):
+            unit = example.split(None, 1)[1] if " " in example else ""
+            return format_value(default, unit)
+    return repr(default)
 
 
 def _outputs(specs: list[str] | None) -> list[tuple[str, Path | None]]:

@@ -199,6 +199,7 @@ def execute(run: Run) -> RunResult:
             try:
                 catalogue.add_file(doc, validate_materials(doc))
             except (InputError, InputErrors) as exc:
+                catalogue.failed.append(display_path(doc.path))
                 result.findings.extend(input_findings(exc))
     seen_ids: dict[str, str] = {}
     for _, doc, kind in docs:

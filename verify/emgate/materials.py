@@ -18,6 +18,7 @@ class Catalogue:
 
     def __init__(self) -> None:
         self.local: dict[str, tuple[BHCurve, str]] = {}
+        self.failed: list[str] = []  # materials files that did not validate
 
     def add_file(self, doc: Document, materials: MaterialsFile) -> None:
         from emgate import steels

@@ -176,12 +176,14 @@ def test_genset_field_against_the_iron_free_gap() -> None:
     kc = carter(math.pi * 230 / 48, 7.0, 1.5)
     iron_free = MU0 * field_mmf / (kc * 1.5 * MM)  # mu0 F / (kc g) = 1.05 T [ref. notes]
     assert s["air_gap.flux_density_peak"] < iron_free
-    # Flat under the shoe (0.68 of the pole pitch): Phi = B b_p l; fundamental (4/pi) B sin.
+    # Flat under the shoe: Phi = B b_p l, b_p = 0.68 of the pole pitch at the rotor surface
+    # (D_r = 230 - 2 x 1.5 mm); fundamental (4/pi) B sin(pi b_p / (2 tau_p)), tau_p at the bore.
     b_g = s["air_gap.flux_density_peak"]
-    shoe = 0.68 * math.pi * 0.230 / 4
+    shoe = 0.68 * math.pi * 0.227 / 4
     assert s["air_gap.flux_per_pole"] == pytest.approx(b_g * shoe * 0.160, rel=1e-9)
+    arc = shoe / (math.pi * 0.230 / 4)
     assert s["air_gap.flux_density_fundamental"] == pytest.approx(
-        4 / math.pi * b_g * math.sin(0.68 * math.pi / 2), rel=1e-9
+        4 / math.pi * b_g * math.sin(arc * math.pi / 2), rel=1e-9
     )
 
 

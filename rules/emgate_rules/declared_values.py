@@ -50,15 +50,15 @@ class DeclaredValues(Rule):
             if entry is not None and not calc.applies(name):
                 kinds = ", ".join(entry.machines)
                 yield Problem(at, f"declared {name!r} is computed for {kinds} machines only,"
-                              f" not for a {design.machine} machine")
+                              f" not for this {design.machine} machine")
                 continue
             if entry is None:
                 close = difflib.get_close_matches(name, list(SHEET), n=1, cutoff=0.6)
                 hint = f"; did you mean {close[0]!r}?" if close else ""
                 yield Problem(
                     at,
-                    f"declared {name!r} is not a quantity emgate computes for a"
-                    f" {design.machine} machine{hint} (see `emgate show`)",
+                    f"declared {name!r} is not a quantity emgate computes{hint} (`emgate show`"
+                    " lists them)",
                 )
                 continue
             try:

@@ -584,7 +584,7 @@ class Calculation:
             magnet = mk.SurfaceMagnet(br, m.material.recoil_permeability, m.thickness, m.pole_arc)
             return mk.surface_pm_gap(self.pole_path, magnet, self.stator_steel, self.rotor_steel)
         pole = d.rotor.pole
-        shoe = pole.shoe_arc * geo.pole_pitch(d)
+        shoe = geo.pole_shoe_width(d)
         salient = mk.SalientPole(
             shoe, pole.body_width, pole.body_height, leakage_factor=POLE_LEAKAGE
         )

@@ -153,6 +153,11 @@ def rotor_tooth_width_min(d: AnyDesign) -> float:
     return min(2 * math.pi * (r - top) / q - w_top, 2 * math.pi * (r - bottom) / q - w_bottom)
 
 
+def pole_shoe_width(d: AnyDesign) -> float:
+    """Arc width of a salient pole's shoe at the rotor surface [m]."""
+    return d.rotor.pole.shoe_arc * math.pi * rotor_outer_diameter(d) / d.poles
+
+
 def rotor_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     out: list[tuple[RecordPath, str]] = []
     rotor = d.rotor
@@ -182,7 +187,7 @@ def rotor_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
         if rotor_yoke_height(d) > 0.0 and rotor_tooth_width_min(d) <= 0.0:
             out.append((("rotor", "slot"), "rotor slots leave no rotor tooth"))
     if d.machine == "salient_field":
-        shoe = rotor.pole.shoe_arc * math.pi * rotor_outer_diameter(d) / d.poles
+        shoe = pole_shoe_width(d)
         if rotor.pole.body_width >= shoe:
             out.append(
                 (

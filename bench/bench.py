@@ -65,11 +65,15 @@ def main() -> None:
     n = len(plugins.rules)
     print(f"\nin process ({n} rules installed):")
     print(f"load one record                  {load_one * 1e3:8.3f} ms   1.00")
-    print(f"validate + all rules, one record {rules_one * 1e3:8.3f} ms   "
-          f"{rules_one / load_one:5.1f} x")
+    print(
+        f"validate + all rules, one record {rules_one * 1e3:8.3f} ms   "
+        f"{rules_one / load_one:5.1f} x"
+    )
     print(f"load all example files           {load_all * 1e3:8.3f} ms   1.00")
-    print(f"validate + all rules, examples   {rules_all * 1e3:8.3f} ms   "
-          f"{rules_all / load_all:5.1f} x")
+    print(
+        f"validate + all rules, examples   {rules_all * 1e3:8.3f} ms   "
+        f"{rules_all / load_all:5.1f} x"
+    )
 
 
 if __name__ == "__main__":

@@ -49,8 +49,11 @@ class DeclaredValues(Rule):
             entry = SHEET.get(name)
             if entry is not None and not calc.applies(name):
                 kinds = ", ".join(entry.machines)
-                yield Problem(at, f"declared {name!r} is computed for {kinds} machines only,"
-                              f" not for this {design.machine} machine")
+                yield Problem(
+                    at,
+                    f"declared {name!r} is computed for {kinds} machines only,"
+                    f" not for this {design.machine} machine",
+                )
                 continue
             if entry is None:
                 close = difflib.get_close_matches(name, list(SHEET), n=1, cutoff=0.6)

@@ -107,7 +107,10 @@ class _Builder:
                 yield event
         except yaml.MarkedYAMLError as exc:
             mark = exc.problem_mark or exc.context_mark
-            raise self.fail(mark, f"YAML syntax error: {exc.problem or exc.context}") from None
+            problem = exc.problem or exc.context or ""
+            if "nesting depth" in problem:  # newer libyaml stops at 1000 levels itself
+                raise self.fail(mark, f"nesting deeper than {MAX_DEPTH} levels") from None
+            raise self.fail(mark, f"YAML syntax error: {problem}") from None
         except yaml.YAMLError as exc:
             raise InputError(f"YAML error: {exc}", Location(self.path, 1, 1, "$")) from None
 

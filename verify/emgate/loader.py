@@ -90,6 +90,7 @@ class _Builder:
     def __init__(self, path: Path, text: str) -> None:
         self.path = path
         self.doc = Document(path, None)
+        self.text = text
         self.loader = yaml.CSafeLoader(text)
         self.nodes = 0
 
@@ -108,8 +109,10 @@ class _Builder:
         except yaml.MarkedYAMLError as exc:
             mark = exc.problem_mark or exc.context_mark
             problem = exc.problem or exc.context or ""
-            if "nesting depth" in problem:  # newer libyaml stops at 1000 levels itself
-                raise self.fail(mark, f"nesting deeper than {MAX_DEPTH} levels") from None
+            if "nesting depth" in problem:  # newer libyaml scans ahead and stops at 1000
+                line, col = _flow_depth_mark(self.text, MAX_DEPTH)
+                raise InputError(f"nesting deeper than {MAX_DEPTH} levels",
+                                 Location(self.path, line, col, "$")) from None
             raise self.fail(mark, f"YAML syntax error: {problem}") from None
         except yaml.YAMLError as exc:
             raise InputError(f"YAML error: {exc}", Location(self.path, 1, 1, "$")) from None
@@ -236,6 +239,27 @@ class _Builder:
                 raise self.fail(event.start_mark, f"{value!r} is not a finite number", path)
             return number
         return value
+
+
+def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
+    """1-based line and column of the flow bracket that reaches nesting ``limit`` (quoted
+    text skipped); the start of the file when none does."""
+    depth, line, col, quote = 0, 1, 0, ""
+    for ch in text:
+        col += 1
+        if ch == "\n":
+            line, col = line + 1, 0
+        elif quote:
+            quote = "" if ch == quote else quote
+        elif ch in "'\"":
+            quote = ch
+        elif ch in "[{":
+            depth += 1
+            if depth >= limit:  # as the event builder counts, under a block mapping
+                return line, col
+        elif ch in "]}":
+            depth -= 1
+    return 1, 1
 
 
 def read_text(path: Path) -> str:

@@ -12,6 +12,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from emgate.config import CONFIG_NAME, WAIVERS_NAME
 from emgate.errors import InputError
 
 
@@ -67,8 +68,9 @@ def changed_since(rev: str, cwd: Path, config: Path | None, waivers: Path | None
         raise InputError(f"git diff against {rev!r} failed: {diff.stderr.strip()}")
     names = [n for n in (diff.stdout + untracked.stdout).split("\0") if n]
     out = ChangeSet(files={(root / n).resolve() for n in names})
+    # Policy files, present or deleted by the change, re-check everything.
     specials = {p.resolve() for p in (config, waivers) if p is not None}
-    if out.files & specials:
+    if out.files & specials or any(p.name in (CONFIG_NAME, WAIVERS_NAME) for p in out.files):
         out.everything = True
     for path in out.files:
         if path.suffix in (".yaml", ".yml"):

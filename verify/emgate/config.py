@@ -13,7 +13,14 @@ from functools import cache
 from pathlib import Path
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, StringConstraints, ValidationError
+from pydantic import (
+    AfterValidator,
+    BaseModel,
+    ConfigDict,
+    Field,
+    StringConstraints,
+    ValidationError,
+)
 
 from emgate.errors import InputError, InputErrors
 from emgate.loader import Document, RecordPath, load
@@ -43,8 +50,20 @@ class RuleSelection(_Strict):
     ignore: list[Selector] = Field(default_factory=list)
 
 
+def _relative_glob(pattern: str) -> str:
+    if pattern.startswith(("/", "\\")) or ":" in pattern[:3] or ".." in pattern.split("/"):
+        raise ValueError(
+            f"glob {pattern!r} must be relative to emgate.yaml, inside the repository"
+            " (no leading '/', no '..')"
+        )
+    return pattern
+
+
+RelativeGlobs = list[Annotated[str, AfterValidator(_relative_glob)]]
+
+
 class Override(_Strict):
-    files: list[str] = Field(
+    files: RelativeGlobs = Field(
         min_length=1,
         description="glob patterns relative to emgate.yaml; '*' also matches across folders",
     )
@@ -55,7 +74,7 @@ class Override(_Strict):
 
 class ConfigFile(_Strict):
     schema_: Literal["emgate/config@1"] = Field(alias="schema")
-    files: list[str] = Field(
+    files: RelativeGlobs = Field(
         default_factory=lambda: ["**/*.yaml", "**/*.yml"],
         description="glob patterns, relative to this file, of the records to check when"
         " `emgate check` is given no paths",
@@ -173,9 +192,27 @@ class _Loader:
     def selection(self, sel: RuleSelection, at: RecordPath) -> tuple[tuple[str, ...], ...]:
         for key in ("select", "ignore"):
             for i, s in enumerate(getattr(sel, key)):
-                if s != "all" and not s.startswith("tag:") and not s.endswith("/"):
+                if s == "all":
+                    continue
+                if s.startswith("tag:") or s.endswith("/"):
+                    self.group_known(s, (*at, key, i))
+                else:
                     self.known(s, (*at, key, i))
         return tuple(sel.select), tuple(sel.ignore)
+
+    def group_known(self, selector: str, at: RecordPath) -> None:
+        """A pack prefix or tag must match an installed rule: a typo must not select none."""
+        if any(_matches(selector, rule) for rule in self.rules.values()):
+            return
+        import difflib
+
+        groups = {f"tag:{t}" for r in self.rules.values() for t in r.tags}
+        groups |= {r.id.split("/")[0] + "/" for r in self.rules.values() if "/" in r.id}
+        close = difflib.get_close_matches(selector, sorted(groups), n=1, cutoff=0.6)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        self.errors.append(
+            InputError(f"{selector!r} matches no installed rule{hint}", self.doc.locate(at))
+        )
 
     def options(
         self, base: dict[str, dict[str, Any]], extra: dict[str, dict[str, Any]], at: RecordPath

@@ -227,6 +227,20 @@ def execute(run: Run) -> RunResult:
         result.findings.extend(
             _input_finding(e) for e in unknown_record_waivers(file_waivers, set(seen_ids))
         )
+        if (
+            not result.records
+            and all(p.is_dir() for p in run.paths)
+            and not any(f.kind == "input" and f.severity == "error" for f in result.findings)
+        ):  # a glob or folder typo must not pass the gate with nothing checked
+            where = ", ".join(display_path(p) for p in run.paths) or "the files emgate.yaml names"
+            result.findings.append(
+                _input_finding(
+                    InputError(
+                        f"no design record (a YAML file with 'schema: {DESIGN_SCHEMA}')"
+                        f" found in {where}"
+                    )
+                )
+            )
     result.sort()
     return result
 

@@ -111,8 +111,9 @@ class _Builder:
             problem = exc.problem or exc.context or ""
             if "nesting depth" in problem:  # newer libyaml scans ahead and stops at 1000
                 line, col = _flow_depth_mark(self.text, MAX_DEPTH)
-                raise InputError(f"nesting deeper than {MAX_DEPTH} levels",
-                                 Location(self.path, line, col, "$")) from None
+                raise InputError(
+                    f"nesting deeper than {MAX_DEPTH} levels", Location(self.path, line, col, "$")
+                ) from None
             raise self.fail(mark, f"YAML syntax error: {problem}") from None
         except yaml.YAMLError as exc:
             raise InputError(f"YAML error: {exc}", Location(self.path, 1, 1, "$")) from None

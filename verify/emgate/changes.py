@@ -78,14 +78,32 @@ def changed_since(rev: str, cwd: Path, config: Path | None, waivers: Path | None
     return out
 
 
-def _grades_defined(path: Path, root: Path, rev: str) -> set[str]:
+def named_files(
+    paths: list[Path], root: Path, config: Path | None, waivers: Path | None
+) -> ChangeSet:
+    """Files named on the command line (as pre-commit passes the staged ones), read as a change
+    to the repository at ``root``: a named materials file re-checks the records using its
+    grades, a named config or waivers file re-checks every record."""
+    out = ChangeSet(files={p.resolve() for p in paths})
+    specials = {p.resolve() for p in (config, waivers) if p is not None}
+    out.everything = bool(out.files & specials) or any(
+        p.name in (CONFIG_NAME, WAIVERS_NAME) for p in out.files
+    )
+    for path in out.files:
+        if path.suffix in (".yaml", ".yml"):
+            out.grades |= _grades_defined(path, root, None)
+    return out
+
+
+def _grades_defined(path: Path, root: Path, rev: str | None) -> set[str]:
     """Steel names a materials file defines now or defined at ``rev``."""
     texts = []
     if path.is_file():
         texts.append(path.read_text(encoding="utf-8", errors="replace"))
-    old = _git(["show", f"{rev}:{path.relative_to(root).as_posix()}"], root)
-    if old.returncode == 0:
-        texts.append(old.stdout)
+    if rev is not None:
+        old = _git(["show", f"{rev}:{path.relative_to(root).as_posix()}"], root)
+        if old.returncode == 0:
+            texts.append(old.stdout)
     grades: set[str] = set()
     for text in texts:
         if "emgate/materials@" not in text[:4096]:

@@ -271,6 +271,13 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
             run.changes = changed_since(
                 args.changed_since, Path.cwd(), policy.source, policy.waivers_file
             )
+        elif policy.source and args.paths and all(_inside(p, policy.root) for p in paths):
+            # Files named one by one (pre-commit passes the staged ones): check them and the
+            # records that a named materials, config or waivers file affects.
+            from emgate.changes import named_files
+
+            run.changes = named_files(paths, policy.root, policy.source, policy.waivers_file)
+            run.paths = [policy.root]
     except (InputError, InputErrors) as exc:
         result = RunResult(findings=input_findings(exc))
         _emit(result, outputs)
@@ -279,6 +286,14 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
         run.today = args.today
     result = execute(run)
     return max(result.exit_code, _emit(result, outputs))
+
+
+def _inside(path: Path, root: Path) -> bool:
+    try:
+        path.resolve().relative_to(root.resolve())
+    except ValueError:
+        return False
+    return path.is_file()
 
 
 def _emit(result, outputs: list[tuple[str, Path | None]]) -> int:  # type: ignore[no-untyped-def]

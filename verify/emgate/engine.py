@@ -94,7 +94,7 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
                 result.findings.append(_input_finding(exc))
                 continue
             m = _DECLARES.search(text[:4096])
-            declared = m.group(1) if m else None
+            declared = m.group(1) if m else _declared_by_parsing(path, text)
             if declared is None:
                 if explicit:  # e.g. a CI file that pre-commit passes along: say, don't fail
                     result.findings.append(
@@ -116,14 +116,39 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
     return out
 
 
-def repository_root(start: Path) -> Path:
+_RECORD_ID = re.compile(r"^id:\s*['\"]?([a-z0-9][a-z0-9._-]*)", re.MULTILINE)
+
+
+def _repository_record_ids(root: Path) -> set[str]:
+    """Ids of every design record in the repository, checked in this run or not, so that a
+    waiver for a record outside the run is not taken for a typo."""
+    ids: set[str] = set()
+    for src in discover([root], RunResult()):
+        if src.declared == DESIGN_SCHEMA:
+            ids.update(_RECORD_ID.findall(src.text))
+    return ids
+
+
+def _declared_by_parsing(path: Path, text: str) -> str | None:
+    """The schema of a record the line scan misses (flow style, JSON, CR line ends)."""
+    if "emgate/" not in text:
+        return None
+    try:
+        data = load_text(path, text).data
+    except InputError:
+        return None
+    declared = data.get("schema") if isinstance(data, dict) else None
+    return declared if isinstance(declared, str) and declared.startswith("emgate/") else None
+
+
+def repository_root(start: Path) -> Path | None:
     """The design repository a path belongs to: the folder of the nearest emgate.yaml, else
-    the git work tree's top, else the path's own folder."""
+    the git work tree's top; None outside both (then no folder is searched for materials)."""
     here = (start if start.is_dir() else start.parent).resolve()
     for folder in (here, *here.parents):
         if (folder / CONFIG_NAME).is_file() or (folder / ".git").exists():
             return folder
-    return here
+    return None
 
 
 def materials_sources(root: Path) -> list[Source]:
@@ -137,7 +162,8 @@ def discover_materials(start: Path) -> Catalogue:
     from emgate.validate import validate_materials
 
     catalogue = Catalogue()
-    for src in materials_sources(repository_root(start)):
+    root = repository_root(start)
+    for src in materials_sources(root) if root is not None else []:
         doc = load_text(src.path, src.text)
         catalogue.add_file(doc, validate_materials(doc))
     return catalogue
@@ -175,7 +201,7 @@ def execute(run: Run) -> RunResult:
     ]
     sources = discover(run.paths, result)
     named = {src.path.resolve() for src in sources}
-    roots = {repository_root(p) for p in run.paths if p.exists()}
+    roots = {r for p in run.paths if p.exists() and (r := repository_root(p)) is not None}
     for root in sorted(roots):
         sources += [m for m in materials_sources(root) if m.path.resolve() not in named]
         named |= {m.path.resolve() for m in sources}
@@ -223,10 +249,12 @@ def execute(run: Run) -> RunResult:
         waivers = record_waivers(doc, design.id, list(design.waivers))
         waivers += file_waivers.get(design.id, [])
         _check_design(run, ld, catalogue, result, waivers)
-    if run.changes is None:
+    if file_waivers:  # (only with a config: the waivers file is the config's)
+        known = set(seen_ids) | _repository_record_ids(run.policy.root)
         result.findings.extend(
-            _input_finding(e) for e in unknown_record_waivers(file_waivers, set(seen_ids))
+            _input_finding(e) for e in unknown_record_waivers(file_waivers, known)
         )
+    if run.changes is None:
         if (
             not result.records
             and all(p.is_dir() for p in run.paths)

@@ -12,6 +12,37 @@ from emgate.model import AnyDesign, MaterialsFile
 from emgate.physics.bh import BHCurve
 from emgate.units import QuantityError, convert, parse_unit
 
+#: No soft-magnetic steel has a relative permeability above this (grain-oriented sheet peaks
+#: near 1e5; common practice, no source): a larger one is a unit slip in the table.
+MAX_RELATIVE_PERMEABILITY = 1e6
+
+
+def _permeabilities(curve: BHCurve) -> np.ndarray:
+    from emgate.physics.constants import MU0
+
+    return curve.b[1:] / (MU0 * curve.h[1:])
+
+
+def problem_row(curve: BHCurve) -> int:
+    mu = _permeabilities(curve)
+    bad = np.flatnonzero((mu < 1.0) | (mu > MAX_RELATIVE_PERMEABILITY))
+    return int(bad[0]) + 1 if bad.size else 0
+
+
+def _implausible(curve: BHCurve) -> str | None:
+    """A table no steel can have: B below mu0 H (negative polarisation), or a permeability
+    beyond any soft-magnetic material."""
+    mu = _permeabilities(curve)
+    row = problem_row(curve)
+    if not row:
+        return None
+    b, h = curve.b[row], curve.h[row]
+    return (
+        f"point {row} ({b:g} T at {h:g} A/m) has a relative permeability of"
+        f" {mu[row - 1]:.3g}: a steel lies between 1 and {MAX_RELATIVE_PERMEABILITY:g}"
+        " (check the columns' units)"
+    )
+
 
 class Catalogue:
     """Steel grades by designation; repository tables shadow nothing (a clash is an error)."""
@@ -51,12 +82,20 @@ class Catalogue:
                     )
                 )
                 continue
-            pts = np.asarray(table.points, dtype=float)
             try:
                 density = convert(table.density, "density") if table.density else 0.0
+            except QuantityError as exc:
+                errors.append(InputError(str(exc), doc.locate((*at, "density"))))
+                continue
+            pts = np.asarray(table.points, dtype=float)
+            try:
                 curve = BHCurve(name, pts[:, 0] * fb, pts[:, 1] * fh, table.source, density)
-            except (ValueError, QuantityError) as exc:
+            except ValueError as exc:
                 errors.append(InputError(str(exc), doc.locate((*at, "points"))))
+                continue
+            problem = _implausible(curve)
+            if problem:
+                errors.append(InputError(problem, doc.locate((*at, "points", problem_row(curve)))))
                 continue
             self.local[name] = (curve, str(doc.locate_key(at)))
         if errors:

@@ -139,8 +139,9 @@ class Winding(Strict):
     turns_per_coil: int = Field(ge=1, le=10000)
     parallel_paths: int = Field(default=1, ge=1, le=100)
     conductor: Conductor
-    insulation_class: Literal["A", "E", "B", "F", "H", "N"] = Field(
-        description="thermal class letter of IEC 60085"
+    insulation_class: Literal["B", "F", "H"] = Field(
+        description="thermal class letter of IEC 60085 (130 B, 155 F, 180 H: the classes whose"
+        " IEC 60034-1 rise limits and loss reference temperatures emgate holds)"
     )
     slot_liner: LengthOrZero | None = Field(
         default=None, description="slot liner (ground insulation) thickness"
@@ -213,7 +214,6 @@ class CageRotor(Strict):
     slot: Slot
     inner_diameter: Length = Field(description="inner diameter of the rotor lamination")
     cage: Cage
-    skew: float = Field(default=0.0, ge=0.0, le=3.0, description="skew in stator slot pitches")
     steel: str | None = Field(default=None, description="rotor steel; the stator's when absent")
 
 

@@ -52,6 +52,7 @@ def show(path: Path, fmt: str) -> int:
         for err in errors:
             print(str(err), file=sys.stderr)
         return 2
+    status = 2 if any(err for *_, err in values.values()) else 0
     if fmt == "json":
         doc = {
             "tool": {"name": "emgate", "version": __version__},
@@ -70,7 +71,7 @@ def show(path: Path, fmt: str) -> int:
             "notice": DISCLAIMER,
         }
         sys.stdout.write(json.dumps(doc, indent=2) + "\n")
-        return 0
+        return status
     from emgate.units import format_value
 
     print(f"{design.id}: {design.title} ({design.machine}, {design.poles} poles)")
@@ -86,7 +87,7 @@ def show(path: Path, fmt: str) -> int:
         shown = err if value is None else format_value(value, "" if unit == "1" else unit, 5)
         print(f"  {name:<{width}}  {shown:>16}   {method}")
     print(f"\n{DISCLAIMER}")
-    return 0
+    return status
 
 
 #: SI unit of each display unit, for the JSON form (values there are SI).

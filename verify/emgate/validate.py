@@ -7,6 +7,7 @@ message names file:line:column, the record path, what was expected and what was 
 from __future__ import annotations
 
 import difflib
+from collections.abc import Callable
 from functools import cache
 from typing import Any
 
@@ -319,4 +320,112 @@ def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     if d.air_gap * 2 >= st.bore_diameter:
         out.append((("air_gap",), "air gap leaves no rotor inside the bore"))
     out.extend(geometry.rotor_problems(d))
+    if not out:
+        out.extend(_buildable_problems(d))
+    out.extend(_rating_problems(d))
+    return out
+
+
+def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
+    """What the kernel cannot build: asked of the kernel itself, so that the record, not a
+    rule, is reported (exit 2, at the field)."""
+    from emgate.physics import conductors as ck
+    from emgate.physics.winding import series_turns_per_phase, star_of_slots
+
+    out: list[tuple[RecordPath, str]] = []
+    w, st = d.winding, d.stator
+
+    def attempt(path: RecordPath, build: Callable[[], object]) -> None:
+        try:
+            build()
+        except ValueError as exc:  # WindingError is a ValueError
+            out.append((path, str(exc)))
+
+    if w.layout is None and 1 <= w.coil_pitch <= st.slots - 1:
+        attempt(
+            ("winding", "coil_pitch"),
+            lambda: star_of_slots(st.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch),
+        )
+    attempt(
+        ("winding", "parallel_paths"),
+        lambda: series_turns_per_phase(
+            st.slots, w.layers, w.phases, w.turns_per_coil, w.parallel_paths
+        ),
+    )
+    conductors = [(("winding", "conductor"), w.conductor)]
+    if d.machine == "salient_field":
+        conductors.append((("rotor", "field", "conductor"), d.rotor.field.conductor))
+    for at, c in conductors:
+        if c.shape == "rectangular":
+            attempt(
+                (*at, "corner_radius"),
+                lambda c=c: ck.rectangular_strand_area(c.width, c.height, c.corner_radius),
+            )
+    if w.slot_liner:
+        sl = st.slot
+        if sl.shape == "semi_closed":
+            attempt(
+                ("winding", "slot_liner"),
+                lambda: ck.semi_closed_slot_area(
+                    sl.opening,
+                    sl.opening_height,
+                    sl.wedge_height,
+                    sl.top_width,
+                    sl.bottom_width,
+                    sl.height,
+                    liner=w.slot_liner,
+                ),
+            )
+        else:
+            attempt(
+                ("winding", "slot_liner"),
+                lambda: ck.open_slot_area(sl.width, sl.height, sl.wedge_height, liner=w.slot_liner),
+            )
+    if d.machine == "surface_pm":
+        m = d.rotor.magnet
+        dt_k = m.operating_temperature - m.material.reference_temperature
+        br = 1.0 + m.material.remanence_temperature_coefficient * dt_k
+        hcj = 1.0 + m.material.coercivity_temperature_coefficient * dt_k
+        if br <= 0.0 or hcj <= 0.0:
+            out.append(
+                (
+                    ("rotor", "magnet", "operating_temperature"),
+                    f"at {m.operating_temperature - 273.15:g} degC the temperature"
+                    " coefficients leave the magnet no remanence or coercivity",
+                )
+            )
+    return out
+
+
+def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
+    """Rated speed against the supply frequency and poles; a plausible coolant."""
+    out: list[tuple[RecordPath, str]] = []
+    sync = d.rating.frequency / d.pole_pairs  # revolutions per second
+    n = d.rating.speed
+    if d.machine == "induction":
+        slip = 1.0 - n / sync
+        if not (slip != 0.0 and abs(slip) <= 0.2):
+            out.append(
+                (
+                    ("rating", "speed"),
+                    f"an induction machine at {d.rating.frequency:g} Hz with {d.poles} poles"
+                    f" turns near {sync * 60:g} rpm with some slip; {n * 60:g} rpm is a slip"
+                    f" of {slip:.1%}",
+                )
+            )
+    elif abs(n / sync - 1.0) > 0.01:
+        out.append(
+            (
+                ("rating", "speed"),
+                f"a synchronous machine at {d.rating.frequency:g} Hz with {d.poles} poles"
+                f" turns at {sync * 60:g} rpm, not {n * 60:g} rpm",
+            )
+        )
+    if not 213.15 <= d.cooling.ambient <= 393.15:
+        out.append(
+            (
+                ("cooling", "ambient"),
+                f"coolant at {d.cooling.ambient - 273.15:g} degC is outside -60 to 120 degC",
+            )
+        )
     return out

@@ -7,10 +7,12 @@ support, and do not replace, a qualified engineer's review.
 from __future__ import annotations
 
 from collections.abc import Callable
+from typing import TYPE_CHECKING
 
-from emgate.findings import RunResult
+if TYPE_CHECKING:  # the CLI imports FORMATS before it knows what it will run
+    from emgate.findings import RunResult
 
-Reporter = Callable[[RunResult], str]
+Reporter = Callable[["RunResult"], str]
 
 
 # format name -> module under emgate.report, imported on demand to keep start-up lean

@@ -241,7 +241,7 @@ def test_a_team_limit_flips_a_pass_into_a_fail(
     (finding,) = findings(result)
     assert finding["rule"] == rule
     assert "the team's limit" in finding["message"]
-    check = the_check(result, rule, quantity)
+    check = the_check(result, rule, quantity, bound="max")
     assert check["limit"] == pytest.approx(si, rel=1e-12)  # the unit parser's SI value
 
 

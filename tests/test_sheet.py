@@ -73,8 +73,19 @@ def outcome(result: CliResult, rule: str, record_id: str | None = None) -> dict[
     return out
 
 
-def the_check(result: CliResult, rule: str, quantity: str, record_id: str | None = None) -> Any:
-    (c,) = [c for c in outcome(result, rule, record_id)["checks"] if c["quantity"] == quantity]
+def the_check(
+    result: CliResult,
+    rule: str,
+    quantity: str,
+    record_id: str | None = None,
+    bound: str | None = None,
+) -> Any:
+    """The one check of ``rule`` on ``quantity`` (of one bound, where a rule checks both)."""
+    (c,) = [
+        c
+        for c in outcome(result, rule, record_id)["checks"]
+        if c["quantity"] == quantity and bound in (None, c["bound"])
+    ]
     return c
 
 

@@ -10,6 +10,7 @@ from emgate.rule import Rule
 def emgate_rules() -> list[type[Rule]]:
     from emgate_rules.current_density import CurrentDensity
     from emgate_rules.declared_values import DeclaredValues
+    from emgate_rules.demagnetisation import Demagnetisation
     from emgate_rules.gap_flux import GapFlux
     from emgate_rules.mmf_thd import MmfThd
     from emgate_rules.slot_fill import SlotFill
@@ -22,6 +23,7 @@ def emgate_rules() -> list[type[Rule]]:
     return [
         CurrentDensity,
         DeclaredValues,
+        Demagnetisation,
         GapFlux,
         MmfThd,
         SlotFill,

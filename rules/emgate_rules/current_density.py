@@ -10,6 +10,7 @@ from emgate.calc import Calculation
 from emgate.model import AnyDesign
 from emgate.quantity import quantity
 from emgate.rule import Check, Context, Options, Problem, Rule
+from emgate_rules._limits import basis
 
 CurrentDensityLimit = quantity("current_density")
 _MM2 = 1e6  # A/mm^2 in A/m^2
@@ -55,7 +56,8 @@ class CurrentDensity(Rule):
     """Current density in the stator winding against a limit set by the cooling method.
 
     Method: the winding phase current follows from the rated line current and the connection
-    (star: I_ph = I; delta: I_ph = I / sqrt 3); it divides over the parallel paths a and the
+    of the m phases (star: I_ph = I; delta, the polygon: I_ph = I / (2 sin(pi/m)), I / sqrt 3
+    for three phases; one phase: I_ph = I); it divides over the parallel paths a and the
     strands in hand n, so the density in a strand of bare section S is J = I_ph / (a n S).
     The strand section is pi d^2 / 4 for round wire, and w h - (4 - pi) r^2 for a rectangular
     strand with corner radius r.
@@ -90,7 +92,7 @@ class CurrentDensity(Rule):
         calc: Calculation = context.calc
         method = design.cooling.method
         limit = getattr(options, method)
-        source = SOURCES[method] if limit == DEFAULT_LIMITS[method] else "the team's limit"
+        source = basis(options, method, DEFAULT_LIMITS[method], SOURCES[method])
         yield Check(
             quantity="stator.current_density",
             label="stator current density",
@@ -130,6 +132,5 @@ class CurrentDensity(Rule):
                 )
             )
         for field, name, label, path, value in rotor:
-            limit = getattr(options, field)
-            src = ROTOR_SOURCE if limit == ROTOR_DEFAULTS[field] else "the team's limit"
-            yield Check(name, label, path, value, limit, "max", "A/mm^2", src)
+            src = basis(options, field, ROTOR_DEFAULTS[field], ROTOR_SOURCE)
+            yield Check(name, label, path, value, getattr(options, field), "max", "A/mm^2", src)

@@ -4,21 +4,52 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from pydantic import Field
+from pydantic import Field, field_validator
 
 from emgate.calc import SHEET
 from emgate.model import AnyDesign
 from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate.units import QuantityError, describe, format_value, parse_quantity, parse_unit
+from emgate.units import (
+    QuantityError,
+    convert,
+    describe,
+    format_value,
+    parse_quantity,
+    parse_unit,
+)
+from emgate_rules._limits import Ratio, basis
+
+SOURCE = "common practice, no source"
+#: Relative difference allowed between a declared and a recomputed figure.
+DEFAULT_TOLERANCE = 0.05
+
+
+def _unknown_name(name: str, what: str) -> str:
+    """'... is not a quantity emgate computes', with the closest sheet name as a hint."""
+    import difflib
+
+    close = difflib.get_close_matches(name, list(SHEET), n=1, cutoff=0.6)
+    hint = f"; did you mean {close[0]!r}?" if close else ""
+    return f"{what} {name!r} is not a quantity emgate computes{hint} (`emgate show` lists them)"
 
 
 class DeclaredValuesOptions(Options):
-    tolerance: float = Field(
-        default=0.05, gt=0, description="relative tolerance (common practice, no source)"
+    tolerance: Ratio = Field(
+        default=DEFAULT_TOLERANCE,
+        description=f"relative tolerance, e.g. 0.05 or '5 %' ({SOURCE})",
     )
-    tolerances: dict[str, float] = Field(
-        default_factory=dict, description="per quantity name, overriding tolerance"
+    tolerances: dict[str, Ratio] = Field(
+        default_factory=dict,
+        description="per calculation-sheet name, a tolerance overriding `tolerance`",
     )
+
+    @field_validator("tolerances")
+    @classmethod
+    def _sheet_names(cls, value: dict[str, float]) -> dict[str, float]:
+        for name in value:
+            if name not in SHEET:
+                raise ValueError(_unknown_name(name, "tolerance for"))
+        return value
 
 
 class DeclaredValues(Rule):
@@ -29,7 +60,10 @@ class DeclaredValues(Rule):
     emgate recomputed from the raw record: |recomputed - declared| / |declared| must not
     exceed the tolerance (default 5 %, common practice, no source; per name in `tolerances`).
     A name emgate does not compute, or a value of the wrong dimension, is an error: a figure
-    nobody checks must not look checked.
+    nobody checks must not look checked. So is a temperature difference (a quantity in K,
+    such as the winding temperature rise) written in degC: '80 degC' is a temperature, not
+    a rise. `tolerances` keys must be calculation-sheet names, and every tolerance (0.05 or
+    '5 %') must be greater than zero.
     """
 
     id = "declared-values"
@@ -40,8 +74,6 @@ class DeclaredValues(Rule):
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:
-        import difflib
-
         assert isinstance(options, DeclaredValuesOptions)
         calc = context.calc
         for name, raw in sorted(design.declared.items()):
@@ -56,13 +88,7 @@ class DeclaredValues(Rule):
                 )
                 continue
             if entry is None:
-                close = difflib.get_close_matches(name, list(SHEET), n=1, cutoff=0.6)
-                hint = f"; did you mean {close[0]!r}?" if close else ""
-                yield Problem(
-                    at,
-                    f"declared {name!r} is not a quantity emgate computes{hint} (`emgate show`"
-                    " lists them)",
-                )
+                yield Problem(at, _unknown_name(name, "declared"))
                 continue
             try:
                 q = parse_quantity(str(raw))
@@ -77,6 +103,12 @@ class DeclaredValues(Rule):
                     f" {describe(dims)} such as '1 {entry.unit}'",
                 )
                 continue
+            if entry.unit == "K":
+                try:  # a rise written in degC would be read as a temperature, 273 K off
+                    convert(str(raw), "temperature_difference")
+                except QuantityError as exc:
+                    yield Problem(at, f"declared {name!r}: {exc}")
+                    continue
             if q.value == 0.0:
                 yield Problem(at, f"declared {name!r} is zero; nothing to compare against")
                 continue
@@ -93,5 +125,5 @@ class DeclaredValues(Rule):
                 "%",
                 "the team's tolerance"
                 if name in options.tolerances
-                else "declared-values tolerance",
+                else basis(options, "tolerance", DEFAULT_TOLERANCE, "declared-values tolerance"),
             )

@@ -10,12 +10,12 @@ from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import basis, limit
 
 PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1 (from memory)"
+CP = "common practice, no source"
 DEFAULTS = {"induction": 0.9, "surface_pm": 1.1, "salient_field": 1.05}
-SOURCES = {
-    "induction": PYRHONEN,
-    "surface_pm": "common practice, no source",
-    "salient_field": PYRHONEN,
-}
+SOURCES = {"induction": PYRHONEN, "surface_pm": CP, "salient_field": PYRHONEN}
+#: Lower limits: below them the iron (a saturated pole body, too thin a magnet) starves the
+#: gap (common practice, no source).
+MINIMA = {"induction": 0.6, "surface_pm": 0.5, "salient_field": 0.6}
 #: What a designer changes to move the gap flux density, by machine kind.
 DRIVERS = {
     "induction": ("winding", "turns_per_coil"),
@@ -28,6 +28,10 @@ class GapFluxOptions(Options):
     induction: FluxDensity = limit(DEFAULTS["induction"], SOURCES["induction"])
     surface_pm: FluxDensity = limit(DEFAULTS["surface_pm"], SOURCES["surface_pm"])
     salient_field: FluxDensity = limit(DEFAULTS["salient_field"], SOURCES["salient_field"])
+    # Lower limits; null switches one off.
+    induction_min: FluxDensity | None = limit(MINIMA["induction"], CP)
+    surface_pm_min: FluxDensity | None = limit(MINIMA["surface_pm"], CP)
+    salient_field_min: FluxDensity | None = limit(MINIMA["salient_field"], CP)
 
 
 class GapFlux(Rule):
@@ -46,10 +50,15 @@ class GapFlux(Rule):
     Default upper limits: induction 0.9 T and salient pole 1.05 T, the upper ends of the usual
     ranges [from memory: Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical Machines,
     Table 6.1]; surface PM 1.1 T (common practice, no source).
+
+    Default lower limits (options `induction_min`, `surface_pm_min`, `salient_field_min`;
+    null switches one off): induction 0.6 T, surface PM 0.5 T, salient pole 0.6 T (common
+    practice, no source). A gap below them is starved: a saturated pole body or yoke, or a
+    magnet too thin for its gap, so the machine falls short of its rating.
     """
 
     id = "gap-flux"
-    summary = "peak air-gap flux density within the limit for the machine kind"
+    summary = "peak air-gap flux density within the limits for the machine kind"
     tags = ("magnetic",)
     options = GapFluxOptions
 
@@ -57,13 +66,26 @@ class GapFlux(Rule):
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:
         kind = design.machine
+        value = context.calc.gap_flux_density_peak
         yield Check(
             quantity="air_gap.flux_density_peak",
             label="peak air-gap flux density",
             path=DRIVERS[kind],
-            value=context.calc.gap_flux_density_peak,
+            value=value,
             limit=getattr(options, kind),
             bound="max",
             unit="T",
             basis=basis(options, kind, DEFAULTS[kind], SOURCES[kind]),
         )
+        minimum = getattr(options, f"{kind}_min")
+        if minimum is not None:
+            yield Check(
+                quantity="air_gap.flux_density_peak",
+                label="peak air-gap flux density (lower limit)",
+                path=DRIVERS[kind],
+                value=value,
+                limit=minimum,
+                bound="min",
+                unit="T",
+                basis=basis(options, f"{kind}_min", MINIMA[kind], CP),
+            )

@@ -4,20 +4,18 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from pydantic import Field
-
 from emgate.model import AnyDesign
 from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import basis
+from emgate_rules._limits import Ratio, basis, limit
 
 SOURCE = "common practice, no source"
 DEFAULTS = {"induction": 0.2, "surface_pm": 1.2, "salient_field": 0.2}
 
 
 class MmfThdOptions(Options):
-    induction: float = Field(default=DEFAULTS["induction"], gt=0, description=SOURCE)
-    surface_pm: float = Field(default=DEFAULTS["surface_pm"], gt=0, description=SOURCE)
-    salient_field: float = Field(default=DEFAULTS["salient_field"], gt=0, description=SOURCE)
+    induction: Ratio = limit(DEFAULTS["induction"], SOURCE)
+    surface_pm: Ratio = limit(DEFAULTS["surface_pm"], SOURCE)
+    salient_field: Ratio = limit(DEFAULTS["salient_field"], SOURCE)
 
 
 class MmfThd(Rule):
@@ -30,10 +28,10 @@ class MmfThd(Rule):
     truncation (closed-form checks: a square wave 48.34 %, three-phase q = 1 full pitch
     31.08 %).
 
-    Default upper limits, as ratios (common practice, no source): distributed windings of
-    induction and salient-pole machines 0.20 (a full-pitch q = 2 winding has 0.169); tooth-coil
-    windings of surface-magnet machines 1.2 (a 12-slot 10-pole double layer has about 0.98);
-    their sub-harmonics cost rotor losses, which a team may bound tighter.
+    Default upper limits, as ratios (0.2 or '20 %'; common practice, no source): distributed
+    windings of induction and salient-pole machines 0.20 (a full-pitch q = 2 winding has 0.169);
+    tooth-coil windings of surface-magnet machines 1.2 (a 12-slot 10-pole double layer has about
+    0.98); their sub-harmonics cost rotor losses, which a team may bound tighter.
     """
 
     id = "mmf-thd"

@@ -13,6 +13,10 @@ from emgate.rule import Check, Context, Options, Problem, Rule
 
 Reserve = quantity("temperature_difference", sign="non_negative")
 CP = "common practice, no source"
+#: Coolant temperature the IEC 60034-1 rise limits are tabulated for [K] (40 degC).
+TABLE_COOLANT = 313.15
+#: Cooling methods for which the table (indirect air cooling) is applied only as a guide.
+LIQUID = ("liquid_jacket", "direct_liquid")
 
 
 class TemperatureRiseOptions(Options):
@@ -36,8 +40,14 @@ class TemperatureRise(Rule):
     other losses are not included: the estimate is low by their share.
 
     Limits: IEC 60034-1 rise limits by resistance for indirect air cooling and a 40 degC
-    coolant, machines up to 200 kW: class B 80 K, F 105 K, H 125 K; less the team's
-    `reserve`. Classes without a tabulated limit here (A, E, N) are reported, not passed.
+    coolant, machines up to 200 kW: class B 80 K, F 105 K, H 125 K. A coolant warmer than
+    40 degC lowers the limit by its excess, limit = table - max(0, ambient - 40 K) [from
+    memory: IEC 60034-1, adjustment of the limits for the coolant temperature, which the
+    standard gives for coolants up to 60 degC and leaves to agreement above]; a cooler one
+    does not raise it. Then less the team's `reserve`. For liquid-jacket and direct-liquid
+    cooling the table, written for indirect air cooling, is applied as a guide and the
+    check says so. Classes without a tabulated limit here (A, E, N) are reported, not
+    passed.
     """
 
     id = "temperature-rise"
@@ -67,15 +77,26 @@ class TemperatureRise(Rule):
             options.fin_area_factor, options.frame_length_factor, options.core_area_factor
         )
         worst = max(estimate.steps, key=lambda s: s.rise)
-        reserve = f", less a {options.reserve:g} K reserve" if options.reserve else ""
+        method = design.cooling.method
+        excess = max(0.0, design.cooling.ambient - TABLE_COOLANT)
+        basis = f"IEC 60034-1 class {letter}"
+        if method in LIQUID:
+            basis += (
+                f" (a table for indirect air cooling, applied to {method.replace('_', ' ')}"
+                " cooling as a guide)"
+            )
+        if excess:
+            basis += f", less the coolant's {excess:.3g} K above 40 degC"
+        if options.reserve:
+            basis += f", less a {options.reserve:g} K reserve"
         yield Check(
             "winding.temperature_rise",
             f"estimated winding temperature rise (largest step: {worst.name},"
             f" {worst.rise:.0f} K; an estimate to be confirmed by test)",
             ("cooling", "method"),
             estimate.winding_rise,
-            class_limit - options.reserve,
+            class_limit - excess - options.reserve,
             "max",
             "K",
-            f"IEC 60034-1 class {letter}{reserve}",
+            basis,
         )

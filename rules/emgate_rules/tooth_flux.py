@@ -14,11 +14,13 @@ STATOR_SOURCE = (
     " stator tooth flux density 1.4-2.1 T (from memory)"
 )
 ROTOR_SOURCE = "Pyrhonen et al., Table 6.1, rotor tooth of induction machines (from memory)"
+STATOR_DEFAULT = 2.1
+ROTOR_DEFAULT = 2.2
 
 
 class ToothFluxOptions(Options):
-    stator_apparent: FluxDensity = limit(2.1, STATOR_SOURCE)
-    rotor_apparent: FluxDensity = limit(2.2, ROTOR_SOURCE)
+    stator_apparent: FluxDensity = limit(STATOR_DEFAULT, STATOR_SOURCE)
+    rotor_apparent: FluxDensity = limit(ROTOR_DEFAULT, ROTOR_SOURCE)
 
 
 class ToothFlux(Rule):
@@ -54,7 +56,7 @@ class ToothFlux(Rule):
             limit=options.stator_apparent,
             bound="max",
             unit="T",
-            basis=basis(options, "stator_apparent", 2.1, STATOR_SOURCE),
+            basis=basis(options, "stator_apparent", STATOR_DEFAULT, STATOR_SOURCE),
         )
         if design.machine == "induction":
             yield Check(
@@ -65,5 +67,5 @@ class ToothFlux(Rule):
                 limit=options.rotor_apparent,
                 bound="max",
                 unit="T",
-                basis=basis(options, "rotor_apparent", 2.2, ROTOR_SOURCE),
+                basis=basis(options, "rotor_apparent", ROTOR_DEFAULT, ROTOR_SOURCE),
             )

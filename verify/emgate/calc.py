@@ -22,7 +22,7 @@ if TYPE_CHECKING:
     import numpy as np
 
     from emgate.materials import Catalogue
-    from emgate.model import AnyDesign
+    from emgate.model import AnyDesign, RectangularConductor, RoundConductor
     from emgate.physics.bh import BHCurve
     from emgate.physics.conductors import ConductorMaterial
     from emgate.physics.magnetic import GapResult, PolePath
@@ -124,21 +124,30 @@ class Calculation:
     @sheet(
         "winding.phase_current",
         "A",
-        "rated line current through the connection (star: equal; delta: over sqrt 3)",
+        "rated line current through the connection of m phases"
+        " (star: equal; delta: over 2 sin(pi/m), sqrt 3 for three phases)",
     )
     def phase_current(self) -> float:
         from emgate.physics.conductors import phase_current
 
-        return phase_current(self.d.rating.line_current, self.d.rating.connection)
+        r = self.d.rating
+        return phase_current(r.line_current, r.connection, self.d.winding.phases)
+
+    @sheet(
+        "winding.phase_voltage",
+        "V",
+        "rated line voltage through the connection of m phases"
+        " (delta: equal; star: over 2 sin(pi/m), sqrt 3 for three phases)",
+    )
+    def phase_voltage(self) -> float:
+        from emgate.physics.conductors import phase_voltage
+
+        r = self.d.rating
+        return phase_voltage(r.line_voltage, r.connection, self.d.winding.phases)
 
     @cached_property
     def strand_area(self) -> float:
-        from emgate.physics import conductors as ck
-
-        c = self.d.winding.conductor
-        if c.shape == "round":
-            return ck.round_strand_area(c.bare_diameter)
-        return ck.rectangular_strand_area(c.width, c.height, c.corner_radius)
+        return conductor_strand_area(self.d.winding.conductor)
 
     @sheet(
         "stator.current_density",
@@ -165,6 +174,18 @@ class Calculation:
     def liner(self) -> float:
         w = self.d.winding
         return DEFAULT_LINER if w.slot_liner is None else w.slot_liner
+
+    @cached_property
+    def slot_perimeter(self) -> float:
+        """Perimeter of the slot's winding zone, along which the liner lies [m]."""
+        from emgate.physics import conductors as ck
+
+        sl = self.d.stator.slot
+        if sl.shape == "semi_closed":
+            return ck.semi_closed_slot_perimeter(
+                sl.opening_height, sl.wedge_height, sl.top_width, sl.bottom_width, sl.height
+            )
+        return ck.open_slot_perimeter(sl.width, sl.height, sl.wedge_height)
 
     def _slot_area(self, liner: float) -> float:
         from emgate.physics import conductors as ck
@@ -300,9 +321,7 @@ class Calculation:
         from emgate.physics import thermal as tk
 
         d = self.d
-        top, bottom, w_top, w_bottom = geo.winding_zone(d.stator.slot)
-        height = bottom - top
-        perimeter = w_top + w_bottom + 2.0 * math.hypot(height, (w_bottom - w_top) / 2.0)
+        top, bottom, _, _ = geo.winding_zone(d.stator.slot)
         geometry = tk.StatorThermalGeometry(
             bore_diameter=d.stator.bore_diameter,
             outer_diameter=d.stator.outer_diameter,
@@ -310,8 +329,8 @@ class Calculation:
             slots=d.stator.slots,
             slot_depth=d.stator.slot.height,
             winding_area=self.slot_area_gross,
-            winding_height=height,
-            winding_perimeter=perimeter,
+            winding_height=bottom - top,
+            winding_perimeter=self.slot_perimeter,
             liner_thickness=self.liner,
             stacking_factor=d.stator.stacking_factor,
             frame_length=frame * d.stator.stack_length,
@@ -404,16 +423,12 @@ class Calculation:
         ("salient_field",),
     )
     def field_current_density(self) -> float:
-        from emgate.physics import conductors as ck
+        from emgate.physics.conductors import field_coil_current_density
 
         f = self.d.rotor.field
-        c = f.conductor
-        strand = (
-            ck.round_strand_area(c.bare_diameter)
-            if c.shape == "round"
-            else ck.rectangular_strand_area(c.width, c.height, c.corner_radius)
+        return field_coil_current_density(
+            f.current, f.conductor.strands * conductor_strand_area(f.conductor)
         )
-        return ck.current_density(f.current, strand, c.strands)
 
     # --- winding factors and MMF ---------------------------------------------------------
 
@@ -561,14 +576,11 @@ class Calculation:
 
         d = self.d
         if d.machine == "induction":
-            u_ph = d.rating.line_voltage / (
-                math.sqrt(3.0) if d.rating.connection == "star" else 1.0
-            )
             return mk.induction_gap(
                 self.pole_path,
                 self.stator_steel,
                 self.rotor_steel,
-                phase_voltage=u_ph,
+                phase_voltage=self.phase_voltage,
                 frequency=d.rating.frequency,
                 series_turns=self.series_turns,
                 winding_factor=self.winding_factor,
@@ -584,9 +596,14 @@ class Calculation:
             magnet = mk.SurfaceMagnet(br, m.material.recoil_permeability, m.thickness, m.pole_arc)
             return mk.surface_pm_gap(self.pole_path, magnet, self.stator_steel, self.rotor_steel)
         pole = d.rotor.pole
-        shoe = geo.pole_shoe_width(d)
+        # The kernel's pole height runs from the gap to the rim, shoe included; the record's
+        # body_height stops at the shoe. The body's flux density is carried over the shoe
+        # too, which overrates the shoe's ampere-turns (safe side).
         salient = mk.SalientPole(
-            shoe, pole.body_width, pole.body_height, leakage_factor=POLE_LEAKAGE
+            geo.pole_shoe_width(d),
+            pole.body_width,
+            pole.body_height + pole.shoe_height,
+            leakage_factor=POLE_LEAKAGE,
         )
         return mk.salient_field_gap(
             self.pole_path,
@@ -680,6 +697,50 @@ class Calculation:
     def magnet_h(self) -> float:
         return self.magnetic.magnet_h  # type: ignore[attr-defined]
 
+    def magnet_h_with_current(self, current_factor: float) -> float:
+        """Magnet field strength with the stator's fundamental MMF at ``current_factor``
+        times the rated current taken wholly on the d-axis, demagnetising [A/m].
+
+        Superposes on the no-load working point (iron included) the armature term of the
+        linear magnet-and-gap loop, H = H_0 - F1 / (h_m + mu_rec g_e), g_e the gap beside
+        the magnet that the circuit is handed (kc g' - h_m / mu_rec), so the denominator is
+        mu_rec kc g'. An approximation on the worst side: the whole armature MMF on the
+        d-axis, across magnet and gap only (iron reluctance and magnet leakage neglected).
+        """
+        m = self.d.rotor.magnet
+        mu_rec = m.material.recoil_permeability
+        across = m.thickness + mu_rec * self.pole_path.effective_gap
+        return self.magnet_h - current_factor * self.mmf_fundamental / across
+
+    @sheet(
+        "rotor.magnet_field_strength_worst",
+        "kA/m",
+        "H_m with the rated-current fundamental F1 wholly on the d-axis,"
+        " H_0 - F1 / (h_m + mu_rec kc g) (a worst case; negative: demagnetising)",
+        ("surface_pm",),
+    )
+    def magnet_h_worst(self) -> float:
+        return self.magnet_h_with_current(1.0)
+
+    @sheet(
+        "rotor.magnet_coercivity_hot",
+        "kA/m",
+        "intrinsic coercivity at the magnet operating temperature, H_cJ0 (1 + beta (T - T0))",
+        ("surface_pm",),
+    )
+    def magnet_coercivity_hot(self) -> float:
+        from emgate.physics.magnetic import remanence_at
+
+        m = self.d.rotor.magnet
+        mat = m.material
+        # The same linear reversible law as the remanence's, with H_cJ's own coefficient.
+        return remanence_at(
+            mat.intrinsic_coercivity,
+            m.operating_temperature,
+            mat.coercivity_temperature_coefficient,
+            mat.reference_temperature,
+        )
+
     # --- geometry (for the sheet) --------------------------------------------------------
 
     @sheet("stator.slot_pitch", "mm", "bore circumference over slots")
@@ -697,6 +758,16 @@ class Calculation:
     @sheet("rotor.yoke_height", "mm", "rotor section below slots, magnets or pole bodies")
     def rotor_yoke_height(self) -> float:
         return geo.rotor_yoke_height(self.d)
+
+
+def conductor_strand_area(conductor: RoundConductor | RectangularConductor) -> float:
+    """Bare section of one strand of a conductor, stator winding or field coil [m^2]."""
+    from emgate.physics import conductors as ck
+
+    c = conductor
+    if c.shape == "round":
+        return ck.round_strand_area(c.bare_diameter)
+    return ck.rectangular_strand_area(c.width, c.height, c.corner_radius)
 
 
 def layout_from_table(table: list[str], phases: int) -> np.ndarray:

@@ -54,8 +54,11 @@ def quantity(dimension: str, *, sign: str = "positive") -> Any:
     _, example = DIMENSIONS[dimension]
     label = dimension.replace("_", " ")
     schema: dict[str, Any]
-    if dimension == "dimensionless":
-        schema = {"type": "number", "description": label}
+    if dimension == "dimensionless":  # 0.45, or text with a ratio unit: "45 %"
+        schema = {
+            "anyOf": [{"type": "number"}, {"type": "string", "pattern": _NUMBER_PATTERN}],
+            "description": label,
+        }
     else:
         schema = {
             "type": "string",

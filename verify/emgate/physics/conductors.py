@@ -390,29 +390,73 @@ def strand_passes_opening(
 # --- currents and current density ------------------------------------------------------------
 
 
-def phase_current(line_current: float, connection: Connection) -> float:
-    """Winding phase current from the line current.
+def _connection_ratio(connection: Connection, phases: int) -> float:
+    """Line over phase quantity across one polygon side or star point: ``2 sin(pi/m)``."""
+    if connection not in ("star", "delta"):
+        raise ValueError(f"connection must be 'star' or 'delta', got {connection!r}")
+    if isinstance(phases, bool) or not isinstance(phases, int) or phases < 1:
+        raise ValueError(f"phases must be a whole number >= 1, got {phases!r}")
+    if phases == 1:
+        return 1.0  # one phase: the winding sits across the line, star and delta alike
+    return 2.0 * math.sin(math.pi / phases)
+
+
+def phase_current(line_current: float, connection: Connection, phases: int = 3) -> float:
+    """Winding phase current from the line current, for a symmetric m-phase connection.
 
     Parameters
     ----------
     line_current : float
         Rated rms line current [A].
     connection : {"star", "delta"}
+        Star, or polygon ("delta", the polygon of three phases).
+    phases : int, optional
+        Phases ``m`` >= 1 [-], displaced ``2 pi / m`` electrical (so m = 2 means two phases
+        pi apart, not a 90-degree two-phase system).
 
     Returns
     -------
     float
-        Star: ``I``; delta: ``I / sqrt(3)`` [A] (balanced three-phase).
+        Star: ``I_L``; polygon: ``I_L / (2 sin(pi/m))`` (``I_L / sqrt(3)`` for m = 3) [A];
+        for m = 1 both give ``I_L``.
 
     References
     ----------
-    [mem: Fitzgerald and Kingsley, Electric Machinery, three-phase connections].
+    Phasor geometry of a symmetric polygon: each line current is the difference of two
+    adjacent phase currents ``2 pi / m`` apart, of magnitude ``2 sin(pi/m) I_ph`` [calc];
+    for m = 3, [mem: Fitzgerald and Kingsley, Electric Machinery, three-phase connections].
     """
-    if connection == "star":
-        return line_current
-    if connection == "delta":
-        return line_current / math.sqrt(3.0)
-    raise ValueError(f"connection must be 'star' or 'delta', got {connection!r}")
+    ratio = _connection_ratio(connection, phases)
+    return line_current if connection == "star" else line_current / ratio
+
+
+def phase_voltage(line_voltage: float, connection: Connection, phases: int = 3) -> float:
+    """Winding phase voltage from the line voltage, for a symmetric m-phase connection.
+
+    Parameters
+    ----------
+    line_voltage : float
+        Rated rms voltage between adjacent lines [V].
+    connection : {"star", "delta"}
+        Star, or polygon ("delta", the polygon of three phases).
+    phases : int, optional
+        Phases ``m`` >= 1 [-], displaced ``2 pi / m`` electrical (so m = 2 means two phases
+        pi apart, not a 90-degree two-phase system).
+
+    Returns
+    -------
+    float
+        Star: ``U_L / (2 sin(pi/m))`` (``U_L / sqrt(3)`` for m = 3); polygon: ``U_L`` [V];
+        for m = 1 both give ``U_L``.
+
+    References
+    ----------
+    Phasor geometry of a symmetric star: the voltage between adjacent lines is the
+    difference of two phase voltages ``2 pi / m`` apart, ``2 sin(pi/m) U_ph`` [calc]; for
+    m = 3, [mem: Fitzgerald and Kingsley, Electric Machinery, three-phase connections].
+    """
+    ratio = _connection_ratio(connection, phases)
+    return line_voltage / ratio if connection == "star" else line_voltage
 
 
 def current_density(current: float, area: float, parallel: int = 1) -> float:

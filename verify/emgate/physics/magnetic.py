@@ -209,8 +209,11 @@ class PolePath:
     stacking_factor : float
         Lamination stacking factor k_Fe in (0, 1] [-].
     effective_gap : float
-        Carter-corrected gap kc g [m] (for surface magnets, the mechanical gap from the
-        stator bore to the magnet surface, with kc taken on g + h_m / mu_rec).
+        Carter-corrected gap in series with the iron [m]: kc g for cage and salient-pole
+        rotors. For surface magnets, the rest of the magnetic gap beside the magnet's own
+        l_m / mu_rec, which :func:`surface_pm_gap` adds itself: to apply Carter's
+        coefficient to the whole magnetic gap g' = g + sleeve + l_m / mu_rec, pass
+        ``kc g' - l_m / mu_rec`` (as emgate.calc does).
     stator_teeth : Teeth
     stator_yoke : Yoke
     rotor_yoke : Yoke
@@ -277,9 +280,10 @@ class SalientPole:
     body_width : float
         Width of the pole body (core under the field coil) [m].
     body_height : float
-        Height of the pole body, shoe included, from the gap to the rotor yoke [m]; the
-        body's flux density is taken over the whole height (the wider shoe would carry
-        less), on the safe side.
+        Magnetic path length of the pole: pole body plus pole shoe, from the shoe's gap
+        surface to the rotor yoke [m]. The body's flux density (over ``body_width``) is
+        taken over this whole height; the wider shoe carries less, so its share of the
+        ampere-turns is overrated, on the safe side.
     leakage_factor : float
         Pole-body flux over useful gap flux, >= 1 [-]; 1.1-1.25 is usual (common practice,
         no source).
@@ -300,6 +304,9 @@ def remanence_at(
     remanence_ref: float, temperature: float, alpha: float, reference_temperature: float = T_REF
 ) -> float:
     """Remanence at a magnet temperature: ``Br(T) = Br0 (1 + alpha (T - T0))``.
+
+    The same linear reversible law gives the intrinsic coercivity at a temperature,
+    ``H_cJ(T) = H_cJ0 (1 + beta (T - T0))``: pass ``H_cJ0`` [A/m] and ``beta``.
 
     Parameters
     ----------
@@ -536,12 +543,17 @@ def surface_pm_gap(
     recoil line ``B_m = Br + mu0 mu_rec H_m`` and ``B_m = k_leak B_g`` (magnet and gap
     areas taken equal). The gap flux is rectangular over the magnet arc (slot ripple and
     fringing neglected). With ideal iron and no leakage this is
-    ``B_g = Br l_m / (l_m + mu_rec kc g)``.
+    ``B_g = Br (l_m / mu_rec) / (l_m / mu_rec + g_e)``, ``g_e`` the path's
+    ``effective_gap``. With ``g_e = kc g' - l_m / mu_rec`` it is
+    ``B_g = Br (l_m / mu_rec) / (kc g')``, Carter's coefficient applied to the whole
+    magnetic gap ``g' = g + sleeve + l_m / mu_rec``; with ``g_e = kc g`` it is the textbook
+    ``B_g = Br l_m / (l_m + mu_rec kc g)``, Carter on the mechanical gap only.
 
     Parameters
     ----------
     path : PolePath
-        Flux path; ``effective_gap`` is kc g without the magnet.
+        Flux path; ``effective_gap`` is ``g_e``, the magnetic gap in series with the magnet
+        and the iron, the magnet's own ``l_m / mu_rec`` excluded (see :class:`PolePath`).
     magnet : SurfaceMagnet
     stator_curve, rotor_curve : BHCurve
         Stator lamination and rotor back iron.

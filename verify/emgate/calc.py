@@ -22,7 +22,13 @@ if TYPE_CHECKING:
     import numpy as np
 
     from emgate.materials import Catalogue
-    from emgate.model import AnyDesign, RectangularConductor, RoundConductor
+    from emgate.model import (
+        AnyDesign,
+        OpenSlot,
+        RectangularConductor,
+        RoundConductor,
+        SemiClosedSlot,
+    )
     from emgate.physics.bh import BHCurve
     from emgate.physics.conductors import ConductorMaterial
     from emgate.physics.magnetic import GapResult, PolePath
@@ -188,20 +194,7 @@ class Calculation:
         return ck.open_slot_perimeter(sl.width, sl.height, sl.wedge_height)
 
     def _slot_area(self, liner: float) -> float:
-        from emgate.physics import conductors as ck
-
-        sl = self.d.stator.slot
-        if sl.shape == "semi_closed":
-            return ck.semi_closed_slot_area(
-                sl.opening,
-                sl.opening_height,
-                sl.wedge_height,
-                sl.top_width,
-                sl.bottom_width,
-                sl.height,
-                liner=liner,
-            )
-        return ck.open_slot_area(sl.width, sl.height, sl.wedge_height, liner=liner)
+        return slot_winding_area(self.d.stator.slot, liner)
 
     @sheet("stator.slot_area_gross", "mm^2", "winding zone of the slot (below opening and wedge)")
     def slot_area_gross(self) -> float:
@@ -758,6 +751,23 @@ class Calculation:
     @sheet("rotor.yoke_height", "mm", "rotor section below slots, magnets or pole bodies")
     def rotor_yoke_height(self) -> float:
         return geo.rotor_yoke_height(self.d)
+
+
+def slot_winding_area(slot: SemiClosedSlot | OpenSlot, liner: float = 0.0) -> float:
+    """Winding-zone area of a slot, gross or net of a liner [m^2]."""
+    from emgate.physics import conductors as ck
+
+    if slot.shape == "semi_closed":
+        return ck.semi_closed_slot_area(
+            slot.opening,
+            slot.opening_height,
+            slot.wedge_height,
+            slot.top_width,
+            slot.bottom_width,
+            slot.height,
+            liner=liner,
+        )
+    return ck.open_slot_area(slot.width, slot.height, slot.wedge_height, liner=liner)
 
 
 def conductor_strand_area(conductor: RoundConductor | RectangularConductor) -> float:

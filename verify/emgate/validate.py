@@ -329,7 +329,7 @@ def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
 def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     """What the kernel cannot build: asked of the kernel itself, so that the record, not a
     rule, is reported (exit 2, at the field)."""
-    from emgate.physics import conductors as ck
+    from emgate.calc import conductor_strand_area, slot_winding_area
     from emgate.physics.winding import series_turns_per_phase, star_of_slots
 
     out: list[tuple[RecordPath, str]] = []
@@ -357,30 +357,9 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
         conductors.append((("rotor", "field", "conductor"), d.rotor.field.conductor))
     for at, c in conductors:
         if c.shape == "rectangular":
-            attempt(
-                (*at, "corner_radius"),
-                lambda c=c: ck.rectangular_strand_area(c.width, c.height, c.corner_radius),
-            )
+            attempt((*at, "corner_radius"), lambda c=c: conductor_strand_area(c))
     if w.slot_liner:
-        sl = st.slot
-        if sl.shape == "semi_closed":
-            attempt(
-                ("winding", "slot_liner"),
-                lambda: ck.semi_closed_slot_area(
-                    sl.opening,
-                    sl.opening_height,
-                    sl.wedge_height,
-                    sl.top_width,
-                    sl.bottom_width,
-                    sl.height,
-                    liner=w.slot_liner,
-                ),
-            )
-        else:
-            attempt(
-                ("winding", "slot_liner"),
-                lambda: ck.open_slot_area(sl.width, sl.height, sl.wedge_height, liner=w.slot_liner),
-            )
+        attempt(("winding", "slot_liner"), lambda: slot_winding_area(st.slot, w.slot_liner))
     if d.machine == "surface_pm":
         m = d.rotor.magnet
         dt_k = m.operating_temperature - m.material.reference_temperature

@@ -154,7 +154,9 @@ def _build(grade: _Grade) -> BHCurve:
     h = np.geomspace(_H_FIRST, h_end, n + 1)
     if grade.min_j is not None:
         # the minima are checked at these exact fields, so they must be table points
-        h = np.union1d(h, MIN_POLARIZATION_FIELDS)
+        # (sorted merge by hand: np.union1d pulls in numpy.ma, ~10-20 ms of start-up)
+        h = np.sort(np.concatenate((h, MIN_POLARIZATION_FIELDS)))
+        h = h[np.concatenate(([True], np.diff(h) > 0.0))]
     j = grade.fit.b(h) - MU0 * h
     if grade.min_j is not None:
         h_k = np.array(MIN_POLARIZATION_FIELDS)

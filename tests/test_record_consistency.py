@@ -209,3 +209,56 @@ def test_show_says_when_a_quantity_could_not_be_computed(repo: Path, monkeypatch
     result = run_cli("show", "--format", "json", write_variant(repo))
     assert result.code == 2
     assert "a stand-in kernel failure" in result.out
+
+
+@pytest.mark.parametrize(
+    ("overrides", "base", "at", "words"),
+    [
+        # 4 poles at 60 Hz: 1800 rpm synchronous; 1460 rpm is a slip of 18.9 %, a 50/60 Hz
+        # mix-up beyond the 15 % bound [calc].
+        ({"rating.frequency": "60 Hz"}, PUMP, "rating.speed", "slip of 18.9%"),
+        # 7.5 kW from 400 V, 14.6 A delta is eta cos(phi) = 0.74 [calc]; at 1.46 A it is 7.4.
+        ({"rating.line_current": "1.46 A"}, PUMP, "rating.line_current", "7.41"),
+        # IC411 is a fan-cooled enclosed frame [from memory: IEC 60034-6].
+        ({"cooling.code": "IC411"}, SERVO, "cooling.code", "IC411 is enclosed fan"),
+        (
+            {"rotor.magnet.material.remanence_temperature_coefficient": "0.12 %/K"},
+            SERVO,
+            "rotor.magnet.material.remanence_temperature_coefficient",
+            "negative",
+        ),
+        # 36 slots, 2 pole pairs: t = gcd(36, 2) = 2, Q/t even, so 1, 2 or 4 paths
+        # [from memory: Pyrhonen]; 3 paths would carry unequal EMFs.
+        ({"winding.parallel_paths": 3}, PUMP, "winding.parallel_paths", "1, 2, 4 can"),
+    ],
+)
+def test_nameplate_cooling_and_winding_plausibility(
+    repo: Path, overrides: dict, base: Path, at: str, words: str
+) -> None:
+    path = write_variant(repo, overrides, base=base)
+    error = only_input_error(path)
+    assert words in error["message"], error["message"]
+    assert error["record_path"] == "$." + at
+
+
+def test_a_class_may_be_named_by_its_temperature(repo: Path) -> None:
+    # IEC 60085: 155 is class F.
+    named = run_cli(
+        "show",
+        "--format",
+        "json",
+        write_variant(repo, {"winding.insulation_class": "155"}, name="a.yaml"),
+    ).json()["quantities"]
+    lettered = run_cli("show", "--format", "json", write_variant(repo, {}, name="b.yaml")).json()[
+        "quantities"
+    ]
+    assert named["winding.phase_resistance_hot"] == lettered["winding.phase_resistance_hot"]
+
+
+def test_zero_needs_no_unit_and_schema_defaults_carry_units(repo: Path) -> None:
+    path = write_variant(repo, {"rotor.sleeve_thickness": 0}, base=SERVO)
+    assert run_cli("check", path).code == 1  # the servo's own findings, no input error
+    schema = json.loads((Path(__file__).parents[1] / "schemas" / "design.schema.json").read_text())
+    magnet = schema["$defs"]["MagnetMaterial"]["properties"]
+    assert magnet["reference_temperature"]["default"] == "20 degC"
+    assert magnet["coercivity_temperature_coefficient"]["default"] == "-0.6 %/K"

@@ -184,10 +184,12 @@ def test_a_one_phase_record_takes_the_line_current(repo: Path) -> None:
         "winding.layers": 1,
         "stator.slots": 10,
         "rating.connection": "delta",
+        # 2.2 kW from one 400 V phase needs more than 3.9 A: 7 A gives eta cos(phi) 0.79 [calc]
+        "rating.line_current": "7 A",
     }
     s = sheet(variant(repo, one, base=SERVO))
     # [calc] one phase across the line; exact, as no arithmetic touches the values.
-    assert s["winding.phase_current"] == 3.9
+    assert s["winding.phase_current"] == 7.0
     assert s["winding.phase_voltage"] == 400.0
 
 

@@ -47,8 +47,9 @@ def pint_si(expr: str) -> tuple[float, Dims]:
 
 # --- every unit of the whitelist -------------------------------------------------------------
 
-# pint reads revolutions per minute as 2 pi rad/min; emgate counts a revolution as 1.
-SPECIAL = {"rpm"}
+# pint reads revolutions per minute as 2 pi rad/min; emgate counts a revolution as 1. pint
+# keeps gauss and oersted in CGS dimensions, convertible to SI only in its Gaussian context.
+SPECIAL = {"rpm", "r", "G", "kG", "Oe", "kOe"}
 
 
 @pytest.mark.parametrize("name", sorted(set(UNITS) - SPECIAL))
@@ -299,3 +300,41 @@ _TOKENS = [
 def test_fuzz_unit_grammar(number: float, tokens: list[str]) -> None:
     # Well-formed-looking texts reach deeper into the grammar than random characters.
     _never_worse_than_quantity_error(f"{number:g} {''.join(tokens)}")
+
+
+@pytest.mark.parametrize(
+    ("name", "si"), [("G", "tesla"), ("kG", "tesla"), ("Oe", "A/m"), ("kOe", "A/m")]
+)
+def test_cgs_magnet_units_match_pint_gaussian(name: str, si: str) -> None:
+    factor, _ = UNITS[name]
+    with ureg().context("Gaussian"):
+        expected = ureg().Quantity(1.0, name).to(si).magnitude  # [calc] external check: pint
+    # pint converts through its CODATA mu0, emgate by the exact SI correspondence
+    # (1 G = 1e-4 T, 1 Oe = 1000/(4 pi) A/m): they differ by about 7e-11 relative.
+    assert factor == pytest.approx(expected, rel=1e-9)
+
+
+def test_revolutions_per_minute_spelled_the_iec_way() -> None:
+    # [calc] external check: pint, 1 revolution/minute in revolution/second = 1/60
+    expected = ureg().Quantity(1470.0, "revolution/minute").to("revolution/second").magnitude
+    assert parse_quantity("1470 r/min").value == pytest.approx(expected, rel=REL)
+    assert parse_quantity("1470 r/min") == parse_quantity("1470 rpm")
+
+
+@pytest.mark.parametrize("text", ["40 °C", "40 ℃", "40 degC"])
+def test_celsius_spellings(text: str) -> None:
+    # [calc] external check: pint Quantity(40, 'degC').to('K')
+    assert parse_quantity(text).value == pytest.approx(
+        ureg().Quantity(40.0, "degC").to("K").magnitude, abs=1e-9
+    )
+
+
+def test_an_attached_exponent_as_data_sheets_write_it() -> None:
+    # [calc] external check: pint, 6 A/mm**2 in SI
+    expected = ureg().Quantity("6 A/mm**2").to_base_units().magnitude
+    assert parse_quantity("6 A/mm2").value == pytest.approx(expected, rel=REL)
+
+
+def test_a_bare_celsius_letter_gets_a_hint() -> None:
+    with pytest.raises(QuantityError, match="40 degC"):
+        parse_quantity("40 C")

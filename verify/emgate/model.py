@@ -10,7 +10,7 @@ from __future__ import annotations
 import datetime as dt
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, StringConstraints
+from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, StringConstraints
 
 from emgate.quantity import (
     Current,
@@ -47,7 +47,10 @@ class Rating(Strict):
     """Rated operating point, as on the nameplate."""
 
     power: Power = Field(description="rated output power (shaft power of a motor)")
-    line_voltage: Voltage = Field(description="rated line-to-line voltage, rms")
+    line_voltage: Voltage = Field(
+        description="rated line-to-line voltage at the terminals, rms (for an inverter drive the"
+        " fundamental's rms, not the DC bus)"
+    )
     line_current: Current = Field(
         description="rated line current, rms, as on the nameplate; the winding's phase current"
         " follows from the connection"
@@ -117,7 +120,7 @@ class RectangularConductor(Strict):
     strands: int = Field(default=1, ge=1, le=200)
     width: Length
     height: Length
-    corner_radius: LengthOrZero = 0.0
+    corner_radius: LengthOrZero = Field(default="0 mm", validate_default=True)
     insulated_width: Length
     insulated_height: Length
     material: Literal["copper", "aluminium"] = "copper"
@@ -132,6 +135,14 @@ SlotEntry = Annotated[
 ]
 
 
+#: IEC 60085 thermal classes by their temperature (a record may name either).
+CLASS_BY_TEMPERATURE = {"130": "B", "155": "F", "180": "H"}
+
+
+def _class_letter(value: object) -> object:
+    return CLASS_BY_TEMPERATURE.get(str(value).strip(), value)
+
+
 class Winding(Strict):
     phases: int = Field(default=3, ge=1, le=12)
     layers: Literal[1, 2]
@@ -139,7 +150,7 @@ class Winding(Strict):
     turns_per_coil: int = Field(ge=1, le=10000)
     parallel_paths: int = Field(default=1, ge=1, le=100)
     conductor: Conductor
-    insulation_class: Literal["B", "F", "H"] = Field(
+    insulation_class: Annotated[Literal["B", "F", "H"], BeforeValidator(_class_letter)] = Field(
         description="thermal class letter of IEC 60085 (130 B, 155 F, 180 H: the classes whose"
         " IEC 60034-1 rise limits and loss reference temperatures emgate holds)"
     )
@@ -161,6 +172,26 @@ class Cooling(Strict):
         default=None, description="IEC 60034-6 cooling code, e.g. IC411"
     )
     ambient: Temperature = Field(description="coolant (ambient air or inlet liquid) temperature")
+    fin_area_factor: float = Field(
+        default=4.0,
+        ge=1.0,
+        le=20.0,
+        description="air-washed frame area over the bare cylinder of the frame: 1 for a smooth"
+        " frame; a finned cast frame wets 3 to 5 times it (default 4; common practice, no"
+        " source)",
+    )
+    frame_length: Length | None = Field(
+        default=None,
+        description="axial length of the cooled frame; 1.5 stack lengths when"
+        " absent (frame with end shields; common practice, no source)",
+    )
+    core_area_factor: float = Field(
+        default=3.0,
+        ge=1.0,
+        le=20.0,
+        description="open machines: air-washed core area (bore, back, ends, ducts) over the"
+        " core back (default 3; common practice, no source)",
+    )
 
 
 class Waiver(Strict):
@@ -223,9 +254,15 @@ class MagnetMaterial(Strict):
     remanence_temperature_coefficient: PerTemperature = Field(description="e.g. '-0.12 %/K'")
     intrinsic_coercivity: FieldStrength = Field(description="H_cJ at reference_temperature")
     coercivity_temperature_coefficient: PerTemperature = Field(
-        default=-0.006, description="temperature coefficient of H_cJ, e.g. '-0.6 %/K'"
+        default="-0.6 %/K",
+        validate_default=True,
+        description="temperature coefficient of H_cJ, e.g. '-0.6 %/K' (NdFeB; default)",
     )
-    reference_temperature: Temperature = 293.15
+    reference_temperature: Temperature = Field(
+        default="20 degC",
+        validate_default=True,
+        description="temperature of the remanence and coercivity data",
+    )
 
 
 class Magnet(Strict):
@@ -237,7 +274,7 @@ class Magnet(Strict):
 
 class SurfacePMRotor(Strict):
     magnet: Magnet
-    sleeve_thickness: LengthOrZero = 0.0
+    sleeve_thickness: LengthOrZero = Field(default="0 mm", validate_default=True)
     inner_diameter: Length = Field(description="inner diameter of the rotor yoke")
     steel: str | None = None
 

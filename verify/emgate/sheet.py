@@ -13,10 +13,13 @@ from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import DISCLAIMER
 
 
-def sheet_values(path: Path) -> tuple[Any, dict[str, tuple[float | None, str, str, str]]]:
+def sheet_values(
+    path: Path,
+) -> tuple[Any, dict[str, tuple[float | None, str, str, str]], list[tuple[str, str, str]]]:
     """Load one design (with the materials files of its repository) and compute its sheet.
 
-    Returns the design and, per quantity name: (SI value or None, unit, method, error text).
+    Returns the design; per quantity name (SI value or None, unit, method, error text); and
+    the steels it uses as (part, grade, origin of the curve).
     """
     from emgate.calc import SHEET, Calculation
     from emgate.engine import discover_materials
@@ -41,12 +44,16 @@ def sheet_values(path: Path) -> tuple[Any, dict[str, tuple[float | None, str, st
         except (ValueError, ArithmeticError) as exc:
             value, error = None, f"not computed: {exc}"
         out[name] = (value, entry.unit, entry.method, error)
-    return design, out
+    grades = [("stator", design.stator.steel)]
+    if design.rotor.steel and design.rotor.steel != design.stator.steel:
+        grades.append(("rotor", design.rotor.steel))
+    steels = [(part, name, catalogue.get(name).source) for part, name in grades]  # type: ignore[union-attr]
+    return design, out, steels
 
 
 def show(path: Path, fmt: str) -> int:
     try:
-        design, values = sheet_values(path)
+        design, values, steels = sheet_values(path)
     except (InputError, InputErrors) as exc:
         errors = exc.errors if isinstance(exc, InputErrors) else [exc]
         for err in errors:
@@ -59,6 +66,7 @@ def show(path: Path, fmt: str) -> int:
             "file": display_path(path),
             "record_id": design.id,
             "machine": design.machine,
+            "steels": {name: {"part": part, "source": src} for part, name, src in steels},
             "quantities": {
                 name: {
                     "value": v if v is not None and math.isfinite(v) else None,
@@ -75,7 +83,10 @@ def show(path: Path, fmt: str) -> int:
     from emgate.units import format_value
 
     print(f"{design.id}: {design.title} ({design.machine}, {design.poles} poles)")
-    print(f"file: {display_path(path)}\n")
+    print(f"file: {display_path(path)}")
+    for part, name, source in steels:
+        print(f"{part} steel {name}: {source}")
+    print()
     width = max(len(n) for n in values)
     group = ""
     for name in sorted(values):

@@ -72,6 +72,7 @@ UNITS: dict[str, tuple[float, Dims]] = {
     "kHz": (1e3, _HZ),
     # Revolutions per minute, stored as revolutions per second (a revolution counts as 1).
     "rpm": (1.0 / 60.0, _HZ),
+    "r": (1.0, _ONE),  # a revolution, for 'r/min' (IEC 60034 writes speeds so)
     "A": (1.0, _I),
     "kA": (1e3, _I),
     "mA": (1e-3, _I),
@@ -91,6 +92,12 @@ UNITS: dict[str, tuple[float, Dims]] = {
     "kN": (1e3, _N),
     "T": (1.0, _TESLA),
     "mT": (1e-3, _TESLA),
+    # CGS units of magnet data sheets, by their SI correspondence: 1 G = 1e-4 T and
+    # 1 Oe = 1000 / (4 pi) A/m.
+    "G": (1e-4, _TESLA),
+    "kG": (0.1, _TESLA),
+    "Oe": (1e3 / (4.0 * math.pi), (-1, 0, 0, 1, 0)),
+    "kOe": (1e6 / (4.0 * math.pi), (-1, 0, 0, 1, 0)),
     "Wb": (1.0, _WB),
     "mWb": (1e-3, _WB),
     "H": (1.0, _HENRY),
@@ -109,6 +116,7 @@ UNITS: dict[str, tuple[float, Dims]] = {
 }
 
 _DEGC_OFFSET = 273.15
+CELSIUS = ("degC", "°C", "℃")
 
 #: Named dimensions: what a field may expect, with an example for error messages.
 DIMENSIONS: dict[str, tuple[Dims, str]] = {
@@ -156,7 +164,7 @@ class Quantity:
 
 
 _NUMBER = re.compile(r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]{1,3})?")
-_TOKEN = re.compile(r"\s*(\*\*|[*/·()^²³]|-?[0-9]+|[A-Za-zµΩ°%]+)")
+_TOKEN = re.compile(r"\s*(\*\*|[*/·()^²³]|-?[0-9]+|[A-Za-zµΩ°%]+[234]?)")
 
 
 def describe(dims: Dims) -> str:
@@ -244,7 +252,12 @@ class _UnitParser:
                 raise QuantityError("missing ')' in unit")
         elif tok in UNITS:
             f, d = UNITS[tok]
-        elif tok == "degC":
+        elif tok[-1] in "234" and tok[:-1] in UNITS and self.peek() not in ("^", "**"):
+            # 'mm2', as data sheets write mm^2
+            f, d = UNITS[tok[:-1]]
+            exp = int(tok[-1])
+            return f**exp, _mul(_ONE, d, exp)
+        elif tok in CELSIUS:
             raise QuantityError("degC stands only alone ('40 degC'); in a compound unit use K")
         else:
             raise QuantityError(f"unknown unit {tok!r}{_hint(tok)}")
@@ -279,6 +292,8 @@ class _UnitParser:
 def _hint(tok: str) -> str:
     import difflib  # only on the error path
 
+    if tok in ("C", "c", "deg_C", "degree_Celsius", "celsius", "Celsius"):
+        return " (for a temperature write '40 degC'; for a difference, K)"
     names = [*UNITS, "degC"]
     same_letters = [n for n in names if n.lower() == tok.lower()]
     close = same_letters or difflib.get_close_matches(tok, names, n=1, cutoff=0.6)
@@ -310,7 +325,7 @@ def parse_quantity(text: str) -> Quantity:
         raise QuantityError(f"number longer than {MAX_NUMBER} characters")
     number = float(m.group(0))
     unit = s[m.end() :].strip()
-    if unit == "degC":
+    if unit in CELSIUS:
         value, dims = number + _DEGC_OFFSET, _TH
     elif unit:
         factor, dims = parse_unit(unit)
@@ -338,7 +353,7 @@ def convert(text: str | float | int, expected: str) -> float:
     if isinstance(text, bool):
         raise QuantityError(f"expected a {label} such as '{example}', found a boolean")
     if isinstance(text, int | float):
-        if dims != _ONE:
+        if dims != _ONE and not (text == 0 and expected != "temperature"):  # 0 is 0 in any unit
             raise QuantityError(
                 f"expected a {label} with its unit, such as '{example}', found the bare number"
                 f" {text!r}"
@@ -347,7 +362,7 @@ def convert(text: str | float | int, expected: str) -> float:
         if not math.isfinite(value):
             raise QuantityError("value is not a finite number")
         return value
-    if expected == "temperature_difference" and text.strip().endswith("degC"):
+    if expected == "temperature_difference" and text.strip().endswith(CELSIUS):
         raise QuantityError(f"a temperature difference is given in K, such as '{example}'")
     q = parse_quantity(text)
     if q.dims != dims:

@@ -346,6 +346,16 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             ("winding", "coil_pitch"),
             lambda: star_of_slots(st.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch),
         )
+    if w.layout is None and (paths := _parallel_paths_allowed(st.slots, d.pole_pairs, w.layers)):
+        if w.parallel_paths not in paths:
+            out.append(
+                (
+                    ("winding", "parallel_paths"),
+                    f"{w.parallel_paths} parallel paths would not carry equal EMFs: this"
+                    f" winding repeats so that {', '.join(map(str, paths))} can",
+                )
+            )
+            return out
     attempt(
         ("winding", "parallel_paths"),
         lambda: series_turns_per_phase(
@@ -376,6 +386,34 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     return out
 
 
+#: Slip of an induction machine at its rating: a few percent, above 10 % only for very small
+#: or high-slip machines (common practice, no source); beyond 15 % the speed or frequency is
+#: wrong (50 and 60 Hz mixed, poles miscounted).
+MAX_SLIP = 0.15
+#: Efficiency times power factor at the rating: below 0.2 even a small motor is implausible
+#: (common practice, no source).
+MIN_POWER_RATIO = 0.2
+#: IEC 60034-6 codes whose cooling method is plain [from memory]; other codes are accepted.
+IC_METHODS = {
+    "IC410": "enclosed_natural",
+    "IC411": "enclosed_fan",
+    "IC416": "enclosed_fan",
+    "IC01": "open_ventilated",
+    "IC06": "open_ventilated",
+}
+
+
+def _parallel_paths_allowed(slots: int, pole_pairs: int, layers: int) -> list[int]:
+    """Parallel-path counts with equal EMFs: divisors of the periodicity t = gcd(Q, p), or of
+    2 t for a double layer when Q / t is even [from memory: Pyrhonen, Jokinen, Hrabovcova,
+    Design of Rotating Electrical Machines]."""
+    import math
+
+    t = math.gcd(slots, pole_pairs)
+    top = 2 * t if layers == 2 and (slots // t) % 2 == 0 else t
+    return [a for a in range(1, top + 1) if top % a == 0]
+
+
 def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     """Rated speed against the supply frequency and poles; a plausible coolant."""
     out: list[tuple[RecordPath, str]] = []
@@ -383,7 +421,7 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     n = d.rating.speed
     if d.machine == "induction":
         slip = 1.0 - n / sync
-        if not (slip != 0.0 and abs(slip) <= 0.2):
+        if not (slip != 0.0 and abs(slip) <= MAX_SLIP):
             out.append(
                 (
                     ("rating", "speed"),
@@ -400,11 +438,47 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
                 f" turns at {sync * 60:g} rpm, not {n * 60:g} rpm",
             )
         )
+    r, m = d.rating, d.winding.phases
+    from emgate.physics.conductors import phase_current, phase_voltage
+
+    apparent = (
+        m
+        * phase_voltage(r.line_voltage, r.connection, m)
+        * phase_current(r.line_current, r.connection, m)
+    )
+    ratio = r.power / apparent
+    if not MIN_POWER_RATIO <= ratio <= 1.02:
+        out.append(
+            (
+                ("rating", "line_current"),
+                f"rated power {r.power / 1e3:g} kW from {r.line_voltage:g} V and"
+                f" {r.line_current:g} A means efficiency times power factor of {ratio:.2f};"
+                f" a machine lies between {MIN_POWER_RATIO:g} and 1 (check power, voltage"
+                " and current)",
+            )
+        )
     if not 213.15 <= d.cooling.ambient <= 393.15:
         out.append(
             (
                 ("cooling", "ambient"),
                 f"coolant at {d.cooling.ambient - 273.15:g} degC is outside -60 to 120 degC",
+            )
+        )
+    code = d.cooling.code
+    if code in IC_METHODS and IC_METHODS[code] != d.cooling.method:
+        out.append(
+            (
+                ("cooling", "code"),
+                f"{code} is {IC_METHODS[code].replace('_', ' ')} cooling (IEC 60034-6),"
+                f" but the method says {d.cooling.method.replace('_', ' ')}",
+            )
+        )
+    if d.machine == "surface_pm" and d.rotor.magnet.material.remanence_temperature_coefficient >= 0:
+        out.append(
+            (
+                ("rotor", "magnet", "material", "remanence_temperature_coefficient"),
+                "the remanence of NdFeB, SmCo and ferrite magnets falls with temperature:"
+                " the coefficient is negative (NdFeB about -0.12 %/K, from memory)",
             )
         )
     return out

@@ -37,7 +37,10 @@ def write_config(folder: Path, text: str) -> Path:
 def test_exit_0_for_a_passing_record(repo: Path) -> None:
     result = run_cli("check", write_variant(repo, {}))
     assert result.code == 0, result.out
-    assert result.out.startswith("PASS")
+    # No findings: the record's margins line comes first, then the verdict.
+    margins, blank, verdict = result.out.splitlines()[:3]
+    assert margins.startswith("pump-drive-4p36s: ") and blank == ""
+    assert verdict.startswith("PASS")
 
 
 def test_exit_1_for_the_demo_repository() -> None:

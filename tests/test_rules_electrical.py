@@ -231,6 +231,7 @@ def test_declared_name_of_another_machine_kind_says_so(repo: Path) -> None:
 # --- explain ---------------------------------------------------------------------------------
 
 BUILTIN = [
+    "back-emf",
     "current-density",
     "declared-values",
     "demagnetisation",

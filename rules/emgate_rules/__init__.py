@@ -8,6 +8,7 @@ from emgate.rule import Rule
 
 @hookimpl
 def emgate_rules() -> list[type[Rule]]:
+    from emgate_rules.back_emf import BackEmf
     from emgate_rules.current_density import CurrentDensity
     from emgate_rules.declared_values import DeclaredValues
     from emgate_rules.demagnetisation import Demagnetisation
@@ -21,6 +22,7 @@ def emgate_rules() -> list[type[Rule]]:
     from emgate_rules.yoke_flux import YokeFlux
 
     return [
+        BackEmf,
         CurrentDensity,
         DeclaredValues,
         Demagnetisation,

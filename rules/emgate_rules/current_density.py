@@ -11,6 +11,7 @@ from emgate.model import AnyDesign
 from emgate.quantity import quantity
 from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import basis
+from emgate_rules._winding import unless_unbalanced
 
 CurrentDensityLimit = quantity("current_density")
 _MM2 = 1e6  # A/mm^2 in A/m^2
@@ -85,6 +86,7 @@ class CurrentDensity(Rule):
     tags = ("electrical", "thermal")
     options = CurrentDensityOptions
 
+    @unless_unbalanced
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:

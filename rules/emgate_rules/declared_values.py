@@ -18,6 +18,7 @@ from emgate.units import (
     parse_unit,
 )
 from emgate_rules._limits import Ratio, basis
+from emgate_rules._winding import UNBALANCED
 
 SOURCE = "common practice, no source"
 #: Relative difference allowed between a declared and a recomputed figure.
@@ -63,7 +64,9 @@ class DeclaredValues(Rule):
     nobody checks must not look checked. So is a temperature difference (a quantity in K,
     such as the winding temperature rise) written in degC: '80 degC' is a temperature, not
     a rise. `tolerances` keys must be calculation-sheet names, and every tolerance (0.05 or
-    '5 %') must be greater than zero.
+    '5 %') must be greater than zero. A declared figure that an unbalanced winding leaves
+    undefined (the MMF THD of a winding whose phases do not close) is reported as not
+    compared, an error too.
     """
 
     id = "declared-values"
@@ -112,7 +115,13 @@ class DeclaredValues(Rule):
             if q.value == 0.0:
                 yield Problem(at, f"declared {name!r} is zero; nothing to compare against")
                 continue
-            value = calc.value(name)
+            try:
+                value = calc.value(name)
+            except (ValueError, ArithmeticError) as exc:
+                if not calc.winding_problems:
+                    raise
+                yield Problem(at, f"declared {name!r} not compared ({exc}): {UNBALANCED}")
+                continue
             unit = entry.unit if entry.unit != "1" else ""
             yield Check(
                 name,

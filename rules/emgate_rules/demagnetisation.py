@@ -8,6 +8,7 @@ from collections.abc import Iterable
 from emgate.model import AnyDesign
 from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import Ratio, RatioOrZero, basis, limit
+from emgate_rules._winding import unless_unbalanced
 
 CP = "common practice, no source"
 #: Stator current, in rated currents, whose MMF the magnet must withstand: the rated
@@ -51,6 +52,7 @@ class Demagnetisation(Rule):
     tags = ("magnetic",)
     options = DemagnetisationOptions
 
+    @unless_unbalanced
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:

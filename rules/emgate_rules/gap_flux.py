@@ -8,6 +8,7 @@ from emgate.model import AnyDesign
 from emgate.quantity import FluxDensity
 from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import basis, limit
+from emgate_rules._winding import unless_unbalanced
 
 PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1 (from memory)"
 CP = "common practice, no source"
@@ -62,6 +63,7 @@ class GapFlux(Rule):
     tags = ("magnetic",)
     options = GapFluxOptions
 
+    @unless_unbalanced
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:

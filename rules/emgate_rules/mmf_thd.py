@@ -7,6 +7,7 @@ from collections.abc import Iterable
 from emgate.model import AnyDesign
 from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import Ratio, basis, limit
+from emgate_rules._winding import UNBALANCED, winding_path
 
 SOURCE = "common practice, no source"
 DEFAULTS = {"induction": 0.2, "surface_pm": 1.2, "salient_field": 0.2}
@@ -32,6 +33,9 @@ class MmfThd(Rule):
     windings of induction and salient-pole machines 0.20 (a full-pitch q = 2 winding has 0.169);
     tooth-coil windings of surface-magnet machines 1.2 (a 12-slot 10-pole double layer has about
     0.98); their sub-harmonics cost rotor losses, which a team may bound tighter.
+
+    An unbalanced winding (one that winding-balance reports) has no THD in this sense: the
+    rule then says, as an info finding, that the THD was not computed.
     """
 
     id = "mmf-thd"
@@ -42,6 +46,11 @@ class MmfThd(Rule):
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:
+        if context.calc.winding_problems:
+            yield Problem(
+                winding_path(design), f"MMF THD not computed: {UNBALANCED}", severity="info"
+            )
+            return
         kind = design.machine
         yield Check(
             "winding.mmf_thd",

@@ -6,13 +6,11 @@ from collections.abc import Iterable
 
 from pydantic import Field
 
-from emgate import calc as c
 from emgate.model import AnyDesign
 from emgate.quantity import quantity
 from emgate.rule import Check, Context, Options, Problem, Rule
 
 Reserve = quantity("temperature_difference", sign="non_negative")
-CP = "common practice, no source"
 #: Coolant temperature the IEC 60034-1 rise limits are tabulated for [K] (40 degC).
 TABLE_COOLANT = 313.15
 #: Cooling methods for which the table (indirect air cooling) is applied only as a guide.
@@ -21,9 +19,6 @@ LIQUID = ("liquid_jacket", "direct_liquid")
 
 class TemperatureRiseOptions(Options):
     reserve: Reserve = Field(default=0.0, description="K kept below the class limit")
-    fin_area_factor: float = Field(default=c.FIN_AREA_FACTOR, gt=0, description=CP)
-    frame_length_factor: float = Field(default=c.FRAME_LENGTH_FACTOR, gt=0, description=CP)
-    core_area_factor: float = Field(default=c.CORE_AREA_FACTOR, gt=0, description=CP)
 
 
 class TemperatureRise(Rule):
@@ -32,12 +27,18 @@ class TemperatureRise(Rule):
     An ESTIMATE, to be confirmed by a heat run or a thermal network model of the real frame.
 
     Method: the stator copper loss m I^2 R at the class reference temperature (R from IEC
-    60028 copper, the mean turn length 2 l + 2.4 W + 0.1 m [from memory: Pyrhonen]) flows in
+    60028 copper; the mean turn length 2 l + 2.4 W + 0.1 m for a distributed winding [from
+    memory: Pyrhonen], 2 (l + b_t) + pi w_c around one tooth for tooth coils) flows in
     series through the winding bundle, the slot liner, teeth and yoke, the core-to-frame
     interface, the frame wall and the frame surface to the coolant; the surface by cooling
     method: natural convection (Churchill-Chu) and radiation, fan air along the fins (flat
     plate), air through an open machine, or a liquid film (emgate.physics.thermal). Iron and
-    other losses are not included: the estimate is low by their share.
+    other losses are not included: the estimate is low by their share. The cooling surfaces
+    come from the record, so `emgate show` and every rule see the same estimate:
+    `cooling.fin_area_factor` (default 4: a finned cast frame wets 3 to 5 times its bare
+    cylinder), `cooling.frame_length` (default 1.5 stack lengths, the frame with its end
+    shields) and, for open machines, `cooling.core_area_factor` (default 3 times the core
+    back) (common practice, no source). The message names the largest step of the path.
 
     Limits: IEC 60034-1 rise limits by resistance for indirect air cooling and a 40 degC
     coolant, machines up to 200 kW: class B 80 K, F 105 K, H 125 K. A coolant warmer than
@@ -73,9 +74,7 @@ class TemperatureRise(Rule):
                 severity="warning",
             )
             return
-        estimate = context.calc.thermal_estimate(
-            options.fin_area_factor, options.frame_length_factor, options.core_area_factor
-        )
+        estimate = context.calc.thermal_estimate()
         worst = max(estimate.steps, key=lambda s: s.rise)
         method = design.cooling.method
         excess = max(0.0, design.cooling.ambient - TABLE_COOLANT)

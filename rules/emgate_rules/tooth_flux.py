@@ -8,6 +8,7 @@ from emgate.model import AnyDesign
 from emgate.quantity import FluxDensity
 from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import basis, limit
+from emgate_rules._winding import unless_unbalanced
 
 STATOR_SOURCE = (
     "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1, apparent"
@@ -42,6 +43,7 @@ class ToothFlux(Rule):
     tags = ("magnetic",)
     options = ToothFluxOptions
 
+    @unless_unbalanced
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:

@@ -6,6 +6,7 @@ from collections.abc import Iterable
 
 from emgate.model import AnyDesign
 from emgate.rule import Check, Context, Options, Problem, Rule
+from emgate_rules._winding import winding_path
 
 
 class WindingBalance(Rule):
@@ -26,6 +27,6 @@ class WindingBalance(Rule):
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:
-        where = ("winding", "layout") if design.winding.layout else ("winding",)
+        where = winding_path(design)
         for problem in context.calc.winding_problems:
             yield Problem(where, f"winding is not balanced: {problem}")

@@ -8,6 +8,7 @@ from emgate.model import AnyDesign
 from emgate.quantity import FluxDensity
 from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import basis, limit
+from emgate_rules._winding import unless_unbalanced
 
 INDUCTION = (
     "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1, stator yoke"
@@ -60,6 +61,7 @@ class YokeFlux(Rule):
     tags = ("magnetic",)
     options = YokeFluxOptions
 
+    @unless_unbalanced
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:

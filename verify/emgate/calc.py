@@ -51,13 +51,10 @@ SHEET: dict[str, SheetEntry] = {}
 #: Slot liner when the record gives none: 0.25 mm of insulating paper is usual for
 #: low-voltage random windings (common practice, no source).
 DEFAULT_LINER = 0.25e-3
-#: Cooling-surface factors of the lumped thermal estimate (common practice, no source):
-#: a finned cast frame wets 3 to 5 times its bare cylinder; the frame with its end shields
-#: is about 1.5 stack lengths long; an open machine's air washes bore, core back and end
-#: windings, about 3 times the core back.
-FIN_AREA_FACTOR = 4.0
-FRAME_LENGTH_FACTOR = 1.5
-CORE_AREA_FACTOR = 3.0
+#: Cooled frame length over the stack length when the record gives no cooling.frame_length:
+#: the frame with its end shields (the record's documented default; common practice, no
+#: source).
+FRAME_PER_STACK = 1.5
 #: Flux of a salient pole's body over its gap flux, for the pole-to-pole leakage
 #: (1.1 to 1.25 is usual; common practice, no source).
 POLE_LEAKAGE = 1.15
@@ -81,7 +78,6 @@ class Calculation:
     def __init__(self, design: AnyDesign, catalogue: Catalogue) -> None:
         self.d = design
         self.catalogue = catalogue
-        self._thermal: dict[tuple[float, float, float], ThermalEstimate] = {}
 
     def value(self, name: str) -> float:
         return float(getattr(self, SHEET[name].attribute))
@@ -118,7 +114,11 @@ class Calculation:
             self.d.stator.slots, self.d.pole_pairs, w.phases, w.layers, w.coil_pitch
         )
 
-    @sheet("winding.series_turns", "1", "coils per phase times turns per coil over parallel paths")
+    @sheet(
+        "winding.series_turns",
+        "1",
+        "series turns per phase N_ph: coils per phase times turns per coil, over parallel paths",
+    )
     def series_turns(self) -> float:
         from emgate.physics.winding import series_turns_per_phase
 
@@ -158,7 +158,8 @@ class Calculation:
     @sheet(
         "stator.current_density",
         "A/mm^2",
-        "phase current over parallel paths, strands in hand and bare strand section",
+        "J = I_ph / (a n S): phase current over parallel paths a, strands in hand n and bare"
+        " strand section S",
     )
     def stator_current_density(self) -> float:
         from emgate.physics.conductors import winding_current_density
@@ -196,7 +197,11 @@ class Calculation:
     def _slot_area(self, liner: float) -> float:
         return slot_winding_area(self.d.stator.slot, liner)
 
-    @sheet("stator.slot_area_gross", "mm^2", "winding zone of the slot (below opening and wedge)")
+    @sheet(
+        "stator.slot_area_gross",
+        "mm^2",
+        "area of the slot's winding zone (below opening and wedge), liner not deducted",
+    )
     def slot_area_gross(self) -> float:
         return self._slot_area(0.0)
 
@@ -248,12 +253,23 @@ class Calculation:
     @sheet(
         "winding.mean_turn_length",
         "mm",
-        "2 l + end windings from the coil span (low-voltage estimate)",
+        "distributed coils: 2 l + 2.4 W + 0.1 m, W the coil span at mid-slot (2.9 W + 0.2 m"
+        " above 1 kV); tooth coils: 2 (l + b_t) + pi w_c, b_t the mean tooth width, w_c the"
+        " coil-side width (the mean slot width over the layers)",
     )
     def mean_turn_length(self) -> float:
         from emgate.physics import conductors as ck
 
         d = self.d
+        if d.winding.coil_pitch == 1:
+            top, bottom, w_top, w_bottom = geo.winding_zone(d.stator.slot)
+            slot_width = (w_top + w_bottom) / 2.0
+            # Tooth and slot widths vary linearly with depth: their means sit at mid-zone.
+            mid = d.stator.bore_diameter / 2.0 + (top + bottom) / 2.0
+            tooth = geo.stator_slot_pitch_at(d, mid) - slot_width
+            return ck.tooth_coil_mean_turn_length(
+                d.stator.stack_length, tooth, slot_width / d.winding.layers
+            )
         span = ck.coil_span_width(
             d.stator.bore_diameter, d.stator.slot.height, d.stator.slots, d.winding.coil_pitch
         )
@@ -274,7 +290,12 @@ class Calculation:
             self.strand_area,
         )
 
-    @sheet("winding.phase_resistance_20c", "ohm", "rho20 N_ph l_av / (a n S), IEC 60028")
+    @sheet(
+        "winding.phase_resistance_20c",
+        "ohm",
+        "DC phase resistance at 20 degC, rho20 N_ph l_av / (a n S), l_av the mean turn length"
+        " (rho20: IEC 60028 copper, IEC 60889 aluminium)",
+    )
     def phase_resistance_20c(self) -> float:
         return self._phase_resistance(293.15)
 
@@ -298,22 +319,20 @@ class Calculation:
 
         return copper_loss(self.d.winding.phases, self.phase_current, self.phase_resistance_hot)
 
-    def thermal_estimate(
-        self,
-        fin_area_factor: float = FIN_AREA_FACTOR,
-        frame_length_factor: float = FRAME_LENGTH_FACTOR,
-        core_area_factor: float = CORE_AREA_FACTOR,
-    ) -> ThermalEstimate:
-        """The lumped winding-temperature estimate, for the given cooling-surface factors."""
-        key = (fin_area_factor, frame_length_factor, core_area_factor)
-        if key not in self._thermal:
-            self._thermal[key] = self._thermal_estimate(*key)
-        return self._thermal[key]
+    def thermal_estimate(self) -> ThermalEstimate:
+        """The lumped winding-temperature estimate, with the record's cooling-surface factors
+        (``cooling.fin_area_factor``, ``frame_length``, ``core_area_factor``)."""
+        return self._thermal_estimate
 
-    def _thermal_estimate(self, fins: float, frame: float, core: float) -> ThermalEstimate:
+    @cached_property
+    def _thermal_estimate(self) -> ThermalEstimate:
         from emgate.physics import thermal as tk
 
         d = self.d
+        cooling = d.cooling
+        frame = cooling.frame_length
+        if frame is None:
+            frame = FRAME_PER_STACK * d.stator.stack_length
         top, bottom, _, _ = geo.winding_zone(d.stator.slot)
         geometry = tk.StatorThermalGeometry(
             bore_diameter=d.stator.bore_diameter,
@@ -326,14 +345,16 @@ class Calculation:
             winding_perimeter=self.slot_perimeter,
             liner_thickness=self.liner,
             stacking_factor=d.stator.stacking_factor,
-            frame_length=frame * d.stator.stack_length,
+            frame_length=frame,
         )
-        params = tk.ThermalParameters(fin_area_factor=fins, core_area_factor=core)
+        params = tk.ThermalParameters(
+            fin_area_factor=cooling.fin_area_factor, core_area_factor=cooling.core_area_factor
+        )
         return tk.winding_temperature_rise(
             self.copper_loss,
             geometry,
-            d.cooling.method,
-            coolant_temperature=d.cooling.ambient,
+            cooling.method,
+            coolant_temperature=cooling.ambient,
             parameters=params,
         )
 
@@ -520,8 +541,8 @@ class Calculation:
     @sheet(
         "air_gap.effective_length",
         "mm",
-        "kc times the gap Carter's coefficient is taken on"
-        " (for surface magnets, the magnetic gap including the magnet)",
+        "Carter's coefficient times the gap it is computed on: the mechanical gap, or for"
+        " surface magnets the magnetic gap g + sleeve + h_m / mu_rec",
     )
     def effective_gap(self) -> float:
         return self.carter_coefficient * self.slotting_gap
@@ -614,11 +635,19 @@ class Calculation:
     def gap_flux_density_peak(self) -> float:
         return self.magnetic.b_peak
 
-    @sheet("air_gap.flux_density_fundamental", "T", "fundamental of the gap flux density wave")
+    @sheet(
+        "air_gap.flux_density_fundamental",
+        "T",
+        "amplitude of the fundamental of the gap flux density wave; above the peak for a"
+        " flat-topped wave: (4/pi) sin(a pi/2) times it for a pole arc a, more than 1 for"
+        " a > 0.575",
+    )
     def gap_flux_density_fundamental(self) -> float:
         return self.magnetic.b_fundamental
 
-    @sheet("air_gap.flux_per_pole", "mWb", "gap flux of one pole")
+    @sheet(
+        "air_gap.flux_per_pole", "mWb", "gap flux of one pole (the whole wave, not its fundamental)"
+    )
     def flux_per_pole(self) -> float:
         return self.magnetic.flux_per_pole
 
@@ -633,6 +662,29 @@ class Calculation:
     )
     def total_mmf(self) -> float:
         return self.magnetic.total_mmf
+
+    @sheet(
+        "winding.back_emf",
+        "V",
+        "phase EMF rms at the rated frequency, no load: sqrt 2 pi f N_ph kw1 Phi1 with"
+        " Phi1 = (2/pi) B1 tau_p l, B1 the fundamental gap flux density",
+        ("surface_pm", "salient_field"),
+    )
+    def back_emf(self) -> float:
+        """E = sqrt(2) pi f N_ph kw1 Phi1, Phi1 = (2/pi) B1 tau_p l [V] [from memory:
+        Fitzgerald and Kingsley, Electric Machinery]: the fundamental flux per pole cut by
+        the series turns at the rated electrical frequency."""
+        d = self.d
+        phi1 = 2.0 / math.pi * self.gap_flux_density_fundamental * geo.pole_pitch(d)
+        phi1 *= d.stator.stack_length
+        return (
+            math.sqrt(2.0)
+            * math.pi
+            * d.rating.frequency
+            * self.series_turns
+            * self.winding_factor
+            * phi1
+        )
 
     @sheet(
         "stator.tooth_flux_density_apparent",
@@ -663,12 +715,20 @@ class Calculation:
         return self.magnetic.iron.rotor_yoke_b
 
     @sheet(
-        "rotor.tooth_flux_density_apparent", "T", "rotor tooth, as for the stator", ("induction",)
+        "rotor.tooth_flux_density_apparent",
+        "T",
+        "apparent rotor tooth flux density at the narrowest tooth section, as for the stator",
+        ("induction",),
     )
     def rotor_tooth_b_apparent(self) -> float:
         return self.magnetic.iron.rotor_tooth_b_apparent
 
-    @sheet("rotor.tooth_flux_density", "T", "real rotor tooth flux density", ("induction",))
+    @sheet(
+        "rotor.tooth_flux_density",
+        "T",
+        "real rotor tooth flux density with slot-flux sharing, as for the stator",
+        ("induction",),
+    )
     def rotor_tooth_b(self) -> float:
         return self.magnetic.iron.rotor_tooth_b
 
@@ -740,15 +800,24 @@ class Calculation:
     def slot_pitch(self) -> float:
         return geo.stator_slot_pitch(self.d)
 
-    @sheet("stator.tooth_width_min", "mm", "slot pitch minus slot width along the winding zone")
+    @sheet(
+        "stator.tooth_width_min",
+        "mm",
+        "narrowest tooth along the winding zone: slot pitch at a depth less the slot width there",
+    )
     def tooth_width_min(self) -> float:
         return geo.stator_tooth_width_min(self.d)
 
-    @sheet("stator.yoke_height", "mm", "half the difference of the diameters less slot height")
+    @sheet("stator.yoke_height", "mm", "(outer - bore diameter) / 2 less the slot depth")
     def stator_yoke_height(self) -> float:
         return geo.stator_yoke_height(self.d)
 
-    @sheet("rotor.yoke_height", "mm", "rotor section below slots, magnets or pole bodies")
+    @sheet(
+        "rotor.yoke_height",
+        "mm",
+        "radial height of the rotor yoke, from the inner diameter to the cage slots, magnets"
+        " or pole bodies",
+    )
     def rotor_yoke_height(self) -> float:
         return geo.rotor_yoke_height(self.d)
 

@@ -217,11 +217,22 @@ def _explain(plugins, rid: str) -> int:  # type: ignore[no-untyped-def]
 
 
 def _default_text(info) -> str:  # type: ignore[no-untyped-def]
-    """An option's default in the unit its examples use ('5 A/mm^2', not 5000000.0)."""
+    """An option's default in the unit its examples use ('5 A/mm^2', not 5000000.0), also
+    for an optional quantity (``FluxDensity | None``), whose unit sits inside the union."""
+    from typing import Annotated, get_args, get_origin
+
     from emgate.units import format_value
 
+    metadata = list(info.metadata)
+    pending = [info.annotation]
+    while pending:  # the Annotated members of unions (Optional) carry their own metadata
+        hint = pending.pop()
+        if get_origin(hint) is Annotated:
+            metadata.extend(hint.__metadata__)
+        else:
+            pending.extend(get_args(hint))
     default = info.get_default(call_default_factory=True)
-    for meta in info.metadata:
+    for meta in metadata:
         examples = getattr(meta, "json_schema", None) or {}
         example = (examples.get("examples") or [None])[0]
         if isinstance(example, str) and isinstance(default, float):

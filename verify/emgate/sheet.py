@@ -11,6 +11,7 @@ from typing import Any
 from emgate import __version__
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import DISCLAIMER
+from emgate.report.common import si_unit as _si_unit
 
 
 def sheet_values(
@@ -99,26 +100,3 @@ def show(path: Path, fmt: str) -> int:
         print(f"  {name:<{width}}  {shown:>16}   {method}")
     print(f"\n{DISCLAIMER}")
     return status
-
-
-#: SI unit of each display unit, for the JSON form (values there are SI).
-def _si_unit(unit: str) -> str:
-    from emgate.units import _BASE, parse_unit
-
-    if unit in ("", "1"):
-        return "1"
-    dims = parse_unit(unit)[1]
-    named = {
-        (0, 1, -2, -1, 0): "T",
-        (0, 0, 0, 1, 0): "A",
-        (2, 1, -3, -2, 0): "ohm",
-        (2, 1, -3, 0, 0): "W",
-        (0, 0, 0, 0, 1): "K",
-        (2, 1, -2, -1, 0): "Wb",
-    }
-    if dims in named:
-        return named[dims]
-    parts = [b if e == 1 else f"{b}^{e}" for b, e in zip(_BASE, dims, strict=True) if e > 0]
-    neg = [b if e == -1 else f"{b}^{-e}" for b, e in zip(_BASE, dims, strict=True) if e < 0]
-    text = "*".join(parts) or "1"
-    return f"{text}/{'/'.join(neg)}" if neg else text

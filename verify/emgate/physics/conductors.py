@@ -802,7 +802,8 @@ def mean_turn_length(stack_length: float, coil_span: float, *, high_voltage: boo
     -------
     float
         ``2 l + 2.4 W + 0.1 m`` (low voltage) or ``2 l + 2.9 W + 0.2 m`` (high voltage) [m].
-        For tooth coils the end-winding term overestimates: prefer a measured length.
+        For tooth coils the end-winding term overestimates: use
+        :func:`tooth_coil_mean_turn_length`.
 
     References
     ----------
@@ -812,6 +813,43 @@ def mean_turn_length(stack_length: float, coil_span: float, *, high_voltage: boo
     if high_voltage:
         return 2.0 * stack_length + 2.9 * coil_span + 0.2
     return 2.0 * stack_length + 2.4 * coil_span + 0.1
+
+
+def tooth_coil_mean_turn_length(
+    stack_length: float, tooth_width: float, coil_side_width: float
+) -> float:
+    """Mean length of one turn of a coil wound around a single tooth.
+
+    The coil hugs the tooth: the centre line of its side runs ``w_c / 2`` off the tooth's
+    rectangular section ``l x b_t`` and turns the corners on arcs of that radius, so the mean
+    turn is the perimeter of the section's parallel body at distance ``w_c / 2``.
+
+    Parameters
+    ----------
+    stack_length : float
+        Core length ``l`` [m].
+    tooth_width : float
+        Mean width ``b_t`` of the tooth along the coil side [m].
+    coil_side_width : float
+        Width ``w_c`` of one coil side across the slot [m]: half the mean slot width for a
+        double layer (two coils side by side in a slot), the mean slot width for a single
+        layer.
+
+    Returns
+    -------
+    float
+        ``2 (l + b_t) + pi w_c`` [m].
+
+    References
+    ----------
+    [calc] Steiner's formula: the parallel body of a convex figure at distance ``r`` has the
+    perimeter ``P + 2 pi r``, here ``P = 2 (l + b_t)`` and ``r = w_c / 2``. That the coil lies
+    tight on the tooth, with no end-winding clearance, is common practice, no source.
+    """
+    _check_positive(
+        stack_length=stack_length, tooth_width=tooth_width, coil_side_width=coil_side_width
+    )
+    return 2.0 * (stack_length + tooth_width) + math.pi * coil_side_width
 
 
 def phase_resistance(

@@ -1,10 +1,13 @@
-"""Pieces every reporter shares: the verdict words, the rules that ran, locations."""
+"""Pieces every reporter shares: the verdict words, the rules that ran, locations, units."""
 
 from __future__ import annotations
 
+import math
 import re
+from collections.abc import Iterable
 
-from emgate.findings import Finding, RuleInfo, RunResult
+from emgate.findings import Finding, RecordResult, RuleInfo, RunResult
+from emgate.rule import Check
 
 VERDICTS = {0: "PASS", 1: "FAIL", 2: "INVALID INPUT", 3: "RULE CRASHED"}
 # C0 controls except tab and line ends, DEL, C1, surrogates and the XML non-characters
@@ -47,4 +50,67 @@ def summary_line(result: RunResult) -> str:
         f" {len(rules_run(result))} rule(s) run ({checks} checks),"
         f" {len(result.active('error'))} error(s), {len(result.active('warning'))} warning(s),"
         f" {waived} waived"
+    )
+
+
+#: Names of the SI units whose dimensions (m, kg, s, A, K) have one.
+_NAMED_SI = {
+    (0, 1, -2, -1, 0): "T",
+    (0, 0, 0, 1, 0): "A",
+    (2, 1, -3, -2, 0): "ohm",
+    (2, 1, -3, 0, 0): "W",
+    (0, 0, 0, 0, 1): "K",
+    (2, 1, -2, -1, 0): "Wb",
+    (2, 1, -3, -1, 0): "V",
+}
+
+
+def si_unit(unit: str) -> str:
+    """The SI unit of a display unit ('A/mm^2' -> 'A/m^2', 'kA/m' -> 'A/m', '%' -> '1'), in
+    which the JSON outputs give values."""
+    from emgate.units import _BASE, parse_unit
+
+    if unit in ("", "1"):
+        return "1"
+    dims = parse_unit(unit)[1]
+    if dims in _NAMED_SI:
+        return _NAMED_SI[dims]
+    parts = [b if e == 1 else f"{b}^{e}" for b, e in zip(_BASE, dims, strict=True) if e > 0]
+    neg = [b if e == -1 else f"{b}^{-e}" for b, e in zip(_BASE, dims, strict=True) if e < 0]
+    text = "*".join(parts) or "1"
+    return f"{text}/{'/'.join(neg)}" if neg else text
+
+
+def check_display(c: Check) -> str:
+    """A check's value against its limit in the display unit: '6.007 A/mm^2 <= 10 A/mm^2'."""
+    from emgate.units import format_value
+
+    bound = "<=" if c.bound == "max" else ">="
+    return f"{format_value(c.value, c.unit)} {bound} {format_value(c.limit, c.unit)}"
+
+
+def closest_check(checks: Iterable[tuple[str, Check]]) -> tuple[str, Check] | None:
+    """The (rule, check) with the smallest margin to its limit, or None when there is none;
+    ties go to the first given."""
+    return min(checks, key=lambda rc: rc[1].margin, default=None)
+
+
+def margin_text(c: Check) -> str:
+    """A check's margin as a signed percentage ('+18.3 %'), or 'n/a' when not finite."""
+    return f"{c.margin:+.1%}".replace("%", " %") if math.isfinite(c.margin) else "n/a"
+
+
+def margins_line(record: RecordResult) -> str:
+    """One line on a record's checks: how many, and the one closest to its limit."""
+    checks = [(o.rule, c) for o in record.outcomes for c in o.checks]
+    closest = closest_check(checks)
+    if closest is None:
+        return f"{record.record_id}: no numeric check"
+    rule, c = closest
+    from emgate.units import format_value
+
+    head = f"{record.record_id}: {len(checks)} check{'' if len(checks) == 1 else 's'}"
+    return (
+        f"{head}; closest to a limit: {rule}, {c.label} {format_value(c.value, c.unit)}"
+        f" of {format_value(c.limit, c.unit)} ({margin_text(c)})"
     )

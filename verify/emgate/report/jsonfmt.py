@@ -1,4 +1,5 @@
-"""JSON: the whole result, for tools. Values are SI; each check also names its display unit."""
+"""JSON: the whole result, for tools. Values and limits are SI, in each check's "unit" (the SI
+unit of the quantity); "display" shows them for people, in the unit a report uses."""
 
 from __future__ import annotations
 
@@ -8,6 +9,7 @@ from typing import Any
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RunResult
+from emgate.report.common import check_display, si_unit
 from emgate.rule import Check
 
 
@@ -24,7 +26,8 @@ def check_dict(c: Check) -> dict[str, Any]:
         "limit": _num(c.limit),
         "bound": c.bound,
         "margin": _num(c.margin),
-        "unit": c.unit,
+        "unit": si_unit(c.unit),
+        "display": check_display(c),
         "basis": c.basis,
         "passed": c.passed,
     }

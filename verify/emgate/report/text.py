@@ -1,11 +1,13 @@
-"""Text for people: grouped by file, one line per finding with file:line:col, sorted, stable."""
+"""Text for people: grouped by file, one line per finding with file:line:col, sorted, stable;
+then one line per record naming its check closest to a limit, so a passing run shows its
+margins too."""
 
 from __future__ import annotations
 
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
-from emgate.report.common import rules_line, summary_line, where
+from emgate.report.common import margins_line, rules_line, summary_line, where
 
 
 def _line(f: Finding) -> str:
@@ -23,6 +25,9 @@ def render(result: RunResult) -> str:
     for file, group in groupby(result.findings, key=lambda f: f.file):
         out.append(file or "(run)")
         out.extend(_line(f) for f in group)
+        out.append("")
+    if result.records:
+        out.extend(margins_line(r) for r in result.records)
         out.append("")
     out.append(summary_line(result))
     out.append(rules_line(result))

@@ -321,6 +321,14 @@ def _check_required(required: list[str], installed: dict[str, str], ld: _Loader)
             )
 
 
+#: Options that became record fields, for a helpful message to an old config.
+MOVED_TO_RECORD = {
+    "fin_area_factor": "cooling.fin_area_factor in each record",
+    "frame_length_factor": "cooling.frame_length (a length) in each record",
+    "core_area_factor": "cooling.core_area_factor in each record",
+}
+
+
 def _option_errors(
     exc: ValidationError, doc: Document, at: RecordPath, rid: str
 ) -> list[InputError]:
@@ -332,6 +340,8 @@ def _option_errors(
         msg = error["msg"].removeprefix("Value error, ")
         if error["type"] == "extra_forbidden":
             msg = f"rule {rid!r} has no option {str(path[-1])!r}"
+            if str(path[-1]) in MOVED_TO_RECORD:
+                msg += f"; it describes the machine, so it is now {MOVED_TO_RECORD[path[-1]]}"
             out.append(InputError(msg, doc.locate_key(path)))
             continue
         out.append(

@@ -237,6 +237,7 @@ BUILTIN = [
     "demagnetisation",
     "gap-flux",
     "mmf-thd",
+    "nameplate",
     "slot-fill",
     "temperature-rise",
     "thermal-load",

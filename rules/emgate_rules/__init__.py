@@ -14,6 +14,7 @@ def emgate_rules() -> list[type[Rule]]:
     from emgate_rules.demagnetisation import Demagnetisation
     from emgate_rules.gap_flux import GapFlux
     from emgate_rules.mmf_thd import MmfThd
+    from emgate_rules.nameplate import Nameplate
     from emgate_rules.slot_fill import SlotFill
     from emgate_rules.temperature_rise import TemperatureRise
     from emgate_rules.thermal_load import ThermalLoadRule
@@ -28,6 +29,7 @@ def emgate_rules() -> list[type[Rule]]:
         Demagnetisation,
         GapFlux,
         MmfThd,
+        Nameplate,
         SlotFill,
         TemperatureRise,
         ThermalLoadRule,

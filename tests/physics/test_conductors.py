@@ -111,13 +111,24 @@ def test_insulation_classes() -> None:
         assert 313.15 + cls.rise_limit < cls.class_temperature
 
 
-@pytest.mark.parametrize("letter", ["A", "E", "N"])
-def test_classes_without_limits_refuse(letter: str) -> None:
-    # REFERENCE.md gives no rise limit or reference temperature for A, E, N: never guess.
+def test_classes_a_and_e_from_memory() -> None:
+    # [from memory: IEC 60034-1 Table 7] A 60 K, E 75 K; reference temperatures taken as the
+    # rise limit + 15 K, as for class B (95 degC) [from memory: IEC 60034-2-1].
+    assert c.temperature_rise_limit("A") == 60.0
+    assert c.temperature_rise_limit("E") == 75.0
+    assert c.reference_temperature("A") == pytest.approx(348.15, abs=1e-9)
+    assert c.reference_temperature("E") == pytest.approx(363.15, abs=1e-9)
+    for letter in "AE":  # the hot-spot margin holds as for B, F, H
+        cls = c.insulation_class(letter)
+        assert 313.15 + cls.rise_limit < cls.class_temperature  # type: ignore[operator]
+
+
+def test_class_n_without_limits_refuses() -> None:
+    # No rise limit or reference temperature is held for N: never guess.
     with pytest.raises(ValueError):
-        c.temperature_rise_limit(letter)
+        c.temperature_rise_limit("N")
     with pytest.raises(ValueError):
-        c.reference_temperature(letter)
+        c.reference_temperature("N")
 
 
 def test_unknown_class() -> None:

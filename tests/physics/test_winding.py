@@ -13,6 +13,7 @@ from emgate.physics.winding import (
     WindingError,
     balance,
     feasibility,
+    parallel_path_counts,
     series_turns_per_phase,
     star_of_slots,
     winding_factor_closed_form,
@@ -322,3 +323,34 @@ def test_generated_phases_share_every_winding_factor(slots: int, p: int, layers:
     assert layout is not None
     kws = winding_factors(layout, np.arange(0, 3 * slots))
     np.testing.assert_allclose(kws, np.broadcast_to(kws[0], kws.shape), rtol=0, atol=1e-9)
+
+
+# --- parallel paths --------------------------------------------------------------------------
+
+
+def _divisors(n: int) -> list[int]:
+    return [a for a in range(1, n + 1) if n % a == 0]
+
+
+@pytest.mark.parametrize(("q", "p"), [(1, 1), (2, 2), (3, 2), (2, 3), (4, 4)])
+def test_integral_slot_parallel_paths(q: int, p: int) -> None:
+    # [mem: Pyrhonen, Jokinen, Hrabovcova] integral-slot windings: any divisor of 2p parallel
+    # paths for a double layer, of p for a single layer (all poles carry equal EMFs).
+    slots = 2 * p * 3 * q
+    pitch = 3 * q  # full pitch
+    assert parallel_path_counts(slots, p, 3, 2, pitch) == _divisors(2 * p)
+    assert parallel_path_counts(slots, p, 3, 1, pitch) == _divisors(p)
+
+
+@pytest.mark.parametrize(
+    ("slots", "p", "layers", "expected"),
+    [
+        (9, 4, 2, [1]),  # Q/t = 9 odd: no two coils of a phase share a phasor [calc]
+        (12, 5, 2, [1, 2]),  # coils on opposite teeth pair up [calc: star of slots]
+        (12, 5, 1, [1, 2]),
+        (24, 5, 1, [1, 2]),
+    ],
+)
+def test_tooth_coil_parallel_paths(slots: int, p: int, layers: int, expected: list[int]) -> None:
+    pitch = 1 if layers == 2 or slots == 12 else 2
+    assert parallel_path_counts(slots, p, 3, layers, pitch) == expected

@@ -58,6 +58,11 @@ class Rating(Strict):
     frequency: Frequency
     speed: Speed = Field(description="rated speed, e.g. '1470 rpm'")
     connection: Literal["star", "delta"]
+    operation: Literal["motor", "generator"] = Field(
+        default="motor",
+        description="what the rating describes: a motor (power is shaft"
+        " output) or a generator (power is electrical output, W or VA)",
+    )
 
 
 class SemiClosedSlot(Strict):
@@ -136,7 +141,7 @@ SlotEntry = Annotated[
 
 
 #: IEC 60085 thermal classes by their temperature (a record may name either).
-CLASS_BY_TEMPERATURE = {"130": "B", "155": "F", "180": "H"}
+CLASS_BY_TEMPERATURE = {"105": "A", "120": "E", "130": "B", "155": "F", "180": "H"}
 
 
 def _class_letter(value: object) -> object:
@@ -150,9 +155,12 @@ class Winding(Strict):
     turns_per_coil: int = Field(ge=1, le=10000)
     parallel_paths: int = Field(default=1, ge=1, le=100)
     conductor: Conductor
-    insulation_class: Annotated[Literal["B", "F", "H"], BeforeValidator(_class_letter)] = Field(
-        description="thermal class letter of IEC 60085 (130 B, 155 F, 180 H: the classes whose"
-        " IEC 60034-1 rise limits and loss reference temperatures emgate holds)"
+    insulation_class: Annotated[
+        Literal["A", "E", "B", "F", "H"], BeforeValidator(_class_letter)
+    ] = Field(
+        description="thermal class of IEC 60085, by letter or temperature (105 A, 120 E, 130 B,"
+        " 155 F, 180 H: the classes whose IEC 60034-1 rise limits and loss reference"
+        " temperatures emgate holds; for 200 (N) and above there is no such data yet)"
     )
     slot_liner: LengthOrZero | None = Field(
         default=None, description="slot liner (ground insulation) thickness"
@@ -164,13 +172,19 @@ class Winding(Strict):
     )
 
 
+def _ic_code(value: object) -> object:
+    """'ic 411' and 'IC411' are the same code."""
+    return value.replace(" ", "").upper() if isinstance(value, str) else value
+
+
 class Cooling(Strict):
     method: Literal[
         "enclosed_natural", "enclosed_fan", "open_ventilated", "liquid_jacket", "direct_liquid"
     ]
-    code: Annotated[str, StringConstraints(pattern=r"^IC[0-9A-Z]{2,12}$")] | None = Field(
-        default=None, description="IEC 60034-6 cooling code, e.g. IC411"
-    )
+    code: (
+        Annotated[str, BeforeValidator(_ic_code), StringConstraints(pattern=r"^IC[0-9A-Z]{2,12}$")]
+        | None
+    ) = Field(default=None, description="IEC 60034-6 cooling code, e.g. IC411")
     ambient: Temperature = Field(description="coolant (ambient air or inlet liquid) temperature")
     fin_area_factor: float = Field(
         default=4.0,

@@ -264,6 +264,14 @@ def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             )
         )
     out.extend(geometry.slot_shape_problems(st.slot, ("stator", "slot")))
+    if st.stacking_factor * geometry.stator_tooth_width_min(d) >= geometry.stator_slot_pitch(d):
+        out.append(
+            (
+                ("stator", "slot"),
+                "the slots are narrower than the stacking factor's"
+                " share of a slot pitch: no slot is left to carry conductors",
+            )
+        )
     w = d.winding
     if not 1 <= w.coil_pitch <= st.slots - 1:
         out.append(
@@ -330,7 +338,11 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     """What the kernel cannot build: asked of the kernel itself, so that the record, not a
     rule, is reported (exit 2, at the field)."""
     from emgate.calc import conductor_strand_area, slot_winding_area
-    from emgate.physics.winding import series_turns_per_phase, star_of_slots
+    from emgate.physics.winding import (
+        parallel_path_counts,
+        series_turns_per_phase,
+        star_of_slots,
+    )
 
     out: list[tuple[RecordPath, str]] = []
     w, st = d.winding, d.stator
@@ -346,13 +358,14 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             ("winding", "coil_pitch"),
             lambda: star_of_slots(st.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch),
         )
-    if w.layout is None and (paths := _parallel_paths_allowed(st.slots, d.pole_pairs, w.layers)):
+    if w.layout is None and not out and 1 <= w.coil_pitch <= st.slots - 1:
+        paths = parallel_path_counts(st.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch)
         if w.parallel_paths not in paths:
             out.append(
                 (
                     ("winding", "parallel_paths"),
                     f"{w.parallel_paths} parallel paths would not carry equal EMFs: this"
-                    f" winding repeats so that {', '.join(map(str, paths))} can",
+                    f" winding's coils group so that {', '.join(map(str, paths))} can",
                 )
             )
             return out
@@ -386,10 +399,10 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     return out
 
 
-#: Slip of an induction machine at its rating: a few percent, above 10 % only for very small
-#: or high-slip machines (common practice, no source); beyond 15 % the speed or frequency is
-#: wrong (50 and 60 Hz mixed, poles miscounted).
-MAX_SLIP = 0.15
+#: Slip beyond which the rated speed, frequency or pole count is certainly wrong (poles
+#: miscounted, a synchronous speed written); high-slip motors reach 20-30 % (from memory),
+#: so milder doubts (50/60 Hz mixed) are the nameplate rule's warning.
+GROSS_SLIP = 0.5
 #: Efficiency times power factor at the rating: below 0.2 even a small motor is implausible
 #: (common practice, no source).
 MIN_POWER_RATIO = 0.2
@@ -403,31 +416,32 @@ IC_METHODS = {
 }
 
 
-def _parallel_paths_allowed(slots: int, pole_pairs: int, layers: int) -> list[int]:
-    """Parallel-path counts with equal EMFs: divisors of the periodicity t = gcd(Q, p), or of
-    2 t for a double layer when Q / t is even [from memory: Pyrhonen, Jokinen, Hrabovcova,
-    Design of Rotating Electrical Machines]."""
-    import math
+def _short_ic(code: str | None) -> str | None:
+    """IC4A1A1 -> IC411: the full IEC 60034-6 notation with the air coolant letters dropped."""
+    import re
 
-    t = math.gcd(slots, pole_pairs)
-    top = 2 * t if layers == 2 and (slots // t) % 2 == 0 else t
-    return [a for a in range(1, top + 1) if top % a == 0]
+    if code is None:
+        return None
+    return re.sub(r"A(?=\d)", "", code)
 
 
 def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
-    """Rated speed against the supply frequency and poles; a plausible coolant."""
+    """Gross contradictions in the rating and cooling; milder doubts are the nameplate rule's."""
     out: list[tuple[RecordPath, str]] = []
     sync = d.rating.frequency / d.pole_pairs  # revolutions per second
     n = d.rating.speed
+    generator = d.rating.operation == "generator"
     if d.machine == "induction":
         slip = 1.0 - n / sync
-        if not (slip != 0.0 and abs(slip) <= MAX_SLIP):
+        right_side = slip < 0.0 if generator else slip > 0.0
+        if not (right_side and abs(slip) <= GROSS_SLIP):
+            turns = "above" if generator else "below"
             out.append(
                 (
                     ("rating", "speed"),
-                    f"an induction machine at {d.rating.frequency:g} Hz with {d.poles} poles"
-                    f" turns near {sync * 60:g} rpm with some slip; {n * 60:g} rpm is a slip"
-                    f" of {slip:.1%}",
+                    f"an induction {d.rating.operation} at {d.rating.frequency:g} Hz with"
+                    f" {d.poles} poles turns a little {turns} {sync * 60:g} rpm;"
+                    f" {n * 60:g} rpm is a slip of {slip:.1%}",
                 )
             )
     elif abs(n / sync - 1.0) > 0.01:
@@ -448,11 +462,12 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     )
     ratio = r.power / apparent
     if not MIN_POWER_RATIO <= ratio <= 1.02:
+        meaning = "power factor" if generator else "efficiency times power factor"
         out.append(
             (
                 ("rating", "line_current"),
-                f"rated power {r.power / 1e3:g} kW from {r.line_voltage:g} V and"
-                f" {r.line_current:g} A means efficiency times power factor of {ratio:.2f};"
+                f"rated power {r.power / 1e3:.4g} kW (or kVA) from {r.line_voltage:.4g} V and"
+                f" {r.line_current:.4g} A gives P / (m U_ph I_ph) = {ratio:.3g}, the {meaning};"
                 f" a machine lies between {MIN_POWER_RATIO:g} and 1 (check power, voltage"
                 " and current)",
             )
@@ -464,7 +479,7 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
                 f"coolant at {d.cooling.ambient - 273.15:g} degC is outside -60 to 120 degC",
             )
         )
-    code = d.cooling.code
+    code = _short_ic(d.cooling.code)
     if code in IC_METHODS and IC_METHODS[code] != d.cooling.method:
         out.append(
             (
@@ -473,7 +488,20 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
                 f" but the method says {d.cooling.method.replace('_', ' ')}",
             )
         )
-    if d.machine == "surface_pm" and d.rotor.magnet.material.remanence_temperature_coefficient >= 0:
+    frame = d.cooling.frame_length
+    if frame is not None and not 0.5 <= frame / d.stator.stack_length <= 5.0:
+        out.append(
+            (
+                ("cooling", "frame_length"),
+                f"a frame {frame * 1e3:.4g} mm long for a {d.stator.stack_length * 1e3:.4g} mm"
+                " stack is implausible (0.5 to 5 stack lengths)",
+            )
+        )
+    # Temperature-compensated SmCo sits near zero; anything clearly positive is a sign slip.
+    if (
+        d.machine == "surface_pm"
+        and d.rotor.magnet.material.remanence_temperature_coefficient > 5e-4
+    ):
         out.append(
             (
                 ("rotor", "magnet", "material", "remanence_temperature_coefficient"),

@@ -944,13 +944,15 @@ class InsulationClass:
     reference_temperature: float | None
 
 
-#: IEC 60085 classes [pub]; IEC 60034-1 rises [pub, via a manufacturer's manual] and
-#: reference temperatures [mem] for B, F, H only: A, E and N are not covered here.
+#: IEC 60085 classes [pub]; IEC 60034-1 rises for B, F, H [pub, via a manufacturer's
+#: manual] and for A 60 K, E 75 K [from memory: IEC 60034-1 Table 7]; loss reference
+#: temperatures [mem: IEC 60034-2-1], A and E taken as rise limit + 15 K like B (from memory).
+#: N is not covered here.
 INSULATION_CLASSES: dict[str, InsulationClass] = {
     c.letter: c
     for c in (
-        InsulationClass("A", 105.0 + ZERO_CELSIUS, None, None),
-        InsulationClass("E", 120.0 + ZERO_CELSIUS, None, None),
+        InsulationClass("A", 105.0 + ZERO_CELSIUS, 60.0, 75.0 + ZERO_CELSIUS),
+        InsulationClass("E", 120.0 + ZERO_CELSIUS, 75.0, 90.0 + ZERO_CELSIUS),
         InsulationClass("B", 130.0 + ZERO_CELSIUS, 80.0, 95.0 + ZERO_CELSIUS),
         InsulationClass("F", 155.0 + ZERO_CELSIUS, 105.0, 115.0 + ZERO_CELSIUS),
         InsulationClass("H", 180.0 + ZERO_CELSIUS, 125.0, 135.0 + ZERO_CELSIUS),

@@ -326,6 +326,55 @@ def star_of_slots(
     )
 
 
+def parallel_path_counts(
+    slots: int, pole_pairs: int, phases: int, layers: int, coil_pitch: int
+) -> list[int]:
+    """Parallel-path counts a whose paths carry equal EMFs, for the star-of-slots winding.
+
+    The coils of phase A are grouped by their EMF phasor (a coil from slot s with sign c
+    has the phasor c exp(j theta_s) times a factor common to all coils of the pitch); a
+    paths are equal when every group splits into a equal shares, so a must divide the size
+    of every group.
+
+    Parameters
+    ----------
+    slots, pole_pairs, phases, layers, coil_pitch : int
+        As for :func:`star_of_slots` (the winding must be buildable).
+
+    Returns
+    -------
+    list of int
+        The allowed counts, ascending (1 always among them).
+
+    References
+    ----------
+    Equal-EMF condition for parallel paths [mem: Pyrhonen, Jokinen, Hrabovcova, Design of
+    Rotating Electrical Machines, ch. 2].
+    """
+    sides = _belt_sides(slots, pole_pairs, phases)[0]
+    if layers == 2:
+        starts = [int(s) for s in np.flatnonzero(sides)]
+    else:
+        ok = np.roll(sides, -coil_pitch) == -sides
+        starts = []
+        cycles = math.gcd(slots, coil_pitch)
+        length = slots // cycles
+        for c in range(cycles):
+            idx = [(c + coil_pitch * k) % slots for k in range(length)]
+            first = 0 if all(ok[idx[k]] for k in range(0, length, 2)) else 1
+            starts += [idx[k] for k in range(first, length, 2) if sides[idx[k]] != 0]
+    angle = 2.0 * math.pi * pole_pairs / slots
+    groups: dict[int, int] = {}
+    for s in starts:
+        phi = (angle * s + (math.pi if sides[s] < 0 else 0.0)) % (2.0 * math.pi)
+        key = round(phi * 1e6) % round(2.0 * math.pi * 1e6)
+        groups[key] = groups.get(key, 0) + 1
+    g = 0
+    for n in groups.values():
+        g = math.gcd(g, n)
+    return [a for a in range(1, g + 1) if g % a == 0]
+
+
 def series_turns_per_phase(
     slots: int, layers: int, phases: int, turns_per_coil: int, parallel_paths: int
 ) -> float:

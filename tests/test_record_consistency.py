@@ -303,3 +303,13 @@ def test_single_layer_tooth_coils_take_two_paths(repo: Path) -> None:
     assert not run_cli("check", "--format", "json", ok).input_findings()
     bad = write_variant(repo, {**base, "winding.parallel_paths": 4}, base=SERVO, name="b.yaml")
     assert "1, 2 can" in only_input_error(bad)["message"]
+
+
+def test_a_broken_record_the_change_does_not_touch_blocks_nothing(repo: Path) -> None:
+    # pre-commit passes only the staged record; a colleague's half-written record elsewhere
+    # in the repository must not block this commit (a full check still reports it).
+    (repo / "emgate.yaml").write_text("schema: emgate/config@1\n")
+    staged = write_variant(repo, name="staged.yaml")
+    (repo / "draft.yaml").write_text("schema: emgate/design@1\nid: draft\npoles: [4\n")
+    assert run_cli("check", staged).code == 0
+    assert run_cli("check", repo).code == 2

@@ -36,6 +36,9 @@ class BackEmf(Rule):
     current without field weakening; the ratio also bounds the voltage the magnets put on
     the inverter when it stops switching at rated speed. A team that designs for field
     weakening sets its own ratio.
+
+    Not checked for a generator (rating.operation: generator): its EMF exceeds its terminal
+    voltage by design, by the internal drop at rated load; the rule yields no check then.
     """
 
     id = "back-emf"
@@ -49,6 +52,8 @@ class BackEmf(Rule):
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:
         assert isinstance(options, BackEmfOptions)
+        if design.rating.operation == "generator":
+            return
         calc = context.calc
         emf, voltage = calc.back_emf, calc.phase_voltage
         # Compared in volts, E <= max_ratio U_ph: the same verdict and margin as the ratio's.

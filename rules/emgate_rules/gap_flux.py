@@ -15,8 +15,9 @@ CP = "common practice, no source"
 DEFAULTS = {"induction": 0.9, "surface_pm": 1.1, "salient_field": 1.05}
 SOURCES = {"induction": PYRHONEN, "surface_pm": CP, "salient_field": PYRHONEN}
 #: Lower limits: below them the iron (a saturated pole body, too thin a magnet) starves the
-#: gap (common practice, no source).
-MINIMA = {"induction": 0.6, "surface_pm": 0.5, "salient_field": 0.6}
+#: gap (common practice, no source). Surface magnets 0.3 T: a ferrite machine's gap runs at
+#: about that (common practice, no source).
+MINIMA = {"induction": 0.6, "surface_pm": 0.3, "salient_field": 0.6}
 #: What a designer changes to move the gap flux density, by machine kind.
 DRIVERS = {
     "induction": ("winding", "turns_per_coil"),
@@ -53,9 +54,11 @@ class GapFlux(Rule):
     Table 6.1]; surface PM 1.1 T (common practice, no source).
 
     Default lower limits (options `induction_min`, `surface_pm_min`, `salient_field_min`;
-    null switches one off): induction 0.6 T, surface PM 0.5 T, salient pole 0.6 T (common
+    null switches one off): induction 0.6 T, surface PM 0.3 T, salient pole 0.6 T (common
     practice, no source). A gap below them is starved: a saturated pole body or yoke, or a
-    magnet too thin for its gap, so the machine falls short of its rating.
+    magnet too thin for its gap, so the machine falls short of its rating. The surface-PM
+    floor admits ferrite magnets, whose gaps run at about 0.3 T; a team with rare-earth
+    magnets only may raise it (0.5 T or more).
     """
 
     id = "gap-flux"

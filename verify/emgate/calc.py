@@ -31,7 +31,7 @@ if TYPE_CHECKING:
     )
     from emgate.physics.bh import BHCurve
     from emgate.physics.conductors import ConductorMaterial
-    from emgate.physics.magnetic import GapResult, PolePath
+    from emgate.physics.magnetic import GapResult, PolePath, SurfacePMResult
     from emgate.physics.thermal import ThermalEstimate
 
 
@@ -498,6 +498,19 @@ class Calculation:
             self.d.pole_pairs,
         )
 
+    @sheet(
+        "winding.mmf_peak",
+        "A",
+        "peak of the staircase MMF (ampere-turns per pole) over the gap and one electrical"
+        " period at rated current, balanced sinusoidal currents; exact from the step levels:"
+        " each level is a sinusoid in time, its crest sqrt(F_s(0)^2 + F_s(T/4)^2)",
+    )
+    def mmf_peak(self) -> float:
+        from emgate.physics.mmf import mmf_peak
+
+        w = self.d.winding
+        return mmf_peak(self.layout, w.turns_per_coil, self.phase_current / w.parallel_paths)
+
     # --- air gap -------------------------------------------------------------------------
 
     @cached_property
@@ -600,15 +613,7 @@ class Calculation:
                 winding_factor=self.winding_factor,
             )
         if d.machine == "surface_pm":
-            m = d.rotor.magnet
-            br = mk.remanence_at(
-                m.material.remanence,
-                m.operating_temperature,
-                m.material.remanence_temperature_coefficient,
-                m.material.reference_temperature,
-            )
-            magnet = mk.SurfaceMagnet(br, m.material.recoil_permeability, m.thickness, m.pole_arc)
-            return mk.surface_pm_gap(self.pole_path, magnet, self.stator_steel, self.rotor_steel)
+            return self._surface_pm_circuit(d.rotor.magnet.operating_temperature)
         pole = d.rotor.pole
         # The kernel's pole height runs from the gap to the rim, shoe included; the record's
         # body_height stops at the shoe. The body's flux density is carried over the shoe
@@ -626,6 +631,27 @@ class Calculation:
             self.rotor_steel,
             field_mmf=d.rotor.field.turns_per_pole * d.rotor.field.current,
         )
+
+    def _surface_pm_circuit(self, temperature: float) -> SurfacePMResult:
+        """The surface-magnet circuit at no load with the magnet at ``temperature`` [K]."""
+        from emgate.physics import magnetic as mk
+
+        m = self.d.rotor.magnet
+        br = mk.remanence_at(
+            m.material.remanence,
+            temperature,
+            m.material.remanence_temperature_coefficient,
+            m.material.reference_temperature,
+        )
+        magnet = mk.SurfaceMagnet(br, m.material.recoil_permeability, m.thickness, m.pole_arc)
+        return mk.surface_pm_gap(self.pole_path, magnet, self.stator_steel, self.rotor_steel)
+
+    @cached_property
+    def magnetic_cold(self) -> SurfacePMResult:
+        """The surface-magnet circuit at no load with the magnet at the coolant temperature
+        (a cold start): Br, and so |H_0|, is higher cold for a negative remanence
+        coefficient."""
+        return self._surface_pm_circuit(self.d.cooling.ambient)
 
     @sheet(
         "air_gap.flux_density_peak",
@@ -750,30 +776,64 @@ class Calculation:
     def magnet_h(self) -> float:
         return self.magnetic.magnet_h  # type: ignore[attr-defined]
 
-    def magnet_h_with_current(self, current_factor: float) -> float:
-        """Magnet field strength with the stator's fundamental MMF at ``current_factor``
+    @cached_property
+    def magnet_h_cold(self) -> float:
+        """No-load magnet working point H_0 with the magnet at the coolant temperature [A/m]."""
+        return self.magnetic_cold.magnet_h
+
+    def magnet_h_with_current(self, current_factor: float, *, cold: bool = False) -> float:
+        """Magnet field strength with the stator's peak staircase MMF at ``current_factor``
         times the rated current taken wholly on the d-axis, demagnetising [A/m].
 
-        Superposes on the no-load working point (iron included) the armature term of the
-        linear magnet-and-gap loop, H = H_0 - F1 / (h_m + mu_rec g_e), g_e the gap beside
+        Superposes on the no-load working point H_0 (iron included) the armature term of the
+        linear magnet-and-gap loop, H = H_0 - F_max / (h_m + mu_rec g_e), g_e the gap beside
         the magnet that the circuit is handed (kc g' - h_m / mu_rec), so the denominator is
-        mu_rec kc g'. An approximation on the worst side: the whole armature MMF on the
-        d-axis, across magnet and gap only (iron reluctance and magnet leakage neglected).
+        mu_rec kc g'. F_max is the peak of the staircase MMF over the gap and the period
+        (``winding.mmf_peak``), not the rotating fundamental F1: a tooth-coil winding's
+        sub- and higher harmonics raise it well above F1. An approximation on the worst
+        side: the whole peak on the d-axis, across magnet and gap only (iron reluctance and
+        magnet leakage neglected). With ``cold``, H_0 is that of the magnet at the coolant
+        temperature (``cooling.ambient``); the armature term is the same.
         """
         m = self.d.rotor.magnet
         mu_rec = m.material.recoil_permeability
         across = m.thickness + mu_rec * self.pole_path.effective_gap
-        return self.magnet_h - current_factor * self.mmf_fundamental / across
+        h0 = self.magnet_h_cold if cold else self.magnet_h
+        return h0 - current_factor * self.mmf_peak / across
 
     @sheet(
         "rotor.magnet_field_strength_worst",
         "kA/m",
-        "H_m with the rated-current fundamental F1 wholly on the d-axis,"
-        " H_0 - F1 / (h_m + mu_rec kc g) (a worst case; negative: demagnetising)",
+        "H_m with the rated-current staircase MMF peak F_max (winding.mmf_peak) wholly on the"
+        " d-axis, H_0 - F_max / (h_m + mu_rec kc g) (a worst case; negative: demagnetising)",
         ("surface_pm",),
     )
     def magnet_h_worst(self) -> float:
         return self.magnet_h_with_current(1.0)
+
+    @sheet(
+        "rotor.magnet_field_strength_worst_cold",
+        "kA/m",
+        "as rotor.magnet_field_strength_worst with the magnet at the coolant temperature (a"
+        " cold start): H_0 from Br at cooling.ambient, the same armature term",
+        ("surface_pm",),
+    )
+    def magnet_h_worst_cold(self) -> float:
+        return self.magnet_h_with_current(1.0, cold=True)
+
+    def magnet_coercivity_at(self, temperature: float) -> float:
+        """Intrinsic coercivity of the magnet at ``temperature`` [K], H_cJ0 (1 + beta (T -
+        T0)) [A/m]: the same linear reversible law as the remanence's, with H_cJ's own
+        coefficient."""
+        from emgate.physics.magnetic import remanence_at
+
+        mat = self.d.rotor.magnet.material
+        return remanence_at(
+            mat.intrinsic_coercivity,
+            temperature,
+            mat.coercivity_temperature_coefficient,
+            mat.reference_temperature,
+        )
 
     @sheet(
         "rotor.magnet_coercivity_hot",
@@ -782,17 +842,17 @@ class Calculation:
         ("surface_pm",),
     )
     def magnet_coercivity_hot(self) -> float:
-        from emgate.physics.magnetic import remanence_at
+        return self.magnet_coercivity_at(self.d.rotor.magnet.operating_temperature)
 
-        m = self.d.rotor.magnet
-        mat = m.material
-        # The same linear reversible law as the remanence's, with H_cJ's own coefficient.
-        return remanence_at(
-            mat.intrinsic_coercivity,
-            m.operating_temperature,
-            mat.coercivity_temperature_coefficient,
-            mat.reference_temperature,
-        )
+    @sheet(
+        "rotor.magnet_coercivity_cold",
+        "kA/m",
+        "intrinsic coercivity at the coolant temperature (a cold start), H_cJ0 (1 + beta (T_c"
+        " - T0)), T_c = cooling.ambient",
+        ("surface_pm",),
+    )
+    def magnet_coercivity_cold(self) -> float:
+        return self.magnet_coercivity_at(self.d.cooling.ambient)
 
     # --- geometry (for the sheet) --------------------------------------------------------
 

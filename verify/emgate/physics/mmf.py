@@ -271,3 +271,40 @@ def mmf_fundamental_peak(
     if kw > 1.0:
         raise ValueError(f"a winding factor is at most 1, got {kw1!r}")
     return math.sqrt(2.0) * m / math.pi * kw * n_ph * i_rms / p
+
+
+def mmf_peak(layout: np.ndarray, turns_per_coil: float, current_rms: float) -> float:
+    """Largest |staircase MMF| over the gap and over one period of balanced currents [A].
+
+    The staircase (conductors at slot centres, mean removed: a uniform gap) is constant
+    between slot centres, so its largest value over the gap is its largest step level. Each
+    level is linear in the phase currents, and balanced currents are
+    i(t) = cos(wt) i(0) + sin(wt) i(T/4), so a level is F_s(t) = F_s(0) cos wt + F_s(T/4)
+    sin wt, whose crest is sqrt(F_s(0)^2 + F_s(T/4)^2): exact, no sampling of the instants.
+
+    Parameters
+    ----------
+    layout : numpy.ndarray
+        Signed coil sides per phase and slot, shape (m, Q).
+    turns_per_coil : float
+        Turns of each coil N_c [-].
+    current_rms : float
+        Conductor current, rms: the phase current over the parallel paths [A].
+
+    Returns
+    -------
+    float
+        max over slots and instants of |F| [A], ampere-turns across one gap, as F1.
+
+    References
+    ----------
+    A. E. Fitzgerald, C. Kingsley, *Electric Machinery*, McGraw-Hill (the gap MMF steps by
+    the current enclosed at each slot; polyphase currents).
+    """
+    m = layout.shape[0]
+    # One sample a slot is the step levels themselves.
+    _, at_zero = mmf_staircase(layout, turns_per_coil, balanced_currents(m, current_rms, 0.0), 1)
+    _, at_quarter = mmf_staircase(
+        layout, turns_per_coil, balanced_currents(m, current_rms, math.pi / 2.0), 1
+    )
+    return float(np.max(np.hypot(at_zero, at_quarter)))

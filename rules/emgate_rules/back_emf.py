@@ -47,13 +47,15 @@ class BackEmf(Rule):
     tags = ("electrical", "magnetic")
     options = BackEmfOptions
 
+    @classmethod
+    def applies(cls, design: AnyDesign) -> bool:
+        return design.rating.operation != "generator"
+
     @unless_unbalanced
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:
         assert isinstance(options, BackEmfOptions)
-        if design.rating.operation == "generator":
-            return
         calc = context.calc
         emf, voltage = calc.back_emf, calc.phase_voltage
         # Compared in volts, E <= max_ratio U_ph: the same verdict and margin as the ratio's.

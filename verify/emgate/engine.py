@@ -306,7 +306,7 @@ def _check_design(
         rule = loaded.rule
         if not policy.selected(rule):
             continue
-        if design.machine not in rule.machines:
+        if design.machine not in rule.machines or not rule.applies(design):
             record.outcomes.append(RuleOutcome(rid, "not_applicable"))
             continue
         severity = policy.severity_for(rule)

@@ -97,6 +97,12 @@ class Rule:
     tags: ClassVar[tuple[str, ...]] = ()
     options: ClassVar[type[Options]] = Options
 
+    @classmethod
+    def applies(cls, design: AnyDesign) -> bool:
+        """Whether the rule applies to this record beyond its machine kinds (default: yes);
+        a rule that does not apply is reported as not applicable, not as passed."""
+        return True
+
     def check(
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:

@@ -45,9 +45,20 @@ def main() -> None:
     repeat = int(sys.argv[1]) if len(sys.argv) > 1 else 15
     exe = shutil.which("emgate") or sys.exit("emgate is not installed in this environment")
     base = wall([sys.executable, "-c", "import yaml"], repeat)
+    # The libraries the job requires, imported and nothing else: the floor under any CLI.
+    floor = wall(
+        [
+            sys.executable,
+            "-c",
+            "import yaml, numpy, pluggy, importlib.metadata;"
+            " from pydantic import BaseModel, TypeAdapter",
+        ],
+        repeat,
+    )
     one = wall([exe, "check", str(ONE)], repeat)
     many = wall([exe, "check", str(EXAMPLES)], repeat)
     print(f"python -c 'import yaml'          {base * 1e3:8.1f} ms   1.00")
+    print(f"import yaml+numpy+pluggy+pydantic {floor * 1e3:7.1f} ms   {floor / base:5.2f} x")
     print(f"emgate check one record          {one * 1e3:8.1f} ms   {one / base:5.2f} x")
     print(f"emgate check examples/ (3 + 1)   {many * 1e3:8.1f} ms   {many / base:5.2f} x")
 

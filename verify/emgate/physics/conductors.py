@@ -989,7 +989,7 @@ def temperature_rise_limit(letter: str) -> float:
     Parameters
     ----------
     letter : str
-        B, F or H.
+        A, E, B, F or H (N raises).
 
     Returns
     -------
@@ -1012,12 +1012,12 @@ def reference_temperature(letter: str) -> float:
     Parameters
     ----------
     letter : str
-        B, F or H.
+        A, E, B, F or H (N raises).
 
     Returns
     -------
     float
-        [K] (95, 115, 135 degC).
+        [K] (A 75, E 90, B 95, F 115, H 135 degC; A and E from memory).
 
     References
     ----------

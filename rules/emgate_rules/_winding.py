@@ -9,8 +9,8 @@ from typing import TYPE_CHECKING, Any
 from emgate.rule import Check, Context, Options, Problem, Rule
 
 if TYPE_CHECKING:
-    from emgate.loader import RecordPath
     from emgate.model import AnyDesign
+    from emgate.terms import RecordPath
 
 CheckMethod = Callable[[Any, "AnyDesign", Options, Context], Iterable[Check | Problem]]
 UNBALANCED = "the winding is unbalanced (winding-balance reports why)"

@@ -14,8 +14,7 @@ from pathlib import Path
 
 from emgate import __version__
 from emgate.report import FORMATS
-
-EXIT_OK, EXIT_FINDINGS, EXIT_INPUT, EXIT_CRASH = 0, 1, 2, 3
+from emgate.terms import EXIT_CRASH, EXIT_INPUT, EXIT_OK
 
 
 def _untrusted_path_guard() -> None:

@@ -23,10 +23,10 @@ from pydantic import (
 )
 
 from emgate.errors import InputError, InputErrors
-from emgate.loader import Document, RecordPath, load
-from emgate.rule import Options, Rule, Severity
+from emgate.loader import Document, load
+from emgate.rule import Options, Rule
+from emgate.terms import RecordPath, Severity
 
-CONFIG_SCHEMA = "emgate/config@1"
 CONFIG_NAME = "emgate.yaml"
 WAIVERS_NAME = "waivers.yaml"
 
@@ -38,7 +38,6 @@ Selector = Annotated[
         " ('tag:thermal')"
     ),
 ]
-Level = Literal["error", "warning", "info"]
 
 
 class _Strict(BaseModel):
@@ -68,7 +67,7 @@ class Override(_Strict):
         description="glob patterns relative to emgate.yaml; '*' also matches across folders",
     )
     rules: RuleSelection | None = None
-    severity: dict[str, Level] = Field(default_factory=dict)
+    severity: dict[str, Severity] = Field(default_factory=dict)
     options: dict[str, dict[str, Any]] = Field(default_factory=dict)
 
 
@@ -80,7 +79,7 @@ class ConfigFile(_Strict):
         " `emgate check` is given no paths",
     )
     rules: RuleSelection = Field(default_factory=RuleSelection)
-    severity: dict[str, Level] = Field(default_factory=dict)
+    severity: dict[str, Severity] = Field(default_factory=dict)
     options: dict[str, dict[str, Any]] = Field(
         default_factory=dict, description="per rule id: that rule's options (the team's limits)"
     )
@@ -231,7 +230,7 @@ class _Loader:
                 self.errors.extend(_option_errors(exc, self.doc, where, rid))
         return out
 
-    def severity(self, levels: dict[str, Level], at: RecordPath) -> dict[str, Severity]:
+    def severity(self, levels: dict[str, Severity], at: RecordPath) -> dict[str, Severity]:
         return {rid: lvl for rid, lvl in levels.items() if self.known(rid, (*at, rid))}
 
 

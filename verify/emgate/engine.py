@@ -15,14 +15,15 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from emgate.changes import ChangeSet
-from emgate.config import CONFIG_NAME, CONFIG_SCHEMA, Policy
+from emgate.config import CONFIG_NAME, Policy
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
-from emgate.model import DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, AnyDesign
+from emgate.model import AnyDesign
 from emgate.plugins import PluginSet
 from emgate.rule import Check, Context, Problem
+from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,

@@ -8,7 +8,8 @@ from pathlib import Path
 from typing import Literal
 
 from emgate.errors import display_path
-from emgate.rule import Check, Severity
+from emgate.rule import Check
+from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK, Severity
 
 Status = Literal["pass", "fail", "waived", "crash", "not_applicable"]
 DISCLAIMER = (
@@ -96,12 +97,12 @@ class RunResult:
         """0 clean, 1 a rule found an error, 2 input or configuration, 3 a crash."""
         live = [f for f in self.findings if f.waived_by is None]
         if any(f.kind == "crash" for f in live):
-            return 3
+            return EXIT_CRASH
         if any(f.kind == "input" for f in live):
-            return 2
+            return EXIT_INPUT
         if any(f.severity == "error" for f in live):
-            return 1
-        return 0
+            return EXIT_FINDINGS
+        return EXIT_OK
 
 
 def relative_file(path: Path) -> str:

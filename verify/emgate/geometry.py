@@ -10,8 +10,8 @@ import math
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
-    from emgate.loader import RecordPath
     from emgate.model import AnyDesign, OpenSlot, SemiClosedSlot
+    from emgate.terms import RecordPath
 
 
 def slot_width_at_gap(slot: SemiClosedSlot | OpenSlot) -> float:

@@ -20,14 +20,13 @@ from typing import Any
 import yaml
 
 from emgate.errors import InputError, Location
+from emgate.terms import RecordPath, path_string
 
 MAX_BYTES = 1 << 20
 MAX_DEPTH = 24
 MAX_SCALAR = 4096
 MAX_NODES = 100_000
 MAX_NUMBER_CHARS = 40
-
-RecordPath = tuple[str | int, ...]
 
 _INT = re.compile(r"[-+]?(0|[1-9][0-9]*)")
 _FLOAT = re.compile(r"[-+]?(\.[0-9]+|[0-9]+(\.[0-9]*)?)([eE][-+]?[0-9]+)?")
@@ -71,19 +70,6 @@ class Document:
         if mark is None:
             return self.locate(path)
         return Location(self.path, mark[0] + 1, mark[1] + 1, path_string(path))
-
-
-def path_string(path: RecordPath) -> str:
-    """A record path as a JSON path: ``$.stator.slot.opening``, ``$.waivers[0]``."""
-    out = "$"
-    for part in path:
-        if isinstance(part, int):
-            out += f"[{part}]"
-        elif re.fullmatch(r"[A-Za-z_][A-Za-z0-9_]*", part):
-            out += f".{part}"
-        else:
-            out += f"[{part!r}]"
-    return out
 
 
 class _Builder:

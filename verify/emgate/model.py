@@ -26,10 +26,6 @@ from emgate.quantity import (
     Voltage,
 )
 
-DESIGN_SCHEMA = "emgate/design@1"
-MATERIALS_SCHEMA = "emgate/materials@1"
-WAIVERS_SCHEMA = "emgate/waivers@1"
-
 Slug = Annotated[str, StringConstraints(pattern=r"^[a-z0-9][a-z0-9._-]{0,63}$")]
 Fraction = Annotated[float, Field(gt=0.0, le=1.0)]
 

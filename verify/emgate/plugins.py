@@ -16,7 +16,8 @@ import pluggy
 from emgate.errors import InputError
 from emgate.hookspecs import ENTRY_POINT_GROUP, PROJECT, Spec
 from emgate.model import MACHINE_KINDS
-from emgate.rule import SEVERITIES, Options, Rule
+from emgate.rule import Options, Rule
+from emgate.terms import SEVERITIES
 
 RULE_ID = re.compile(r"^([a-z][a-z0-9-]*/)?[a-z][a-z0-9-]*$")
 

@@ -17,14 +17,11 @@ from typing import TYPE_CHECKING, ClassVar, Literal
 from pydantic import BaseModel, ConfigDict
 
 from emgate.model import MACHINE_KINDS
+from emgate.terms import RecordPath, Severity
 
 if TYPE_CHECKING:
     from emgate.calc import Calculation
-    from emgate.loader import RecordPath
     from emgate.model import AnyDesign
-
-Severity = Literal["error", "warning", "info"]
-SEVERITIES: tuple[Severity, ...] = ("error", "warning", "info")
 
 
 class Options(BaseModel):

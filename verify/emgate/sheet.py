@@ -12,6 +12,7 @@ from emgate import __version__
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import DISCLAIMER
 from emgate.report.common import si_unit as _si_unit
+from emgate.terms import DESIGN_SCHEMA, EXIT_INPUT, EXIT_OK
 
 
 def sheet_values(
@@ -29,7 +30,7 @@ def sheet_values(
 
     doc = load(path)
     kind = schema_of(doc)
-    if kind != "emgate/design@1":
+    if kind != DESIGN_SCHEMA:
         raise InputError(f"expected a design record, found a {kind} file", doc.locate(()))
     design = validate_design(doc)
     catalogue = discover_materials(path)
@@ -59,8 +60,8 @@ def show(path: Path, fmt: str) -> int:
         errors = exc.errors if isinstance(exc, InputErrors) else [exc]
         for err in errors:
             print(str(err), file=sys.stderr)
-        return 2
-    status = 2 if any(err for *_, err in values.values()) else 0
+        return EXIT_INPUT
+    status = EXIT_INPUT if any(err for *_, err in values.values()) else EXIT_OK
     if fmt == "json":
         doc = {
             "tool": {"name": "emgate", "version": __version__},

@@ -14,15 +14,14 @@ from typing import Any
 from pydantic import BaseModel, TypeAdapter, ValidationError
 
 from emgate.errors import InputError, InputErrors
-from emgate.loader import Document, RecordPath
+from emgate.loader import Document
 from emgate.model import (
-    DESIGN_SCHEMA,
-    MATERIALS_SCHEMA,
     UNION_TAGS,
     AnyDesign,
     Design,
     MaterialsFile,
 )
+from emgate.terms import DESIGN_SCHEMA, MATERIALS_SCHEMA, RecordPath
 
 KNOWN_SCHEMAS = (DESIGN_SCHEMA, MATERIALS_SCHEMA)
 

@@ -34,7 +34,7 @@ def check_dict(c: Check) -> dict[str, Any]:
 
 
 def _path(path: tuple) -> str:
-    from emgate.loader import path_string
+    from emgate.terms import path_string
 
     return path_string(path)
 

@@ -21,7 +21,7 @@ import yaml
 
 from conftest import DEMO, GENSET, PUMP, SERVO, run_cli
 from emgate.calc import SHEET
-from emgate.physics import conductors as ck
+from emgate.physics import resistance
 from test_review_fixes import calculation, linear_steel
 from test_rules_magnetic import assert_located
 from test_sheet import (
@@ -345,7 +345,7 @@ def test_tooth_coil_turn_is_the_perimeter_of_the_offset_tooth(
 ) -> None:
     if side == 0.0:
         with pytest.raises(ValueError, match="coil_side_width"):
-            ck.tooth_coil_mean_turn_length(length, tooth, side)
+            resistance.tooth_coil_mean_turn_length(length, tooth, side)
         return
     r = side / 2.0
 
@@ -357,7 +357,7 @@ def test_tooth_coil_turn_is_the_perimeter_of_the_offset_tooth(
         return length / 2 * abs(math.cos(t)) + tooth / 2 * abs(math.sin(t)) + r
 
     perimeter, _ = scipy.integrate.quad(support, 0.0, 2.0 * math.pi, points=[math.pi / 2, math.pi])
-    got = ck.tooth_coil_mean_turn_length(length, tooth, side)
+    got = resistance.tooth_coil_mean_turn_length(length, tooth, side)
     assert got == pytest.approx(perimeter, rel=1e-9)  # quadrature error only
 
 

@@ -16,7 +16,7 @@ from ht.conv_free_immersed import Nu_horizontal_cylinder_Churchill_Chu
 from scipy.constants import g as scipy_g
 from scipy.constants import sigma as scipy_sigma
 
-from emgate.physics import conductors as c
+from emgate.physics import slots
 from emgate.physics import thermal as th
 
 MM = 1e-3
@@ -121,9 +121,9 @@ def demo_geometry(**overrides: float) -> th.StatorThermalGeometry:
         "stack_length": 0.140,
         "slots": 36,
         "slot_depth": 16 * MM,
-        "winding_area": c.semi_closed_slot_area(*dims),
-        "winding_height": c.semi_closed_winding_height(0.8 * MM, 1.5 * MM, 16 * MM),
-        "winding_perimeter": c.semi_closed_slot_perimeter(*dims[1:]),
+        "winding_area": slots.semi_closed_slot_area(*dims),
+        "winding_height": slots.semi_closed_winding_height(0.8 * MM, 1.5 * MM, 16 * MM),
+        "winding_perimeter": slots.semi_closed_slot_perimeter(*dims[1:]),
         "liner_thickness": 0.25 * MM,
         "stacking_factor": 0.97,
         "frame_length": 0.25,
@@ -199,7 +199,7 @@ def test_jacket_and_conduction_closed_forms() -> None:
     assert r["frame surface"] == pytest.approx(1 / (3000.0 * math.pi * d_f * 0.25), rel=1e-12)
     yoke = math.log(0.105 / (0.068 + 0.016)) / (2 * math.pi * 25.0 * 0.97 * 0.14)
     assert r["stator yoke"] == pytest.approx(yoke, rel=1e-12)
-    perim = c.semi_closed_slot_perimeter(0.8 * MM, 1.5 * MM, 6 * MM, 8.6 * MM, 16 * MM)
+    perim = slots.semi_closed_slot_perimeter(0.8 * MM, 1.5 * MM, 6 * MM, 8.6 * MM, 16 * MM)
     liner = 0.25e-3 / (0.15 * 36 * perim * 0.14)
     assert r["slot liner"] == pytest.approx(liner, rel=1e-12)
     assert r["coolant"] == pytest.approx(1 / 400.0, rel=1e-12)

@@ -452,7 +452,7 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             )
         )
     r, m = d.rating, d.winding.phases
-    from emgate.physics.conductors import phase_current, phase_voltage
+    from emgate.physics.currents import phase_current, phase_voltage
 
     apparent = (
         m

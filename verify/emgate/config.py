@@ -247,7 +247,7 @@ def load_policy(
     """
     if path is None:
         return Policy(root=root)
-    from emgate.validate import model_errors
+    from emgate.translate import model_errors
 
     doc = load(path)
     try:
@@ -331,7 +331,7 @@ MOVED_TO_RECORD = {
 def _option_errors(
     exc: ValidationError, doc: Document, at: RecordPath, rid: str
 ) -> list[InputError]:
-    from emgate.validate import record_path
+    from emgate.translate import record_path
 
     out = []
     for error in exc.errors(include_url=False):

@@ -48,7 +48,7 @@ def load_waivers_file(path: Path) -> dict[str, list[WaiverEntry]]:
 
     from emgate.loader import load
     from emgate.model import WaiversFile
-    from emgate.validate import model_errors
+    from emgate.translate import model_errors
 
     doc = load(path)
     try:

@@ -157,11 +157,12 @@ def test_the_current_density_check_reads_as_the_brief_shows() -> None:
 
 def test_the_sheet_and_the_checks_share_one_si_unit_function() -> None:
     from emgate import sheet as sheet_module
-    from emgate.report import common
+    from emgate import units
+    from emgate.report import jsonfmt
 
-    assert sheet_module._si_unit is common.si_unit
+    assert sheet_module.si_unit is units.si_unit and jsonfmt.si_unit is units.si_unit
     for entry in SHEET.values():  # pint judges each SI unit against the display unit
-        si, shown = common.si_unit(entry.unit), entry.unit
+        si, shown = units.si_unit(entry.unit), entry.unit
         if si == "1":
             assert shown == "1", entry.name
             continue

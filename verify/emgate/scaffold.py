@@ -19,7 +19,7 @@ LAYOUT = {
 
 def init(target: Path) -> int:
     from emgate.atomic import write_atomic
-    from emgate.cli import SCHEMA_KINDS, schema_text
+    from emgate.schemas import SCHEMA_KINDS, schema_text
 
     templates = files("emgate") / "templates"
     planned = {

@@ -58,3 +58,21 @@ def test_no_module_imports_another_modules_private_names() -> None:
         if name.startswith("_") and not name.startswith("__")
     )
     assert private == []
+
+
+def test_the_ci_templates_have_one_source() -> None:
+    """emgate init writes the package templates; no copy of one elsewhere can drift from it."""
+    templates = PACKAGE / "emgate" / "templates"
+    texts = {p.read_bytes(): p.name for p in templates.iterdir() if p.is_file()}
+    skip = {".git", ".venv", ".nox", "build", "dist", "__pycache__", ".pytest_cache"}
+    copies = sorted(
+        f"{p.relative_to(REPO)} copies {texts[p.read_bytes()]}"
+        for p in REPO.rglob("*")
+        if not skip & set(p.relative_to(REPO).parts)
+        and not any(part.endswith(".egg-info") for part in p.relative_to(REPO).parts)
+        and not p.is_relative_to(templates)
+        and p.is_file()
+        and p.stat().st_size in {len(t) for t in texts}
+        and p.read_bytes() in texts
+    )
+    assert copies == []

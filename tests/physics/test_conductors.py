@@ -60,7 +60,7 @@ def test_copper_and_aluminium_constants() -> None:
     assert resistance.COPPER.resistivity20 == pytest.approx(1.0 / 58.0 * 1e-6, rel=1e-15)
     assert resistance.COPPER.resistivity20 == pytest.approx(1.7241e-8, rel=1e-4)  # 5-digit rounding
     assert resistance.COPPER.alpha20 == 0.00393  # [pub: IEC 60028]
-    assert resistance.ALUMINIUM.alpha20 == 0.00403  # [pub: IEC 60889 via REFERENCE.md]
+    assert resistance.ALUMINIUM.alpha20 == 0.00403  # [pub: IEC 60889]
     # At 20 degC the resistivity is rho20 itself (the law pivots there) [calc].
     assert resistance.resistivity(resistance.COPPER, 293.15) == pytest.approx(
         resistance.COPPER.resistivity20, rel=1e-15
@@ -207,7 +207,7 @@ def test_ring_current_against_phasor_sum(p: int, q_r: int) -> None:
 def test_bar_current_equal_mmf() -> None:
     """The referred bar currents build the stator's fundamental MMF.
 
-    REFERENCE.md's check [mem: Fitzgerald and Kingsley]: m=3, N_ph=100, kw1=0.933, I=10 A,
+    Check [calc, formula mem: Fitzgerald and Kingsley]: m=3, N_ph=100, kw1=0.933, I=10 A,
     p=2 give F1 = 630.0 A. The cage's MMF comes from an FFT of the staircase of its
     instantaneous bar currents (numpy), not from any formula in the module.
     """

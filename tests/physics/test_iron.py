@@ -1,4 +1,4 @@
-"""Iron flux densities and magnetic voltages against closed forms, REFERENCE.md and scipy."""
+"""Iron flux densities and magnetic voltages against closed forms, a published fit and scipy."""
 
 from __future__ import annotations
 
@@ -33,7 +33,7 @@ def m350_50a_curve(b_max: float = 2.2, points: int = 221) -> BHCurve:
     mu_r(B) = 1 + (mu_i - 1 + c_a B_N) / (1 + c_b B_N + B_N^n), B_N = B / B_muMax.
     """
     # [pub: Modelica Standard Library, FluxTubes soft-magnetic materials] M350-50A:
-    # mu_i 1210, B_muMax 1.16 T, c_a 24630, c_b 2.44, n 14 (values as in REFERENCE.md).
+    # mu_i 1210, B_muMax 1.16 T, c_a 24630, c_b 2.44, n 14.
     mu_i, b_mu_max, c_a, c_b, n = 1210.0, 1.16, 24630.0, 2.44, 14.0
     b = np.linspace(0.0, b_max, points)
     b_n = b[1:] / b_mu_max
@@ -54,13 +54,13 @@ def linear_curve(mu_r: float, b_max: float = 10.0) -> BHCurve:
 
 M350 = m350_50a_curve()
 
-# REFERENCE.md tooth check: tau_s 11.5 mm, b_t 6 mm, k_Fe 0.97, l = l_Fe.
+# Tooth check [calc, method mem: Pyrhonen]: tau_s 11.5 mm, b_t 6 mm, k_Fe 0.97, l = l_Fe.
 TAU_S, B_T, K_FE, LENGTH = 11.5e-3, 6e-3, 0.97, 0.14
 TOOTH = (TAU_S, B_T, LENGTH, LENGTH, K_FE)
 
 
 def test_apparent_tooth_flux_density_reference_check() -> None:
-    # [calc] REFERENCE.md (method [mem: Pyrhonen]): B_g 0.75 T -> 1.482 T apparent.
+    # [calc] B_g tau_s l / (k_Fe l_Fe b_t) [mem: Pyrhonen]: B_g 0.75 T -> 1.482 T apparent.
     # Tolerance 5e-4 T: the check value is rounded to three decimals.
     assert apparent_tooth_flux_density(0.75, *TOOTH) == pytest.approx(1.482, abs=5e-4)
 

@@ -23,7 +23,7 @@ class InsulationClass:
         Thermal class [K] (e.g. 155 degC for F).
     rise_limit : float or None
         Winding rise by resistance, indirect air cooling, 40 degC coolant, machines up to
-        200 kW [K] (IEC 60034-1); None where REFERENCE.md does not give it.
+        200 kW [K] (IEC 60034-1); None where no source on record gives it.
     reference_temperature : float or None
         Temperature for loss figures [K]; None where not covered.
     """
@@ -65,7 +65,7 @@ def insulation_class(letter: str) -> InsulationClass:
 
     References
     ----------
-    [pub: IEC 60085]; [pub: IEC 60034-1]; REFERENCE.md.
+    [pub: IEC 60085]; [pub: IEC 60034-1, via a manufacturer's manual].
     """
     try:
         return INSULATION_CLASSES[letter.strip().upper()]

@@ -255,7 +255,7 @@ def fill_factor(copper_area: float, slot_area: float) -> float:
 
     References
     ----------
-    Definition; typical ranges [cp] in REFERENCE.md (round wire 0.35-0.45).
+    Definition [calc]; typical ranges [cp] (round wire 0.35-0.45).
     """
     check_positive(slot_area=slot_area)
     return copper_area / slot_area

@@ -76,3 +76,18 @@ def test_the_ci_templates_have_one_source() -> None:
         and p.read_bytes() in texts
     )
     assert copies == []
+
+
+def test_no_test_module_is_named_after_history_or_imports_another() -> None:
+    """Shared helpers live in conftest.py; a test module is named after the behaviour it tests."""
+    tests = REPO / "tests"
+    modules = sorted(tests.rglob("test_*.py"))
+    names = {p.stem for p in modules}
+    crossing = sorted(
+        f"{p.relative_to(tests)} imports {node.module}"
+        for p in modules
+        for node in ast.walk(ast.parse(p.read_text(encoding="utf-8")))
+        if isinstance(node, ast.ImportFrom) and node.module in names
+    )
+    assert crossing == []
+    assert not [n for n in names if "fixes" in n or "review" in n]

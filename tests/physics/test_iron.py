@@ -11,7 +11,8 @@ from hypothesis import strategies as st
 from scipy.integrate import quad
 from scipy.optimize import brentq
 
-from emgate.physics.bh import BHCurve, h_from_b
+from conftest import linear_curve, m350_50a_curve
+from emgate.physics.bh import h_from_b
 from emgate.physics.constants import MU0
 from emgate.physics.iron import (
     apparent_tooth_flux_density,
@@ -25,31 +26,6 @@ from emgate.physics.iron import (
 
 # Bounded, untimed property runs: keeps the suite at a few seconds and never fails on time.
 PROPERTY = settings(max_examples=40, deadline=None)
-
-
-def m350_50a_curve(b_max: float = 2.2, points: int = 221) -> BHCurve:
-    """M350-50A tabulated from a published relative-permeability fit.
-
-    mu_r(B) = 1 + (mu_i - 1 + c_a B_N) / (1 + c_b B_N + B_N^n), B_N = B / B_muMax.
-    """
-    # [pub: Modelica Standard Library, FluxTubes soft-magnetic materials] M350-50A:
-    # mu_i 1210, B_muMax 1.16 T, c_a 24630, c_b 2.44, n 14.
-    mu_i, b_mu_max, c_a, c_b, n = 1210.0, 1.16, 24630.0, 2.44, 14.0
-    b = np.linspace(0.0, b_max, points)
-    b_n = b[1:] / b_mu_max
-    mu_r = 1.0 + (mu_i - 1.0 + c_a * b_n) / (1.0 + c_b * b_n + b_n**n)
-    h = np.concatenate(([0.0], b[1:] / (MU0 * mu_r)))
-    return BHCurve("M350-50A", b, h, "Modelica FluxTubes fit")
-
-
-def linear_curve(mu_r: float, b_max: float = 10.0) -> BHCurve:
-    """A linear steel, tabulated far enough that no test reaches the table end."""
-    return BHCurve(
-        f"linear mu_r={mu_r:g}",
-        np.array([0.0, b_max]),
-        np.array([0.0, b_max / (MU0 * mu_r)]),
-        "linear",
-    )
 
 
 M350 = m350_50a_curve()

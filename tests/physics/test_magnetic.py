@@ -9,8 +9,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
-from test_iron import linear_curve, m350_50a_curve
 
+from conftest import linear_curve, m350_50a_curve
 from emgate.physics.bh import b_from_h
 from emgate.physics.constants import MU0
 from emgate.physics.iron import (

@@ -340,7 +340,7 @@ def _option_errors(
         if error["type"] == "extra_forbidden":
             msg = f"rule {rid!r} has no option {str(path[-1])!r}"
             if str(path[-1]) in MOVED_TO_RECORD:
-                msg += f"; it describes the machine, so it is now {MOVED_TO_RECORD[path[-1]]}"
+                msg += f"; it describes the machine, so it is now {MOVED_TO_RECORD[str(path[-1])]}"
             out.append(InputError(msg, doc.locate_key(path)))
             continue
         out.append(

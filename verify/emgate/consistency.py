@@ -8,8 +8,9 @@ path, as input errors (exit 2), before any rule runs.
 from __future__ import annotations
 
 from collections.abc import Callable
+from functools import partial
 
-from emgate.model import AnyDesign
+from emgate.model import AnyDesign, RectangularConductor, RoundConductor
 from emgate.terms import RecordPath
 
 
@@ -160,14 +161,16 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             st.slots, w.layers, w.phases, w.turns_per_coil, w.parallel_paths
         ),
     )
-    conductors = [(("winding", "conductor"), w.conductor)]
+    conductors: list[tuple[RecordPath, RoundConductor | RectangularConductor]] = [
+        (("winding", "conductor"), w.conductor)
+    ]
     if d.machine == "salient_field":
         conductors.append((("rotor", "field", "conductor"), d.rotor.field.conductor))
     for at, c in conductors:
         if c.shape == "rectangular":
-            attempt((*at, "corner_radius"), lambda c=c: conductor_strand_area(c))
+            attempt((*at, "corner_radius"), partial(conductor_strand_area, c))
     if w.slot_liner:
-        attempt(("winding", "slot_liner"), lambda: slot_winding_area(st.slot, w.slot_liner))
+        attempt(("winding", "slot_liner"), partial(slot_winding_area, st.slot, w.slot_liner))
     if d.machine == "surface_pm":
         m = d.rotor.magnet
         hot, t0 = m.operating_temperature, m.material.reference_temperature

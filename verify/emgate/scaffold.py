@@ -33,7 +33,7 @@ def init(target: Path) -> int:
             continue
         write_atomic(target / rel, text)
         print(f"wrote   {(target / rel).as_posix()}")
-    for rel in existing:
-        print(f"kept    {(target / rel).as_posix()} (exists; not overwritten)", file=sys.stderr)
+    for kept in existing:
+        print(f"kept    {(target / kept).as_posix()} (exists; not overwritten)", file=sys.stderr)
     print("next: edit designs/, then run `emgate check`")
     return 0

@@ -92,12 +92,12 @@ def show(path: Path, fmt: str) -> int:
     width = max(len(n) for n in values)
     group = ""
     for name in sorted(values):
-        value, unit, method, err = values[name]
+        value, unit, method, problem = values[name]
         head = name.split(".")[0]
         if head != group:
             print(f"[{head}]")
             group = head
-        shown = err if value is None else format_value(value, "" if unit == "1" else unit, 5)
+        shown = problem if value is None else format_value(value, "" if unit == "1" else unit, 5)
         print(f"  {name:<{width}}  {shown:>16}   {method}")
     print(f"\n{DISCLAIMER}")
     return status

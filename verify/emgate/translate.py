@@ -13,6 +13,7 @@ from functools import cache
 from typing import Any
 
 from pydantic import BaseModel, ValidationError
+from pydantic_core import ErrorDetails
 
 from emgate.errors import InputError
 from emgate.loader import Document
@@ -47,7 +48,7 @@ def _allowed_keys(data: Any, path: RecordPath) -> set[str] | None:
     """The keys the model allows at ``path`` of the record, or None when not found."""
     from emgate import model as m
 
-    kinds = {
+    kinds: dict[Any, type[BaseModel]] = {
         "induction": m.InductionDesign,
         "surface_pm": m.SurfacePMDesign,
         "salient_field": m.SalientFieldDesign,
@@ -57,7 +58,10 @@ def _allowed_keys(data: Any, path: RecordPath) -> set[str] | None:
     for part in path:
         if current is None or not isinstance(node, dict | list):
             return None
-        node = node[part] if isinstance(node, dict) or isinstance(part, int) else None
+        if isinstance(node, dict):
+            node = node[part]
+        else:
+            node = node[part] if isinstance(part, int) else None
         if isinstance(part, int):
             continue  # a list item: the item model was chosen at the list's key
         info = current.model_fields.get(part) or next(
@@ -122,7 +126,7 @@ def describe_value(value: Any) -> str:
     return text if len(text) <= 60 else text[:57] + "..."
 
 
-def _message(error: dict[str, Any], doc: Document, path: RecordPath) -> str:
+def _message(error: ErrorDetails, doc: Document, path: RecordPath) -> str:
     kind = error["type"]
     msg: str = error["msg"].removeprefix("Value error, ")
     if kind == "extra_forbidden":

@@ -19,7 +19,7 @@ import pytest
 import scipy.constants
 
 from conftest import GENSET, PUMP, SERVO, node_mark
-from emgate.calc import Calculation
+from emgate.calc import Calculation, conductors, magnetic, thermal
 from emgate.physics import conductors as ck
 from emgate.physics.bh import BHCurve
 from test_rules_magnetic import assert_located
@@ -249,7 +249,7 @@ def test_lower_gap_limits_by_machine_kind(repo: Path, base: Path, minimum: float
 def test_the_pole_body_flux_density_is_carried_over_body_and_shoe() -> None:
     mu_r = 1000.0
     calc = calculation(GENSET, linear_steel(mu_r))
-    iron = calc.magnetic.iron
+    iron = magnetic.magnetic(calc).iron
     # [calc] Ampere on a linear section: F = B l / (mu0 mu_r), l = body 40 mm + shoe 12 mm.
     expected = iron.pole_body_b / (MU0 * mu_r) * (40 + 12) * MM
     # mu0 of the code may be 4 pi 1e-7 (1e-9 apart); the rest is rounding.
@@ -269,7 +269,7 @@ def test_the_servo_gap_is_carter_on_the_whole_magnetic_gap_with_ideal_iron() -> 
     kc = carter(math.pi * 78 / 12, 2.0, g_mag)
     expected = br * (3.5 / 1.05) / (kc * g_mag)
     # Iron at mu_r 1e13 takes ~1e-11 of the loop, the root solve stops at 1e-12: 1e-9.
-    assert calc.gap_flux_density_peak == pytest.approx(expected, rel=1e-9)
+    assert calc.value("air_gap.flux_density_peak") == pytest.approx(expected, rel=1e-9)
 
 
 def test_the_kernel_docstrings_state_what_effective_gap_must_be() -> None:
@@ -454,9 +454,11 @@ def test_the_thermal_path_takes_the_liner_perimeter_from_the_kernel(
 ) -> None:
     calls = spy(monkeypatch, kernel)
     calc = calculation(base)
-    calc.thermal_estimate()
+    thermal.thermal_estimate(calc)
     assert calls, f"the thermal estimate did not use conductors.{kernel}"
-    assert calc.slot_perimeter / MM == pytest.approx(perimeter, rel=1e-12)  # rounding only
+    assert conductors.slot_perimeter(calc) / MM == pytest.approx(
+        perimeter, rel=1e-12
+    )  # rounding only
 
 
 def test_the_field_coil_uses_the_shared_strand_section(
@@ -475,14 +477,24 @@ def test_the_field_coil_uses_the_shared_strand_section(
     calc = calculation(variant(repo, {"rotor.field.conductor": field}, base=GENSET))
     # [mem: IEC 60317-0-2] w h - (4 - pi) r^2 per strand, two in hand, 9 A.
     strand = (4.0 * 1.5 - (4 - math.pi) * 0.5**2) * MM**2
-    assert calc.field_current_density == pytest.approx(9.0 / (2 * strand), rel=1e-12)  # rounding
+    assert calc.value("rotor.field_current_density") == pytest.approx(
+        9.0 / (2 * strand), rel=1e-12
+    )  # rounding
     assert calls, "the field coil did not use conductors.field_coil_current_density"
 
 
-def test_the_opening_clearance_default_is_the_kernels_constant() -> None:
+def test_the_opening_clearance_is_the_kernels_and_its_limit_is_declared_once(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
     from emgate_rules.slot_fill import SlotFillOptions
 
+    # The limit: one declaration on the option field, 0.2 mm with its source.
     default = SlotFillOptions.model_fields["opening_clearance"].default
-    # The same object, not an equal copy: one number to change (floats are not interned).
-    assert default is ck.OPENING_CLEARANCE
     assert default == pytest.approx(0.2e-3, rel=1e-12)  # 0.2 mm, common practice, no source
+    assert SlotFillOptions.source_of("opening_clearance") == "common practice, no source"
+    # The quantity: the sheet's stator.opening_clearance is the kernel's function.
+    calls = spy(monkeypatch, "opening_clearance")
+    value = calculation(PUMP).value("stator.opening_clearance")
+    assert calls, "the sheet did not use conductors.opening_clearance"
+    # [calc] pump: opening 2.8 mm less the insulated strand 0.97 mm (rounding only)
+    assert value / MM == pytest.approx(2.8 - 0.97, rel=1e-12)

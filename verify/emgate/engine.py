@@ -7,23 +7,36 @@ them and turns rule output into findings.
 
 from __future__ import annotations
 
+import dataclasses
 import datetime as dt
+import math
 import re
+import signal
+import threading
+import time
 import traceback
-from collections.abc import Iterable
+from collections.abc import Iterable, Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import Literal
 
 from emgate.changes import ChangeSet
-from emgate.config import CONFIG_NAME, Policy
+from emgate.config import CONFIG_NAME, Policy, RulePolicy
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
 from emgate.model import AnyDesign
-from emgate.plugins import PluginSet
-from emgate.rule import Check, Context, Problem
-from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
+from emgate.plugins import PluginSet, describe_exception, users_interrupt, watching_interrupts
+from emgate.rule import Check, Context, Problem, Rule, winding_path
+from emgate.terms import (
+    CONFIG_SCHEMA,
+    DESIGN_SCHEMA,
+    MATERIALS_SCHEMA,
+    SEVERITIES,
+    WAIVERS_SCHEMA,
+)
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,
@@ -181,6 +194,35 @@ def _untouched_record(run: Run, src: Source) -> bool:
     )
 
 
+def _record_failure(
+    doc: Document, kind: Literal["input", "crash"], exc: Exception, record_id: str = ""
+) -> Finding:
+    """A record that could not be checked, reported on that record alone: exit 2 when its
+    input caused it (a number the physics cannot take), exit 3 for emgate's own error."""
+    loc = doc.locate(())
+    if kind == "input":
+        message = (
+            f"the record could not be checked: {describe_exception(exc)}; a value is"
+            " outside what the calculation can take (check the record's numbers)"
+        )
+    else:
+        message = (
+            f"internal error on this record: {_crash_text(exc)}; the record is not"
+            " verified (the other records are; please report it)"
+        )
+    return Finding(
+        rule="input" if kind == "input" else "internal",
+        severity="error",
+        file=display_path(doc.path),
+        line=loc.line,
+        column=loc.column,  # type: ignore[arg-type]
+        record_path=loc.record_path,
+        message=message,
+        record_id=record_id,
+        kind=kind,
+    )
+
+
 def _input_finding(exc: InputError) -> Finding:
     loc = exc.location
     return Finding(
@@ -207,6 +249,8 @@ def execute(run: Run) -> RunResult:
     result = RunResult()
     for error in run.plugins.errors:
         result.findings.append(_input_finding(error))
+    for error in run.plugins.crashes:
+        result.findings.append(dataclasses.replace(_input_finding(error), kind="crash"))
     result.rules = [
         RuleInfo(rid, lr.rule.version, lr.rule.summary, lr.pack.distribution, lr.pack.version)
         for rid, lr in sorted(run.plugins.rules.items())
@@ -258,11 +302,22 @@ def execute(run: Run) -> RunResult:
         except (InputError, InputErrors) as exc:
             result.findings.extend(input_findings(exc))
             continue
+        except (ValueError, ArithmeticError) as exc:  # absurd numbers validation let through
+            result.findings.append(_record_failure(doc, "input", exc))
+            continue
+        except Exception as exc:  # emgate's own bug: this record only, the others go on
+            result.findings.append(_record_failure(doc, "crash", exc))
+            continue
         seen_ids[design.id] = display_path(doc.path)
         ld = LoadedDesign(doc, design, display_path(doc.path))
-        waivers = record_waivers(doc, design.id, list(design.waivers))
-        waivers += file_waivers.get(design.id, [])
-        _check_design(run, ld, catalogue, result, waivers)
+        try:
+            waivers = record_waivers(doc, design.id, list(design.waivers))
+            waivers += file_waivers.get(design.id, [])
+            _check_design(run, ld, catalogue, result, waivers)
+        except (InputError, InputErrors) as exc:
+            result.findings.extend(input_findings(exc))
+        except Exception as exc:
+            result.findings.append(_record_failure(doc, "crash", exc, design.id))
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | _repository_record_ids(run.policy.root)
         result.findings.extend(
@@ -295,48 +350,187 @@ def _check_design(
     waivers: list[WaiverEntry],
 ) -> None:
     from emgate.calc import Calculation
+    from emgate.calc.view import Sheet
 
     design = ld.design
     policy = run.policy.for_file(ld.doc.path)
     record = RecordResult(ld.file, design.id, design.machine)
     result.records.append(record)
-    calc = Calculation(design, catalogue)
-    context = Context(calc=calc, file=ld.file)
+    context = Context(sheet=Sheet(Calculation(design, catalogue)), file=ld.file)
     produced: list[Finding] = []
-    for rid, loaded in sorted(run.plugins.rules.items()):
-        rule = loaded.rule
-        if not policy.selected(rule):
-            continue
-        if design.machine not in rule.machines or not rule.applies(design):
-            record.outcomes.append(RuleOutcome(rid, "not_applicable"))
-            continue
-        severity = policy.severity_for(rule)
-        outcome = RuleOutcome(rid, "pass")
-        try:
-            items = list(rule().check(design, policy.options_for(rule), context))
-        except Exception as exc:
-            frame = traceback.extract_tb(exc.__traceback__)[-1]
-            message = (
-                f"rule crashed: {type(exc).__name__}: {exc} (at {Path(frame.filename).name}:"
-                f"{frame.lineno}); the record is not verified by this rule"
+    try:
+        for _, loaded in sorted(run.plugins.rules.items()):
+            _check_rule(run, ld, policy, loaded.rule, context, record, produced)
+    finally:  # an error of emgate's own keeps what the rules before it found
+        result.findings.extend(apply_waivers(waivers, produced, record, run.today))
+
+
+def _check_rule(
+    run: Run,
+    ld: LoadedDesign,
+    policy: RulePolicy,
+    rule: type[Rule],
+    context: Context,
+    record: RecordResult,
+    produced: list[Finding],
+) -> None:
+    """Run one rule on one record: its findings go to ``produced``, its outcome to
+    ``record``. Whatever the rule does (raises anything, yields rubbish, overruns its time
+    budget) is a crash of that rule, and the checks it yielded before stand."""
+    from emgate.calc.view import UNBALANCED, NotComputed
+
+    rid, design = rule.id, ld.design
+    if not policy.selected(rule):
+        return
+    severity = policy.severity_for(rule)
+    outcome = RuleOutcome(rid, "pass")
+    items: list[Check | Problem] = []
+    crash = ""
+    try:
+        with _plugin_code(run.policy.rule_time_budget) as clock:
+            if design.machine not in rule.machines or not rule.applies(design):
+                record.outcomes.append(RuleOutcome(rid, "not_applicable"))
+                return
+            if rule.needs_balanced_winding and context.sheet.winding_problems:
+                items.append(Problem(winding_path(design), f"not computed: {UNBALANCED}", "info"))
+            else:
+                for item in rule().check(design, policy.options_for(rule), context):
+                    bad = _malformed(item)
+                    if bad:
+                        crash = f"it yielded {bad}"
+                        break
+                    items.append(_normal(item))
+                    clock.check()
+            clock.check()  # a rule that swallowed the alarm
+    except NotComputed as exc:
+        items.append(
+            Problem(
+                winding_path(design),
+                f"the record is not verified by this rule: {exc.reason}; {UNBALANCED}",
             )
-            outcome.status, outcome.message = "crash", message
-            record.outcomes.append(outcome)
-            produced.append(_finding(ld, rid, "error", (), message, kind="crash"))
-            continue
-        for item in items:
-            if isinstance(item, Check):
-                outcome.checks.append(item)
-                if not item.passed:
-                    produced.append(_finding(ld, rid, severity, item.path, _describe(item), item))
-            elif isinstance(item, Problem):
-                produced.append(
-                    _finding(ld, rid, item.severity or severity, item.path, item.message)
-                )
-        if any(f.rule == rid for f in produced):
-            outcome.status = "fail"
-        record.outcomes.append(outcome)
-    result.findings.extend(apply_waivers(waivers, produced, record, run.today))
+        )
+    except BaseException as exc:  # a rule's SystemExit must not end the run (fail closed)
+        if users_interrupt(exc):
+            raise
+        crash = _crash_text(exc)
+    for item in items:
+        if isinstance(item, Check):
+            outcome.checks.append(item)
+            if not item.passed:
+                produced.append(_finding(ld, rid, severity, item.path, _describe(item), item))
+        else:
+            produced.append(_finding(ld, rid, item.severity or severity, item.path, item.message))
+    if crash:
+        message = f"rule crashed: {crash}; the record is not verified by this rule"
+        outcome.status, outcome.message = "crash", message
+        produced.append(_finding(ld, rid, "error", (), message, kind="crash"))
+    elif any(f.rule == rid for f in produced):
+        outcome.status = "fail"
+    record.outcomes.append(outcome)
+
+
+def _crash_text(exc: BaseException) -> str:
+    if isinstance(exc, _OutOfTime):
+        return str(exc)
+    frames = traceback.extract_tb(exc.__traceback__)
+    where = f" (at {Path(frames[-1].filename).name}:{frames[-1].lineno})" if frames else ""
+    return f"{describe_exception(exc)}{where}"
+
+
+def _malformed(item: object) -> str:
+    """Why a rule's output cannot be reported ('' if it can): the reporters rely on it."""
+    from emgate.units import QuantityError, parse_unit
+
+    def path_problem(path: object) -> str:
+        if not isinstance(path, tuple | list) or not all(
+            isinstance(p, str | int) and not isinstance(p, bool) for p in path
+        ):
+            return f"a record path {_short(path)} that is not a tuple of keys and indices"
+        return ""
+
+    if isinstance(item, Check):
+        for name in ("value", "limit"):
+            v = getattr(item, name)
+            if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+                what = f"a Check of {_short(item.quantity)} whose {name} is {_short(v)}"
+                return f"{what}, not a finite number"
+        for name in ("quantity", "label", "unit", "basis"):
+            if not isinstance(getattr(item, name), str):
+                return f"a Check whose {name} is {_short(getattr(item, name))}, not text"
+        if item.bound not in ("max", "min"):
+            return f"a Check whose bound is {_short(item.bound)}, not 'max' or 'min'"
+        if item.unit not in ("", "1", "degC"):
+            try:
+                parse_unit(item.unit)
+            except QuantityError:
+                return f"a Check whose unit {item.unit!r} emgate does not know"
+        return path_problem(item.path)
+    if isinstance(item, Problem):
+        if not isinstance(item.message, str):
+            return f"a Problem whose message is {_short(item.message)}, not text"
+        if item.severity is not None and item.severity not in SEVERITIES:
+            known = ", ".join(SEVERITIES)
+            return f"a Problem of unknown severity {_short(item.severity)} (not one of {known})"
+        return path_problem(item.path)
+    return f"{_short(item)}, which is neither a Check nor a Problem"
+
+
+def _short(value: object) -> str:
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def _normal(item: Check | Problem) -> Check | Problem:
+    """A valid item with its path as a tuple and its numbers as floats."""
+    if isinstance(item, Check):
+        return dataclasses.replace(
+            item, path=tuple(item.path), value=float(item.value), limit=float(item.limit)
+        )
+    return dataclasses.replace(item, path=tuple(item.path))
+
+
+class _OutOfTime(BaseException):
+    """Raised into a rule that overran its time budget (a BaseException, so that a rule's
+    ``except Exception`` does not swallow it)."""
+
+
+class _Clock:
+    def __init__(self, budget: float) -> None:
+        self.budget = budget
+        self.start = time.monotonic()
+
+    def check(self) -> None:
+        if time.monotonic() - self.start > self.budget:
+            raise _OutOfTime(f"it ran longer than its time budget of {self.budget:g} s")
+
+
+@contextmanager
+def _plugin_code(budget: float) -> Iterator[_Clock]:
+    """Run rule code with a time budget and the user's Ctrl-C told from the rule's own.
+
+    The budget is a SIGALRM interval timer on the main thread of a POSIX system: it
+    interrupts pure-Python code and sleeps, but a long call inside a C extension only
+    once it returns to the interpreter. Elsewhere (another thread, Windows) the budget is
+    only checked after each yielded item and at the end: a rule that never returns still
+    holds the run there."""
+    clock = _Clock(budget)
+    timer = hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread()
+    previous = None
+    if timer:
+
+        def alarm(signum: int, frame: object) -> None:
+            raise _OutOfTime(f"it ran longer than its time budget of {budget:g} s")
+
+        previous = signal.signal(signal.SIGALRM, alarm)
+        # and again every second, for a rule that catches the first one
+        signal.setitimer(signal.ITIMER_REAL, budget, 1.0)
+    try:
+        with watching_interrupts():
+            yield clock
+    finally:
+        if timer:
+            signal.setitimer(signal.ITIMER_REAL, 0.0)
+            signal.signal(signal.SIGALRM, previous)
 
 
 def _finding(

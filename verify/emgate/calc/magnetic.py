@@ -195,19 +195,16 @@ def total_mmf(c: Calculation) -> float:
 
 @quantity("winding.back_emf")
 def back_emf(c: Calculation) -> float:
-    """E = sqrt(2) pi f N_ph kw1 Phi1, Phi1 = (2/pi) B1 tau_p l [V] [from memory:
-    Fitzgerald and Kingsley, Electric Machinery]: the fundamental flux per pole cut by
-    the series turns at the rated electrical frequency."""
+    from emgate.physics.winding import phase_emf
+
     d = c.d
-    phi1 = 2.0 / math.pi * gap_flux_density_fundamental(c) * geo.pole_pitch(d)
-    phi1 *= d.stator.stack_length
-    return (
-        math.sqrt(2.0)
-        * math.pi
-        * d.rating.frequency
-        * winding.series_turns(c)
-        * winding.winding_factor(c)
-        * phi1
+    return phase_emf(
+        d.rating.frequency,
+        winding.series_turns(c),
+        winding.winding_factor(c),
+        gap_flux_density_fundamental(c),
+        geo.pole_pitch(d),
+        d.stator.stack_length,
     )
 
 
@@ -249,6 +246,11 @@ def pole_body_b(c: Calculation) -> float:
 @quantity("stator.slot_pitch")
 def slot_pitch(c: Calculation) -> float:
     return geo.stator_slot_pitch(c.d)
+
+
+@quantity("stator.aspect_ratio")
+def aspect_ratio(c: Calculation) -> float:
+    return c.d.stator.stack_length / c.d.stator.bore_diameter
 
 
 @quantity("stator.tooth_width_min")

@@ -332,6 +332,45 @@ def remanence_at(
     return remanence_ref * (1.0 + alpha * (temperature - reference_temperature))
 
 
+def magnet_field_under_current(
+    no_load_field: float, mmf: float, recoil_permeability: float, magnetic_gap: float
+) -> float:
+    """Magnet field strength with a stator MMF on the d-axis against the magnet.
+
+    Superposes on the no-load working point H_0 (iron included) the armature term of the
+    linear loop of magnet and gap, ``H = H_0 - F / (mu_rec g_m)``, ``g_m`` the whole
+    Carter-corrected magnetic gap ``kc (g + sleeve + l_m / mu_rec)``: the MMF ``F`` drops
+    over ``l_m + mu_rec (g_m - l_m / mu_rec) = mu_rec g_m`` of magnet length. An
+    approximation on the worst side when ``F`` is the peak of the MMF: the iron's
+    reluctance and the magnet's leakage are neglected in the armature term.
+
+    Parameters
+    ----------
+    no_load_field : float
+        Magnet field strength H_0 at no load [A/m] (negative: demagnetising).
+    mmf : float
+        Stator MMF taken wholly on the d-axis, demagnetising, F >= 0 [A] (ampere-turns per
+        pole across one gap).
+    recoil_permeability : float
+        Relative recoil permeability mu_rec [-], > 0.
+    magnetic_gap : float
+        Carter-corrected magnetic gap g_m, magnet included [m], > 0.
+
+    Returns
+    -------
+    float
+        H [A/m] (negative: demagnetising).
+
+    References
+    ----------
+    Hendershot and Miller, Design of Brushless Permanent-Magnet Machines (demagnetisation
+    by the armature reaction of a surface magnet; from memory).
+    """
+    if not (recoil_permeability > 0.0 and magnetic_gap > 0.0):
+        raise ValueError("recoil permeability and magnetic gap must be > 0")
+    return no_load_field - mmf / (recoil_permeability * magnetic_gap)
+
+
 # ---------------------------------------------------------------- results
 
 

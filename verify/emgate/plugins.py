@@ -65,27 +65,25 @@ def watching_interrupts() -> Iterator[None]:
     Only on the main thread and only over Python's own SIGINT handler; elsewhere a
     KeyboardInterrupt cannot be told apart and is taken as the user's (the run stops,
     exit 3: still closed)."""
+    # The flag is read after the block, where the exception is handled: set it on entry.
     if (
         threading.current_thread() is not threading.main_thread()
         or signal.getsignal(signal.SIGINT) is not signal.default_int_handler
     ):
         _Interrupts.pressed = True  # cannot tell: treat every KeyboardInterrupt as real
-        try:
-            yield
-        finally:
-            _Interrupts.pressed = False
+        yield
         return
 
     def pressed(signum: int, frame: object) -> None:
         _Interrupts.pressed = True
         raise KeyboardInterrupt
 
+    _Interrupts.pressed = False
     signal.signal(signal.SIGINT, pressed)
     try:
         yield
     finally:
         signal.signal(signal.SIGINT, signal.default_int_handler)
-        _Interrupts.pressed = False
 
 
 def users_interrupt(exc: BaseException) -> bool:

@@ -254,3 +254,41 @@ def test_the_new_sheet_names_are_shown_and_can_be_declared(repo: Path) -> None:
         abs((1 - 1460 / 1500) - 0.027) / 0.027, rel=1e-9
     )
     assert math.isfinite(checks["stator.aspect_ratio"]["value"])
+
+
+# --- the contributor guide's example is a working pack --------------------------------------
+
+
+def _guide_example() -> str:
+    text = (REPO / "DEVELOPERS.md").read_text(encoding="utf-8")
+    section = text.split("## Adding a rule", 1)[1].split("\n## ", 1)[0]
+    return section.split("```python\n", 1)[1].split("```", 1)[0]
+
+
+def test_the_guides_example_rule_runs_as_a_pack(plugin_host: Any, repo: Path) -> None:
+    import shutil
+
+    from conftest import STEELS
+
+    plugin_host.add("acme", "acme_guide_example_pack", _guide_example())
+    (repo / "materials").mkdir()
+    shutil.copy(STEELS, repo / "materials" / STEELS.name)
+    path = write_variant(repo, {}, base=GENSET)
+    result = run_cli("check", "--format", "json", path)
+    assert result.code in (0, 1), result.err
+    (out,) = [o for o in result.json()["records"][0]["outcomes"] if o["rule"] == "acme/pole-body"]
+    (check,) = out["checks"]
+    assert check["quantity"] == "rotor.pole_body_flux_density"
+    assert check["limit"] == 1.9  # the declared default, in SI (tesla)
+    assert check["basis"] == "acme design manual, table 4"
+    sheet_value = _show(GENSET)["rotor.pole_body_flux_density"]["value"]
+    assert check["value"] == pytest.approx(sheet_value, rel=1e-12)  # the same number
+    # the team's limit, in its own unit, and the basis that says so
+    (repo / "emgate.yaml").write_text(
+        "schema: emgate/config@1\noptions:\n  acme/pole-body:\n    maximum: 1800 mT\n",
+        encoding="utf-8",
+    )
+    doc = run_cli("check", "--format", "json", path).json()
+    (out,) = [o for o in doc["records"][0]["outcomes"] if o["rule"] == "acme/pole-body"]
+    assert out["checks"][0]["basis"] == "the team's limit (emgate.yaml)"
+    assert out["checks"][0]["limit"] == pytest.approx(1.8, rel=1e-12)  # 1800 mT [calc]

@@ -84,17 +84,12 @@ def pole_path(c: Calculation) -> PolePath:
         rotor_teeth = Teeth(
             geo.rotor_slot_pitch(d), geo.rotor_tooth_width_min(d), d.rotor.slot.height
         )
-    gap = effective_gap(c)
-    if d.machine == "surface_pm":
-        # The kernel adds the magnet's h_m / mu_rec itself; hand it the rest of kc g'.
-        m = d.rotor.magnet
-        gap -= m.thickness / m.material.recoil_permeability
     return PolePath(
         pole_pitch=geo.pole_pitch(d),
         stack_length=d.stator.stack_length,
         iron_length=d.stator.stack_length,
         stacking_factor=d.stator.stacking_factor,
-        effective_gap=gap,
+        effective_gap=effective_gap(c),  # kc g', for surface magnets the whole of it
         stator_teeth=Teeth(
             geo.stator_slot_pitch(d), geo.stator_tooth_width_min(d), geo.stator_tooth_height(d)
         ),

@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, fields, replace
 
 from emgate.physics.bh import BHCurve, h_from_b
 from emgate.physics.constants import MU0
@@ -210,10 +210,10 @@ class PolePath:
         Lamination stacking factor k_Fe in (0, 1] [-].
     effective_gap : float
         Carter-corrected gap in series with the iron [m]: kc g for cage and salient-pole
-        rotors. For surface magnets, the rest of the magnetic gap beside the magnet's own
-        l_m / mu_rec, which :func:`surface_pm_gap` adds itself: to apply Carter's
-        coefficient to the whole magnetic gap g' = g + sleeve + l_m / mu_rec, pass
-        ``kc g' - l_m / mu_rec`` (as emgate.calc does).
+        rotors. For surface magnets, the whole Carter-corrected magnetic gap kc g',
+        g' = g + sleeve + l_m / mu_rec (:func:`emgate.physics.airgap.magnetic_gap`), the
+        magnet's own l_m / mu_rec included: :func:`surface_pm_gap` counts that share on the
+        magnet's recoil line and the rest, ``kc g' - l_m / mu_rec``, as the gap.
     stator_teeth : Teeth
     stator_yoke : Yoke
     rotor_yoke : Yoke
@@ -581,18 +581,19 @@ def surface_pm_gap(
     Solves the loop of one pole ``H_m l_m + F_gap + F_iron = 0`` with the magnet on its
     recoil line ``B_m = Br + mu0 mu_rec H_m`` and ``B_m = k_leak B_g`` (magnet and gap
     areas taken equal). The gap flux is rectangular over the magnet arc (slot ripple and
-    fringing neglected). With ideal iron and no leakage this is
-    ``B_g = Br (l_m / mu_rec) / (l_m / mu_rec + g_e)``, ``g_e`` the path's
-    ``effective_gap``. With ``g_e = kc g' - l_m / mu_rec`` it is
-    ``B_g = Br (l_m / mu_rec) / (kc g')``, Carter's coefficient applied to the whole
-    magnetic gap ``g' = g + sleeve + l_m / mu_rec``; with ``g_e = kc g`` it is the textbook
-    ``B_g = Br l_m / (l_m + mu_rec kc g)``, Carter on the mechanical gap only.
+    fringing neglected). The path's ``effective_gap`` is the whole Carter-corrected
+    magnetic gap ``kc g'``, ``g' = g + sleeve + l_m / mu_rec``; the magnet's own
+    ``l_m / mu_rec`` of it is the recoil line's, so the gap in series with magnet and iron
+    is ``g_e = kc g' - l_m / mu_rec``. With ideal iron and no leakage this is
+    ``B_g = Br (l_m / mu_rec) / (l_m / mu_rec + g_e) = Br (l_m / mu_rec) / (kc g')``,
+    Carter's coefficient applied to the whole magnetic gap; with ``kc = 1`` it is the
+    textbook ``B_g = Br l_m / (l_m + mu_rec (g + sleeve))``.
 
     Parameters
     ----------
     path : PolePath
-        Flux path; ``effective_gap`` is ``g_e``, the magnetic gap in series with the magnet
-        and the iron, the magnet's own ``l_m / mu_rec`` excluded (see :class:`PolePath`).
+        Flux path; ``effective_gap`` is ``kc g'``, the magnet's ``l_m / mu_rec`` included
+        (see :class:`PolePath`); it must exceed ``l_m / mu_rec``.
     magnet : SurfaceMagnet
     stator_curve, rotor_curve : BHCurve
         Stator lamination and rotor back iron.
@@ -608,6 +609,13 @@ def surface_pm_gap(
     of a surface magnet); Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical
     Machines, ch. 3 (magnetic voltages of teeth and yokes).
     """
+    own = magnet.thickness / magnet.recoil_permeability
+    if not path.effective_gap > own:
+        raise ValueError(
+            "PolePath.effective_gap of a surface-magnet machine is the whole magnetic gap"
+            " kc g' and must exceed the magnet's own l_m / mu_rec"
+        )
+    path = replace(path, effective_gap=path.effective_gap - own)  # the gap beside the magnet
     k_leak = magnet.leakage_factor
     coercive_mmf = magnet.remanence * magnet.thickness / (MU0 * magnet.recoil_permeability)
 

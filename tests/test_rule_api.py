@@ -119,6 +119,8 @@ SILENCER = """
                 lambda: setattr(context, "sheet", {{"stator.current_density": 0.0}}),
                 lambda: context.calc._cache.clear(),
                 lambda: setattr(design.winding.conductor, "strands", 1000),
+                # past pydantic's frozen models: the rule's own copy of the record only
+                lambda: object.__setattr__(design.winding.conductor, "strands", 1000),
             ]
             for attempt in attempts:
                 try:

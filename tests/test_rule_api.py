@@ -294,3 +294,13 @@ def test_the_guides_example_rule_runs_as_a_pack(plugin_host: Any, repo: Path) ->
     (out,) = [o for o in doc["records"][0]["outcomes"] if o["rule"] == "acme/pole-body"]
     assert out["checks"][0]["basis"] == "the team's limit (emgate.yaml)"
     assert out["checks"][0]["limit"] == pytest.approx(1.8, rel=1e-12)  # 1800 mT [calc]
+
+
+def test_a_declared_figure_the_record_has_no_value_for_is_an_error(repo: Path) -> None:
+    # The pump's round wire in semi-closed slots has no slot-width clearance.
+    path = write_variant(repo, {"declared": {"stator.slot_width_clearance": "1 mm"}})
+    result = run_cli("check", "--format", "json", path)
+    assert result.code == 1
+    (finding,) = [f for f in result.json()["findings"] if f["rule"] == "declared-values"]
+    assert finding["record_path"] == "$.declared['stator.slot_width_clearance']"
+    assert "rectangular strands in an open slot only" in finding["message"]

@@ -26,6 +26,8 @@ that ``emgate show`` prints; they never see the mutable calculation.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from emgate.calc.names import Entry
 from emgate.calc.view import NotComputed, Sheet
 from emgate.hookspecs import hookimpl
@@ -136,6 +138,10 @@ def ratio(sign: str = "positive") -> object:
     return Annotated[quantity("dimensionless", sign=sign), WithJsonSchema(schema)]
 
 
-#: A positive ratio option (a fill, a THD, a tolerance), and one that may be zero.
-Ratio = ratio()
-RatioOrZero = ratio("non_negative")
+if TYPE_CHECKING:  # to a type checker both are floats; pydantic sees the validators
+    Ratio = float
+    RatioOrZero = float
+else:
+    #: A positive ratio option (a fill, a THD, a tolerance), and one that may be zero.
+    Ratio = ratio()
+    RatioOrZero = ratio("non_negative")

@@ -36,6 +36,8 @@ from emgate.terms import (
     MATERIALS_SCHEMA,
     SEVERITIES,
     WAIVERS_SCHEMA,
+    RecordPath,
+    Severity,
 )
 from emgate.waivers import (
     WaiverEntry,
@@ -564,11 +566,11 @@ def _plugin_code(budget: float) -> Iterator[_Clock]:
 def _finding(
     ld: LoadedDesign,
     rule: str,
-    severity: str,
-    path: tuple,
+    severity: Severity,
+    path: RecordPath,
     message: str,
     check: Check | None = None,
-    kind: str = "violation",
+    kind: Literal["violation", "crash"] = "violation",
 ) -> Finding:
     loc = ld.doc.locate(path)
     return Finding(
@@ -576,12 +578,12 @@ def _finding(
         severity=severity,
         file=ld.file,
         line=loc.line,
-        column=loc.column,  # type: ignore[arg-type]
+        column=loc.column,
         record_path=loc.record_path,
         message=message,
         record_id=ld.design.id,
         kind=kind,
-        check=check,  # type: ignore[arg-type]
+        check=check,
     )
 
 

@@ -49,12 +49,12 @@ def limit(value: float, unit: str, source: str, **constraints: float) -> Any:
     text = repr(float(value)) if unit in ("", "1") else f"{float(value)!r} {unit}"
     # 15 significant figures: the decimal SI value, not the unit factor's last-bit rounding
     si = float(value) if unit in ("", "1") else float(f"{parse_quantity(text).value:.15g}")
-    return Field(
-        default=si,
-        description=f"default from {source}",
-        json_schema_extra={_SOURCE_KEY: source, "default_text": text},
-        **constraints,  # type: ignore[arg-type]
-    )
+    extra: dict[str, Any] = {
+        "description": f"default from {source}",
+        "json_schema_extra": {_SOURCE_KEY: source, "default_text": text},
+        **constraints,
+    }
+    return Field(si, **extra)
 
 
 @dataclass(frozen=True)

@@ -49,6 +49,7 @@ class Sheet(Mapping[str, float]):
     """
 
     __slots__ = ("_read",)
+    _read: Callable[..., Any]
     #: Every sheet entry by name, in the order of the one list, whatever the record.
     ENTRIES: Mapping[str, Entry] = MappingProxyType(SHEET)
 

@@ -9,14 +9,8 @@ from __future__ import annotations
 
 import dataclasses
 import datetime as dt
-import math
 import re
-import signal
-import threading
-import time
-import traceback
-from collections.abc import Iterable, Iterator
-from contextlib import contextmanager
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Literal
@@ -28,13 +22,13 @@ from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunRes
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
 from emgate.model import AnyDesign
-from emgate.plugins import PluginSet, describe_exception, users_interrupt, watching_interrupts
-from emgate.rule import Check, Context, Problem, Rule, winding_path
+from emgate.plugins import PluginSet, describe_exception
+from emgate.rule import Check, Context, Rule
+from emgate.runner import crash_text, rule_guards, run_rule
 from emgate.terms import (
     CONFIG_SCHEMA,
     DESIGN_SCHEMA,
     MATERIALS_SCHEMA,
-    SEVERITIES,
     WAIVERS_SCHEMA,
     RecordPath,
     Severity,
@@ -209,7 +203,7 @@ def _record_failure(
         )
     else:
         message = (
-            f"internal error on this record: {_crash_text(exc)}; the record is not"
+            f"internal error on this record: {crash_text(exc)}; the record is not"
             " verified (the other records are; please report it)"
         )
     return Finding(
@@ -288,7 +282,7 @@ def execute(run: Run) -> RunResult:
                 catalogue.failed.append(display_path(doc.path))
                 result.findings.extend(input_findings(exc))
     seen_ids: dict[str, str] = {}
-    with _rule_guards():
+    with rule_guards():
         for _, doc, kind in docs:
             if kind != DESIGN_SCHEMA:
                 continue
@@ -382,185 +376,36 @@ def _check_rule(
     """Run one rule on one record: its findings go to ``produced``, its outcome to
     ``record``. Whatever the rule does (raises anything, yields rubbish, overruns its time
     budget) is a crash of that rule, and the checks it yielded before stand."""
-    from emgate.calc.view import UNBALANCED, NotComputed
-
-    rid, design = rule.id, ld.design
+    rid = rule.id
     if not policy.selected(rule):
+        return
+    ran = run_rule(
+        rule,
+        ld.design,
+        lambda: policy.options_for(rule),
+        context,
+        run.policy.rule_time_budget,
+        builtin,
+    )
+    if ran is None:
+        record.outcomes.append(RuleOutcome(rid, "not_applicable"))
         return
     severity = policy.severity_for(rule)
     outcome = RuleOutcome(rid, "pass")
-    items: list[Check | Problem] = []
-    crash = ""
-    try:
-        with _plugin_code(run.policy.rule_time_budget) as clock:
-            # A pack's rule gets its own copy of the record (0.3 ms): the calculation and
-            # the other rules read the engine's, so writing past the frozen models changes
-            # nothing they see. emgate's own rules share it.
-            own = design if builtin else design.model_copy(deep=True)
-            if design.machine not in rule.machines or not rule.applies(own):
-                record.outcomes.append(RuleOutcome(rid, "not_applicable"))
-                return
-            if rule.needs_balanced_winding and context.sheet.winding_problems:
-                items.append(Problem(winding_path(design), f"not computed: {UNBALANCED}", "info"))
-            else:
-                for item in rule().check(own, policy.options_for(rule), context):
-                    bad = _malformed(item)
-                    if bad:
-                        crash = f"it yielded {bad}"
-                        break
-                    items.append(_normal(item))
-                    clock.check()
-            clock.check()  # a rule that swallowed the alarm
-    except NotComputed as exc:
-        items.append(
-            Problem(
-                winding_path(design),
-                f"the record is not verified by this rule: {exc.reason}; {UNBALANCED}",
-            )
-        )
-    except BaseException as exc:  # a rule's SystemExit must not end the run (fail closed)
-        if users_interrupt(exc):
-            raise
-        crash = _crash_text(exc)
-    for item in items:
+    for item in ran.items:
         if isinstance(item, Check):
             outcome.checks.append(item)
             if not item.passed:
                 produced.append(_finding(ld, rid, severity, item.path, _describe(item), item))
         else:
             produced.append(_finding(ld, rid, item.severity or severity, item.path, item.message))
-    if crash:
-        message = f"rule crashed: {crash}; the record is not verified by this rule"
+    if ran.crash:
+        message = f"rule crashed: {ran.crash}; the record is not verified by this rule"
         outcome.status, outcome.message = "crash", message
         produced.append(_finding(ld, rid, "error", (), message, kind="crash"))
     elif any(f.rule == rid for f in produced):
         outcome.status = "fail"
     record.outcomes.append(outcome)
-
-
-def _crash_text(exc: BaseException) -> str:
-    if isinstance(exc, _OutOfTime):
-        return str(exc)
-    frames = traceback.extract_tb(exc.__traceback__)
-    where = f" (at {Path(frames[-1].filename).name}:{frames[-1].lineno})" if frames else ""
-    return f"{describe_exception(exc)}{where}"
-
-
-def _malformed(item: object) -> str:
-    """Why a rule's output cannot be reported ('' if it can): the reporters rely on it."""
-    from emgate.units import QuantityError, parse_unit
-
-    def path_problem(path: object) -> str:
-        if not isinstance(path, tuple | list) or not all(
-            isinstance(p, str | int) and not isinstance(p, bool) for p in path
-        ):
-            return f"a record path {_short(path)} that is not a tuple of keys and indices"
-        return ""
-
-    if isinstance(item, Check):
-        for name in ("value", "limit"):
-            v = getattr(item, name)
-            if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
-                what = f"a Check of {_short(item.quantity)} whose {name} is {_short(v)}"
-                return f"{what}, not a finite number"
-        for name in ("quantity", "label", "unit", "basis"):
-            if not isinstance(getattr(item, name), str):
-                return f"a Check whose {name} is {_short(getattr(item, name))}, not text"
-        if item.bound not in ("max", "min"):
-            return f"a Check whose bound is {_short(item.bound)}, not 'max' or 'min'"
-        if item.unit not in ("", "1", "degC"):
-            try:
-                parse_unit(item.unit)
-            except QuantityError:
-                return f"a Check whose unit {item.unit!r} emgate does not know"
-        return path_problem(item.path)
-    if isinstance(item, Problem):
-        if not isinstance(item.message, str):
-            return f"a Problem whose message is {_short(item.message)}, not text"
-        if item.severity is not None and item.severity not in SEVERITIES:
-            known = ", ".join(SEVERITIES)
-            return f"a Problem of unknown severity {_short(item.severity)} (not one of {known})"
-        return path_problem(item.path)
-    return f"{_short(item)}, which is neither a Check nor a Problem"
-
-
-def _short(value: object) -> str:
-    text = repr(value)
-    return text if len(text) <= 60 else text[:57] + "..."
-
-
-def _normal(item: Check | Problem) -> Check | Problem:
-    """A valid item with its path as a tuple and its numbers as floats."""
-    if isinstance(item, Check):
-        if type(item.path) is tuple and type(item.value) is type(item.limit) is float:
-            return item
-        return dataclasses.replace(
-            item, path=tuple(item.path), value=float(item.value), limit=float(item.limit)
-        )
-    return item if type(item.path) is tuple else dataclasses.replace(item, path=tuple(item.path))
-
-
-class _OutOfTime(BaseException):
-    """Raised into a rule that overran its time budget (a BaseException, so that a rule's
-    ``except Exception`` does not swallow it)."""
-
-
-class _Clock:
-    #: Whether the run's alarm is installed, and the budget it was last armed with.
-    timer = False
-    armed = 0.0
-
-    def __init__(self, budget: float) -> None:
-        self.budget = budget
-        self.start = time.monotonic()
-
-    def check(self) -> None:
-        if time.monotonic() - self.start > self.budget:
-            raise _OutOfTime(f"it ran longer than its time budget of {self.budget:g} s")
-
-
-@contextmanager
-def _rule_guards() -> Iterator[None]:
-    """For the whole run: the user's Ctrl-C told from a rule's own KeyboardInterrupt, and
-    the alarm that ends a rule past its time budget (installed once; each rule arms it)."""
-    timer = hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread()
-    previous = None
-    if timer:
-
-        def alarm(signum: int, frame: object) -> None:
-            raise _OutOfTime(f"it ran longer than its time budget of {_Clock.armed:g} s")
-
-        previous = signal.signal(signal.SIGALRM, alarm)
-    _Clock.timer = timer
-    try:
-        with watching_interrupts():
-            yield
-    finally:
-        if timer:
-            signal.setitimer(signal.ITIMER_REAL, 0.0)
-            signal.signal(signal.SIGALRM, previous)
-        _Clock.timer = False
-
-
-@contextmanager
-def _plugin_code(budget: float) -> Iterator[_Clock]:
-    """Run rule code within its time budget (inside :func:`_rule_guards`).
-
-    The budget is a SIGALRM interval timer on the main thread of a POSIX system: it
-    interrupts pure-Python code and sleeps, but a long call inside a C extension only
-    once it returns to the interpreter. Elsewhere (another thread, Windows) the budget is
-    only checked after each yielded item and at the end: a rule that never returns still
-    holds the run there."""
-    clock = _Clock(budget)
-    if _Clock.timer:
-        _Clock.armed = budget
-        # and again every second, for a rule that catches the first one
-        signal.setitimer(signal.ITIMER_REAL, budget, 1.0)
-    try:
-        yield clock
-    finally:
-        if _Clock.timer:
-            signal.setitimer(signal.ITIMER_REAL, 0.0)
 
 
 def _finding(

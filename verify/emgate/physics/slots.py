@@ -289,4 +289,50 @@ def strand_passes_opening(
     ----------
     Geometric condition [calc]; clearance [cp].
     """
-    return insulated_diameter + clearance <= opening
+    return opening_clearance(opening, insulated_diameter) >= clearance
+
+
+def opening_clearance(opening: float, insulated_diameter: float) -> float:
+    """Free width left beside an insulated round strand passing the slot opening.
+
+    Parameters
+    ----------
+    opening : float
+        Slot opening ``b0`` [m].
+    insulated_diameter : float
+        Strand diameter over the enamel [m].
+
+    Returns
+    -------
+    float
+        ``b0 - d_ins`` [m]; negative when the strand does not pass.
+
+    References
+    ----------
+    Geometric condition [calc].
+    """
+    return opening - insulated_diameter
+
+
+def slot_width_clearance(slot_width: float, insulated_width: float, liner: float) -> float:
+    """Free width left across an open slot by one rectangular strand and two liners.
+
+    Parameters
+    ----------
+    slot_width : float
+        Width ``b`` of the open slot [m].
+    insulated_width : float
+        Strand width over its insulation [m].
+    liner : float
+        Slot-liner thickness on each wall [m].
+
+    Returns
+    -------
+    float
+        ``b - (w_ins + 2 t)`` [m]; negative when the strand does not fit.
+
+    References
+    ----------
+    Geometric condition [calc], strands stacked radially, one across the slot.
+    """
+    return slot_width - (insulated_width + 2.0 * liner)

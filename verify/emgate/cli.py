@@ -75,6 +75,11 @@ def _parser() -> argparse.ArgumentParser:
     sub.add_parser("plugins", help="list installed plugin packs")
     i = sub.add_parser("init", help="write a starter design repository (never overwrites)")
     i.add_argument("dir", nargs="?", type=Path, default=Path("."))
+    sub.add_parser(
+        "lsp",
+        help="run the language server on standard input and output (for an editor; needs"
+        " the extra emgate[lsp])",
+    )
     sc = sub.add_parser("schema", help="print a JSON Schema")
     sc.add_argument("kind", nargs="?", default="design", choices=list(SCHEMA_KINDS))
     sc.add_argument(
@@ -151,6 +156,10 @@ def _dispatch(args: argparse.Namespace) -> int:
         from emgate.scaffold import init
 
         return init(args.dir)
+    if args.command == "lsp":
+        from emgate.lsp import main as lsp
+
+        return lsp(plugins)
     if args.command == "show":
         from emgate.sheet import show
 

@@ -342,11 +342,18 @@ def test_sarif_file_outside_the_working_folder_is_an_absolute_uri(sarif_validato
 
 @pytest.mark.parametrize(
     ("keep", "code", "success"),
-    [(("current-density",), 1, True), (("input",), 2, False), ((), 0, True)],
+    [
+        (lambda f: f.rule == "current-density", 1, True),
+        (lambda f: f.file == FILE_BAD, 2, True),  # an invalid record: the tool worked
+        (lambda f: f.message == PLUGIN_ERROR, 2, False),  # a plugin did not load
+        (lambda f: f.kind == "crash", 3, False),  # a rule crashed
+        (lambda f: False, 0, True),
+    ],
+    ids=["findings", "invalid-record", "plugin-failed", "crash", "clean"],
 )
-def test_sarif_execution_success_follows_the_exit_code(keep, code, success) -> None:  # type: ignore[no-untyped-def]
+def test_sarif_execution_fails_only_when_the_tool_failed(keep, code, success) -> None:  # type: ignore[no-untyped-def]
     result = hand_result()
-    result.findings = [f for f in result.findings if f.rule in keep]
+    result.findings = [f for f in result.findings if keep(f)]
     assert result.exit_code == code
     run = json.loads(reporter("sarif")(result))["runs"][0]
     assert run["invocations"][0]["executionSuccessful"] is success

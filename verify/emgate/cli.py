@@ -209,44 +209,10 @@ def _explain(plugins, rid: str) -> int:  # type: ignore[no-untyped-def]
         hint = f"; did you mean {close[0]!r}?" if close else ""
         print(f"emgate: no installed rule has the id {rid!r}{hint}", file=sys.stderr)
         return EXIT_INPUT
-    lr = plugins.rules[rid]
-    rule = lr.rule
-    print(f"{rid} v{rule.version} ({lr.pack.distribution} {lr.pack.version})")
-    print(f"{rule.summary}")
-    print(f"applies to: {', '.join(rule.machines)}; default severity: {rule.severity}\n")
-    print(rule.explain())
-    fields = rule.options.model_fields
-    if fields:
-        print("\noptions (emgate.yaml: options: {" + rid + ": {NAME: VALUE}}), with defaults:")
-        for name, info in fields.items():
-            desc = f"  ({info.description})" if info.description else ""
-            print(f"  {name} = {_default_text(info)}{desc}")
+    from emgate.explain import explain_text
+
+    sys.stdout.write(explain_text(rid, plugins.rules[rid]))
     return EXIT_OK
-
-
-def _default_text(info) -> str:  # type: ignore[no-untyped-def]
-    """An option's default in the unit its examples use ('5 A/mm^2', not 5000000.0), also
-    for an optional quantity (``FluxDensity | None``), whose unit sits inside the union."""
-    from typing import Annotated, get_args, get_origin
-
-    from emgate.units import format_value
-
-    metadata = list(info.metadata)
-    pending = [info.annotation]
-    while pending:  # the Annotated members of unions (Optional) carry their own metadata
-        hint = pending.pop()
-        if get_origin(hint) is Annotated:
-            metadata.extend(hint.__metadata__)
-        else:
-            pending.extend(get_args(hint))
-    default = info.get_default(call_default_factory=True)
-    for meta in metadata:
-        examples = getattr(meta, "json_schema", None) or {}
-        example = (examples.get("examples") or [None])[0]
-        if isinstance(example, str) and isinstance(default, float):
-            unit = example.split(None, 1)[1] if " " in example else ""
-            return format_value(default, unit)
-    return repr(default)
 
 
 def _outputs(specs: list[str] | None) -> list[tuple[str, Path | None]]:
@@ -298,7 +264,10 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
             run.changes = named_files(paths, policy.root, policy.source, policy.waivers_file)
             run.paths = [policy.root]
     except (InputError, InputErrors) as exc:
+        from emgate.findings import anchor, source_root
+
         result = RunResult(findings=input_findings(exc))
+        anchor(result, source_root(config.parent if config else Path.cwd()))
         _emit(result, outputs)
         return result.exit_code
     if args.today:

@@ -166,3 +166,113 @@ def test_sarif_of_an_invalid_record_is_a_successful_execution(
     invocation = json.loads(out.read_text(encoding="utf-8"))["runs"][0]["invocations"][0]
     assert invocation["executionSuccessful"] is True  # emgate worked: the record is invalid
     assert invocation["exitCode"] == 2
+
+
+# ---------------------------------------------------------------- JUnit
+
+
+@pytest.fixture(scope="module")
+def junit_files(designs: Path, tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
+    """JUnit of the demo (through the command line) and of a hand-built run with every kind
+    of outcome: a failure, a waived finding, a crash, a warning, a note, input errors."""
+    from emgate.report import reporter
+    from test_reports import hand_result
+
+    out = tmp_path_factory.mktemp("junit")
+    files = {"demo": out / "demo.xml", "hand": out / "hand.xml"}
+    assert check(designs, ".", "--format", f"junit:{files['demo']}") == 1
+    files["hand"].write_text(reporter("junit")(hand_result()), encoding="utf-8")
+    return files
+
+
+@pytest.mark.parametrize("name", ["demo", "hand"])
+def test_xunitparser_reads_the_file_and_agrees_on_the_counts(
+    junit_files: dict[str, Path], name: str
+) -> None:
+    import xunitparser
+
+    # xunitparser merges every suite into one and asserts that the root's totals match what
+    # it counted, and that no property name repeats (it refused the suite-level properties
+    # that each suite used to repeat)
+    with junit_files[name].open(encoding="utf-8") as handle:
+        suite, result = xunitparser.parse(handle)
+    cases = list(suite)
+    assert len(cases) > 0
+    assert result.testsRun == len(cases)
+    assert suite.properties["disclaimer"].startswith("emgate results support")
+    assert all(tc.time is not None for tc in cases)  # every testcase has its time
+
+
+def test_xunitparser_sees_the_hand_run_outcomes(junit_files: dict[str, Path]) -> None:
+    import xunitparser
+
+    with junit_files["hand"].open(encoding="utf-8") as handle:
+        suite, result = xunitparser.parse(handle)
+    by_name = {(tc.classname, tc.methodname): tc for tc in suite}
+    assert by_name[("m-1", "current-density")].failed
+    assert by_name[("m-1", "acme/aspect")].skipped
+    assert by_name[("m-1", "winding-balance")].errored
+    warned = by_name[("m-2", "winding-balance")]
+    assert warned.good  # a warning does not fail the gate, nor the testcase
+    assert "warning: coil groups differ" in warned.stdout  # but a viewer shows it
+    assert (len(result.failures), len(result.errors), len(result.skipped)) == (1, 3, 1)
+
+
+@pytest.mark.parametrize("name", ["demo", "hand"])
+def test_junitparser_reads_unique_suites_with_times_and_case_properties(
+    junit_files: dict[str, Path], name: str
+) -> None:
+    from junitparser import Error, Failure, JUnitXml, Properties, Skipped
+
+    xml = JUnitXml.fromfile(str(junit_files[name]))
+    suites = list(xml)
+    names = [s.name for s in suites]
+    assert len(names) == len(set(names)), names
+    assert xml.time is not None and xml.time >= 0
+    total = 0
+    for i, suite in enumerate(suites):
+        cases = list(suite)
+        assert suite.tests == len(cases)
+        assert suite.failures == sum(1 for c in cases if isinstance(_final(c), Failure))
+        assert suite.errors == sum(1 for c in cases if isinstance(_final(c), Error))
+        assert suite.skipped == sum(1 for c in cases if isinstance(_final(c), Skipped))
+        assert suite.time is not None
+        assert (len(list(suite.properties())) > 0) == (i == 0)  # the run's, once
+        total += len(cases)
+        for case in cases:
+            assert case.time is not None and case.time >= 0
+            if suite.name != "emgate.input":
+                (props,) = case.iterchildren(Properties)
+                names_ = [p.name for p in props]
+                assert "rule.version" in names_ and len(names_) == len(set(names_))
+    assert xml.tests == total
+
+
+def _final(case):  # type: ignore[no-untyped-def]
+    return case.result[0] if case.result else None
+
+
+def test_junit_suite_names_stay_unique_when_a_waiver_file_names_a_record(
+    designs: Path, tmp_path: Path
+) -> None:
+    from junitparser import JUnitXml
+
+    repo = tmp_path / "repo"
+    shutil.copytree(designs, repo)
+    # a waiver in the waivers file that suppresses nothing: its finding stands in
+    # waivers.yaml under the record's id, beside the record's own suite
+    (repo / "waivers.yaml").write_text(
+        "schema: emgate/waivers@1\n"
+        "waivers:\n"
+        "  - rule: mmf-thd\n"
+        "    record: servo-10p12s\n"
+        "    reason: a trial of the tooling\n"
+        "    owner: Ada\n"
+        "    expires: 2099-01-01\n",
+        encoding="utf-8",
+    )
+    out = tmp_path / "w.xml"
+    assert check(repo, ".", "--format", f"junit:{out}") == 1
+    names = [s.name for s in JUnitXml.fromfile(str(out))]
+    assert len(names) == len(set(names)), names
+    assert "servo-10p12s" in names and "servo-10p12s (waivers.yaml)" in names

@@ -433,13 +433,26 @@ def test_junit_structure_and_counts() -> None:
     assert not _children(inputs[FILE_CI], "error")
     assert SKIPPED in _children(inputs[FILE_CI], "system-out")[0].firstChild.data
 
-    props = {
-        p.getAttribute("name"): p.getAttribute("value")
-        for p in suites["m-1"].getElementsByTagName("property")
-    }
-    assert props["disclaimer"] == DISCLAIMER
-    assert props["rule.acme/aspect"] == "2.3"
-    assert "rule.gap-flux" not in props
+    def props(node: Any) -> dict[str, str]:
+        (block,) = _children(node, "properties")
+        return {
+            p.getAttribute("name"): p.getAttribute("value") for p in _children(block, "property")
+        }
+
+    # the run's properties once, on the first suite; the rest on each testcase
+    run = props(suites["m-1"])
+    assert run["disclaimer"] == DISCLAIMER
+    assert run["emgate.verdict"] == "RULE CRASHED"
+    assert "acme/aspect v2.3" in run["emgate.rules"] and "gap-flux" not in run["emgate.rules"]
+    assert not _children(suites["m-2"], "properties")
+    aspect = props(cases["acme/aspect"])
+    assert (aspect["rule.version"], aspect["rule.origin"]) == ("2.3", "acme-pack 2.3.0")
+    assert aspect["emgate.waived"] == "1"
+    # the closest check of current-density on m-1 is J_FAIL, 8.8 against 8 A/mm^2: -10 %
+    assert props(cases["current-density"])["emgate.closest"] == (
+        "stator.current_density: 8.8 A/mm^2 <= 8 A/mm^2 (-10.0 %)"
+    )
+    assert props(m2["winding-balance"])["emgate.warnings"] == "1"
 
 
 def test_junit_demo_counts(demo: RunResult) -> None:

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import datetime as dt
 import re
+import time
 import traceback
 from collections.abc import Iterable
 from dataclasses import dataclass, field
@@ -340,9 +341,11 @@ def _check_design(
             continue
         severity = policy.severity_for(rule)
         outcome = RuleOutcome(rid, "pass")
+        started = time.perf_counter()
         try:
             items = list(rule().check(design, policy.options_for(rule), context))
         except Exception as exc:
+            outcome.seconds = time.perf_counter() - started
             frame = traceback.extract_tb(exc.__traceback__)[-1]
             message = (
                 f"rule crashed: {type(exc).__name__}: {exc} (at {Path(frame.filename).name}:"
@@ -352,6 +355,7 @@ def _check_design(
             record.outcomes.append(outcome)
             produced.append(_finding(ld, rid, "error", (), message, kind="crash"))
             continue
+        outcome.seconds = time.perf_counter() - started
         for item in items:
             if isinstance(item, Check):
                 outcome.checks.append(item)

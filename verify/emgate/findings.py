@@ -64,6 +64,9 @@ class RuleOutcome:
     status: Status
     checks: list[Check] = field(default_factory=list)
     message: str = ""
+    #: Wall time of the rule's check, the shared calculation's quantities it was the first
+    #: to ask for included (JUnit's time).
+    seconds: float = 0.0
 
 
 @dataclass

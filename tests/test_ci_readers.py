@@ -276,3 +276,49 @@ def test_junit_suite_names_stay_unique_when_a_waiver_file_names_a_record(
     names = [s.name for s in JUnitXml.fromfile(str(out))]
     assert len(names) == len(set(names)), names
     assert "servo-10p12s" in names and "servo-10p12s (waivers.yaml)" in names
+
+
+# ---------------------------------------------------------------- code quality
+
+
+def test_codequality_matches_what_sarif_tools_makes_of_the_sarif(
+    designs: Path, tmp_path: Path
+) -> None:
+    """sarif-tools converts SARIF to the same Code Climate issue format on its own; both
+    arrays must name the same rules at the same root-relative paths and lines, and ours
+    must carry every field of theirs, from a subfolder too."""
+    repo = tmp_path / "repo"
+    shutil.copytree(designs, repo)
+    (repo / "waivers.yaml").write_text(
+        "schema: emgate/waivers@1\n"
+        "waivers:\n"
+        "  - rule: current-density\n"
+        "    record: servo-10p12s\n"
+        "    reason: trial winding, rewound before release\n"
+        "    owner: Ada\n"
+        "    expires: 2099-01-01\n",
+        encoding="utf-8",
+    )
+    ours, sarif, theirs = tmp_path / "cq.json", tmp_path / "run.sarif", tmp_path / "cc.json"
+    check(repo / "designs", "..", "--format", f"codequality:{ours}", "--format", f"sarif:{sarif}")
+    subprocess.run(
+        [sys.executable, "-m", "sarif", "codeclimate", "--output", str(theirs), str(sarif)],
+        capture_output=True,
+        check=True,
+        timeout=120,
+    )
+    mine = json.loads(ours.read_text(encoding="utf-8"))
+    other = json.loads(theirs.read_text(encoding="utf-8"))
+    assert other and len(mine) == len(other)
+
+    def where(items: list[dict]) -> list[tuple[str, str, int]]:
+        return sorted(
+            (i["check_name"], i["location"]["path"], int(i["location"]["lines"]["begin"]))
+            for i in items
+        )
+
+    assert where(mine) == where(other)
+    assert all(set(o) <= set(m) for m, o in zip(mine, other, strict=False))
+    waived = [i for i in mine if i["description"].startswith("waived")]
+    assert [(i["check_name"], i["severity"]) for i in waived] == [("current-density", "info")]
+    assert "Ada" in waived[0]["description"]

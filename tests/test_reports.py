@@ -542,17 +542,32 @@ def test_annotations_demo(demo: RunResult) -> None:
 def test_codequality_items() -> None:
     result = hand_result()
     items = json.loads(reporter("codequality")(result))
-    live = [f for f in result.findings if f.waived_by is None]
-    assert isinstance(items, list) and len(items) == len(live)  # the waived one is left out
-    for f, item in zip(live, items, strict=True):
-        assert set(item) == {"description", "check_name", "fingerprint", "severity", "location"}
+    assert isinstance(items, list) and len(items) == len(result.findings)  # waived ones too
+    for f, item in zip(result.findings, items, strict=True):
+        assert set(item) == {
+            "type",
+            "description",
+            "check_name",
+            "categories",
+            "fingerprint",
+            "severity",
+            "location",
+        }
+        assert item["type"] == "issue"  # [mem: Code Climate analyzer spec, issue type]
         assert item["check_name"] == f.rule
         assert item["location"]["path"] == (f.file or ".")
         begin = item["location"]["lines"]["begin"]
         assert isinstance(begin, int) and begin >= 1
         assert f.message in item["description"]
-        assert item["fingerprint"] == f.fingerprint  # no two findings here share one
-    severities = {(f.rule, f.severity): i["severity"] for f, i in zip(live, items, strict=True)}
+        if f.waived_by:  # shown as info, naming the waiver, as a new issue in the widget
+            assert item["severity"] == "info"
+            assert item["description"].startswith("waived error: ")
+            assert f.waived_by in item["description"]
+            assert item["fingerprint"] != f.fingerprint
+        else:
+            assert item["fingerprint"] == f.fingerprint  # no two findings here share one
+    live = [(f, i) for f, i in zip(result.findings, items, strict=True) if not f.waived_by]
+    severities = {(f.rule, f.severity): i["severity"] for f, i in live}
     assert severities == {
         ("current-density", "error"): "critical",
         ("winding-balance", "error"): "blocker",  # the crash
@@ -580,7 +595,7 @@ def test_codequality_fingerprints_unique_when_problems_share_a_path() -> None:
 
 def test_codequality_demo(demo: RunResult) -> None:
     items = json.loads(reporter("codequality")(demo))
-    assert len(items) == sum(1 for f in demo.findings if f.waived_by is None)
+    assert len(items) == len(demo.findings)
     assert len({i["fingerprint"] for i in items}) == len(items)
 
 

@@ -21,11 +21,13 @@ from emgate.terms import RecordPath
 
 @dataclass(frozen=True)
 class Checked:
-    """A run for one open document, and the files read for it whose errors block it (the
-    policy and the waivers file)."""
+    """A run for one open document, the files read for it whose errors block it (the policy
+    and the waivers file), and whether other records read the document (it is the policy,
+    the waivers file or a materials file: a change to it re-checks them)."""
 
     result: RunResult
     upstream: frozenset[Path]
+    read_by_others: bool = False
 
 
 def check_open(path: Path, buffers: Mapping[Path, str], plugins: PluginSet) -> Checked:
@@ -33,12 +35,18 @@ def check_open(path: Path, buffers: Mapping[Path, str], plugins: PluginSet) -> C
     ``buffers`` holds from there. A record is checked alone; ``emgate.yaml`` and the waivers
     file are checked with every record the policy names, as they are read for those."""
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute, input_findings
+    from emgate.engine import Run, discover, execute, input_findings
     from emgate.errors import InputError, InputErrors
     from emgate.loader import BUFFERS
+    from emgate.terms import DESIGN_SCHEMA
 
     token = BUFFERS.set(buffers)
     try:
+        scratch = RunResult()
+        sources = discover([path], scratch)
+        if any(f.kind == "note" for f in scratch.findings):
+            return Checked(scratch, frozenset())  # not an emgate file: nothing to say
+        shared = not any(s.declared == DESIGN_SCHEMA for s in sources)
         rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
         installed = {p.distribution: p.version for p in plugins.packs}
         config = find_config(path.parent)
@@ -46,13 +54,13 @@ def check_open(path: Path, buffers: Mapping[Path, str], plugins: PluginSet) -> C
         try:
             policy = load_policy(config, rules, path.parent, installed)
         except (InputError, InputErrors) as exc:
-            return Checked(RunResult(findings=input_findings(exc)), upstream)
+            return Checked(RunResult(findings=input_findings(exc)), upstream, shared)
         if policy.waivers_file is not None:
             upstream |= {policy.waivers_file.resolve()}
         whole = path in upstream  # the policy or the waivers file: read for every record
         paths = policy.configured_files() if whole else [path]
         run = Run(paths=paths, policy=policy, plugins=plugins, today=dt.date.today())
-        return Checked(execute(run), upstream)
+        return Checked(execute(run), upstream, shared)
     finally:
         BUFFERS.reset(token)
 

@@ -15,7 +15,15 @@ from pygls.lsp.server import LanguageServer
 from pygls.uris import to_fs_path
 
 from emgate import __version__
-from emgate.lsp.gate import Checked, check_open, checks_under, hover_markdown, key_at, marks
+from emgate.lsp.gate import (
+    Checked,
+    Mark,
+    check_open,
+    checks_under,
+    hover_markdown,
+    key_at,
+    marks,
+)
 from emgate.plugins import PluginSet
 
 SEVERITY = {
@@ -46,8 +54,15 @@ class GateServer(LanguageServer):
         if path is None or path.suffix not in (".yaml", ".yml"):
             return
         text = self.workspace.get_text_document(uri).source
-        checked = check_open(path, self.buffers(), self.plugins)
-        self.checked[uri] = checked
+        try:
+            checked = check_open(path, self.buffers(), self.plugins)
+            found = marks(checked, path, text)
+        except Exception as exc:  # fail closed: say so on the document, keep serving
+            self.checked.pop(uri, None)
+            message = f"emgate internal error, the file is not checked: {type(exc).__name__}: {exc}"
+            found = [Mark(0, 0, max(len(text.split("\n", 1)[0]), 1), "error", "crash", message)]
+        else:
+            self.checked[uri] = checked
         diagnostics = [
             types.Diagnostic(
                 range=types.Range(
@@ -59,21 +74,20 @@ class GateServer(LanguageServer):
                 code=m.code,
                 source="emgate",
             )
-            for m in marks(checked, path, text)
+            for m in found
         ]
         self.text_document_publish_diagnostics(
-            types.PublishDiagnosticsParams(uri=uri, diagnostics=diagnostics)
+            types.PublishDiagnosticsParams(
+                uri=uri,
+                diagnostics=diagnostics,
+                version=self.workspace.get_text_document(uri).version,
+            )
         )
 
     def changed(self, uri: str) -> None:
         self.check(uri)
         checked = self.checked.get(uri)
-        path = _path(uri)
-        if checked is None or path is None:
-            return
-        from emgate.lsp.gate import names
-
-        if not any(names(r.file, path) for r in checked.result.records):
+        if checked is not None and checked.read_by_others:
             for other in list(self.workspace.text_documents):
                 if other != uri:
                     self.check(other)

@@ -322,3 +322,21 @@ def test_codequality_matches_what_sarif_tools_makes_of_the_sarif(
     waived = [i for i in mine if i["description"].startswith("waived")]
     assert [(i["check_name"], i["severity"]) for i in waived] == [("current-density", "info")]
     assert "Ada" in waived[0]["description"]
+
+
+def test_annotations_name_files_from_the_root_whatever_the_working_folder(designs: Path) -> None:
+    import os
+
+    here = Path.cwd()
+    os.chdir(designs / "designs")
+    try:
+        out = run_cli("check", "..", "--format", "annotations").out
+    finally:
+        os.chdir(here)
+    files = {
+        part.removeprefix("file=")
+        for line in out.splitlines()
+        for part in line.split(" ", 1)[-1].split("::")[0].split(",")
+        if part.startswith("file=")
+    }
+    assert files == {SERVO}  # not '../designs/...': the runner reads them from the root

@@ -226,3 +226,35 @@ def test_without_the_extra_the_command_says_what_to_install() -> None:
     assert out.returncode == 2
     assert "pip install 'emgate[lsp]'" in out.stderr
     assert "Traceback" not in out.stderr
+
+
+@ASYNC
+async def test_the_waivers_file_is_checked_in_the_editor(
+    client: LanguageClient, tmp_path: Path
+) -> None:
+    repo = tmp_path / "other-repo"
+    (repo / "designs").mkdir(parents=True)
+    (repo / ".git").mkdir()
+    (repo / "emgate.yaml").write_text(CONFIG, encoding="utf-8")
+    shutil.copy(PUMP, repo / "designs" / PUMP.name)
+    waivers = repo / "waivers.yaml"
+    waivers.write_text(
+        "schema: emgate/waivers@1\n"
+        "waivers:\n"
+        "  - rule: slot-fill\n"
+        "    record: pump-drive-4p36s\n"
+        "    reason: reviewed by the winding shop\n"
+        "    owner: Ada\n"
+        "    expires: 2099-01-01\n",
+        encoding="utf-8",
+    )
+    editor = Editor(client, waivers)
+    editor.open()
+    # the pump passes slot-fill, so the waiver suppresses nothing: reported on the waiver
+    found = await editor.published(lambda d: any(x.code == "waiver" for x in d))
+    (stale,) = [d for d in found if d.code == "waiver"]
+    assert stale.range.start.line == editor.line_of("  - rule: slot-fill")
+    editor.edit("record: pump-drive-4p36s", "record: pump-drive-4p63s")  # a typo
+    found = await editor.published(lambda d: bool(errors(d)))
+    assert errors(found)[0].range.start.line in range(2, 7)  # on the waiver's entry
+    assert "pump-drive-4p63s" in errors(found)[0].message

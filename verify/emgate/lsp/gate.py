@@ -79,9 +79,9 @@ class Mark:
 
 def marks(checked: Checked, path: Path, text: str) -> list[Mark]:
     """The findings in ``path`` as marks on ``text``, each from its column to the end of its
-    line (less a trailing comment). An error that keeps this file from being checked as the
-    repository would be (in the policy or the waivers file, or a plugin that did not load)
-    is marked on the first line, so that a file without marks is a checked file."""
+    line (less a trailing comment). An error in a file read for this one (the policy or the
+    waivers file) or in no file (a plugin that did not load) is marked on the first line: it
+    fails the run, so a file without marks is a file that passes as the repository would."""
     lines = text.splitlines() or [""]
     out: list[Mark] = []
     blocking: list[Finding] = []
@@ -106,7 +106,7 @@ def marks(checked: Checked, path: Path, text: str) -> list[Mark]:
 
         first = blocking[0]
         more = f" (and {len(blocking) - 1} more)" if len(blocking) > 1 else ""
-        message = f"not checked as configured: {where(first)}: {first.message}{more}"
+        message = f"{where(first)}, read for this file: {first.message}{more}"
         out.append(Mark(0, 0, max(len(lines[0]), 1), "error", first.rule, message))
     return out
 

@@ -258,3 +258,15 @@ async def test_the_waivers_file_is_checked_in_the_editor(
     found = await editor.published(lambda d: bool(errors(d)))
     assert errors(found)[0].range.start.line in range(2, 7)  # on the waiver's entry
     assert "pump-drive-4p63s" in errors(found)[0].message
+
+
+def test_columns_are_utf16_units_as_lsp_counts_them() -> None:
+    from emgate.lsp.server import _code_points, _utf16
+
+    # LSP 3.17, Position: character offsets in UTF-16 code units by default; U+1F600 is a
+    # surrogate pair (two units), U+00B0 one unit [pub: Unicode, UTF-16 encoding form]
+    line = ["ambient: 40 \u00b0C  # \U0001f600 note"]
+    after_emoji = line[0].index("\U0001f600") + 1
+    assert _utf16(line, 0, after_emoji) == after_emoji + 1
+    assert _utf16(line, 0, 12) == 12  # before the emoji, code points and units agree
+    assert _code_points(line, 0, _utf16(line, 0, after_emoji)) == after_emoji

@@ -97,8 +97,6 @@ class RunResult:
     findings: list[Finding] = field(default_factory=list)
     rules: list[RuleInfo] = field(default_factory=list)
     files_read: int = 0
-    #: The root of the repository checked (:func:`anchor`), absolute; None if not anchored.
-    root: Path | None = None
 
     def sort(self) -> None:
         self.findings.sort(key=Finding.sort_key)
@@ -138,11 +136,11 @@ def anchor(result: RunResult, root: Path) -> None:
     """Name each finding's file relative to ``root`` too (an absolute path for a file
     outside it), so that SARIF locations and fingerprints do not depend on the folder
     emgate ran in."""
-    result.root = root.resolve()
+    top = root.resolve()
     for f in result.findings:
         if f.file:
             path = Path(f.file).resolve()
             try:
-                f.repo_file = path.relative_to(result.root).as_posix()
+                f.repo_file = path.relative_to(top).as_posix()
             except ValueError:
                 f.repo_file = path.as_posix()

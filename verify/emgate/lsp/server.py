@@ -63,11 +63,12 @@ class GateServer(LanguageServer):
             found = [Mark(0, 0, max(len(text.split("\n", 1)[0]), 1), "error", "crash", message)]
         else:
             self.checked[uri] = checked
+        lines = text.splitlines() or [""]
         diagnostics = [
             types.Diagnostic(
                 range=types.Range(
-                    start=types.Position(line=m.line, character=m.start),
-                    end=types.Position(line=m.line, character=m.end),
+                    start=types.Position(line=m.line, character=_utf16(lines, m.line, m.start)),
+                    end=types.Position(line=m.line, character=_utf16(lines, m.line, m.end)),
                 ),
                 message=m.message,
                 severity=SEVERITY[m.severity],
@@ -91,6 +92,23 @@ class GateServer(LanguageServer):
             for other in list(self.workspace.text_documents):
                 if other != uri:
                     self.check(other)
+
+
+def _utf16(lines: list[str], line: int, column: int) -> int:
+    """A code-point column as the UTF-16 offset LSP positions count by default."""
+    text = lines[line] if line < len(lines) else ""
+    return len(text[:column].encode("utf-16-le")) // 2
+
+
+def _code_points(lines: list[str], line: int, character: int) -> int:
+    """The inverse of :func:`_utf16`: an LSP position's column in code points."""
+    text = lines[line] if line < len(lines) else ""
+    units = 0
+    for i, ch in enumerate(text):
+        if units >= character:
+            return i
+        units += 2 if ord(ch) > 0xFFFF else 1
+    return len(text)
 
 
 def _path(uri: str) -> Path | None:
@@ -128,7 +146,8 @@ def build(plugins: PluginSet) -> GateServer:
             return None
         text = ls.workspace.get_text_document(uri).source
         pos = params.position
-        key = key_at(text, path, pos.line, pos.character)
+        column = _code_points(text.splitlines() or [""], pos.line, pos.character)
+        key = key_at(text, path, pos.line, column)
         if key is None:
             return None
         markdown = hover_markdown(key, checks_under(checked.result, path, key))

@@ -1,4 +1,4 @@
-"""Command line: ``emgate check|show|rules|explain|plugins|schema``.
+"""Command line: ``emgate check|show|diff|rules|explain|plugins|schema``.
 
 Exit codes: 0 clean; 1 a rule found an error; 2 input, configuration or usage error; 3 a rule,
 a plugin or emgate itself crashed (fail closed: a crash never passes a merge).
@@ -31,6 +31,12 @@ def _date(text: str) -> dt.date:
         raise argparse.ArgumentTypeError(f"expected a date YYYY-MM-DD, found {text!r}") from None
 
 
+def _show_format(text: str) -> str:
+    if text in ("text", "json") or text == "html" or text.startswith("html:"):
+        return text
+    raise argparse.ArgumentTypeError(f"expected text, json or html[:FILE], found {text!r}")
+
+
 def _parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="emgate",
@@ -54,7 +60,8 @@ def _parser() -> argparse.ArgumentParser:
         metavar="NAME[:FILE]",
         dest="formats",
         help=f"output format, one of {', '.join(FORMATS)}; with :FILE, written to"
-        " FILE atomically instead of standard output; repeatable",
+        " FILE atomically instead of standard output; repeatable; html:FILE writes an index"
+        " and every record's calculation sheet beside it",
     )
     c.add_argument("--config", type=Path, help="project config (default: nearest emgate.yaml)")
     c.add_argument(
@@ -66,8 +73,37 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("--today", type=_date, help="judge waiver expiry as of this date")
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path)
-    s.add_argument("--format", default="text", choices=["text", "json"])
+    s.add_argument(
+        "--format",
+        default="text",
+        type=_show_format,
+        metavar="{text,json,html[:FILE]}",
+        help="html: the sheet as one self-contained page with plots (to FILE, or stdout)",
+    )
     s.add_argument("--config", type=Path)
+    d = sub.add_parser(
+        "diff", help="the physics of a change: records, quantities and margins between revisions"
+    )
+    d.add_argument(
+        "refs",
+        nargs="+",
+        metavar="BASE [HEAD] [PATHS...]",
+        help="git revisions to compare (HEAD omitted: the working tree) and paths to limit it"
+        " to; or two record files",
+    )
+    d.add_argument(
+        "--format",
+        action="append",
+        metavar="NAME[:FILE]",
+        dest="formats",
+        help="text, json, markdown or html; with :FILE, written to FILE; repeatable",
+    )
+    d.add_argument(
+        "--threshold",
+        default="0.1",
+        metavar="PERCENT",
+        help="report a quantity that moved by more than this, relative (default 0.1 %%)",
+    )
     r = sub.add_parser("rules", help="list every installed rule")
     r.add_argument("--format", default="text", choices=["text", "json"])
     e = sub.add_parser("explain", help="print a rule's method, formulas and sources")
@@ -152,9 +188,18 @@ def _dispatch(args: argparse.Namespace) -> int:
 
         return init(args.dir)
     if args.command == "show":
+        if args.format.startswith("html"):
+            from emgate.page import show_html
+
+            out = args.format.partition(":")[2]
+            return show_html(args.file, Path(out) if out else None, args.config, plugins)
         from emgate.sheet import show
 
         return show(args.file, args.format)
+    if args.command == "diff":
+        from emgate.diff import main as diff_main
+
+        return diff_main(args, plugins)
     return _check(args, plugins)
 
 
@@ -244,8 +289,12 @@ def _outputs(specs: list[str] | None) -> list[tuple[str, Path | None]]:
     out: list[tuple[str, Path | None]] = []
     for spec in specs or ["text"]:
         name, _, file = spec.partition(":")
-        if name not in FORMATS:
-            raise _UsageError(f"unknown format {name!r}; expected one of {', '.join(FORMATS)}")
+        if name == "html" and not file:  # an index and a sheet per record: files only
+            raise _UsageError("html needs a FILE (html:reports/index.html)")
+        if name not in (*FORMATS, "html"):
+            raise _UsageError(
+                f"unknown format {name!r}; expected one of {', '.join(FORMATS)}, html:FILE"
+            )
         out.append((name, Path(file) if file else None))
     if sum(1 for _, f in out if f is None) > 1:
         raise _UsageError("only one --format may go to standard output; give the others a FILE")
@@ -312,6 +361,15 @@ def _emit(result, outputs: list[tuple[str, Path | None]]) -> int:  # type: ignor
 
     status = EXIT_OK
     for name, file in outputs:
+        if name == "html" and file is not None:
+            from emgate.page import write_run
+
+            try:
+                write_run(result, file)
+            except OSError as exc:
+                print(f"emgate: cannot write html to {file}: {exc.strerror}", file=sys.stderr)
+                status = EXIT_INPUT
+            continue
         text = reporter(name)(result)
         if file is None:
             sys.stdout.write(text)

@@ -32,7 +32,7 @@ CSP = (
 
 CSS = """
 :root{--ink:#1a1a1a;--muted:#555;--line:#ccc;--pass:#0072B2;--fail:#D55E00;--bg:#fff}
-*{box-sizing:border-box}
+*{box-sizing:border-box}[hidden]{display:none!important}
 body{margin:0;font:15px/1.45 system-ui,-apple-system,"Segoe UI",Roboto,sans-serif;
 color:var(--ink);background:var(--bg)}
 header,main,footer,nav{max-width:1120px;margin:0 auto;padding:0 16px}
@@ -69,7 +69,10 @@ dl.facts{display:grid;grid-template-columns:max-content 1fr;gap:2px 14px;margin:
 dl.facts dt{color:var(--muted)}dl.facts dd{margin:0;overflow-wrap:anywhere}
 footer{color:var(--muted);padding-bottom:30px;margin-top:30px;border-top:1px solid var(--line)}
 @media (max-width:600px){body{font-size:14px}th,td{padding:3px 5px}
-.grid{grid-template-columns:1fr}}
+.grid{grid-template-columns:1fr}
+.stack thead{display:none}.stack tr{display:block;border-bottom:1px solid var(--line);
+padding:4px 0}.stack td{display:block;border:0;padding:1px 4px;text-align:left}
+.stack td.name{white-space:normal;overflow-wrap:anywhere;font-weight:700}}
 @media print{nav{display:none}}
 """
 
@@ -90,6 +93,10 @@ document.querySelectorAll('input[data-filter]').forEach(function (box) {
   });
 });
 """
+
+
+#: Tables whose rows become blocks on a narrow screen (a long method text needs the width).
+STACKED = {"sheet-table", "checks-table", "rules-table"}
 
 
 def e(text: object) -> str:
@@ -123,6 +130,9 @@ def _table(
 ) -> str:
     """A table of already escaped cells (a cell starting '<td' is taken as written)."""
     ident = f' id="{e(table_id)}"' if table_id else ""
+    if table_id in STACKED:
+        ident += ' class="stack"'
+
     head = "".join(f'<th scope="col">{h}</th>' for h in header)
     classes = list(row_class) if row_class is not None else None
     body = []

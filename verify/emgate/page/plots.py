@@ -176,20 +176,26 @@ def cross_section(sec: Section, table: list[tuple[str, ...]]) -> str:
     p = sec.poles // 2
     span = 360.0 / p
     r = sec.stator_outer_r
-    low = min(0.0, r * math.cos(math.radians(span / 2.0))) if p > 1 else -r
+    widest = max(span, 360.0 * math.ceil(sec.slots / p - 1e-9) / sec.slots)
+    low = min(0.0, r * math.cos(math.radians(widest / 2.0))) if p > 1 else -r
     with _style("section"):
         # Tall enough for the pole pair's own height over width at an equal aspect.
         fig = _figure(min(6.5, 0.9 + (WIDTH - 0.9) * (r * 1.04 - low) / (2.08 * r)))
         ax = fig.add_subplot()
         base = 90.0 - span / 2.0  # the pole pair stands upright
         pitch = 2.0 * math.pi / sec.slots
-        start = math.radians(base) + pitch / 2.0
+        # Whole slots: the stator sector holds the slots of the pole pair, rounded up to a
+        # whole number when the slots per pole pair are fractional, centred like the rotor.
+        n_slots = math.ceil(sec.slots / p - 1e-9) if p > 1 else sec.slots
+        stator_span = math.degrees(n_slots * pitch)
+        stator_base = 90.0 - stator_span / 2.0
+        start = math.radians(stator_base) + pitch / 2.0
         ax.add_patch(
             Wedge(
                 (0, 0),
                 sec.stator_outer_r,
-                base,
-                base + span,
+                stator_base,
+                stator_base + stator_span,
                 width=sec.stator_outer_r - sec.bore_r,
                 facecolor=STEEL,
                 edgecolor=BLACK,
@@ -198,7 +204,6 @@ def cross_section(sec: Section, table: list[tuple[str, ...]]) -> str:
         )
         s = sec.stator_slot
         outline = slot_outline(s)
-        n_slots = math.ceil(sec.slots / p - 1e-9) if p > 1 else sec.slots
         for k in range(n_slots):
             angle = start + k * pitch
             ax.add_patch(
@@ -226,7 +231,7 @@ def cross_section(sec: Section, table: list[tuple[str, ...]]) -> str:
                 )
                 ((cx, cy),) = _to_global([(0.0, (y0 + y1) / 2.0)], angle, sec.bore_r)
                 ax.text(cx, cy, side, ha="center", va="center", fontsize=5.5)
-            ((lx, ly),) = _to_global([(0.0, -0.06 * sec.bore_r)], angle, sec.bore_r)
+            ((lx, ly),) = _to_global([(0.0, s.height + 0.04 * sec.bore_r)], angle, sec.bore_r)
             ax.text(lx, ly, str(k + 1), ha="center", va="center", fontsize=5, color="#444")
         _rotor(ax, sec, base, span, p)
         ax.set_xlim(-r * 1.02, r * 1.02)
@@ -234,7 +239,9 @@ def cross_section(sec: Section, table: list[tuple[str, ...]]) -> str:
         ax.set_aspect("equal")
         ax.set_xlabel("mm")
         ax.set_ylabel("mm")
-        ax.set_title(f"one pole pair of {sec.poles} poles, to scale; slot numbers outside the bore")
+        ax.set_title(
+            f"one pole pair of {sec.poles} poles, to scale; slot numbers beyond the slot bottoms"
+        )
         return _svg(fig, "section", "stator and rotor cross-section of one pole pair")
 
 
@@ -836,7 +843,7 @@ def margins(
                 hatch=hatch,
                 edgecolor=BLACK,
                 linewidth=0.5,
-                gid=f"margin-{c.rule}-{c.quantity}",
+                gid=f"margin-{c.rule}-{c.quantity}-{c.bound}",
             )
             old = before.get((c.rule, c.quantity, c.bound))
             if old is not None and math.isfinite(old.margin):

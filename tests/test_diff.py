@@ -12,6 +12,7 @@ from typing import Any
 
 import pytest
 import yaml
+
 from conftest import DEMO, run_cli, write_variant
 
 PUMP_REL = "designs/pump-drive-4p36s.yaml"

@@ -367,7 +367,8 @@ def _emit(result, outputs: list[tuple[str, Path | None]]) -> int:  # type: ignor
             try:
                 write_run(result, file)
             except OSError as exc:
-                print(f"emgate: cannot write html to {file}: {exc.strerror}", file=sys.stderr)
+                why = exc.strerror or str(exc)
+                print(f"emgate: cannot write html to {file}: {why}", file=sys.stderr)
                 status = EXIT_INPUT
             continue
         text = reporter(name)(result)

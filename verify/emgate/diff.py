@@ -568,7 +568,9 @@ def render_markdown(res: DiffResult) -> str:
             for q in rd.quantities[:MARKDOWN_ROWS]:
                 out.append(row([q.name, q.before_text, q.after_text, _rel_text(q.relative)]))
             if len(rd.quantities) > MARKDOWN_ROWS:
-                out.append(f"\n…and {len(rd.quantities) - MARKDOWN_ROWS} more (see the json).")
+                out.append(
+                    f"\n…and {len(rd.quantities) - MARKDOWN_ROWS} more: the text, json and html formats list them all."
+                )
         if rd.margins:
             out += ["", row(["check", "margin before", "margin after"]), "|---|---|---|"]
             for m in rd.margins:
@@ -688,6 +690,11 @@ def main(args: Any, plugins: PluginSet) -> int:
             outputs.append((name, Path(file) if file else None))
         if sum(1 for _, f in outputs if f is None) > 1:
             raise DiffError("only one --format may go to standard output; give the others a FILE")
+        if any(name == "html" for name, _ in outputs):
+            from emgate.page import MISSING_PLOTS, plots_available
+
+            if not plots_available():
+                raise DiffError(MISSING_PLOTS)
         threshold = _threshold(args.threshold)
         refs: list[str] = args.refs
         cwd = Path.cwd()

@@ -18,6 +18,16 @@ if TYPE_CHECKING:
     from emgate.page.data import PageData
 
 
+MISSING_PLOTS = "the html format draws with matplotlib: pip install 'emgate[html]'"
+
+
+def plots_available() -> bool:
+    """Whether matplotlib, which the plots need, is installed (an optional extra)."""
+    from importlib.util import find_spec
+
+    return find_spec("matplotlib") is not None
+
+
 def page_html(page: PageData) -> str:
     """The self-contained HTML sheet of one gathered record."""
     from emgate.page.html import render_page
@@ -38,6 +48,8 @@ def write_run(result: RunResult, out: Path) -> None:
     from emgate.page.data import gather_result
     from emgate.page.html import render_index
 
+    if not plots_available():
+        raise OSError(MISSING_PLOTS)
     index = (
         out if out.suffix.lower() in (".html", ".htm") and not out.is_dir() else out / "index.html"
     )
@@ -58,6 +70,9 @@ def show_html(file: Path, out: Path | None, config: Path | None, plugins: object
     from emgate.page.data import gather, run_gate
     from emgate.terms import EXIT_INPUT, EXIT_OK
 
+    if not plots_available():
+        print(f"emgate: {MISSING_PLOTS}", file=sys.stderr)
+        return EXIT_INPUT
     result = run_gate([file], plugins, config)  # type: ignore[arg-type]
     try:
         page = gather(file, result)

@@ -846,14 +846,16 @@ def margins(
                 gid=f"margin-{c.rule}-{c.quantity}-{c.bound}",
             )
             old = before.get((c.rule, c.quantity, c.bound))
+            end = shown
             if old is not None and math.isfinite(old.margin):
                 om = max(min(100.0 * old.margin, 100.0), -100.0)
                 ax.plot([om], [y], marker="|", markersize=12, color=BLACK, markeredgewidth=1.6)
+                end = max(shown, om) if shown >= 0 else min(shown, om)
             text = f"{m:+.1f} %" if math.isfinite(c.margin) else "n/a"
             if old is not None and math.isfinite(old.margin):
                 text = f"{100 * old.margin:+.1f} -> {text}"
             ax.text(
-                shown + (2 if shown >= 0 else -2),
+                end + (3 if shown >= 0 else -3),
                 y,
                 text,
                 va="center",
@@ -866,6 +868,6 @@ def margins(
         ax.set_xlabel("margin to the limit, % (right: inside; left, hatched: beyond)")
         title = "margins of every check, failing first"
         if other is not None:
-            title += f"; bar: {labels[1]}, tick: {labels[0]}"
+            title += f"\nbar: {labels[1]}, tick: {labels[0]}"
         ax.set_title(title)
         return _svg(fig, "margins", "margin bars of every check")

@@ -568,9 +568,8 @@ def render_markdown(res: DiffResult) -> str:
             for q in rd.quantities[:MARKDOWN_ROWS]:
                 out.append(row([q.name, q.before_text, q.after_text, _rel_text(q.relative)]))
             if len(rd.quantities) > MARKDOWN_ROWS:
-                out.append(
-                    f"\n…and {len(rd.quantities) - MARKDOWN_ROWS} more: the text, json and html formats list them all."
-                )
+                more = len(rd.quantities) - MARKDOWN_ROWS
+                out.append(f"\n…and {more} more: the text, json and html formats list them all.")
         if rd.margins:
             out += ["", row(["check", "margin before", "margin after"]), "|---|---|---|"]
             for m in rd.margins:

@@ -276,3 +276,18 @@ def test_added_and_removed_records(history: tuple[Path, list[str]], tmp_path: Pa
     assert status == {"genset-4p48s": "removed", "servo-copy": "added"}
     # The added copy of the servo breaks its limit at head: the gate fails, so does the diff.
     assert done.code == 1
+
+
+def test_an_invalid_head_record_is_named_and_fails_the_diff(
+    history: tuple[Path, list[str]], tmp_path: Path
+) -> None:
+    repo, revs = history
+    clone = tmp_path / "broken"
+    _git(repo, "worktree", "add", "-q", "-b", "broken", str(clone), revs[3])
+    _edit(clone / "designs/servo-10p12s.yaml", "stator.slots", "twelve")
+    _git(clone, "commit", "-qam", "break a record")
+    done = _diff(clone, revs[3], "HEAD", "--format", "json")
+    assert done.code == 2  # the head revision does not pass the gate: invalid input
+    (rec,) = done.json()["records"]
+    assert rec["status"] == "invalid"
+    assert "designs/servo-10p12s.yaml:" in rec["notes"][0]  # located, in the repository

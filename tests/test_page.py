@@ -378,3 +378,14 @@ def test_a_script_in_the_title_renders_as_text(browser: Any, tmp_path: Path) -> 
     assert browser.find_element("tag name", "h1").text == title
     assert browser.find_elements("css selector", "main img") == []
     assert [e for e in browser.get_log("browser") if e["level"] == "SEVERE"] == []
+
+
+def test_the_page_references_nothing_outside_itself() -> None:
+    """A static look beside the browser's: a policy that forbids loading anything, and no
+    address of another document, script, style, font or image in the markup."""
+    from emgate.page import page_html
+
+    html = page_html(_gather(GENSET))
+    assert "Content-Security-Policy" in html and "default-src 'none'" in html
+    assert re.search(r'(src|href)="(?!#)[^"]*"', html) is None
+    assert "url(http" not in html and "@import" not in html

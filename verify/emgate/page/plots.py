@@ -702,6 +702,17 @@ def spectrum(m: MMFData, other: MMFData | None = None, labels: tuple[str, str] =
                     linewidth=0.6,
                 )
                 bar.patches[0].set_gid(f"harmonic-{name or 'page'}-{n}")
+                if n < p and k == len(sets) - 1:  # a thin bar: say it in words too
+                    ax.annotate(
+                        "sub",
+                        (nu, rel),
+                        xytext=(0, 3),
+                        textcoords="offset points",
+                        ha="center",
+                        va="bottom",
+                        fontsize=7,
+                        color=VERMILLION,
+                    )
         ax.set_yscale("log")
         _plain_log(ax.yaxis)
         ax.set_ylim(0.05, 150)
@@ -738,11 +749,14 @@ def bh_curve(
                 label=f"{wp.part} {wp.b:.3g} T",
                 gid=f"wp-{wp.quantity}",
             )
+            # Alternate sides so that neighbouring points' names do not overlap.
+            left = i % 2 == 1
             ax.annotate(
                 wp.part,
                 (max(wp.h, 1.0), wp.b),
-                xytext=(6, -10),
+                xytext=(-7, 6) if left else (7, -10),
                 textcoords="offset points",
+                ha="right" if left else "left",
                 fontsize=7,
             )
         if other is not None:

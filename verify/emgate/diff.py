@@ -278,7 +278,17 @@ def _extract(rev: str, top: Path, into: Path) -> None:
         import tarfile
 
         with tarfile.open(fileobj=io.BytesIO(data)) as tar:
-            tar.extractall(into, filter="data")
+            if hasattr(tarfile, "data_filter"):  # Python 3.11.4 and later
+                tar.extractall(into, filter="data")
+            else:  # only plain files and folders inside the tree
+                safe = [
+                    m
+                    for m in tar.getmembers()
+                    if (m.isfile() or m.isdir())
+                    and not m.name.startswith("/")
+                    and ".." not in Path(m.name).parts
+                ]
+                tar.extractall(into, members=safe)
 
 
 def _name_status(base: str, head: str | None, top: Path, paths: list[str]) -> list[list[str]]:

@@ -389,3 +389,41 @@ def test_the_page_references_nothing_outside_itself() -> None:
     assert "Content-Security-Policy" in html and "default-src 'none'" in html
     assert re.search(r'(src|href)="(?!#)[^"]*"', html) is None
     assert "url(http" not in html and "@import" not in html
+
+
+def test_phases_and_verdicts_differ_in_more_than_colour() -> None:
+    """Okabe-Ito vermillion and bluish green differ by far less than the 3:1 contrast that
+    WCAG 2.1 (success criterion 1.4.11, non-text contrast) asks of graphics (relative
+    luminance 0.22 and 0.26 by the WCAG formula), so a greyscale print tells phases apart by
+    hatch and letter: every phase has its own hatch, and a failing margin bar is hatched
+    where a passing one is plain."""
+    from emgate.page.data import CheckRow
+    from emgate.page.plots import GREEN, PHASE_STYLE, VERMILLION, margins
+
+    def luminance(colour: str) -> float:
+        rgb = [int(colour[i : i + 2], 16) / 255 for i in (1, 3, 5)]
+        lin = [c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4 for c in rgb]
+        return 0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+
+    lo, hi = sorted((luminance(VERMILLION), luminance(GREEN)))
+    assert (hi + 0.05) / (lo + 0.05) < 3.0  # why hatches are needed
+    hatches = [h for _, h in PHASE_STYLE]
+    assert len(set(hatches)) == len(hatches) and all(hatches)
+    row = dict(
+        quantity="q",
+        label="q",
+        limit=1.0,
+        bound="max",
+        unit="1",
+        basis="b",
+        display="",
+        record_path="$",
+    )
+    svg = margins(
+        [
+            CheckRow("r", value=1.2, margin=-0.2, passed=False, **row),
+            CheckRow("s", value=0.5, margin=0.5, passed=True, **row),
+        ]
+    )
+    bars = dict(re.findall(r'<g id="margins-margin-(\w)-q-max">\s*<path [^>]*style="([^"]*)"', svg))
+    assert "url(#" in bars["r"] and "url(#" not in bars["s"]

@@ -427,3 +427,15 @@ def test_phases_and_verdicts_differ_in_more_than_colour() -> None:
     )
     bars = dict(re.findall(r'<g id="margins-margin-(\w)-q-max">\s*<path [^>]*style="([^"]*)"', svg))
     assert "url(#" in bars["r"] and "url(#" not in bars["s"]
+
+
+def test_a_check_against_a_zero_limit_is_not_drawn_as_failing() -> None:
+    """The form-wound genset's slot-width clearance is held to >= 0 mm: its margin is
+    infinite; it passes, so it sorts after the finite margins and reads as inside."""
+    from emgate.page import page_html
+
+    page = _gather(GENSET)
+    inf = [c for c in page.checks if not math.isfinite(c.margin)]
+    assert inf and all(c.passed for c in inf)
+    assert page.checks[-len(inf) :] == inf
+    assert "inside (limit 0)" in page_html(page)

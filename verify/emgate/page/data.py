@@ -601,4 +601,5 @@ def _checks(page: PageData, result: RunResult, record: RecordResult | None) -> N
                 )
             )
     # Failing first, then the closest to its limit.
-    page.checks.sort(key=lambda c: (c.passed, c.margin if math.isfinite(c.margin) else -1e300))
+    # (A margin is +-inf against a zero limit: a pass sorts last, a failure first.)
+    page.checks.sort(key=lambda c: (c.passed, c.margin if c.margin == c.margin else -math.inf))

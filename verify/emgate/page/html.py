@@ -164,7 +164,9 @@ def _figure(plots: dict[str, str], name: str, caption: str) -> str:
 
 
 def _margin(c: CheckRow) -> str:
-    return f"{100 * c.margin:+.1f} %" if math.isfinite(c.margin) else "n/a"
+    if math.isfinite(c.margin):
+        return f"{100 * c.margin:+.1f} %"
+    return "inside (limit 0)" if c.passed else "beyond (limit 0)"
 
 
 def check_rows(checks: list[CheckRow]) -> tuple[list[list[str]], list[str]]:

@@ -846,7 +846,8 @@ def margins(
         n = len(checks)
         for i, c in enumerate(checks):
             y = n - 1 - i
-            m = 100.0 * c.margin if math.isfinite(c.margin) else -100.0
+            # Against a zero limit the margin is infinite: inside when passed, else beyond.
+            m = 100.0 * c.margin if math.isfinite(c.margin) else (1e9 if c.passed else -1e9)
             shown = max(min(m, 100.0), -100.0)
             colour, hatch = (PASS, "") if c.passed else (FAIL, "///")
             ax.barh(
@@ -865,7 +866,7 @@ def margins(
                 om = max(min(100.0 * old.margin, 100.0), -100.0)
                 ax.plot([om], [y], marker="|", markersize=12, color=BLACK, markeredgewidth=1.6)
                 end = max(shown, om) if shown >= 0 else min(shown, om)
-            text = f"{m:+.1f} %" if math.isfinite(c.margin) else "n/a"
+            text = f"{m:+.1f} %" if math.isfinite(c.margin) else "limit 0"
             if old is not None and math.isfinite(old.margin):
                 text = f"{100 * old.margin:+.1f} -> {text}"
             ax.text(

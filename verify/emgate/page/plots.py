@@ -869,14 +869,13 @@ def margins(
             text = f"{m:+.1f} %" if math.isfinite(c.margin) else "limit 0"
             if old is not None and math.isfinite(old.margin):
                 text = f"{100 * old.margin:+.1f} -> {text}"
-            ax.text(
-                end + (3 if shown >= 0 else -3),
-                y,
-                text,
-                va="center",
-                ha="left" if shown >= 0 else "right",
-                fontsize=7,
-            )
+            if abs(end) >= 100.0:  # a clipped bar: its number inside, on a white ground
+                x, ha = (end - 3, "right") if end > 0 else (end + 3, "left")
+                box = {"facecolor": "white", "edgecolor": "none", "pad": 0.8}
+            else:
+                x, ha = (end + 3, "left") if shown >= 0 else (end - 3, "right")
+                box = None
+            ax.text(x, y, text, va="center", ha=ha, fontsize=7, bbox=box)
         ax.axvline(0.0, color=BLACK, linewidth=1.0)
         ax.set_yticks(range(n), [f"{c.rule}: {c.quantity}" for c in checks][::-1], fontsize=7)
         ax.set_xlim(-135, 135)

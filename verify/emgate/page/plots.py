@@ -425,7 +425,8 @@ def _dimension(
 
 def slot_detail(sec: Section, table: list[tuple[str, ...]]) -> str:
     """One stator slot enlarged, with its dimensions and the conductors as placed."""
-    from matplotlib.patches import Circle, Polygon, Rectangle
+    from matplotlib.collections import PatchCollection
+    from matplotlib.patches import Circle, Patch, Polygon, Rectangle
 
     s = sec.stator_slot
     c = sec.conductor
@@ -458,49 +459,35 @@ def slot_detail(sec: Section, table: list[tuple[str, ...]]) -> str:
         if split is not None:
             half = s.width_at(split) / 2.0
             ax.plot([-half, half], [split, split], color=BLACK, linewidth=0.8, linestyle=":")
+        # One collection each for insulation and copper: hundreds of strands draw fast.
+        outer: list[Patch] = []
+        bare: list[Patch] = []
+        colours: list[str] = []
         for item in placed:
             side = sides[item.layer] if item.layer < len(sides) else ""
-            colour = phase_style(side)[0] if side else ORANGE
+            colours.append(phase_style(side)[0] if side else ORANGE)
             if c.shape == "round":
-                ax.add_patch(
-                    Circle(
-                        (item.x, item.y),
-                        item.width / 2.0,
-                        facecolor="none",
-                        edgecolor="#555",
-                        linewidth=0.4,
-                    )
-                )
-                ax.add_patch(
-                    Circle(
-                        (item.x, item.y),
-                        item.bare_width / 2.0,
-                        facecolor=colour,
-                        alpha=0.7,
-                        edgecolor="none",
-                    )
-                )
+                outer.append(Circle((item.x, item.y), item.width / 2.0))
+                bare.append(Circle((item.x, item.y), item.bare_width / 2.0))
             else:
-                ax.add_patch(
+                outer.append(
                     Rectangle(
                         (item.x - item.width / 2, item.y - item.height / 2),
                         item.width,
                         item.height,
-                        facecolor="none",
-                        edgecolor="#555",
-                        linewidth=0.4,
                     )
                 )
-                ax.add_patch(
+                bare.append(
                     Rectangle(
                         (item.x - item.bare_width / 2, item.y - item.bare_height / 2),
                         item.bare_width,
                         item.bare_height,
-                        facecolor=colour,
-                        alpha=0.7,
-                        edgecolor="none",
                     )
                 )
+        ax.add_collection(
+            PatchCollection(outer, facecolors="none", edgecolors="#555", linewidths=0.4)
+        )
+        ax.add_collection(PatchCollection(bare, facecolors=colours, edgecolors="none", alpha=0.7))
         for (y0, y1), side in zip(_layer_bands(s, len(sides)), sides, strict=False):
             x = max(s.width_at(y0), s.width_at(y1)) / 2.0
             ax.text(

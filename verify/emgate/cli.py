@@ -32,7 +32,7 @@ def _date(text: str) -> dt.date:
 
 
 def _show_format(text: str) -> str:
-    if text in ("text", "json") or text == "html" or text.startswith("html:"):
+    if text in ("text", "json", "html") or text.startswith("html:"):
         return text
     raise argparse.ArgumentTypeError(f"expected text, json or html[:FILE], found {text!r}")
 

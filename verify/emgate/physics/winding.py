@@ -195,7 +195,7 @@ def feasibility(slots: int, pole_pairs: int, phases: int, layers: int) -> str | 
     return None
 
 
-def _belt_sides(slots: int, pole_pairs: int, phases: int) -> np.ndarray:
+def belt_sides(slots: int, pole_pairs: int, phases: int) -> np.ndarray:
     """One coil side per slot, phase and sign from the slot's sector of the star of slots.
 
     Slot s has the electrical angle 2 pi r / Q, r = p s mod Q. The star is cut into 2m belts
@@ -304,7 +304,7 @@ def star_of_slots(
     y = _count(coil_pitch, "coil pitch")
     if y >= slots:
         raise WindingError(f"coil pitch must be 1..{slots - 1} slots, got {y}")
-    sides = _belt_sides(slots, pole_pairs, phases)
+    sides = belt_sides(slots, pole_pairs, phases)
     pole_pitch = slots / (2 * pole_pairs)
     if layers == 1:
         if _pairs_with_pitch(sides, y):
@@ -352,7 +352,7 @@ def parallel_path_counts(
     Equal-EMF condition for parallel paths [mem: Pyrhonen, Jokinen, Hrabovcova, Design of
     Rotating Electrical Machines, ch. 2].
     """
-    sides = _belt_sides(slots, pole_pairs, phases)[0]
+    sides = belt_sides(slots, pole_pairs, phases)[0]
     if layers == 2:
         starts = [int(s) for s in np.flatnonzero(sides)]
     else:

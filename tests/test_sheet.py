@@ -455,3 +455,12 @@ def test_phase_resistance_and_copper_loss_of_the_pump() -> None:
     # m I^2 R at the class F reference temperature, 115 degC [mem].
     loss = 3 * i_ph**2 * r20 * (1 + 0.00393 * (115 - 20))
     assert s["winding.copper_loss"] == pytest.approx(loss, rel=1e-9)
+
+
+def test_every_sheet_name_has_exactly_one_function() -> None:
+    # The one list in emgate.calc.names and the @quantity bindings must agree both ways;
+    # a second binding of a name raises at import (emgate.calc.core.quantity).
+    from emgate.calc import PROVIDERS, SHEET
+
+    assert set(PROVIDERS) == set(SHEET)
+    assert len({id(fn) for fn in PROVIDERS.values()}) == len(PROVIDERS)

@@ -1,0 +1,300 @@
+"""The calculation sheet: every named quantity, its unit, method and machine kinds, in one list.
+
+A name is stable: ``emgate show`` prints it, ``declared:`` blocks and findings use it, and a
+rule reads the quantity by it. Each entry is computed by exactly one function of a domain
+module of this package, bound to it with ``@quantity(name)`` (a test holds the two in step).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from emgate.model import MACHINE_KINDS
+
+
+@dataclass(frozen=True)
+class Entry:
+    """A named quantity of the calculation sheet (``unit`` is the display unit)."""
+
+    name: str
+    unit: str
+    method: str
+    machines: tuple[str, ...] = MACHINE_KINDS
+
+
+ENTRIES: tuple[Entry, ...] = (
+    Entry(
+        "air_gap.carter_coefficient",
+        "1",
+        "Carter's coefficient of the stator slotting,"
+        " times that of the rotor slotting for a cage rotor",
+    ),
+    Entry(
+        "air_gap.effective_length",
+        "mm",
+        "Carter's coefficient times the gap it is computed on: the mechanical gap, or for"
+        " surface magnets the magnetic gap g + sleeve + h_m / mu_rec",
+    ),
+    Entry(
+        "air_gap.flux_density_fundamental",
+        "T",
+        "amplitude of the fundamental of the gap flux density wave; above the peak for a"
+        " flat-topped wave: (4/pi) sin(a pi/2) times it for a pole arc a, more than 1 for"
+        " a > 0.575",
+    ),
+    Entry(
+        "air_gap.flux_density_peak",
+        "T",
+        "peak gap flux density from the magnetic circuit of the machine kind, iron included",
+    ),
+    Entry(
+        "air_gap.flux_per_pole",
+        "mWb",
+        "gap flux of one pole (the whole wave, not its fundamental)",
+    ),
+    Entry(
+        "air_gap.saturation_factor",
+        "1",
+        "(gap + teeth ampere-turns) over gap ampere-turns",
+    ),
+    Entry(
+        "magnetic.total_mmf",
+        "A",
+        "ampere-turns per pole of the whole loop: gap, teeth, pole body and half of each yoke",
+    ),
+    Entry(
+        "rotor.bar_current",
+        "A",
+        "stator current referred to a bar by equal fundamental MMF,"
+        " 2 m N_ph kw1 I / Q_r (magnetising share not deducted: an upper bound)",
+        ("induction",),
+    ),
+    Entry(
+        "rotor.bar_current_density",
+        "A/mm^2",
+        "bar current over bar section (a cast bar fills its slot)",
+        ("induction",),
+    ),
+    Entry(
+        "rotor.field_current_density",
+        "A/mm^2",
+        "field current over the conductor section",
+        ("salient_field",),
+    ),
+    Entry(
+        "rotor.magnet_coercivity_cold",
+        "kA/m",
+        "intrinsic coercivity at the coolant temperature (a cold start), H_cJ0 (1 + beta (T_c"
+        " - T0)), T_c = cooling.ambient",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.magnet_coercivity_hot",
+        "kA/m",
+        "intrinsic coercivity at the magnet operating temperature, H_cJ0 (1 + beta (T - T0))",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.magnet_field_strength",
+        "kA/m",
+        "magnet working point H_m on the recoil line (negative: demagnetising)",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.magnet_field_strength_worst",
+        "kA/m",
+        "H_m with the rated-current staircase MMF peak F_max (winding.mmf_peak) wholly on the"
+        " d-axis, H_0 - F_max / (h_m + mu_rec kc g) (a worst case; negative: demagnetising)",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.magnet_field_strength_worst_cold",
+        "kA/m",
+        "as rotor.magnet_field_strength_worst with the magnet at the coolant temperature (a"
+        " cold start): H_0 from Br at cooling.ambient, the same armature term",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.pole_body_flux_density",
+        "T",
+        "pole-body flux density, leakage included",
+        ("salient_field",),
+    ),
+    Entry(
+        "rotor.ring_current_density",
+        "A/mm^2",
+        "ring current I_bar / (2 sin(pi p / Q_r)) over the ring section",
+        ("induction",),
+    ),
+    Entry(
+        "rotor.tooth_flux_density",
+        "T",
+        "real rotor tooth flux density with slot-flux sharing, as for the stator",
+        ("induction",),
+    ),
+    Entry(
+        "rotor.tooth_flux_density_apparent",
+        "T",
+        "apparent rotor tooth flux density at the narrowest tooth section, as for the stator",
+        ("induction",),
+    ),
+    Entry(
+        "rotor.yoke_flux_density",
+        "T",
+        "peak rotor yoke flux density, Phi / (2 k_Fe l h_y), with pole leakage for salient poles",
+    ),
+    Entry(
+        "rotor.yoke_height",
+        "mm",
+        "radial height of the rotor yoke, from the inner diameter to the cage slots, magnets"
+        " or pole bodies",
+    ),
+    Entry(
+        "stator.conductors_per_slot",
+        "1",
+        "layers times turns per coil",
+    ),
+    Entry(
+        "stator.copper_area",
+        "mm^2",
+        "bare copper per slot: conductors, strands in hand and strand section",
+    ),
+    Entry(
+        "stator.current_density",
+        "A/mm^2",
+        "J = I_ph / (a n S): phase current over parallel paths a, strands in hand n and bare"
+        " strand section S",
+    ),
+    Entry(
+        "stator.electric_loading",
+        "kA/m",
+        "A = 2 m N_ph I / (pi D), rms",
+    ),
+    Entry(
+        "stator.slot_area",
+        "mm^2",
+        "winding zone net of the slot liner laid along its perimeter",
+    ),
+    Entry(
+        "stator.slot_area_gross",
+        "mm^2",
+        "area of the slot's winding zone (below opening and wedge), liner not deducted",
+    ),
+    Entry(
+        "stator.slot_fill",
+        "1",
+        "bare copper area over the slot area net of liner",
+    ),
+    Entry(
+        "stator.slot_pitch",
+        "mm",
+        "bore circumference over slots",
+    ),
+    Entry(
+        "stator.thermal_load",
+        "A^2/mm^3",
+        "electric loading times current density, A J",
+    ),
+    Entry(
+        "stator.tooth_flux_density",
+        "T",
+        "real tooth flux density with slot-flux sharing: B_app = B + mu0 k_s H(B)",
+    ),
+    Entry(
+        "stator.tooth_flux_density_apparent",
+        "T",
+        "B_g tau_s l / (k_Fe l_Fe b_t) at the narrowest tooth section",
+    ),
+    Entry(
+        "stator.tooth_width_min",
+        "mm",
+        "narrowest tooth along the winding zone: slot pitch at a depth less the slot width there",
+    ),
+    Entry(
+        "stator.yoke_flux_density",
+        "T",
+        "peak yoke flux density, Phi / (2 k_Fe l h_y)",
+    ),
+    Entry(
+        "stator.yoke_height",
+        "mm",
+        "(outer - bore diameter) / 2 less the slot depth",
+    ),
+    Entry(
+        "winding.back_emf",
+        "V",
+        "phase EMF rms at the rated frequency, no load: sqrt 2 pi f N_ph kw1 Phi1 with"
+        " Phi1 = (2/pi) B1 tau_p l, B1 the fundamental gap flux density",
+        ("surface_pm", "salient_field"),
+    ),
+    Entry(
+        "winding.copper_loss",
+        "W",
+        "m I^2 R at the class reference temperature",
+    ),
+    Entry(
+        "winding.mean_turn_length",
+        "mm",
+        "distributed coils: 2 l + 2.4 W + 0.1 m, W the coil span at mid-slot (2.9 W + 0.2 m"
+        " above 1 kV); tooth coils: 2 (l + b_t) + pi w_c, b_t the mean tooth width, w_c the"
+        " coil-side width (the mean slot width over the layers)",
+    ),
+    Entry(
+        "winding.mmf_fundamental",
+        "A",
+        "peak rotating fundamental ampere-turns per pole, (sqrt 2 m / pi) kw1 N_ph I / p",
+    ),
+    Entry(
+        "winding.mmf_peak",
+        "A",
+        "peak of the staircase MMF (ampere-turns per pole) over the gap and one electrical"
+        " period at rated current, balanced sinusoidal currents; exact from the step levels:"
+        " each level is a sinusoid in time, its crest sqrt(F_s(0)^2 + F_s(T/4)^2)",
+    ),
+    Entry(
+        "winding.mmf_thd",
+        "1",
+        "total harmonic distortion of the staircase MMF, all orders"
+        " including sub-harmonics, over the working harmonic (Parseval)",
+    ),
+    Entry(
+        "winding.phase_current",
+        "A",
+        "rated line current through the connection of m phases"
+        " (star: equal; delta: over 2 sin(pi/m), sqrt 3 for three phases)",
+    ),
+    Entry(
+        "winding.phase_resistance_20c",
+        "ohm",
+        "DC phase resistance at 20 degC, rho20 N_ph l_av / (a n S), l_av the mean turn length"
+        " (rho20: IEC 60028 copper, IEC 60889 aluminium)",
+    ),
+    Entry(
+        "winding.phase_resistance_hot",
+        "ohm",
+        "phase resistance at the reference temperature of the insulation class",
+    ),
+    Entry(
+        "winding.phase_voltage",
+        "V",
+        "rated line voltage through the connection of m phases"
+        " (delta: equal; star: over 2 sin(pi/m), sqrt 3 for three phases)",
+    ),
+    Entry(
+        "winding.series_turns",
+        "1",
+        "series turns per phase N_ph: coils per phase times turns per coil, over parallel paths",
+    ),
+    Entry(
+        "winding.temperature_rise",
+        "K",
+        "lumped steady-state estimate of the mean winding"
+        " rise over the coolant, copper loss only (an estimate, to be confirmed by test)",
+    ),
+    Entry(
+        "winding.winding_factor",
+        "1",
+        "general winding factor of phase A at the working"
+        " order p from the slot layout: |sum c_s exp(j p theta_s)| / sum |c_s|",
+    ),
+)

@@ -1,0 +1,133 @@
+"""Rotor conductors (cage bars, rings, field coils) and the magnet working points."""
+
+from __future__ import annotations
+
+from emgate.calc import magnetic, winding
+from emgate.calc.conductors import conductor_strand_area
+from emgate.calc.core import Calculation, memo, quantity
+
+
+@memo
+def bar_area(c: Calculation) -> float:
+    from emgate.physics import conductors as ck
+
+    cage = c.d.rotor.cage
+    if cage.bar is not None:
+        return ck.rectangular_strand_area(cage.bar.width, cage.bar.height)
+    sl = c.d.rotor.slot
+    if sl.shape == "semi_closed":
+        return ck.semi_closed_full_area(
+            sl.opening,
+            sl.opening_height,
+            sl.wedge_height,
+            sl.top_width,
+            sl.bottom_width,
+            sl.height,
+        )
+    return ck.open_full_area(sl.width, sl.height)
+
+
+@quantity("rotor.bar_current")
+def bar_current(c: Calculation) -> float:
+    from emgate.physics.conductors import bar_current
+
+    return bar_current(
+        winding.phase_current(c),
+        c.d.winding.phases,
+        winding.series_turns(c),
+        winding.winding_factor(c),
+        c.d.rotor.slots,
+    )
+
+
+@quantity("rotor.bar_current_density")
+def bar_current_density(c: Calculation) -> float:
+    from emgate.physics.conductors import current_density
+
+    return current_density(bar_current(c), bar_area(c))
+
+
+@quantity("rotor.ring_current_density")
+def ring_current_density(c: Calculation) -> float:
+    from emgate.physics.conductors import current_density, end_ring_current
+
+    ring = c.d.rotor.cage.end_ring
+    current = end_ring_current(bar_current(c), c.d.pole_pairs, c.d.rotor.slots)
+    return current_density(current, ring.axial_width * ring.radial_height)
+
+
+@quantity("rotor.field_current_density")
+def field_current_density(c: Calculation) -> float:
+    from emgate.physics.conductors import field_coil_current_density
+
+    f = c.d.rotor.field
+    return field_coil_current_density(
+        f.current, f.conductor.strands * conductor_strand_area(f.conductor)
+    )
+
+
+@quantity("rotor.magnet_field_strength")
+def magnet_h(c: Calculation) -> float:
+    return magnetic.magnetic(c).magnet_h  # type: ignore[attr-defined]
+
+
+@memo
+def magnet_h_cold(c: Calculation) -> float:
+    """No-load magnet working point H_0 with the magnet at the coolant temperature [A/m]."""
+    return magnetic.magnetic_cold(c).magnet_h
+
+
+def magnet_h_with_current(c: Calculation, current_factor: float, *, cold: bool = False) -> float:
+    """Magnet field strength with the stator's peak staircase MMF at ``current_factor``
+    times the rated current taken wholly on the d-axis, demagnetising [A/m].
+
+    Superposes on the no-load working point H_0 (iron included) the armature term of the
+    linear magnet-and-gap loop, H = H_0 - F_max / (h_m + mu_rec g_e), g_e the gap beside
+    the magnet that the circuit is handed (kc g' - h_m / mu_rec), so the denominator is
+    mu_rec kc g'. F_max is the peak of the staircase MMF over the gap and the period
+    (``winding.mmf_peak``), not the rotating fundamental F1: a tooth-coil winding's
+    sub- and higher harmonics raise it well above F1. An approximation on the worst
+    side: the whole peak on the d-axis, across magnet and gap only (iron reluctance and
+    magnet leakage neglected). With ``cold``, H_0 is that of the magnet at the coolant
+    temperature (``cooling.ambient``); the armature term is the same.
+    """
+    m = c.d.rotor.magnet
+    mu_rec = m.material.recoil_permeability
+    across = m.thickness + mu_rec * magnetic.pole_path(c).effective_gap
+    h0 = magnet_h_cold(c) if cold else magnet_h(c)
+    return h0 - current_factor * winding.mmf_peak(c) / across
+
+
+@quantity("rotor.magnet_field_strength_worst")
+def magnet_h_worst(c: Calculation) -> float:
+    return magnet_h_with_current(c, 1.0)
+
+
+@quantity("rotor.magnet_field_strength_worst_cold")
+def magnet_h_worst_cold(c: Calculation) -> float:
+    return magnet_h_with_current(c, 1.0, cold=True)
+
+
+def magnet_coercivity_at(c: Calculation, temperature: float) -> float:
+    """Intrinsic coercivity of the magnet at ``temperature`` [K], H_cJ0 (1 + beta (T -
+    T0)) [A/m]: the same linear reversible law as the remanence's, with H_cJ's own
+    coefficient."""
+    from emgate.physics.magnetic import remanence_at
+
+    mat = c.d.rotor.magnet.material
+    return remanence_at(
+        mat.intrinsic_coercivity,
+        temperature,
+        mat.coercivity_temperature_coefficient,
+        mat.reference_temperature,
+    )
+
+
+@quantity("rotor.magnet_coercivity_hot")
+def magnet_coercivity_hot(c: Calculation) -> float:
+    return magnet_coercivity_at(c, c.d.rotor.magnet.operating_temperature)
+
+
+@quantity("rotor.magnet_coercivity_cold")
+def magnet_coercivity_cold(c: Calculation) -> float:
+    return magnet_coercivity_at(c, c.d.cooling.ambient)

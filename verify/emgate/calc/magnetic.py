@@ -126,6 +126,14 @@ def magnetic(c: Calculation) -> GapResult:
         )
     if d.machine == "surface_pm":
         return _surface_pm_circuit(c, d.rotor.magnet.operating_temperature)
+    return salient_circuit(c, d.rotor.field.turns_per_pole * d.rotor.field.current)
+
+
+def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
+    """The salient-pole circuit at no load with the field ampere-turns per pole ``field_mmf``."""
+    from emgate.physics import magnetic as mk
+
+    d = c.d
     pole = d.rotor.pole
     # The kernel's pole height runs from the gap to the rim, shoe included; the record's
     # body_height stops at the shoe. The body's flux density is carried over the shoe
@@ -141,7 +149,7 @@ def magnetic(c: Calculation) -> GapResult:
         salient,
         stator_steel(c),
         rotor_steel(c),
-        field_mmf=d.rotor.field.turns_per_pole * d.rotor.field.current,
+        field_mmf=field_mmf,
     )
 
 
@@ -195,19 +203,18 @@ def total_mmf(c: Calculation) -> float:
 
 @quantity("winding.back_emf")
 def back_emf(c: Calculation) -> float:
-    """E = sqrt(2) pi f N_ph kw1 Phi1, Phi1 = (2/pi) B1 tau_p l [V] [from memory:
-    Fitzgerald and Kingsley, Electric Machinery]: the fundamental flux per pole cut by
-    the series turns at the rated electrical frequency."""
+    """E = sqrt(2) pi f N_ph kw1 Phi1, Phi1 = (2/pi) B1 tau_p l [V]: the fundamental flux
+    per pole cut by the series turns at the rated electrical frequency."""
+    from emgate.physics.inductance import no_load_emf
+
     d = c.d
-    phi1 = 2.0 / math.pi * gap_flux_density_fundamental(c) * geo.pole_pitch(d)
-    phi1 *= d.stator.stack_length
-    return (
-        math.sqrt(2.0)
-        * math.pi
-        * d.rating.frequency
-        * winding.series_turns(c)
-        * winding.winding_factor(c)
-        * phi1
+    return no_load_emf(
+        d.rating.frequency,
+        winding.series_turns(c),
+        winding.winding_factor(c),
+        gap_flux_density_fundamental(c),
+        geo.pole_pitch(d),
+        d.stator.stack_length,
     )
 
 

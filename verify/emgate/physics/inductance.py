@@ -22,6 +22,7 @@ from emgate.physics.constants import MU0
 from emgate.physics.winding import as_layout
 
 __all__ = [
+    "armature_reaction_on_field",
     "demagnetising_field",
     "end_winding_inductance",
     "excitation_emf",
@@ -59,6 +60,11 @@ def _non_negative(name: str, *values: object) -> None:
         a = np.asarray(v, dtype=float)
         if not (np.all(np.isfinite(a)) and np.all(a >= 0.0)):
             raise ValueError(f"{name} must be finite and >= 0, got {v!r}")
+
+
+def _out(value: Num) -> Num:
+    """A Python float for scalar inputs (numpy scalars compare to numpy bools), else the array."""
+    return float(value) if np.ndim(value) == 0 else value
 
 
 # --- the gap's fundamental field -------------------------------------------------------------
@@ -114,14 +120,16 @@ def magnetising_inductance(
     _positive("magnetising inductance inputs", phases, series_turns, diameter, stack_length)
     _positive("pole pairs and effective gap", pole_pairs, effective_gap)
     _positive("winding factor", winding_factor)
-    return (
-        phases
-        / math.pi
-        * MU0
-        * (winding_factor * series_turns) ** 2
-        * diameter
-        * stack_length
-        / (pole_pairs**2 * effective_gap)
+    return _out(
+
+            phases
+            / math.pi
+            * MU0
+            * (winding_factor * series_turns) ** 2
+            * diameter
+            * stack_length
+            / (pole_pairs**2 * effective_gap)
+
     )
 
 
@@ -153,7 +161,7 @@ def salient_pole_axis_factors(pole_arc: Num) -> tuple[Num, Num]:
     if not (np.all(a > 0.0) and np.all(a <= 1.0)):
         raise ValueError(f"pole arc must be in (0, 1], got {pole_arc!r}")
     s = np.sin(np.pi * pole_arc) / np.pi
-    return pole_arc + s, pole_arc - s
+    return _out(pole_arc + s), _out(pole_arc - s)
 
 
 # --- slot leakage ------------------------------------------------------------------------
@@ -206,8 +214,7 @@ def trapezoid_zone_permeance(top_width: Num, bottom_width: Num, height: Num) -> 
     # is the more accurate (closed form: rounding / e^3; series: the next term ~ e^6 / 200)
     series = 1.0 / 3.0 - e**2 / 30.0 - e**3 / 40.0 - e**4 / 70.0 - e**5 / 140.0
     shape = np.where(np.abs(e) < 0.03, series, closed)
-    out = height / b1 * shape
-    return float(out) if np.ndim(out) == 0 else out
+    return _out(height / b1 * shape)
 
 
 def open_slot_permeance(
@@ -243,7 +250,7 @@ def open_slot_permeance(
     """
     _positive("slot width and winding height", width, winding_height)
     _non_negative("wedge height", wedge_height)
-    return k1 * winding_height / (3.0 * width) + k2 * wedge_height / width
+    return _out(k1 * winding_height / (3.0 * width) + k2 * wedge_height / width)
 
 
 def semi_closed_slot_permeance(
@@ -290,7 +297,7 @@ def semi_closed_slot_permeance(
     _non_negative("tooth-tip and wedge heights", opening_height, wedge_height)
     zone = trapezoid_zone_permeance(top_width, bottom_width, winding_height)
     above = 2.0 * wedge_height / (opening + top_width) + opening_height / opening
-    return k1 * zone + k2 * above
+    return _out(k1 * zone + k2 * above)
 
 
 def slot_leakage_factors(
@@ -392,7 +399,7 @@ def slot_leakage_inductance(
     """
     _positive("slot leakage inputs", phases, series_turns, slots, stack_length)
     _non_negative("slot permeance", permeance)
-    return 4.0 * phases * MU0 * stack_length * series_turns**2 * permeance / slots
+    return _out(4.0 * phases * MU0 * stack_length * series_turns**2 * permeance / slots)
 
 
 # --- end windings and gap harmonics ---------------------------------------------------------
@@ -446,8 +453,7 @@ def end_winding_inductance(
     _positive("bundle radius and parallel paths", bundle_radius, parallel_paths)
     radius = end_length / (2.0 * np.pi)
     shape = np.maximum(np.log(8.0 * radius / bundle_radius) - 2.0, 0.0)
-    out = bundles_per_phase * MU0 * turns_per_bundle**2 * radius * shape / parallel_paths**2
-    return float(out) if np.ndim(out) == 0 else out
+    return _out(bundles_per_phase * MU0 * turns_per_bundle**2 * radius * shape / parallel_paths**2)
 
 
 def harmonic_leakage_inductance(magnetising: Num, coefficient: Num) -> Num:
@@ -476,7 +482,7 @@ def harmonic_leakage_inductance(magnetising: Num, coefficient: Num) -> Num:
     Wiley, sec. 4.2, the air-gap (harmonic) leakage factor sigma_delta (from memory).
     """
     _non_negative("magnetising inductance and harmonic coefficient", magnetising, coefficient)
-    return magnetising * coefficient
+    return _out(magnetising * coefficient)
 
 
 def synchronous_inductance(
@@ -510,7 +516,7 @@ def synchronous_inductance(
     memory); J. Pyrhonen et al., sec. 4.2 for sigma_delta (from memory).
     """
     _non_negative("inductances", magnetising, harmonic_coefficient, slot_leakage, end_leakage)
-    return magnetising * (1.0 + harmonic_coefficient) + slot_leakage + end_leakage
+    return _out(magnetising * (1.0 + harmonic_coefficient) + slot_leakage + end_leakage)
 
 
 # --- surface magnets: fault current and torque -----------------------------------------------
@@ -551,7 +557,7 @@ def short_circuit_current(emf: Num, frequency: Num, inductance: Num, resistance:
     _positive("EMF, frequency and inductance", emf, frequency, inductance)
     _non_negative("resistance", resistance)
     omega = 2.0 * np.pi * frequency
-    return emf / np.hypot(resistance, omega * inductance)
+    return _out(emf / np.hypot(resistance, omega * inductance))
 
 
 def torque_constant(phases: int, emf: Num, frequency: Num, pole_pairs: int) -> Num:
@@ -582,7 +588,7 @@ def torque_constant(phases: int, emf: Num, frequency: Num, pole_pairs: int) -> N
     torque and EMF constants of a sine-wave machine (from memory).
     """
     _positive("torque-constant inputs", phases, emf, frequency, pole_pairs)
-    return phases * pole_pairs * emf / (2.0 * np.pi * frequency)
+    return _out(phases * pole_pairs * emf / (2.0 * np.pi * frequency))
 
 
 def no_load_emf(
@@ -626,7 +632,7 @@ def no_load_emf(
     _positive("EMF inputs", frequency, series_turns, winding_factor, pole_pitch, stack_length)
     _non_negative("flux density", flux_density_fundamental)
     phi1 = 2.0 / np.pi * flux_density_fundamental * pole_pitch * stack_length
-    return np.sqrt(2.0) * np.pi * frequency * winding_factor * series_turns * phi1
+    return _out(np.sqrt(2.0) * np.pi * frequency * winding_factor * series_turns * phi1)
 
 
 def demagnetising_field(
@@ -668,7 +674,7 @@ def demagnetising_field(
     _non_negative("armature MMF", armature_mmf)
     _positive("magnet thickness, recoil permeability and gap", magnet_thickness, gap)
     _positive("recoil permeability", recoil_permeability)
-    return no_load_field - armature_mmf / (magnet_thickness + recoil_permeability * gap)
+    return _out(no_load_field - armature_mmf / (magnet_thickness + recoil_permeability * gap))
 
 
 # --- induction machines ---------------------------------------------------------------------
@@ -708,7 +714,9 @@ def magnetising_current(
     """
     _positive("magnetising-current inputs", total_mmf, phases, series_turns, winding_factor)
     _positive("pole pairs", pole_pairs)
-    return np.pi * pole_pairs * total_mmf / (np.sqrt(2.0) * phases * winding_factor * series_turns)
+    return _out(
+        np.pi * pole_pairs * total_mmf / (np.sqrt(2.0) * phases * winding_factor * series_turns)
+    )
 
 
 # --- wound-field generators --------------------------------------------------------------
@@ -722,13 +730,15 @@ def excitation_emf(
     resistance: Num = 0.0,
     *,
     leading: bool = False,
+    motoring: bool = False,
 ) -> tuple[Num, Num]:
-    """Excitation EMF of a generator on load from the cylindrical-rotor phasor diagram.
+    """Excitation EMF of a synchronous machine on load from the cylindrical-rotor diagram.
 
-    E = U + (R + j X_s) I with U on the real axis and I lagging it by phi = acos(cos phi)
-    (leading with ``leading``): the non-salient (one-reaction) diagram. For a salient-pole
-    machine with X_s = X_d it overrates E against the two-reaction diagram (X_q < X_d) at a
-    lagging power factor, so the field current from it errs on the high side.
+    Generator: E = U + (R + j X_s) I with U on the real axis and I lagging it by
+    phi = acos(cos phi) (leading with ``leading``); motor (``motoring``): E = U - (R + j X_s) I,
+    an over-excited motor's current leading. The non-salient (one-reaction) diagram: for a
+    salient-pole machine with X_s = X_d it overrates E against the two-reaction diagram
+    (X_q < X_d) when over-excited, so the field current from it errs on the high side.
 
     Parameters
     ----------
@@ -744,6 +754,8 @@ def excitation_emf(
         Phase resistance R [ohm] (default 0).
     leading : bool
         Whether the current leads the voltage (an under-excited generator).
+    motoring : bool
+        Whether the machine is a motor (current into the terminals).
 
     Returns
     -------
@@ -763,11 +775,46 @@ def excitation_emf(
         raise ValueError(f"power factor must be in (0, 1], got {power_factor!r}")
     phi = np.arccos(pf) * (1.0 if leading else -1.0)
     current = phase_current * np.exp(1j * phi)
-    e = phase_voltage + (resistance + 1j * reactance) * current
+    drop = (resistance + 1j * reactance) * current
+    e = phase_voltage - drop if motoring else phase_voltage + drop
     mag, angle = np.abs(e), np.angle(e)
     if np.ndim(mag) == 0:
         return float(mag), float(angle)  # type: ignore[return-value]
     return mag, angle
+
+
+def armature_reaction_on_field(armature_mmf: Num, axis_factor: Num, pole_arc: Num) -> Num:
+    """The armature's MMF referred to a salient pole's field winding.
+
+    A field MMF F_f per pole, constant over the pole shoe (arc alpha of the pole pitch, a
+    uniform gap), has a gap flux-density fundamental (4/pi) sin(alpha pi / 2) times its
+    own; the armature's rotating fundamental F_1 on the d-axis gives C_d times its own
+    (:func:`salient_pole_axis_factors`). The field ampere-turns with the same fundamental:
+    F_f,eq = C_d F_1 / ((4/pi) sin(alpha pi / 2)).
+
+    Parameters
+    ----------
+    armature_mmf : float or numpy.ndarray
+        Peak rotating fundamental of the armature, ampere-turns per pole F_1 [A].
+    axis_factor : float or numpy.ndarray
+        C_d (or C_q) [-].
+    pole_arc : float or numpy.ndarray
+        Pole-shoe arc alpha as a fraction of the pole pitch.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        F_f,eq [A], ampere-turns per pole of the field.
+
+    References
+    ----------
+    J. Pyrhonen, T. Jokinen, V. Hrabovcova, *Design of Rotating Electrical Machines*,
+    Wiley, ch. 7, the armature reaction of salient-pole machines and the field's share of
+    the no-load characteristic (from memory); the fundamentals by derivation.
+    """
+    _non_negative("armature MMF", armature_mmf)
+    _positive("axis factor and pole arc", axis_factor, pole_arc)
+    return _out(axis_factor * armature_mmf / (4.0 / np.pi * np.sin(np.pi * pole_arc / 2.0)))
 
 
 # --- torque -------------------------------------------------------------------------------
@@ -793,7 +840,7 @@ def shaft_torque(power: Num, speed: Num) -> Num:
     Definition of mechanical power, P = T Omega, Omega = 2 pi n.
     """
     _positive("power and speed", power, speed)
-    return power / (2.0 * np.pi * speed)
+    return _out(power / (2.0 * np.pi * speed))
 
 
 def shear_stress(torque: Num, rotor_diameter: Num, stack_length: Num) -> Num:
@@ -822,4 +869,4 @@ def shear_stress(torque: Num, rotor_diameter: Num, stack_length: Num) -> Num:
     """
     _positive("torque, rotor diameter and length", torque, rotor_diameter, stack_length)
     volume = np.pi * rotor_diameter**2 * stack_length / 4.0
-    return torque / (2.0 * volume)
+    return _out(torque / (2.0 * volume))

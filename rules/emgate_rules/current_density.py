@@ -16,23 +16,38 @@ from emgate_rules._winding import unless_unbalanced
 CurrentDensityLimit = quantity("current_density")
 _MM2 = 1e6  # A/mm^2 in A/m^2
 
-#: Upper ends of the ranges by cooling [mem: Hendershot and Miller, Design of Brushless
-#: Permanent-Magnet Machines]: totally enclosed non-ventilated 1.5-5 A/mm^2, fan-cooled 5-10,
-#: liquid-cooled 10-30. A water jacket cools the winding only through the iron, so its default
-#: sits between the fan-cooled and liquid-cooled ends (common practice, no source).
-DEFAULT_LIMITS = {
-    "enclosed_natural": 5.0 * _MM2,
-    "enclosed_fan": 10.0 * _MM2,
-    "open_ventilated": 10.0 * _MM2,
-    "liquid_jacket": 20.0 * _MM2,
-    "direct_liquid": 30.0 * _MM2,
-}
-SOURCES = {
-    "enclosed_natural": "Hendershot and Miller, totally enclosed non-ventilated, from memory",
-    "enclosed_fan": "Hendershot and Miller, fan-cooled, from memory",
-    "open_ventilated": "Hendershot and Miller, fan-cooled, from memory",
-    "liquid_jacket": "common practice, no source",
-    "direct_liquid": "Hendershot and Miller, liquid-cooled, from memory",
+HM = "Hendershot and Miller, {}, from memory"
+PYR = "Pyrhonen et al., Table 6.2, {} (from memory)"
+CP = "common practice, no source"
+#: Upper ends of the usual ranges by machine kind and cooling method [A/m^2], each with its
+#: source: totally enclosed non-ventilated 1.5-5 A/mm^2, fan-cooled 5-10, liquid-cooled
+#: 10-30 [from memory: Hendershot and Miller, Design of Brushless Permanent-Magnet
+#: Machines]; induction machines 3-8 and salient-pole synchronous machines 2-5 where air
+#: cools the winding [from memory: Pyrhonen, Jokinen, Hrabovcova, Design of Rotating
+#: Electrical Machines, Table 6.2]. A water jacket cools the winding only through the iron,
+#: so its cells sit between the air-cooled and liquid-cooled ends (common practice).
+TABLE: dict[str, dict[str, tuple[float, str]]] = {
+    "induction": {
+        "enclosed_natural": (5.0 * _MM2, HM.format("totally enclosed non-ventilated")),
+        "enclosed_fan": (8.0 * _MM2, PYR.format("induction machines 3-8 A/mm^2")),
+        "open_ventilated": (8.0 * _MM2, PYR.format("induction machines 3-8 A/mm^2")),
+        "liquid_jacket": (12.0 * _MM2, CP),
+        "direct_liquid": (30.0 * _MM2, HM.format("liquid-cooled")),
+    },
+    "surface_pm": {
+        "enclosed_natural": (5.0 * _MM2, HM.format("totally enclosed non-ventilated")),
+        "enclosed_fan": (10.0 * _MM2, HM.format("fan-cooled")),
+        "open_ventilated": (10.0 * _MM2, HM.format("fan-cooled")),
+        "liquid_jacket": (20.0 * _MM2, CP),
+        "direct_liquid": (30.0 * _MM2, HM.format("liquid-cooled")),
+    },
+    "salient_field": {
+        "enclosed_natural": (5.0 * _MM2, PYR.format("salient-pole machines 2-5 A/mm^2")),
+        "enclosed_fan": (5.0 * _MM2, PYR.format("salient-pole machines 2-5 A/mm^2")),
+        "open_ventilated": (5.0 * _MM2, PYR.format("salient-pole machines 2-5 A/mm^2")),
+        "liquid_jacket": (12.0 * _MM2, CP),
+        "direct_liquid": (30.0 * _MM2, HM.format("liquid-cooled")),
+    },
 }
 
 
@@ -43,11 +58,13 @@ ROTOR_SOURCE = "Pyrhonen et al., Table 6.2 (from memory)"
 
 
 class CurrentDensityOptions(Options):
-    enclosed_natural: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["enclosed_natural"])
-    enclosed_fan: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["enclosed_fan"])
-    open_ventilated: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["open_ventilated"])
-    liquid_jacket: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["liquid_jacket"])
-    direct_liquid: CurrentDensityLimit = Field(default=DEFAULT_LIMITS["direct_liquid"])
+    """A cooling method's field, when set, is the team's limit for every machine kind."""
+
+    enclosed_natural: CurrentDensityLimit | None = None
+    enclosed_fan: CurrentDensityLimit | None = None
+    open_ventilated: CurrentDensityLimit | None = None
+    liquid_jacket: CurrentDensityLimit | None = None
+    direct_liquid: CurrentDensityLimit | None = None
     cage_bar: CurrentDensityLimit = Field(default=ROTOR_DEFAULTS["cage_bar"])
     end_ring: CurrentDensityLimit = Field(default=ROTOR_DEFAULTS["end_ring"])
     field_coil: CurrentDensityLimit = Field(default=ROTOR_DEFAULTS["field_coil"])
@@ -63,10 +80,17 @@ class CurrentDensity(Rule):
     The strand section is pi d^2 / 4 for round wire, and w h - (4 - pi) r^2 for a rectangular
     strand with corner radius r.
 
-    Default limits (upper ends of the usual ranges): totally enclosed, no fan 5 A/mm^2;
-    fan-cooled or open ventilated 10 A/mm^2; liquid-cooled 30 A/mm^2 [from memory: Hendershot
-    and Miller, Design of Brushless Permanent-Magnet Machines]; water jacket 20 A/mm^2
-    (common practice, no source).
+    Default limits by machine kind and cooling method (upper ends of the usual ranges),
+    A/mm^2 (enclosed no fan / fan-cooled / open ventilated / water jacket / direct liquid):
+    induction 5 / 8 / 8 / 12 / 30; surface magnets 5 / 10 / 10 / 20 / 30; salient poles
+    5 / 5 / 5 / 12 / 30. Sources per cell: totally enclosed non-ventilated 5, fan-cooled 10
+    (surface magnets), liquid-cooled 30 [from memory: Hendershot and Miller, Design of
+    Brushless Permanent-Magnet Machines, 1.5-5, 5-10 and 10-30 A/mm^2]; induction machines
+    with air on the winding 8 and salient-pole machines 5 [from memory: Pyrhonen, Jokinen,
+    Hrabovcova, Design of Rotating Electrical Machines, Table 6.2: induction 3-8,
+    salient-pole synchronous 2-5 A/mm^2]; water jacket 12 and 20 (common practice, no
+    source: between the air-cooled and liquid-cooled ends). A cooling method's option, when
+    the team sets it, applies to every machine kind.
 
     Rotor conductors: a cage bar carries the stator current referred by equal fundamental
     MMF, I_bar = 2 m N_ph kw1 I_ph / Q_r (the magnetising share is not deducted, so this is an
@@ -82,7 +106,7 @@ class CurrentDensity(Rule):
 
     id = "current-density"
     summary = "conductor current density within the limit for the cooling method"
-    version = "1"
+    version = "2"
     tags = ("electrical", "thermal")
     options = CurrentDensityOptions
 
@@ -93,8 +117,9 @@ class CurrentDensity(Rule):
         assert isinstance(options, CurrentDensityOptions)
         calc: Calculation = context.calc
         method = design.cooling.method
-        limit = getattr(options, method)
-        source = basis(options, method, DEFAULT_LIMITS[method], SOURCES[method])
+        limit, source = TABLE[design.machine][method]
+        if getattr(options, method) is not None:
+            limit, source = getattr(options, method), "the team's limit (emgate.yaml)"
         yield Check(
             quantity="stator.current_density",
             label="stator current density",

@@ -12,7 +12,19 @@ from emgate.rule import Check, Context, Options, Problem, Rule
 from emgate_rules._limits import Ratio, basis, limit
 
 SOURCE = "common practice, no source"
-DEFAULTS = {"random_wound": 0.45, "tooth_coil": 0.65, "form_wound": 0.65}
+#: Bare-copper fill ceilings by winding family: random-wound distributed round wire 0.45
+#: (usual 0.35-0.45); needle-wound round-wire tooth coils reach less than the 0.65 of
+#: coils wound on a bobbin or segmented core, a double layer (two coils a slot, the needle
+#: between them) less than a single (common practice, no source); form-wound 0.65.
+DEFAULTS = {
+    "random_wound": 0.45,
+    "tooth_coil_double_layer": 0.55,
+    "tooth_coil_single_layer": 0.6,
+    "form_wound": 0.65,
+}
+#: Radial room between the layers of a form-wound slot, per separator [m] (common practice,
+#: no source).
+SEPARATOR = 0.5e-3
 #: Free width a form-wound strand needs across the slot beyond itself and two liners [m]:
 #: none, it must merely fit (common practice, no source).
 WIDTH_CLEARANCE = 0.0
@@ -21,16 +33,38 @@ Clearance = quantity("length", sign="non_negative")
 
 class SlotFillOptions(Options):
     random_wound: Ratio = limit(DEFAULTS["random_wound"], SOURCE, le=0.91)
-    tooth_coil: Ratio = limit(DEFAULTS["tooth_coil"], SOURCE, le=0.91)
+    tooth_coil_double_layer: Ratio = limit(DEFAULTS["tooth_coil_double_layer"], SOURCE, le=0.91)
+    tooth_coil_single_layer: Ratio = limit(DEFAULTS["tooth_coil_single_layer"], SOURCE, le=0.91)
     form_wound: Ratio = limit(DEFAULTS["form_wound"], SOURCE, le=1.0)
     opening_clearance: Clearance = limit(OPENING_CLEARANCE, SOURCE)
     width_clearance: Clearance = limit(WIDTH_CLEARANCE, SOURCE)
+    height_clearance: Clearance = limit(WIDTH_CLEARANCE, SOURCE)
+    separator: Clearance = limit(SEPARATOR, SOURCE)
 
 
 def winding_type(design: AnyDesign) -> str:
     if design.winding.conductor.shape == "rectangular":
         return "form_wound"
-    return "tooth_coil" if design.winding.coil_pitch == 1 else "random_wound"
+    if design.winding.coil_pitch > 1:
+        return "random_wound"
+    return "tooth_coil_double_layer" if design.winding.layers == 2 else "tooth_coil_single_layer"
+
+
+def radial_stack(design: AnyDesign, liner: float, separator: float) -> tuple[float, int]:
+    """Radial build of a form-wound slot [m] and the strands side by side across it.
+
+    As many insulated strands side by side as the width net of two liners takes (at least
+    one), the rest stacked: conductors x ceil(strands / across) x h_ins, a separator
+    between layers, a liner at the bottom and under the wedge, and the wedge.
+    """
+    import math
+
+    c, slot = design.winding.conductor, design.stator.slot
+    w = design.winding
+    across = max(1, int((slot.width - 2.0 * liner) // c.insulated_width))
+    rows = math.ceil(c.strands / across) * w.layers * w.turns_per_coil
+    stack = rows * c.insulated_height + (w.layers - 1) * separator + 2.0 * liner
+    return stack + slot.wedge_height, across
 
 
 class SlotFill(Rule):
@@ -43,18 +77,27 @@ class SlotFill(Rule):
     semi-closed slot, the insulated strand must pass the opening with 0.2 mm clearance
     (`opening_clearance`, e.g. '0.2 mm'). For rectangular strands in an open slot, the
     insulated strand width plus the liner on both walls must fit the slot width, clearance
-    b - (w_ins + 2 t) >= 0 (`width_clearance`); the strands are taken as stacked
-    radially, one strand across the slot.
+    b - (w_ins + 2 t) >= 0 (`width_clearance`); and the coil's radial stack must fit the
+    slot depth, h - (n_r h_ins z + (layers - 1) s + 2 t + h_w) >= 0 (`height_clearance`):
+    as many strands side by side as the width net of two liners takes (at least one), the
+    other n_r rows stacked, z conductors a slot, a separator s between layers
+    (`separator`, 0.5 mm), a liner t at the bottom and under the wedge, the wedge h_w.
+    The fill over insulated wire (stator.slot_fill_insulated: d_ins^2 a round strand, w_ins
+    h_ins a rectangular one) is on the sheet beside the bare-copper fill.
 
-    Default upper limits (common practice, no source), as ratios (0.45 or '45 %'):
-    random-wound round wire 0.45 (usual 0.35-0.45), tooth coils 0.65 (0.45-0.65), form-wound
-    rectangular 0.65 (0.5-0.65). No round wire fill can exceed hexagonal packing, pi /
-    sqrt(12) = 0.907 of the bare-to-insulated area ratio. Clearances 0.2 mm at the opening
-    and none across the slot (common practice, no source).
+    Default upper limits by winding family (common practice, no source), as ratios (0.45
+    or '45 %'): random-wound distributed round wire 0.45 (usual 0.35-0.45); needle-wound
+    round-wire tooth coils in two layers 0.55 and in one layer 0.6 (they reach less than
+    the 0.65 of bobbin-wound or segmented-core coils; the needle needs room between two
+    coils of a slot); form-wound rectangular 0.65 (0.5-0.65). No round wire fill can
+    exceed hexagonal packing, pi / sqrt(12) = 0.907 of the bare-to-insulated area ratio.
+    Clearances 0.2 mm at the opening and none across the slot or in its depth (common
+    practice, no source).
     """
 
     id = "slot-fill"
     summary = "slot fill within the limit for the winding type; the wire fits the slot"
+    version = "2"
     tags = ("electrical", "manufacturing")
     options = SlotFillOptions
 
@@ -95,4 +138,15 @@ class SlotFill(Rule):
                 "min",
                 "mm",
                 basis(options, "width_clearance", WIDTH_CLEARANCE, SOURCE),
+            )
+            stack, across = radial_stack(design, context.calc.liner, options.separator)
+            yield Check(
+                "stator.slot_height_clearance",
+                f"slot depth less the coil's radial stack ({across} strand(s) across)",
+                ("stator", "slot", "height"),
+                slot.height - stack,
+                options.height_clearance,
+                "min",
+                "mm",
+                basis(options, "height_clearance", WIDTH_CLEARANCE, SOURCE),
             )

@@ -13,6 +13,7 @@ from skfem.models.poisson import laplace, unit_load
 
 from emgate.physics.constants import MU0
 from emgate.physics.inductance import (
+    armature_reaction_on_field,
     demagnetising_field,
     end_winding_inductance,
     excitation_emf,
@@ -527,3 +528,24 @@ def test_family_input_is_checked() -> None:
         winding_family(12, 10, 3, 1)
     with pytest.raises(WindingError, match="coil pitch"):
         winding_family(12, 10, 2, 12)
+
+
+@pytest.mark.parametrize("arc", [0.6, 0.68, 0.75])
+def test_armature_reaction_referred_to_the_field(arc: float) -> None:
+    # [calc] independent: scipy quadrature of the fundamentals. A field MMF F over the shoe
+    # gives b1 = (2/pi) int cos over the shoe (times F); the armature's F1 cos gives
+    # C_d F1; equal fundamentals. quad exact to 1e-14: tolerance 1e-12.
+    half = arc * math.pi / 2
+    field_fundamental = 2 / math.pi * quad(math.cos, -half, half)[0]
+    c_d, _ = salient_pole_axis_factors(arc)
+    expected = c_d * 1000.0 / field_fundamental
+    assert armature_reaction_on_field(1000.0, c_d, arc) == pytest.approx(expected, rel=1e-12)
+
+
+def test_motor_phasor_diagram() -> None:
+    # [calc] a motor: E = U - j X I; an over-excited (leading) motor needs E above U, a
+    # lagging one below it [mem: Chapman, ch. 5, synchronous motors]. Rounding only.
+    e, _ = excitation_emf(230.0, 10.0, 0.8, 5.0, leading=True, motoring=True)
+    expected = abs(230.0 - 1j * 5.0 * 10.0 * complex(0.8, 0.6))
+    assert e == pytest.approx(expected, rel=EXACT)
+    assert e > 230.0 > excitation_emf(230.0, 10.0, 0.8, 5.0, motoring=True)[0]

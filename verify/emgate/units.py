@@ -132,6 +132,7 @@ DIMENSIONS: dict[str, tuple[Dims, str]] = {
     "power": (_W, "7.5 kW"),
     "energy": (_J, "1 kJ"),
     "torque": (_J, "48 N*m"),
+    "pressure": ((-1, 1, -2, 0, 0), "20 kN/m^2"),
     "temperature": (_TH, "40 degC"),
     "temperature_difference": (_TH, "80 K"),
     "flux_density": (_TESLA, "0.8 T"),

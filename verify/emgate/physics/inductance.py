@@ -121,15 +121,13 @@ def magnetising_inductance(
     _positive("pole pairs and effective gap", pole_pairs, effective_gap)
     _positive("winding factor", winding_factor)
     return _out(
-
-            phases
-            / math.pi
-            * MU0
-            * (winding_factor * series_turns) ** 2
-            * diameter
-            * stack_length
-            / (pole_pairs**2 * effective_gap)
-
+        phases
+        / math.pi
+        * MU0
+        * (winding_factor * series_turns) ** 2
+        * diameter
+        * stack_length
+        / (pole_pairs**2 * effective_gap)
     )
 
 

@@ -1,0 +1,96 @@
+"""Irreversible demagnetisation of surface magnets at the worst credible current."""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+from emgate.model import AnyDesign
+from emgate.rule import Check, Context, Options, Problem, Rule
+from emgate_rules._limits import Ratio, RatioOrZero, basis, limit
+from emgate_rules._winding import unless_unbalanced
+
+CP = "common practice, no source"
+#: Share of the intrinsic coercivity kept in reserve (common practice, no source).
+MARGIN = 0.1
+#: The worst credible current over its steady value: 1, the steady short circuit (a sudden
+#: one from no load reaches up to twice its peak on the d-axis in the first half-period,
+#: which stator resistance and the drive's protection usually cut short).
+CURRENT_FACTOR = 1.0
+
+
+class DemagnetisationFaultOptions(Options):
+    margin: RatioOrZero = limit(MARGIN, CP, lt=1.0)
+    current_factor: Ratio = limit(CURRENT_FACTOR, "the steady short circuit (2 for a sudden one)")
+
+
+class DemagnetisationFault(Rule):
+    """The magnets stay clear of the knee at the worst credible stator current, with the
+    magnet hot and at the lowest ambient; the finding names the governing case.
+
+    Method. Worst credible current (winding.fault_current_peak): the record's rating.peak_current
+    (the drive's current limit, peak) when it declares one; otherwise the steady
+    three-phase short circuit, peak sqrt 2 I_k, I_k = psi / L_s = E / (omega L_s): the
+    magnets' flux linkage over the synchronous inductance L_s = L_m (1 + sigma_delta) +
+    L_u + L_ew (winding.synchronous_inductance: magnetising over the magnetic gap, harmonic
+    leakage sigma_delta = THD^2, slot leakage from the slot's permeance, end leakage from
+    the coil ends as loops in air; resistance neglected, so I_k is the highest steady
+    value). At a short circuit the current lies on the d-axis, against the magnets; a
+    sudden short circuit from no load reaches up to twice the steady peak there in its
+    first half-period (set `current_factor` 2 to check it).
+
+    Field strength: H = H_0 - (i / (sqrt 2 I_ph)) F_max / (h_m + mu_rec kc g), H_0 the
+    no-load working point from the magnetic circuit (iron included) at the case's magnet
+    temperature, F_max the staircase MMF peak at rated current (winding.mmf_peak), scaled
+    to the fault current and taken wholly on the d-axis across magnet and gap (iron and
+    magnet leakage neglected: the worst side). The two cases: hot, the magnet's operating
+    temperature (rotor.magnet_field_strength_fault_hot); cold, the lowest ambient
+    (cooling.ambient_min; -15 degC when absent, the lower end of IEC 60034-1's ambient
+    range, from memory), with H_0, and without a declared peak the short-circuit current,
+    of the cold magnet (rotor.magnet_field_strength_fault_cold). The intrinsic coercivity
+    follows H_cJ(T) = H_cJ0 (1 + beta (T - T0)): rare-earth magnets (beta < 0) are weakest
+    hot, ferrite (beta > 0) cold. Check: |H| <= H_cJ(T) (1 - margin) in each case; the
+    case with the smaller margin governs and its finding says so.
+
+    Defaults: `margin` 0.1 of H_cJ(T) (common practice, no source); `current_factor` 1.
+    """
+
+    id = "demagnetisation-fault"
+    summary = "magnets clear of the coercivity at the worst credible current, hot and cold"
+    machines = ("surface_pm",)
+    tags = ("magnetic", "fault")
+    options = DemagnetisationFaultOptions
+
+    @unless_unbalanced
+    def check(
+        self, design: AnyDesign, options: Options, context: Context
+    ) -> Iterable[Check | Problem]:
+        from emgate.calc import circuit, rotor
+
+        assert isinstance(options, DemagnetisationFaultOptions)
+        calc = context.calc
+        declared = design.rating.peak_current is not None
+        source = "declared peak current" if declared else "short-circuit current"
+        hot_t = design.rotor.magnet.operating_temperature
+        cold_t = circuit.lowest_ambient(calc)
+        cases = []
+        for name, temperature, cold in (("hot", hot_t, False), ("cold", cold_t, True)):
+            field = circuit.magnet_field_at_fault(calc, cold=cold, factor=options.current_factor)
+            current = options.current_factor * circuit.fault_current(calc, cold=cold)
+            limit_h = rotor.magnet_coercivity_at(calc, temperature) * (1.0 - options.margin)
+            cases.append((name, temperature, cold, abs(field), limit_h, current))
+        governing = min(cases, key=lambda k: (k[4] - k[3]) / k[4])[0]
+        text = basis(options, "margin", MARGIN, CP)
+        for name, temperature, _, value, limit_h, current in cases:
+            tag = ", governs" if name == governing else ""
+            yield Check(
+                f"rotor.magnet_field_strength_fault_{name}",
+                f"magnet field strength, {name} case{tag}: {source} {current:.4g} A peak"
+                f" on the d-axis, magnet at {temperature - 273.15:.4g} degC",
+                ("rotor", "magnet", "thickness"),
+                value,
+                limit_h,
+                "max",
+                "kA/m",
+                f"H_cJ at {temperature - 273.15:.4g} degC less a {options.margin:.3g}"
+                f" margin: {text}",
+            )

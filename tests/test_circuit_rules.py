@@ -287,3 +287,25 @@ def test_insulated_fill_of_the_pump() -> None:
     assert s["stator.slot_fill_insulated"] == pytest.approx(
         insulated / s["stator.slot_area"], rel=EXACT
     )
+
+
+@pytest.mark.parametrize(
+    ("dotted", "value", "message"),
+    [
+        ("cooling.ambient_min", "50 degC", "lowest coolant temperature"),
+        ("rating.max_speed", "1000 rpm", "below the rated"),
+        ("rating.peak_current", "2 A", "drive limit"),
+    ],
+)
+def test_inconsistent_worst_case_fields_are_located_input_errors(
+    repo: Path, dotted: str, value: str, message: str
+) -> None:
+    # behaviour of the gate (bad input: exit 2 with the record path), no source
+    from conftest import node_mark, run_cli
+
+    path = variant(repo, {dotted: value}, base=SERVO)
+    result = run_cli("check", "--format", "json", path)
+    assert result.code == 2
+    (error,) = result.input_findings()
+    assert message in error["message"]
+    assert (error["line"], error["column"]) == node_mark(path, dotted)

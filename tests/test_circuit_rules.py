@@ -309,3 +309,25 @@ def test_inconsistent_worst_case_fields_are_located_input_errors(
     (error,) = result.input_findings()
     assert message in error["message"]
     assert (error["line"], error["column"]) == node_mark(path, dotted)
+
+
+def test_cold_magnet_flux_checks_the_cold_case(repo: Path) -> None:
+    # the servo's cold magnet (-15 degC: Br 1.25 T (1 + 0.0012 x 35) = 1.3025 T [calc])
+    # loads the teeth more than the hot one; the rule checks the cold values against the
+    # rated-point limits, and a team limit between hot and cold flips it
+    from test_sheet import write_config
+
+    path = variant(repo, {}, base=SERVO)
+    s = sheet(path)
+    result = check_json(path)
+    tooth = the_check(result, "cold-magnet-flux", "stator.tooth_flux_density_apparent_cold")
+    assert tooth["value"] == pytest.approx(s["stator.tooth_flux_density_apparent_cold"])
+    assert "cold case" in tooth["label"] and tooth["passed"]
+    hot, cold = s["stator.tooth_flux_density_apparent"], tooth["value"]
+    assert cold > hot
+    write_config(
+        repo,
+        f"options:\n  cold-magnet-flux:\n    stator_tooth_apparent: {(hot + cold) / 2:.4f} T\n",
+    )
+    (finding,) = findings(check_json(path), "cold-magnet-flux")
+    assert "the team's limit" in finding["message"]

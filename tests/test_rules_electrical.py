@@ -233,6 +233,7 @@ def test_declared_name_of_another_machine_kind_says_so(repo: Path) -> None:
 BUILTIN = [
     "back-emf",
     "back-emf-top-speed",
+    "cold-magnet-flux",
     "current-density",
     "declared-values",
     "demagnetisation",

@@ -10,6 +10,7 @@ from emgate.rule import Rule
 def emgate_rules() -> list[type[Rule]]:
     from emgate_rules.back_emf import BackEmf
     from emgate_rules.back_emf_top_speed import BackEmfTopSpeed
+    from emgate_rules.cold_magnet_flux import ColdMagnetFlux
     from emgate_rules.current_density import CurrentDensity
     from emgate_rules.declared_values import DeclaredValues
     from emgate_rules.demagnetisation import Demagnetisation
@@ -28,6 +29,7 @@ def emgate_rules() -> list[type[Rule]]:
     return [
         BackEmf,
         BackEmfTopSpeed,
+        ColdMagnetFlux,
         CurrentDensity,
         DeclaredValues,
         Demagnetisation,

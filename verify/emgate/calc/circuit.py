@@ -318,6 +318,11 @@ def back_emf_cold_top_speed(c: Calculation) -> float:
     return _emf_of(c, circuit_lowest_ambient(c), r.frequency * top_speed(c) / r.speed)
 
 
+@quantity("stator.tooth_flux_density_apparent_cold")
+def stator_tooth_b_apparent_cold(c: Calculation) -> float:
+    return circuit_lowest_ambient(c).iron.stator_tooth_b_apparent
+
+
 @quantity("stator.tooth_flux_density_cold")
 def stator_tooth_b_cold(c: Calculation) -> float:
     return circuit_lowest_ambient(c).iron.stator_tooth_b

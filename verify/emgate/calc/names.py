@@ -287,6 +287,13 @@ ENTRIES: tuple[Entry, ...] = (
         "B_g tau_s l / (k_Fe l_Fe b_t) at the narrowest tooth section",
     ),
     Entry(
+        "stator.tooth_flux_density_apparent_cold",
+        "T",
+        "as stator.tooth_flux_density_apparent with the magnet at the lowest ambient"
+        " (cooling.ambient_min, -15 degC when absent)",
+        ("surface_pm",),
+    ),
+    Entry(
         "stator.tooth_flux_density_cold",
         "T",
         "as stator.tooth_flux_density with the magnet at the lowest ambient"

@@ -27,16 +27,19 @@ class DemagnetisationFault(Rule):
     """The magnets stay clear of the knee at the worst credible stator current, with the
     magnet hot and at the lowest ambient; the finding names the governing case.
 
-    Method. Worst credible current (winding.fault_current_peak): the record's rating.peak_current
-    (the drive's current limit, peak) when it declares one; otherwise the steady
-    three-phase short circuit, peak sqrt 2 I_k, I_k = psi / L_s = E / (omega L_s): the
-    magnets' flux linkage over the synchronous inductance L_s = L_m (1 + sigma_delta) +
-    L_u + L_ew (winding.synchronous_inductance: magnetising over the magnetic gap, harmonic
-    leakage sigma_delta = THD^2, slot leakage from the slot's permeance, end leakage from
-    the coil ends as loops in air; resistance neglected, so I_k is the highest steady
-    value). At a short circuit the current lies on the d-axis, against the magnets; a
-    sudden short circuit from no load reaches up to twice the steady peak there in its
-    first half-period (set `current_factor` 2 to check it).
+    Method. Worst credible current (winding.fault_current_peak): the record's
+    rating.peak_current (the drive's current limit, peak) when it declares one; otherwise
+    the steady three-phase short circuit, peak sqrt 2 I_k, I_k = psi / L_s = E / (omega
+    L_s): the magnets' flux linkage over the synchronous inductance L_s = L_m (1 +
+    sigma_delta) + L_u + L_ew (winding.synchronous_inductance: magnetising over the
+    magnetic gap, harmonic leakage sigma_delta = THD^2, slot leakage from the slot's
+    permeance, end leakage from the coil ends as loops in air; resistance neglected, so
+    I_k is the highest steady value). The slot and end leakage err low (I_k high, the safe
+    side); but rotor eddy currents (a conducting sleeve, segmented magnets less so) screen
+    the harmonic fields and lower L_s below this, raising I_k: for such a rotor declare the
+    drive's limit or raise `current_factor`. At a short circuit the current lies on the
+    d-axis, against the magnets; a sudden short circuit from no load reaches up to twice
+    the steady peak there in its first half-period (set `current_factor` 2 to check it).
 
     Field strength: H = H_0 - (i / (sqrt 2 I_ph)) F_max / (h_m + mu_rec kc g), H_0 the
     no-load working point from the magnetic circuit (iron included) at the case's magnet

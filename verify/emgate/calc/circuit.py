@@ -71,14 +71,16 @@ def gap_magnetising_inductance(c: Calculation) -> float:
     from emgate.physics.inductance import magnetising_inductance as lm
 
     d = c.d
-    return lm(
-        d.winding.phases,
-        winding.series_turns(c),
-        winding.winding_factor(c),
-        d.stator.bore_diameter,
-        d.stator.stack_length,
-        d.pole_pairs,
-        magnetic.effective_gap(c),
+    return float(
+        lm(
+            d.winding.phases,
+            winding.series_turns(c),
+            winding.winding_factor(c),
+            d.stator.bore_diameter,
+            d.stator.stack_length,
+            d.pole_pairs,
+            magnetic.effective_gap(c),
+        )
     )
 
 
@@ -129,17 +131,21 @@ def slot_permeance(c: Calculation) -> float:
     sl = c.d.stator.slot
     if sl.shape == "semi_closed":
         zone = semi_closed_winding_height(sl.opening_height, sl.wedge_height, sl.height)
-        return ik.semi_closed_slot_permeance(
-            sl.opening,
-            sl.opening_height,
-            sl.wedge_height,
-            sl.top_width,
-            sl.bottom_width,
-            zone,
-            k1,
-            k2,
+        return float(
+            ik.semi_closed_slot_permeance(
+                sl.opening,
+                sl.opening_height,
+                sl.wedge_height,
+                sl.top_width,
+                sl.bottom_width,
+                zone,
+                k1,
+                k2,
+            )
         )
-    return ik.open_slot_permeance(sl.width, sl.height - sl.wedge_height, sl.wedge_height, k1, k2)
+    return float(
+        ik.open_slot_permeance(sl.width, sl.height - sl.wedge_height, sl.wedge_height, k1, k2)
+    )
 
 
 @quantity("winding.slot_leakage_inductance")
@@ -147,12 +153,14 @@ def slot_leakage_inductance(c: Calculation) -> float:
     from emgate.physics.inductance import slot_leakage_inductance as lu
 
     d = c.d
-    return lu(
-        d.winding.phases,
-        winding.series_turns(c),
-        d.stator.slots,
-        d.stator.stack_length,
-        slot_permeance(c),
+    return float(
+        lu(
+            d.winding.phases,
+            winding.series_turns(c),
+            d.stator.slots,
+            d.stator.stack_length,
+            slot_permeance(c),
+        )
     )
 
 
@@ -191,12 +199,14 @@ def end_leakage_inductance(c: Calculation) -> float:
     if end_length <= 0.0:
         return 0.0
     side_area = per_group * conductors.slot_area_gross(c) / w.layers
-    return end_winding_inductance(
-        groups,
-        per_group * w.turns_per_coil,
-        end_length,
-        math.sqrt(side_area / math.pi),
-        w.parallel_paths,
+    return float(
+        end_winding_inductance(
+            groups,
+            per_group * w.turns_per_coil,
+            end_length,
+            math.sqrt(side_area / math.pi),
+            w.parallel_paths,
+        )
     )
 
 
@@ -205,7 +215,7 @@ def synchronous_inductance(c: Calculation) -> float:
     from emgate.physics.inductance import synchronous_inductance as ls
 
     # The harmonic fields see the uniform gap; the d-axis factor applies to the working one.
-    return ls(magnetising_inductance(c), 0.0, leakage_inductance(c), 0.0)
+    return float(ls(magnetising_inductance(c), 0.0, leakage_inductance(c), 0.0))
 
 
 # --- surface magnets: fault current and torque -------------------------------------------
@@ -215,20 +225,22 @@ def _emf_of(c: Calculation, circuit: SurfacePMResult, frequency: float) -> float
     from emgate.physics.inductance import no_load_emf
 
     d = c.d
-    return no_load_emf(
-        frequency,
-        winding.series_turns(c),
-        winding.winding_factor(c),
-        circuit.b_fundamental,
-        geo.pole_pitch(d),
-        d.stator.stack_length,
+    return float(
+        no_load_emf(
+            frequency,
+            winding.series_turns(c),
+            winding.winding_factor(c),
+            circuit.b_fundamental,
+            geo.pole_pitch(d),
+            d.stator.stack_length,
+        )
     )
 
 
 def _short_circuit(c: Calculation, emf: float) -> float:
     from emgate.physics.inductance import short_circuit_current
 
-    return short_circuit_current(emf, c.d.rating.frequency, synchronous_inductance(c))
+    return float(short_circuit_current(emf, c.d.rating.frequency, synchronous_inductance(c)))
 
 
 @quantity("winding.short_circuit_current")
@@ -241,7 +253,7 @@ def torque_constant(c: Calculation) -> float:
     from emgate.physics.inductance import torque_constant as kt
 
     d = c.d
-    return kt(d.winding.phases, magnetic.back_emf(c), d.rating.frequency, d.pole_pairs)
+    return float(kt(d.winding.phases, magnetic.back_emf(c), d.rating.frequency, d.pole_pairs))
 
 
 def lowest_ambient(c: Calculation) -> float:
@@ -282,12 +294,14 @@ def magnet_field_at_fault(c: Calculation, *, cold: bool, factor: float = 1.0) ->
     h0 = circuit_lowest_ambient(c).magnet_h if cold else rotor.magnet_h(c)
     rated_peak = math.sqrt(2.0) * winding.phase_current(c)
     armature = factor * fault_current(c, cold=cold) / rated_peak * winding.mmf_peak(c)
-    return demagnetising_field(
-        h0,
-        armature,
-        m.thickness,
-        m.material.recoil_permeability,
-        magnetic.pole_path(c).effective_gap,
+    return float(
+        demagnetising_field(
+            h0,
+            armature,
+            m.thickness,
+            m.material.recoil_permeability,
+            magnetic.pole_path(c).effective_gap,
+        )
     )
 
 
@@ -341,12 +355,14 @@ def magnetising_current(c: Calculation) -> float:
     from emgate.physics.inductance import magnetising_current as im
 
     d = c.d
-    return im(
-        magnetic.total_mmf(c),
-        d.winding.phases,
-        winding.series_turns(c),
-        winding.winding_factor(c),
-        d.pole_pairs,
+    return float(
+        im(
+            magnetic.total_mmf(c),
+            d.winding.phases,
+            winding.series_turns(c),
+            winding.winding_factor(c),
+            d.pole_pairs,
+        )
     )
 
 
@@ -460,14 +476,14 @@ def torque(c: Calculation) -> float:
 
     r = c.d.rating
     power = r.power * (power_factor(c) if r.operation == "generator" else 1.0)
-    return shaft_torque(power, r.speed)
+    return float(shaft_torque(power, r.speed))
 
 
 @quantity("rotor.shear_stress")
 def shear_stress(c: Calculation) -> float:
     from emgate.physics.inductance import shear_stress as sigma
 
-    return sigma(torque(c), geo.rotor_outer_diameter(c.d), c.d.stator.stack_length)
+    return float(sigma(torque(c), geo.rotor_outer_diameter(c.d), c.d.stator.stack_length))
 
 
 @quantity("stator.slot_fill_insulated")

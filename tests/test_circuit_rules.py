@@ -13,8 +13,18 @@ from pathlib import Path
 
 import pytest
 
-from conftest import GENSET, PUMP, SERVO
-from test_sheet import check_json, findings, outcome, sheet, the_check, variant
+from conftest import (
+    GENSET,
+    PUMP,
+    SERVO,
+    check_json,
+    findings,
+    outcome,
+    sheet,
+    the_check,
+    variant,
+    write_config,
+)
 
 MU0 = 1.25663706127e-6  # [pub: CODATA 2022, as scipy.constants.mu_0]
 #: Sheet values are SI floats from the same run: rounding only.
@@ -73,7 +83,6 @@ def test_full_pitch_q1_distributed_winding_fails_mmf_thd(repo: Path) -> None:
 def test_subharmonic_and_slot_harmonic_options(repo: Path) -> None:
     # 12/10 double layer: largest sub-harmonic 0.359 (order 1), slot harmonic 5/7 = 0.714
     # (order 7) [calc]; limits just below each flip them, none are checked by default
-    from test_sheet import write_config
 
     path = variant(repo, {}, base=SERVO)
     checks = outcome(check_json(path), "mmf-thd")["checks"]
@@ -315,7 +324,6 @@ def test_cold_magnet_flux_checks_the_cold_case(repo: Path) -> None:
     # the servo's cold magnet (-15 degC: Br 1.25 T (1 + 0.0012 x 35) = 1.3025 T [calc])
     # loads the teeth more than the hot one; the rule checks the cold values against the
     # rated-point limits, and a team limit between hot and cold flips it
-    from test_sheet import write_config
 
     path = variant(repo, {}, base=SERVO)
     s = sheet(path)

@@ -9,8 +9,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
-from test_iron import linear_curve, m350_50a_curve
 
+from conftest import linear_curve, m350_50a_curve
 from emgate.physics.bh import b_from_h
 from emgate.physics.constants import MU0
 from emgate.physics.iron import (
@@ -108,7 +108,7 @@ def test_series_flux_without_an_air_gap() -> None:
 
 @pytest.mark.parametrize("curve", [linear_curve(3000.0), M350], ids=["mu_r 3000", "M350-50A"])
 def test_rule_of_thumb_iron_changes_the_flux_by_a_few_percent(curve) -> None:
-    # [cp] REFERENCE.md: iron path 300 mm, gap 5 mm, mu_r several thousand: neglecting the
+    # [cp] iron path 300 mm, gap 5 mm, mu_r several thousand: neglecting the
     # iron changes the flux by only a few percent. Taken here as 0 < change < 5 %, at the
     # MMF that drives 1 T through the gap alone (M350-50A is near its mu_r maximum there).
     area, mmf = 1e-3, 1.0 * 5e-3 / MU0
@@ -120,7 +120,7 @@ def test_rule_of_thumb_iron_changes_the_flux_by_a_few_percent(curve) -> None:
 
 # --------------------------------------------------------------- surface magnets
 
-# REFERENCE.md check [calc, method mem: Hendershot and Miller]: Br 1.2 T, l_m 3 mm,
+# [calc] B_g = Br l_m / (l_m + mu_rec kc g) [mem: Hendershot and Miller]: Br 1.2 T, l_m 3 mm,
 # g 1 mm, kc 1.0, mu_rec 1.05 -> 0.8889 T.
 BR, MU_REC, L_M, GAP = 1.2, 1.05, 3e-3, 1e-3
 MAGNET = SurfaceMagnet(remanence=BR, recoil_permeability=MU_REC, thickness=L_M, arc_fraction=0.8)
@@ -240,7 +240,7 @@ POLE = SalientPole(shoe_width=0.07, body_width=0.04, body_height=0.04, leakage_f
 
 
 def test_salient_ideal_iron_is_the_iron_free_gap() -> None:
-    # [calc] REFERENCE.md iron-free gap: B = mu0 F / (kc g). Tolerance 1e-7 relative
+    # [calc] iron-free gap: B = mu0 F / (kc g). Tolerance 1e-7 relative
     # (ideal iron's share ~1e-8).
     gap, field = 1.5e-3, 1500.0
     result = salient_field_gap(make_path(gap), POLE, IDEAL, IDEAL, field_mmf=field)
@@ -315,7 +315,7 @@ def test_induction_flux_from_the_voltage_equation() -> None:
 
 
 def test_induction_ideal_iron_needs_only_the_gap_mmf() -> None:
-    # [calc] REFERENCE.md iron-free gap, inverted: F = B kc g / mu0 and k_sat = 1.
+    # [calc] iron-free gap, inverted: F = B kc g / mu0 and k_sat = 1.
     # Tolerance 1e-7 relative: ideal iron's share.
     gap = 0.55e-3
     result = induction_gap(make_path(gap, ROTOR_TEETH), IDEAL, IDEAL, **SUPPLY, voltage_drop=0.0)

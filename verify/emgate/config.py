@@ -247,7 +247,7 @@ def load_policy(
     """
     if path is None:
         return Policy(root=root)
-    from emgate.validate import model_errors
+    from emgate.translate import model_errors
 
     doc = load(path)
     try:
@@ -331,7 +331,7 @@ MOVED_TO_RECORD = {
 def _option_errors(
     exc: ValidationError, doc: Document, at: RecordPath, rid: str
 ) -> list[InputError]:
-    from emgate.validate import record_path
+    from emgate.translate import record_path
 
     out = []
     for error in exc.errors(include_url=False):
@@ -340,7 +340,7 @@ def _option_errors(
         if error["type"] == "extra_forbidden":
             msg = f"rule {rid!r} has no option {str(path[-1])!r}"
             if str(path[-1]) in MOVED_TO_RECORD:
-                msg += f"; it describes the machine, so it is now {MOVED_TO_RECORD[path[-1]]}"
+                msg += f"; it describes the machine, so it is now {MOVED_TO_RECORD[str(path[-1])]}"
             out.append(InputError(msg, doc.locate_key(path)))
             continue
         out.append(

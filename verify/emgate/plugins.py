@@ -10,6 +10,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass, field
 from importlib.metadata import EntryPoint, entry_points
+from typing import Any
 
 import pluggy
 
@@ -69,7 +70,8 @@ def _rule_problem(rule: object, pack: Pack) -> str | None:
         return f"rule {rid!r} has severity {rule.severity!r}; expected one of {SEVERITIES}"
     if not set(rule.machines) <= set(MACHINE_KINDS):
         return f"rule {rid!r} names unknown machine kinds {sorted(set(rule.machines))}"
-    if not (isinstance(rule.options, type) and issubclass(rule.options, Options)):
+    options: object = getattr(rule, "options", None)  # a pack may set anything here
+    if not (isinstance(options, type) and issubclass(options, Options)):
         return f"rule {rid!r}: options must subclass emgate.rule.Options"
     try:
         rule.options()
@@ -91,7 +93,10 @@ def load_plugins(eps: list[EntryPoint] | None = None) -> PluginSet:
             plugin = ep.load()
             pm.register(plugin, name=ep.name)
             impls = [i for i in pm.hook.emgate_rules.get_hookimpls() if i.plugin_name == ep.name]
-            rules = [r for impl in impls for r in impl.function()]
+            rules: list[Any] = []
+            for impl in impls:
+                returned: Any = impl.function()  # a pack may return anything: checked below
+                rules.extend(returned)
         except Exception as exc:
             out.errors.append(InputError(f"{where} failed to load: {type(exc).__name__}: {exc}"))
             continue

@@ -17,6 +17,7 @@ from emgate.calc.core import Calculation, memo, quantity
 if TYPE_CHECKING:
     import numpy as np
 
+    from emgate.model import SalientRotor, SurfacePMRotor
     from emgate.physics.magnetic import SurfacePMResult
     from emgate.physics.mmf import HarmonicRatios, WindingFamily
 
@@ -26,6 +27,20 @@ DEFAULT_POWER_FACTOR = 0.8
 #: Lowest coolant temperature when the record gives none: -15 degC, the lower end of the
 #: ambient air range of IEC 60034-1 (from memory: clause on site conditions).
 DEFAULT_AMBIENT_MIN = 273.15 - 15.0
+
+
+def _salient(c: Calculation) -> SalientRotor:
+    """The record's salient-pole rotor (the quantities using it are of salient_field only)."""
+    d = c.d
+    assert d.machine == "salient_field"
+    return d.rotor
+
+
+def _magnets(c: Calculation) -> SurfacePMRotor:
+    """The record's surface-magnet rotor (the quantities using it are of surface_pm only)."""
+    d = c.d
+    assert d.machine == "surface_pm"
+    return d.rotor
 
 
 # --- the winding's family and spectrum -------------------------------------------------------
@@ -90,7 +105,7 @@ def magnetising_inductance(c: Calculation) -> float:
         return gap_magnetising_inductance(c)
     from emgate.physics.inductance import salient_pole_axis_factors
 
-    c_d, _ = salient_pole_axis_factors(c.d.rotor.pole.shoe_arc)
+    c_d, _ = salient_pole_axis_factors(_salient(c).pole.shoe_arc)
     return float(c_d) * gap_magnetising_inductance(c)
 
 
@@ -290,7 +305,7 @@ def magnet_field_at_fault(c: Calculation, *, cold: bool, factor: float = 1.0) ->
     d-axis [A/m] (hot: operating temperature; cold: lowest ambient)."""
     from emgate.physics.inductance import demagnetising_field
 
-    m = c.d.rotor.magnet
+    m = _magnets(c).magnet
     h0 = circuit_lowest_ambient(c).magnet_h if cold else rotor.magnet_h(c)
     rated_peak = math.sqrt(2.0) * winding.phase_current(c)
     armature = factor * fault_current(c, cold=cold) / rated_peak * winding.mmf_peak(c)
@@ -413,7 +428,7 @@ def field_current_rated_load(c: Calculation) -> float:
     def excess(mmf: float) -> float:
         return magnetic.salient_circuit(c, mmf).b_fundamental - target
 
-    no_load_mmf = d.rotor.field.turns_per_pole * d.rotor.field.current
+    no_load_mmf = _salient(c).field.turns_per_pole * _salient(c).field.current
     high = 2.0 * no_load_mmf
     for _ in range(6):
         if excess(high) >= 0.0:
@@ -421,25 +436,25 @@ def field_current_rated_load(c: Calculation) -> float:
         high *= 2.0
     else:
         raise ValueError(
-            f"no field current up to {high / d.rotor.field.turns_per_pole:.4g} A gives the"
+            f"no field current up to {high / _salient(c).field.turns_per_pole:.4g} A gives the"
             f" air-gap EMF {float(emf):.4g} V on load: the iron saturates"
         )
     # 1e-6 of the field current is far inside the method's accuracy; each step is a circuit
     resultant = solve_increasing(excess, 0.0, high, rtol=1e-6)
-    c_d, _ = salient_pole_axis_factors(d.rotor.pole.shoe_arc)
+    c_d, _ = salient_pole_axis_factors(_salient(c).pole.shoe_arc)
     armature = armature_reaction_on_field(
-        winding.mmf_fundamental(c), float(c_d), d.rotor.pole.shoe_arc
+        winding.mmf_fundamental(c), float(c_d), _salient(c).pole.shoe_arc
     )
     phi = math.acos(power_factor(c)) * (1.0 if motor else -1.0)
     sign = -1.0 if motor else 1.0  # a motor's current flows into the terminals
     field = resultant * np.exp(1j * (float(angle) + math.pi / 2)) - sign * armature * np.exp(
         1j * phi
     )
-    return float(abs(field)) / d.rotor.field.turns_per_pole
+    return float(abs(field)) / _salient(c).field.turns_per_pole
 
 
 def _field_section(c: Calculation) -> float:
-    f = c.d.rotor.field
+    f = _salient(c).field
     return f.conductor.strands * conductors.conductor_strand_area(f.conductor)
 
 
@@ -453,14 +468,14 @@ def field_copper_loss_rated_load(c: Calculation) -> float:
     from emgate.physics import conductors as ck
 
     d = c.d
-    f = d.rotor.field
+    f = _salient(c).field
     cond = f.conductor
     if cond.shape == "round":
         insulated = cond.insulated_diameter**2
     else:
         insulated = cond.insulated_width * cond.insulated_height
-    coil_width = f.turns_per_pole * cond.strands * insulated / d.rotor.pole.body_height
-    turn = 2.0 * (d.stator.stack_length + d.rotor.pole.body_width) + math.pi * coil_width
+    coil_width = f.turns_per_pole * cond.strands * insulated / _salient(c).pole.body_height
+    turn = 2.0 * (d.stator.stack_length + _salient(c).pole.body_width) + math.pi * coil_width
     material = ck.COPPER if cond.material == "copper" else ck.ALUMINIUM
     rho = ck.resistivity(material, conductors.class_reference_temperature(c))
     resistance = rho * d.poles * f.turns_per_pole * turn / _field_section(c)

@@ -45,10 +45,10 @@ class Calculation:
     def __getattr__(self, attr: str) -> Any:
         # Transitional: the attribute names of the former single class, until every rule
         # reads quantities by sheet name.
-        from emgate.calc import DOMAINS
+        import sys
 
         if not attr.startswith("__"):
-            for module in DOMAINS:
+            for module in sys.modules["emgate.calc"].DOMAINS:
                 fn = getattr(module, attr, None)
                 if callable(fn) and getattr(fn, "__module__", "") == module.__name__:
                     if getattr(fn, "memoized", False):

@@ -134,6 +134,7 @@ def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
     from emgate.physics import magnetic as mk
 
     d = c.d
+    assert d.machine == "salient_field"
     pole = d.rotor.pole
     # The kernel's pole height runs from the gap to the rim, shoe included; the record's
     # body_height stops at the shoe. The body's flux density is carried over the shoe
@@ -208,13 +209,15 @@ def back_emf(c: Calculation) -> float:
     from emgate.physics.inductance import no_load_emf
 
     d = c.d
-    return no_load_emf(
-        d.rating.frequency,
-        winding.series_turns(c),
-        winding.winding_factor(c),
-        gap_flux_density_fundamental(c),
-        geo.pole_pitch(d),
-        d.stator.stack_length,
+    return float(
+        no_load_emf(
+            d.rating.frequency,
+            winding.series_turns(c),
+            winding.winding_factor(c),
+            gap_flux_density_fundamental(c),
+            geo.pole_pitch(d),
+            d.stator.stack_length,
+        )
     )
 
 

@@ -777,7 +777,7 @@ def excitation_emf(
     e = phase_voltage - drop if motoring else phase_voltage + drop
     mag, angle = np.abs(e), np.angle(e)
     if np.ndim(mag) == 0:
-        return float(mag), float(angle)  # type: ignore[return-value]
+        return float(mag), float(angle)
     return mag, angle
 
 

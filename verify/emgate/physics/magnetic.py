@@ -18,6 +18,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass, fields
+from typing import Any
 
 from emgate.physics.bh import BHCurve, h_from_b
 from emgate.physics.constants import MU0
@@ -527,7 +528,7 @@ def _pole_state(
     )
 
 
-def _state_args(result: GapResult) -> dict[str, object]:
+def _state_args(result: GapResult) -> dict[str, Any]:
     return {f.name: getattr(result, f.name) for f in fields(GapResult)}
 
 

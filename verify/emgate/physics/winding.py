@@ -479,8 +479,8 @@ def balance(layout: np.ndarray, pole_pairs: int) -> list[str]:
     m = lay.shape[0]
     problems: list[str] = []
     counts = np.abs(lay).sum(axis=1)
-    for k in np.flatnonzero(counts == 0):
-        problems.append(f"phase {phase_name(int(k))} has no coil sides")
+    for empty in np.flatnonzero(counts == 0):
+        problems.append(f"phase {phase_name(int(empty))} has no coil sides")
     if np.any(counts != counts[0]):
         listed = ", ".join(f"{phase_name(k)} {int(c)}" for k, c in enumerate(counts))
         problems.append(f"coil sides per phase differ: {listed}")

@@ -11,6 +11,7 @@ from typing import Any
 import pytest
 
 from conftest import GENSET, MM, PUMP, calculation, variant
+from emgate.calc import conductors, thermal
 from emgate.physics import conductors as ck
 
 # --- one home for shared pieces -------------------------------------------------------------------
@@ -47,9 +48,9 @@ def test_the_thermal_path_takes_the_liner_perimeter_from_the_kernel(
 ) -> None:
     calls = spy(monkeypatch, kernel)
     calc = calculation(base)
-    calc.thermal_estimate()
+    thermal.thermal_estimate(calc)
     assert calls, f"the thermal estimate did not use conductors.{kernel}"
-    assert calc.slot_perimeter / MM == pytest.approx(perimeter, rel=1e-12)  # rounding only
+    assert conductors.slot_perimeter(calc) / MM == pytest.approx(perimeter, rel=1e-12)  # rounding
 
 
 def test_the_field_coil_uses_the_shared_strand_section(
@@ -68,14 +69,24 @@ def test_the_field_coil_uses_the_shared_strand_section(
     calc = calculation(variant(repo, {"rotor.field.conductor": field}, base=GENSET))
     # [mem: IEC 60317-0-2] w h - (4 - pi) r^2 per strand, two in hand, 9 A.
     strand = (4.0 * 1.5 - (4 - math.pi) * 0.5**2) * MM**2
-    assert calc.field_current_density == pytest.approx(9.0 / (2 * strand), rel=1e-12)  # rounding
+    assert calc.value("rotor.field_current_density") == pytest.approx(
+        9.0 / (2 * strand), rel=1e-12
+    )  # rounding
     assert calls, "the field coil did not use conductors.field_coil_current_density"
 
 
-def test_the_opening_clearance_default_is_the_kernels_constant() -> None:
+def test_the_opening_clearance_is_the_kernels_and_its_limit_is_declared_once(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
     from emgate_rules.slot_fill import SlotFillOptions
 
+    # The limit: one declaration on the option field, 0.2 mm with its source.
     default = SlotFillOptions.model_fields["opening_clearance"].default
-    # The same object, not an equal copy: one number to change (floats are not interned).
-    assert default is ck.OPENING_CLEARANCE
     assert default == pytest.approx(0.2e-3, rel=1e-12)  # 0.2 mm, common practice, no source
+    assert SlotFillOptions.source_of("opening_clearance") == "common practice, no source"
+    # The quantity: the sheet's stator.opening_clearance is the kernel's function.
+    calls = spy(monkeypatch, "opening_clearance")
+    value = calculation(PUMP).value("stator.opening_clearance")
+    assert calls, "the sheet did not use conductors.opening_clearance"
+    # [calc] pump: opening 2.8 mm less the insulated strand 0.97 mm (rounding only)
+    assert value / MM == pytest.approx(2.8 - 0.97, rel=1e-12)

@@ -276,6 +276,23 @@ def test_current_density_defaults_by_machine_kind(repo: Path) -> None:
     assert check["limit"] == pytest.approx(10e6, rel=EXACT)
 
 
+def test_current_density_team_limits_by_method_and_by_cell(repo: Path) -> None:
+    # behaviour of the options, no source: a cooling method's option is the team's limit for
+    # every machine kind; a cell the team sets wins over it
+    path = variant(repo, {}, base=PUMP)
+    write_config(repo, "options:\n  current-density:\n    enclosed_fan: 7 A/mm^2\n")
+    check = the_check(check_json(path), "current-density", "stator.current_density")
+    assert check["limit"] == pytest.approx(7e6, rel=EXACT)
+    assert "the team's limit" in check["basis"]
+    write_config(
+        repo,
+        "options:\n  current-density:\n    enclosed_fan: 7 A/mm^2\n"
+        "    induction_enclosed_fan: 6 A/mm^2\n",
+    )
+    check = the_check(check_json(path), "current-density", "stator.current_density")
+    assert check["limit"] == pytest.approx(6e6, rel=EXACT)
+
+
 def test_slot_fill_by_family_and_the_radial_stack(repo: Path) -> None:
     # tooth coils in two layers 0.55 (common practice, no source); the genset's form-wound
     # slot: 1 strand across (7 - 2 x 0.4 mm over 5.2 mm), 2 x 2 layers x 4 turns = 16 rows of
@@ -287,6 +304,13 @@ def test_slot_fill_by_family_and_the_radial_stack(repo: Path) -> None:
     assert stack["value"] == pytest.approx(2.5e-3, abs=1e-12)
     deeper = check_json(variant(repo, {"winding.turns_per_coil": 5}, base=GENSET))
     assert not the_check(deeper, "slot-fill", "stator.slot_height_clearance")["passed"]
+    # the team's 2 mm separator takes 1.5 mm more of the depth [calc]: 1.0 mm left
+    write_config(repo, "options:\n  slot-fill:\n    separator: 2 mm\n")
+    wider = the_check(
+        check_json(variant(repo, {}, base=GENSET)), "slot-fill", "stator.slot_height_clearance"
+    )
+    assert wider["value"] == pytest.approx(1.0e-3, abs=1e-12)
+    assert "1 strand(s) across" in wider["label"]
 
 
 def test_insulated_fill_of_the_pump() -> None:

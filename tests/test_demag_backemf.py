@@ -199,7 +199,9 @@ def test_the_servo_worst_field_is_the_ideal_iron_closed_form() -> None:
     calc = calculation(SERVO, linear_curve(1e13))
     br = 1.25 * (1 - 0.0012 * 80)  # Br(100 degC) [mem: Hendershot and Miller]
     # Iron at mu_r 1e13 takes ~1e-11 of the loop, the root solve stops at 1e-12: 1e-9.
-    assert calc.magnet_h_worst == pytest.approx(ideal_worst_field(br, 3.5, 1.05, 1.0), rel=1e-9)
+    assert calc.value("rotor.magnet_field_strength_worst") == pytest.approx(
+        ideal_worst_field(br, 3.5, 1.05, 1.0), rel=1e-9
+    )
 
 
 def test_explain_names_the_peak_mmf() -> None:
@@ -233,14 +235,14 @@ def test_ferrite_cold_closed_forms(tmp_path: Path) -> None:
     calc = calculation(write_variant(tmp_path, FERRITE, base=SERVO), linear_curve(1e13))
     # H_cJ(T) = H_cJ20 (1 + beta (T - 20)) [mem: Hendershot and Miller]: 300 kA/m at
     # +0.3 %/K: 354 kA/m at 80 degC, 264 kA/m at -20 degC.
-    assert calc.magnet_coercivity_hot == pytest.approx(354e3, rel=1e-12)  # rounding
-    assert calc.magnet_coercivity_cold == pytest.approx(264e3, rel=1e-12)  # rounding
+    assert calc.value("rotor.magnet_coercivity_hot") == pytest.approx(354e3, rel=1e-12)  # rounding
+    assert calc.value("rotor.magnet_coercivity_cold") == pytest.approx(264e3, rel=1e-12)  # rounding
     # Br(-20 degC) = 0.45 (1 + 0.002 x 40) [mem: Hendershot and Miller]; the rest as above.
     cold = ideal_worst_field(0.45 * 1.08, 6.0, 1.1, 1.0)
     hot = ideal_worst_field(0.45 * 0.88, 6.0, 1.1, 1.0)
     # Iron at mu_r 1e13: 1e-9, as above.
-    assert calc.magnet_h_worst_cold == pytest.approx(cold, rel=1e-9)
-    assert calc.magnet_h_worst == pytest.approx(hot, rel=1e-9)
+    assert calc.value("rotor.magnet_field_strength_worst_cold") == pytest.approx(cold, rel=1e-9)
+    assert calc.value("rotor.magnet_field_strength_worst") == pytest.approx(hot, rel=1e-9)
     assert abs(cold) > abs(hot)  # more remanence cold: a deeper working point
 
 
@@ -406,7 +408,7 @@ SERVO_PHASE_VOLTAGE = 400 / SQRT3
 def test_servo_back_emf_by_hand() -> None:
     ideal = calculation(SERVO, linear_curve(1e13))
     # Iron at mu_r 1e13 takes ~1e-11 of the loop, the root solve stops at 1e-12: 1e-9.
-    assert ideal.back_emf == pytest.approx(servo_ideal_iron_emf(), rel=1e-9)
+    assert ideal.value("winding.back_emf") == pytest.approx(servo_ideal_iron_emf(), rel=1e-9)
     s = sheet(SERVO)
     # [calc] Fourier fundamental of a flat-topped wave of pole arc 0.8: (4/pi) sin(0.4 pi).
     b1 = 4.0 / math.pi * math.sin(0.4 * math.pi) * s["air_gap.flux_density_peak"]

@@ -714,7 +714,7 @@ def test_the_sheet_and_the_checks_share_one_si_unit_function() -> None:
     for entry in SHEET.values():  # pint judges each SI unit against the display unit
         si, shown = units.si_unit(entry.unit), entry.unit
         if si == "1":
-            assert shown == "1", entry.name
+            assert shown in ("1", "%"), entry.name  # a ratio, shown as such or in percent
             continue
         factor = UREG.Quantity(1.0, si).to_base_units().m
         assert factor == pytest.approx(1.0, rel=1e-12), entry.name  # an SI unit: no prefix

@@ -24,6 +24,7 @@ from conftest import (
     the_check,
     variant,
 )
+from emgate.calc import thermal
 
 # --- the coolant temperature in the rise limit ----------------------------------------------------
 
@@ -108,7 +109,7 @@ def test_show_the_rule_and_declared_values_see_one_temperature_rise(repo: Path) 
 def test_open_machine_core_surface_scales_with_its_area_factor(repo: Path) -> None:
     def core_step(factor: float) -> float:
         calc = calculation(variant(repo, {"cooling.core_area_factor": factor}, base=GENSET))
-        (step,) = [s for s in calc.thermal_estimate().steps if s.name == "core surface"]
+        (step,) = [s for s in thermal.thermal_estimate(calc).steps if s.name == "core surface"]
         return step.rise
 
     # Forced convection: h is set by the air velocity and flow length, not the area [mem:
@@ -130,5 +131,5 @@ def test_the_rule_no_longer_takes_the_cooling_factors(repo: Path) -> None:
 
 def test_the_rise_message_names_the_largest_step(repo: Path) -> None:
     path = variant(repo, {}, base=SERVO)
-    worst = max(calculation(path).thermal_estimate().steps, key=lambda s: s.rise)
+    worst = max(thermal.thermal_estimate(calculation(path)).steps, key=lambda s: s.rise)
     assert f"largest step: {worst.name}, {worst.rise:.0f} K" in thermal_check(path)["label"]

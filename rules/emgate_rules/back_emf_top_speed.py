@@ -4,20 +4,14 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, basis, limit
-from emgate_rules._winding import unless_unbalanced
-
-CP = "common practice, no source"
-MAX_RATIO = 1.0
+from emgate.api import AnyDesign, Check, Context, Limit, Options, Problem, Ratio, Rule, limit
 
 
 class BackEmfTopSpeedOptions(Options):
-    max_ratio: Ratio = limit(MAX_RATIO, CP)
+    max_ratio: Ratio = limit(1.0, "1", "common practice, no source")
 
 
-class BackEmfTopSpeed(Rule):
+class BackEmfTopSpeed(Rule[BackEmfTopSpeedOptions]):
     """The cold magnets' no-load EMF at the top speed stays below the converter's highest
     phase voltage (otherwise an uncontrolled-generator fault: when the converter stops
     switching, the magnets drive current through its diodes into the DC link, and its
@@ -45,35 +39,30 @@ class BackEmfTopSpeed(Rule):
     summary = "cold-magnet back-EMF at the top speed below the converter's phase voltage"
     machines = ("surface_pm",)
     tags = ("electrical", "magnetic", "fault")
-    options = BackEmfTopSpeedOptions
 
     @classmethod
     def applies(cls, design: AnyDesign) -> bool:
         return design.rating.operation != "generator"
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: BackEmfTopSpeedOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        from emgate.calc import circuit
-
-        assert isinstance(options, BackEmfTopSpeedOptions)
-        calc = context.calc
+        sheet = context.sheet
         declared = design.rating.converter_max_phase_voltage
         if declared is None:
-            voltage, against = calc.value("winding.phase_voltage"), "the rated phase voltage"
+            voltage, against = sheet["winding.phase_voltage"], "the rated phase voltage"
         else:
             voltage, against = declared, "the converter's maximum phase voltage"
-        speed = circuit.top_speed(calc) * 60.0
-        cold = circuit.lowest_ambient(calc) - 273.15
-        yield Check(
+        speed = sheet.top_speed * 60.0
+        cold = sheet.lowest_ambient - 273.15
+        yield context.check(
             "winding.back_emf_cold_top_speed",
-            f"back-EMF, cold magnet ({cold:.4g} degC) at the top speed {speed:.5g} rpm",
-            ("winding", "turns_per_coil"),
-            calc.value("winding.back_emf_cold_top_speed"),
-            options.max_ratio * voltage,
+            Limit(
+                options.max_ratio * voltage,
+                f"{options.max_ratio:.3g} x {against} {voltage:.4g} V: "
+                + options.basis("max_ratio"),
+            ),
             "max",
-            "V",
-            f"{options.max_ratio:.3g} x {against} {voltage:.4g} V: "
-            + basis(options, "max_ratio", MAX_RATIO, CP),
+            path=("winding", "turns_per_coil"),
+            label=f"back-EMF, cold magnet ({cold:.4g} degC) at the top speed {speed:.5g} rpm",
         )

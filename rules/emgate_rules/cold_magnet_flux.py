@@ -4,21 +4,18 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.quantity import FluxDensity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import basis, limit
-from emgate_rules._winding import unless_unbalanced
-from emgate_rules.tooth_flux import STATOR_DEFAULT, STATOR_SOURCE
-from emgate_rules.yoke_flux import DEFAULTS, SOURCES
+from emgate.api import AnyDesign, Check, Context, FluxDensity, Options, Problem, Rule, limit
+from emgate_rules.tooth_flux import STATOR_APPARENT
+from emgate_rules.yoke_flux import STATOR_SYNCHRONOUS
 
 
 class ColdMagnetFluxOptions(Options):
-    stator_tooth_apparent: FluxDensity = limit(STATOR_DEFAULT, STATOR_SOURCE)
-    stator_yoke: FluxDensity = limit(DEFAULTS["stator_synchronous"], SOURCES["stator_synchronous"])
+    # the rated point's limits of tooth-flux and yoke-flux
+    stator_tooth_apparent: FluxDensity = limit(*STATOR_APPARENT)
+    stator_yoke: FluxDensity = limit(*STATOR_SYNCHRONOUS)
 
 
-class ColdMagnetFlux(Rule):
+class ColdMagnetFlux(Rule[ColdMagnetFluxOptions]):
     """Stator tooth and yoke flux densities of a surface-magnet machine with the magnets at
     the lowest ambient, where a magnet with a negative remanence coefficient (NdFeB,
     ferrite) is strongest: a cold start saturates the iron more than the rated point.
@@ -39,39 +36,22 @@ class ColdMagnetFlux(Rule):
     summary = "tooth and yoke flux densities with the magnets at the lowest ambient"
     machines = ("surface_pm",)
     tags = ("magnetic",)
-    options = ColdMagnetFluxOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: ColdMagnetFluxOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        from emgate.calc import circuit
-
-        assert isinstance(options, ColdMagnetFluxOptions)
-        calc = context.calc
-        cold = f"magnet at {circuit.lowest_ambient(calc) - 273.15:.4g} degC"
-        yield Check(
+        cold = f"magnet at {context.sheet.lowest_ambient - 273.15:.4g} degC"
+        yield context.check(
             "stator.tooth_flux_density_apparent_cold",
-            f"apparent stator tooth flux density, cold case ({cold})",
-            ("stator", "slot"),
-            calc.value("stator.tooth_flux_density_apparent_cold"),
-            options.stator_tooth_apparent,
+            options.limit_for("stator_tooth_apparent"),
             "max",
-            "T",
-            basis(options, "stator_tooth_apparent", STATOR_DEFAULT, STATOR_SOURCE),
+            path=("stator", "slot"),
+            label=f"apparent stator tooth flux density, cold case ({cold})",
         )
-        yield Check(
+        yield context.check(
             "stator.yoke_flux_density_cold",
-            f"stator yoke flux density, cold case ({cold})",
-            ("stator", "outer_diameter"),
-            calc.value("stator.yoke_flux_density_cold"),
-            options.stator_yoke,
+            options.limit_for("stator_yoke"),
             "max",
-            "T",
-            basis(
-                options,
-                "stator_yoke",
-                DEFAULTS["stator_synchronous"],
-                SOURCES["stator_synchronous"],
-            ),
+            path=("stator", "outer_diameter"),
+            label=f"stator yoke flux density, cold case ({cold})",
         )

@@ -4,26 +4,30 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, RatioOrZero, basis, limit
-from emgate_rules._winding import unless_unbalanced
-
-CP = "common practice, no source"
-#: Share of the intrinsic coercivity kept in reserve (common practice, no source).
-MARGIN = 0.1
-#: The worst credible current over its steady value: 1, the steady short circuit (a sudden
-#: one from no load reaches up to twice its peak on the d-axis in the first half-period,
-#: which stator resistance and the drive's protection usually cut short).
-CURRENT_FACTOR = 1.0
+from emgate.api import (
+    AnyDesign,
+    Check,
+    Context,
+    Limit,
+    Options,
+    Problem,
+    Ratio,
+    RatioOrZero,
+    Rule,
+    limit,
+)
 
 
 class DemagnetisationFaultOptions(Options):
-    margin: RatioOrZero = limit(MARGIN, CP, lt=1.0)
-    current_factor: Ratio = limit(CURRENT_FACTOR, "the steady short circuit (2 for a sudden one)")
+    #: Share of the intrinsic coercivity kept in reserve.
+    margin: RatioOrZero = limit(0.1, "1", "common practice, no source", lt=1.0)
+    #: The worst credible current over its steady value: 1, the steady short circuit (a
+    #: sudden one from no load reaches up to twice its peak on the d-axis in the first
+    #: half-period, which stator resistance and the drive's protection usually cut short).
+    current_factor: Ratio = limit(1.0, "1", "the steady short circuit (2 for a sudden one)")
 
 
-class DemagnetisationFault(Rule):
+class DemagnetisationFault(Rule[DemagnetisationFaultOptions]):
     """The magnets stay clear of the knee at the worst credible stator current, with the
     magnet hot and at the lowest ambient; the finding names the governing case.
 
@@ -61,39 +65,38 @@ class DemagnetisationFault(Rule):
     summary = "magnets clear of the coercivity at the worst credible current, hot and cold"
     machines = ("surface_pm",)
     tags = ("magnetic", "fault")
-    options = DemagnetisationFaultOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: DemagnetisationFaultOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        from emgate.calc import circuit, rotor
-
-        assert isinstance(options, DemagnetisationFaultOptions)
-        calc = context.calc
+        sheet = context.sheet
+        factor = options.current_factor
         declared = design.rating.peak_current is not None
         source = "declared peak current" if declared else "short-circuit current"
         hot_t = design.rotor.magnet.operating_temperature
-        cold_t = circuit.lowest_ambient(calc)
         cases = []
-        for name, temperature, cold in (("hot", hot_t, False), ("cold", cold_t, True)):
-            field = circuit.magnet_field_at_fault(calc, cold=cold, factor=options.current_factor)
-            current = options.current_factor * circuit.fault_current(calc, cold=cold)
-            limit_h = rotor.magnet_coercivity_at(calc, temperature) * (1.0 - options.margin)
-            cases.append((name, temperature, cold, abs(field), limit_h, current))
-        governing = min(cases, key=lambda k: (k[4] - k[3]) / k[4])[0]
-        text = basis(options, "margin", MARGIN, CP)
-        for name, temperature, _, value, limit_h, current in cases:
+        for name, temperature, cold, coercivity in (
+            ("hot", hot_t, False, "rotor.magnet_coercivity_hot"),
+            ("cold", sheet.lowest_ambient, True, "rotor.magnet_coercivity_lowest_ambient"),
+        ):
+            field = sheet.magnet_field_at_fault(factor, cold=cold)
+            current = factor * sheet.fault_current(cold=cold)
+            limit_h = sheet[coercivity] * (1.0 - options.margin)
+            cases.append((name, temperature, abs(field), limit_h, current))
+        governing = min(cases, key=lambda k: (k[3] - k[2]) / k[3])[0]
+        text = options.basis("margin")
+        for name, temperature, value, limit_h, current in cases:
             tag = ", governs" if name == governing else ""
-            yield Check(
+            celsius = temperature - 273.15
+            yield context.check(
                 f"rotor.magnet_field_strength_fault_{name}",
-                f"magnet field strength, {name} case{tag}: {source} {current:.4g} A peak"
-                f" on the d-axis, magnet at {temperature - 273.15:.4g} degC",
-                ("rotor", "magnet", "thickness"),
-                value,
-                limit_h,
+                Limit(
+                    limit_h,
+                    f"H_cJ at {celsius:.4g} degC less a {options.margin:.3g} margin: {text}",
+                ),
                 "max",
-                "kA/m",
-                f"H_cJ at {temperature - 273.15:.4g} degC less a {options.margin:.3g}"
-                f" margin: {text}",
+                path=("rotor", "magnet", "thickness"),
+                label=f"magnet field strength, {name} case{tag}: {source} {current:.4g} A peak"
+                f" on the d-axis, magnet at {celsius:.4g} degC",
+                value=value,  # demagnetising: its magnitude against H_cJ
             )

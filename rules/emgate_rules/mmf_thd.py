@@ -4,33 +4,37 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, basis, limit
-from emgate_rules._winding import UNBALANCED, winding_path
+from emgate.api import (
+    TEAM_LIMIT,
+    AnyDesign,
+    Check,
+    Context,
+    Limit,
+    Options,
+    Problem,
+    Ratio,
+    Rule,
+    limit,
+)
 
-SOURCE = "common practice, no source"
-#: THD ceilings by winding family (emgate.physics.mmf.winding_family), each above what the
-#: family's usual windings have by nature: distributed q = 2 full pitch 0.169, q = 3 with
-#: 7/9 pitch 0.105 (a q = 1 full-pitch winding, 0.311, fails); tooth coils in two layers
-#: 12/10 0.984, 9/8 1.087, 24/22 1.140; in one layer 12/10 1.635, 24/22 1.877 (all [calc],
-#: exact spectra).
-DEFAULTS = {
-    "distributed": 0.2,
-    "tooth_coil_double_layer": 1.3,
-    "tooth_coil_single_layer": 2.0,
-}
+CP = "common practice, no source"
 
 
 class MmfThdOptions(Options):
-    distributed: Ratio = limit(DEFAULTS["distributed"], SOURCE)
-    tooth_coil_double_layer: Ratio = limit(DEFAULTS["tooth_coil_double_layer"], SOURCE)
-    tooth_coil_single_layer: Ratio = limit(DEFAULTS["tooth_coil_single_layer"], SOURCE)
+    # THD ceilings by winding family (the sheet's winding_family), each above what the
+    # family's usual windings have by nature: distributed q = 2 full pitch 0.169, q = 3 with
+    # 7/9 pitch 0.105 (a q = 1 full-pitch winding, 0.311, fails); tooth coils in two layers
+    # 12/10 0.984, 9/8 1.087, 24/22 1.140; in one layer 12/10 1.635, 24/22 1.877 (all
+    # [calc], exact spectra).
+    distributed: Ratio = limit(0.2, "1", CP)
+    tooth_coil_double_layer: Ratio = limit(1.3, "1", CP)
+    tooth_coil_single_layer: Ratio = limit(2.0, "1", CP)
+    #: Not checked unless the team sets them.
     subharmonic: Ratio | None = None
     slot_harmonic: Ratio | None = None
 
 
-class MmfThd(Rule):
+class MmfThd(Rule[MmfThdOptions]):
     """Total harmonic distortion of the stator MMF, sub-harmonics included, by winding
     family; optionally the largest single sub-harmonic and slot harmonic.
 
@@ -48,9 +52,9 @@ class MmfThd(Rule):
     drop), induce eddy currents in whatever on the rotor conducts (magnets, sleeves, cage
     bars: losses and heat), and make parasitic torques, torque ripple and noise. A family
     has its THD by nature: distributed windings near 0.1 to 0.3, tooth coils in two layers
-    near 1, in one layer near 1.5 and above; so the ceiling is set per family
-    (emgate.physics.mmf.winding_family: a coil pitch of one slot is a tooth coil), and
-    within a family it catches a poor choice of slots, poles and pitch. Tooth-coil
+    near 1, in one layer near 1.5 and above; so the ceiling is set per family (a coil
+    pitch of one slot is a tooth coil), and within a family it catches a poor choice of
+    slots, poles and pitch. Tooth-coil
     designers bound the sub-harmonics (rotor eddy losses) and slot harmonics (noise, losses)
     themselves: the options `subharmonic` and `slot_harmonic` check them when set.
 
@@ -69,28 +73,18 @@ class MmfThd(Rule):
     summary = "MMF harmonic distortion of the winding within the limit for its family"
     version = "2"
     tags = ("winding",)
-    options = MmfThdOptions
+    needs_balanced_winding = True
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: MmfThdOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, MmfThdOptions)
-        calc = context.calc
-        if calc.winding_problems:
-            yield Problem(
-                winding_path(design), f"MMF THD not computed: {UNBALANCED}", severity="info"
-            )
-            return
-        family = calc.family
-        yield Check(
+        family = context.sheet.winding_family
+        yield context.check(
             "winding.mmf_thd",
-            f"MMF THD ({family.replace('_', ' ')})",
-            ("winding", "coil_pitch"),
-            calc.value("winding.mmf_thd"),
-            getattr(options, family),
+            options.limit_for(family),
             "max",
-            "",
-            basis(options, family, DEFAULTS[family], SOURCE),
+            path=("winding", "coil_pitch"),
+            label=f"MMF THD ({family.replace('_', ' ')})",
         )
         for field, name, label in (
             ("subharmonic", "winding.mmf_largest_subharmonic", "largest MMF sub-harmonic"),
@@ -98,13 +92,10 @@ class MmfThd(Rule):
         ):
             bound = getattr(options, field)
             if bound is not None:
-                yield Check(
+                yield context.check(
                     name,
-                    f"{label} over the working harmonic",
-                    ("winding", "coil_pitch"),
-                    calc.value(name),
-                    bound,
+                    Limit(bound, TEAM_LIMIT),
                     "max",
-                    "",
-                    "the team's limit (emgate.yaml)",
+                    path=("winding", "coil_pitch"),
+                    label=f"{label} over the working harmonic",
                 )

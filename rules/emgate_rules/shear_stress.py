@@ -4,46 +4,33 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from pydantic import Field
-
-from emgate.model import AnyDesign
-from emgate.quantity import quantity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import basis
+from emgate.api import AnyDesign, Bound, Check, Context, Options, Problem, Rule, limit, quantity
 
 Stress = quantity("pressure")
-_KPA = 1e3
-
-#: (lowest, highest) air-gap shear stress by cooling method [Pa]: half the torque per rotor
-#: volume TRV = 2 sigma of T. J. E. Miller's table (from memory: Hendershot and Miller,
-#: Design of Brushless Permanent-Magnet Machines): small totally enclosed motors 7-14 kN m/m^3,
-#: integral-horsepower industrial motors 7-30, high-performance servos 15-50, aerospace
-#: 30-75, large liquid-cooled machines 100-250; grouped by cooling method here (common
-#: practice, no source for the grouping).
-RANGES = {
-    "enclosed_natural": (3.5 * _KPA, 25.0 * _KPA),
-    "enclosed_fan": (3.5 * _KPA, 30.0 * _KPA),
-    "open_ventilated": (3.5 * _KPA, 40.0 * _KPA),
-    "liquid_jacket": (7.5 * _KPA, 60.0 * _KPA),
-    "direct_liquid": (15.0 * _KPA, 125.0 * _KPA),
-}
+KPA = "kN/m^2"
+# (lowest, highest) air-gap shear stress by cooling method: half the torque per rotor
+# volume TRV = 2 sigma of T. J. E. Miller's table (from memory: Hendershot and Miller,
+# Design of Brushless Permanent-Magnet Machines): small totally enclosed motors 7-14 kN m/m^3,
+# integral-horsepower industrial motors 7-30, high-performance servos 15-50, aerospace
+# 30-75, large liquid-cooled machines 100-250; grouped by cooling method here (common
+# practice, no source for the grouping).
 SOURCE = "half Miller's TRV ranges (from memory), grouped by cooling method (common practice)"
 
 
 class ShearStressOptions(Options):
-    enclosed_natural_max: Stress = Field(default=RANGES["enclosed_natural"][1])
-    enclosed_fan_max: Stress = Field(default=RANGES["enclosed_fan"][1])
-    open_ventilated_max: Stress = Field(default=RANGES["open_ventilated"][1])
-    liquid_jacket_max: Stress = Field(default=RANGES["liquid_jacket"][1])
-    direct_liquid_max: Stress = Field(default=RANGES["direct_liquid"][1])
-    enclosed_natural_min: Stress = Field(default=RANGES["enclosed_natural"][0])
-    enclosed_fan_min: Stress = Field(default=RANGES["enclosed_fan"][0])
-    open_ventilated_min: Stress = Field(default=RANGES["open_ventilated"][0])
-    liquid_jacket_min: Stress = Field(default=RANGES["liquid_jacket"][0])
-    direct_liquid_min: Stress = Field(default=RANGES["direct_liquid"][0])
+    enclosed_natural_max: Stress = limit(25.0, KPA, SOURCE)
+    enclosed_fan_max: Stress = limit(30.0, KPA, SOURCE)
+    open_ventilated_max: Stress = limit(40.0, KPA, SOURCE)
+    liquid_jacket_max: Stress = limit(60.0, KPA, SOURCE)
+    direct_liquid_max: Stress = limit(125.0, KPA, SOURCE)
+    enclosed_natural_min: Stress = limit(3.5, KPA, SOURCE)
+    enclosed_fan_min: Stress = limit(3.5, KPA, SOURCE)
+    open_ventilated_min: Stress = limit(3.5, KPA, SOURCE)
+    liquid_jacket_min: Stress = limit(7.5, KPA, SOURCE)
+    direct_liquid_min: Stress = limit(15.0, KPA, SOURCE)
 
 
-class ShearStress(Rule):
+class ShearStress(Rule[ShearStressOptions]):
     """Air-gap shear stress (tangential force per rotor surface) within the usual range of
     the cooling method: above it the winding and magnets are driven harder than the
     cooling usually carries away; below it the machine is larger than it needs to be.
@@ -67,25 +54,18 @@ class ShearStress(Rule):
     summary = "air-gap shear stress within the usual range of the cooling method"
     severity = "warning"
     tags = ("sizing", "thermal")
-    options = ShearStressOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: ShearStressOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, ShearStressOptions)
         method = design.cooling.method
-        value = context.calc.value("rotor.shear_stress")
-        low, high = RANGES[method]
         where = method.replace("_", " ")
-        for bound, default, side in (("max", high, "highest"), ("min", low, "lowest")):
-            field = f"{method}_{bound}"
-            yield Check(
+        sides: tuple[tuple[Bound, str], ...] = (("max", "highest"), ("min", "lowest"))
+        for bound, side in sides:
+            yield context.check(
                 "rotor.shear_stress",
-                f"air-gap shear stress ({side} usual for {where})",
-                ("stator", "stack_length"),
-                value,
-                getattr(options, field),
-                bound,  # type: ignore[arg-type]
-                "kN/m^2",
-                basis(options, field, default, SOURCE),
+                options.limit_for(f"{method}_{bound}"),
+                bound,
+                path=("stator", "stack_length"),
+                label=f"air-gap shear stress ({side} usual for {where})",
             )

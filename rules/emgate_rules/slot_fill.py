@@ -1,45 +1,33 @@
 """Slot fill, the passage of the wire through the slot opening, and the fit of form-wound
-strands across the slot."""
+strands across and along the slot."""
 
 from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.physics.conductors import OPENING_CLEARANCE
-from emgate.quantity import quantity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, basis, limit
+from emgate.api import AnyDesign, Check, Context, Options, Problem, Ratio, Rule, limit, quantity
 
-SOURCE = "common practice, no source"
-#: Bare-copper fill ceilings by winding family: random-wound distributed round wire 0.45
-#: (usual 0.35-0.45); needle-wound round-wire tooth coils reach less than the 0.65 of
-#: coils wound on a bobbin or segmented core, a double layer (two coils a slot, the needle
-#: between them) less than a single (common practice, no source); form-wound 0.65.
-DEFAULTS = {
-    "random_wound": 0.45,
-    "tooth_coil_double_layer": 0.55,
-    "tooth_coil_single_layer": 0.6,
-    "form_wound": 0.65,
-}
-#: Radial room between the layers of a form-wound slot, per separator [m] (common practice,
-#: no source).
-SEPARATOR = 0.5e-3
-#: Free width a form-wound strand needs across the slot beyond itself and two liners [m]:
-#: none, it must merely fit (common practice, no source).
-WIDTH_CLEARANCE = 0.0
+CP = "common practice, no source"
 Clearance = quantity("length", sign="non_negative")
 
 
 class SlotFillOptions(Options):
-    random_wound: Ratio = limit(DEFAULTS["random_wound"], SOURCE, le=0.91)
-    tooth_coil_double_layer: Ratio = limit(DEFAULTS["tooth_coil_double_layer"], SOURCE, le=0.91)
-    tooth_coil_single_layer: Ratio = limit(DEFAULTS["tooth_coil_single_layer"], SOURCE, le=0.91)
-    form_wound: Ratio = limit(DEFAULTS["form_wound"], SOURCE, le=1.0)
-    opening_clearance: Clearance = limit(OPENING_CLEARANCE, SOURCE)
-    width_clearance: Clearance = limit(WIDTH_CLEARANCE, SOURCE)
-    height_clearance: Clearance = limit(WIDTH_CLEARANCE, SOURCE)
-    separator: Clearance = limit(SEPARATOR, SOURCE)
+    # Bare-copper fill ceilings by winding family: random-wound distributed round wire 0.45
+    # (usual 0.35-0.45); needle-wound round-wire tooth coils reach less than the 0.65 of
+    # coils wound on a bobbin or segmented core, a double layer (two coils a slot, the needle
+    # between them) less than a single (common practice, no source); form-wound 0.65.
+    random_wound: Ratio = limit(0.45, "1", CP, le=0.91)
+    tooth_coil_double_layer: Ratio = limit(0.55, "1", CP, le=0.91)
+    tooth_coil_single_layer: Ratio = limit(0.6, "1", CP, le=0.91)
+    form_wound: Ratio = limit(0.65, "1", CP, le=1.0)
+    #: Free width a round strand fed through the opening needs beyond its own diameter.
+    opening_clearance: Clearance = limit(0.2, "mm", CP)
+    #: Free width a form-wound strand needs across the slot beyond itself and two liners,
+    #: and free depth beyond the coil's radial stack: none, it must merely fit.
+    width_clearance: Clearance = limit(0.0, "mm", CP)
+    height_clearance: Clearance = limit(0.0, "mm", CP)
+    #: Radial room between the layers of a form-wound slot, per separator.
+    separator: Clearance = limit(0.5, "mm", CP)
 
 
 def winding_type(design: AnyDesign) -> str:
@@ -50,24 +38,7 @@ def winding_type(design: AnyDesign) -> str:
     return "tooth_coil_double_layer" if design.winding.layers == 2 else "tooth_coil_single_layer"
 
 
-def radial_stack(design: AnyDesign, liner: float, separator: float) -> tuple[float, int]:
-    """Radial build of a form-wound slot [m] and the strands side by side across it.
-
-    As many insulated strands side by side as the width net of two liners takes (at least
-    one), the rest stacked: conductors x ceil(strands / across) x h_ins, a separator
-    between layers, a liner at the bottom and under the wedge, and the wedge.
-    """
-    import math
-
-    c, slot = design.winding.conductor, design.stator.slot
-    w = design.winding
-    across = max(1, int((slot.width - 2.0 * liner) // c.insulated_width))
-    rows = math.ceil(c.strands / across) * w.layers * w.turns_per_coil
-    stack = rows * c.insulated_height + (w.layers - 1) * separator + 2.0 * liner
-    return stack + slot.wedge_height, across
-
-
-class SlotFill(Rule):
+class SlotFill(Rule[SlotFillOptions]):
     """Bare copper over slot area, by winding type; round wire through the opening; form-wound
     strands across the slot.
 
@@ -99,54 +70,42 @@ class SlotFill(Rule):
     summary = "slot fill within the limit for the winding type; the wire fits the slot"
     version = "2"
     tags = ("electrical", "manufacturing")
-    options = SlotFillOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: SlotFillOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, SlotFillOptions)
+        sheet = context.sheet
         kind = winding_type(design)
-        yield Check(
+        yield context.check(
             "stator.slot_fill",
-            f"slot fill ({kind.replace('_', '-')})",
-            ("winding", "turns_per_coil"),
-            context.calc.slot_fill,
-            getattr(options, kind),
+            options.limit_for(kind),
             "max",
-            "",
-            basis(options, kind, DEFAULTS[kind], SOURCE),
+            path=("winding", "turns_per_coil"),
+            label=f"slot fill ({kind.replace('_', '-')})",
         )
-        c, slot = design.winding.conductor, design.stator.slot
-        if c.shape == "round" and slot.shape == "semi_closed":
-            yield Check(
+        if "stator.opening_clearance" in sheet:  # round wire, semi-closed slot
+            yield context.check(
                 "stator.opening_clearance",
-                "slot opening less insulated strand",
-                ("stator", "slot", "opening"),
-                slot.opening - c.insulated_diameter,
-                options.opening_clearance,
+                options.limit_for("opening_clearance"),
                 "min",
-                "mm",
-                basis(options, "opening_clearance", OPENING_CLEARANCE, SOURCE),
+                path=("stator", "slot", "opening"),
+                label="slot opening less insulated strand",
             )
-        if c.shape == "rectangular" and slot.shape == "open":
-            yield Check(
+        if "stator.slot_width_clearance" in sheet:  # rectangular strands, open slot
+            yield context.check(
                 "stator.slot_width_clearance",
-                "slot width less insulated strand width and two liners",
-                ("stator", "slot", "width"),
-                slot.width - (c.insulated_width + 2.0 * context.calc.liner),
-                options.width_clearance,
+                options.limit_for("width_clearance"),
                 "min",
-                "mm",
-                basis(options, "width_clearance", WIDTH_CLEARANCE, SOURCE),
+                path=("stator", "slot", "width"),
+                label="slot width less insulated strand width and two liners",
             )
-            stack, across = radial_stack(design, context.calc.liner, options.separator)
-            yield Check(
+            across = int(sheet["stator.strands_across"])
+            yield context.check(
                 "stator.slot_height_clearance",
-                f"slot depth less the coil's radial stack ({across} strand(s) across)",
-                ("stator", "slot", "height"),
-                slot.height - stack,
-                options.height_clearance,
+                options.limit_for("height_clearance"),
                 "min",
-                "mm",
-                basis(options, "height_clearance", WIDTH_CLEARANCE, SOURCE),
+                path=("stator", "slot", "height"),
+                label=f"slot depth less the coil's radial stack ({across} strand(s) across)",
+                # the sheet's is at a 0.5 mm separator; the team may set its own
+                value=sheet.slot_height_clearance(options.separator),
             )

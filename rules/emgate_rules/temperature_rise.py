@@ -6,9 +6,17 @@ from collections.abc import Iterable
 
 from pydantic import Field
 
-from emgate.model import AnyDesign
-from emgate.quantity import quantity
-from emgate.rule import Check, Context, Options, Problem, Rule
+from emgate.api import (
+    AnyDesign,
+    Check,
+    Context,
+    Limit,
+    Options,
+    Problem,
+    Rule,
+    quantity,
+    temperature_rise_limit,
+)
 
 Reserve = quantity("temperature_difference", sign="non_negative")
 #: Coolant temperature the IEC 60034-1 rise limits are tabulated for [K] (40 degC).
@@ -21,7 +29,7 @@ class TemperatureRiseOptions(Options):
     reserve: Reserve = Field(default=0.0, description="K kept below the class limit")
 
 
-class TemperatureRise(Rule):
+class TemperatureRise(Rule[TemperatureRiseOptions]):
     """Lumped estimate of the winding temperature rise against the insulation class limit.
 
     An ESTIMATE, to be confirmed by a heat run or a thermal network model of the real frame.
@@ -54,14 +62,10 @@ class TemperatureRise(Rule):
     id = "temperature-rise"
     summary = "estimated winding temperature rise within the insulation class limit"
     tags = ("thermal",)
-    options = TemperatureRiseOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: TemperatureRiseOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        from emgate.physics.conductors import temperature_rise_limit
-
-        assert isinstance(options, TemperatureRiseOptions)
         letter = design.winding.insulation_class
         try:
             class_limit = temperature_rise_limit(letter)
@@ -74,8 +78,7 @@ class TemperatureRise(Rule):
                 severity="warning",
             )
             return
-        estimate = context.calc.thermal_estimate()
-        worst = max(estimate.steps, key=lambda s: s.rise)
+        worst = max(context.sheet.thermal_steps, key=lambda s: s.rise)
         method = design.cooling.method
         excess = max(0.0, design.cooling.ambient - TABLE_COOLANT)
         basis = f"IEC 60034-1 class {letter}"
@@ -88,14 +91,11 @@ class TemperatureRise(Rule):
             basis += f", less the coolant's {excess:.3g} K above 40 degC"
         if options.reserve:
             basis += f", less a {options.reserve:g} K reserve"
-        yield Check(
+        yield context.check(
             "winding.temperature_rise",
-            f"estimated winding temperature rise (largest step: {worst.name},"
-            f" {worst.rise:.0f} K; an estimate to be confirmed by test)",
-            ("cooling", "method"),
-            estimate.winding_rise,
-            class_limit - excess - options.reserve,
+            Limit(class_limit - excess - options.reserve, basis),
             "max",
-            "K",
-            basis,
+            path=("cooling", "method"),
+            label=f"estimated winding temperature rise (largest step: {worst.name},"
+            f" {worst.rise:.0f} K; an estimate to be confirmed by test)",
         )

@@ -127,7 +127,7 @@ MAGNET = SurfaceMagnet(remanence=BR, recoil_permeability=MU_REC, thickness=L_M, 
 
 
 def test_surface_pm_ideal_iron_reference_check() -> None:
-    result = surface_pm_gap(make_path(GAP), MAGNET, IDEAL, IDEAL)
+    result = surface_pm_gap(make_path(GAP + L_M / MU_REC), MAGNET, IDEAL, IDEAL)
     # Tolerance 5e-5 T: the check value has four decimals.
     assert result.b_peak == pytest.approx(0.8889, abs=5e-5)
     # [calc] the closed form itself; tolerance 1e-7 relative (ideal iron's share ~1e-8).
@@ -142,7 +142,7 @@ def test_surface_pm_leakage_closed_form() -> None:
     # Tolerance 1e-7 relative: ideal iron's share of the MMF.
     k = 1.1
     result = surface_pm_gap(
-        make_path(GAP), dataclasses.replace(MAGNET, leakage_factor=k), IDEAL, IDEAL
+        make_path(GAP + L_M / MU_REC), dataclasses.replace(MAGNET, leakage_factor=k), IDEAL, IDEAL
     )
     assert result.b_peak == pytest.approx(BR * L_M / (k * L_M + MU_REC * GAP), rel=1e-7)
     assert result.magnet_b == pytest.approx(k * result.b_peak, rel=1e-12)
@@ -151,7 +151,7 @@ def test_surface_pm_leakage_closed_form() -> None:
 def test_surface_pm_flux_and_fundamental_of_a_rectangular_wave() -> None:
     # [calc] rectangular gap flux over the arc fraction a: Phi = B a tau_p l and the Fourier
     # fundamental (4/pi) B sin(a pi/2). Tolerance 1e-12 relative: arithmetic only.
-    path = make_path(GAP)
+    path = make_path(GAP + L_M / MU_REC)
     result = surface_pm_gap(path, MAGNET, M350, M350)
     a = MAGNET.arc_fraction
     assert result.flux_per_pole == pytest.approx(
@@ -189,7 +189,7 @@ def _rectangular_iron_mmf(
 def test_surface_pm_loop_matches_brentq() -> None:
     # [calc] external check: scipy.optimize.brentq on the loop H_m l_m + F_gap + F_iron = 0,
     # written out in the test from the iron formulas. Tolerance 1e-10 T: both solve to ~1e-12.
-    path = make_path(GAP)
+    path = make_path(GAP + L_M / MU_REC)
 
     def loop(b_gap: float) -> float:
         h_m = (b_gap - BR) / (MU0 * MU_REC)
@@ -217,8 +217,8 @@ def test_surface_pm_gap_flux_density_falls_as_the_gap_grows(
 ) -> None:
     # [calc] every term of the loop but the magnet's grows with the gap, so B_g must fall.
     magnet = dataclasses.replace(MAGNET, remanence=br)
-    narrow = surface_pm_gap(make_path(gap), magnet, M350, M350)
-    wide = surface_pm_gap(make_path(gap * ratio), magnet, M350, M350)
+    narrow = surface_pm_gap(make_path(gap + L_M / MU_REC), magnet, M350, M350)
+    wide = surface_pm_gap(make_path(gap * ratio + L_M / MU_REC), magnet, M350, M350)
     assert wide.b_peak < narrow.b_peak
 
 
@@ -227,7 +227,7 @@ def test_surface_pm_gap_flux_density_falls_as_the_gap_grows(
 def test_surface_pm_saturation_factor_grows_with_the_flux(br: float, step: float) -> None:
     # [calc] above the permeability maximum of the steel (~0.95 T for this M350-50A fit;
     # these teeth run above 1.2 T) H/B rises with B, so k_sat >= 1 rises with the flux.
-    path = make_path(GAP)
+    path = make_path(GAP + L_M / MU_REC)
     low = surface_pm_gap(path, dataclasses.replace(MAGNET, remanence=br), M350, M350)
     high = surface_pm_gap(path, dataclasses.replace(MAGNET, remanence=br + step), M350, M350)
     assert low.iron.stator_tooth_b > 1.0

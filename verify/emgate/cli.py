@@ -144,8 +144,10 @@ def _dispatch(args: argparse.Namespace) -> int:
 
 
 def _plugin_errors(plugins) -> int:  # type: ignore[no-untyped-def]
-    for err in plugins.errors:
+    for err in [*plugins.errors, *plugins.crashes]:
         print(f"emgate: {err}", file=sys.stderr)
+    if plugins.crashes:
+        return EXIT_CRASH
     return EXIT_INPUT if plugins.errors else EXIT_OK
 
 

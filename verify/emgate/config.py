@@ -24,6 +24,7 @@ from pydantic import (
 
 from emgate.errors import InputError, InputErrors
 from emgate.loader import Document, load
+from emgate.quantity import quantity
 from emgate.rule import Options, Rule
 from emgate.terms import RecordPath, Severity
 
@@ -38,6 +39,11 @@ Selector = Annotated[
         " ('tag:thermal')"
     ),
 ]
+
+
+#: Default time budget of one rule on one record [s]: generous, a rule takes milliseconds.
+RULE_TIME_BUDGET = 60.0
+RuleTimeBudget = Annotated[quantity("time"), Field(le=3600.0)]
 
 
 class _Strict(BaseModel):
@@ -93,6 +99,11 @@ class ConfigFile(_Strict):
         default=WAIVERS_NAME,
         description="the reviewed waivers file, relative to this file (ignored when absent)",
     )
+    rule_time_budget: RuleTimeBudget = Field(
+        default=RULE_TIME_BUDGET,
+        description="longest time one rule may take on one record, e.g. '60 s', at most"
+        " '3600 s'; a rule that takes longer is a crash of that rule",
+    )
 
 
 @dataclass(frozen=True)
@@ -126,6 +137,8 @@ class Policy:
     overrides: list[tuple[tuple[str, ...], RulePolicy]] = field(default_factory=list)
     source: Path | None = None
     waivers_file: Path | None = None
+    #: Longest time one rule may take on one record [s].
+    rule_time_budget: float = 60.0
 
     def for_file(self, path: Path) -> RulePolicy:
         """The policy for one record: the last matching override wins, else the base."""
@@ -282,6 +295,7 @@ def load_policy(
         overrides=overrides,
         source=path,
         waivers_file=waivers if waivers.is_file() else None,
+        rule_time_budget=cfg.rule_time_budget,
     )
 
 

@@ -216,12 +216,15 @@ def _short_ic(code: str | None) -> str | None:
 
 def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     """Gross contradictions in the rating and cooling; milder doubts are the nameplate rule's."""
+    from emgate.physics.rating import slip as rated_slip
+    from emgate.physics.rating import synchronous_speed
+
     out: list[tuple[RecordPath, str]] = []
-    sync = d.rating.frequency / d.pole_pairs  # revolutions per second
+    sync = synchronous_speed(d.rating.frequency, d.pole_pairs)  # revolutions per second
     n = d.rating.speed
     generator = d.rating.operation == "generator"
     if d.machine == "induction":
-        slip = 1.0 - n / sync
+        slip = rated_slip(n, d.rating.frequency, d.pole_pairs)
         right_side = slip < 0.0 if generator else slip > 0.0
         if not (right_side and abs(slip) <= GROSS_SLIP):
             turns = "above" if generator else "below"

@@ -237,18 +237,16 @@ def synchronous_inductance(c: Calculation) -> float:
 
 
 def _emf_of(c: Calculation, circuit: SurfacePMResult, frequency: float) -> float:
-    from emgate.physics.inductance import no_load_emf
+    from emgate.physics.winding import phase_emf
 
     d = c.d
-    return float(
-        no_load_emf(
-            frequency,
-            winding.series_turns(c),
-            winding.winding_factor(c),
-            circuit.b_fundamental,
-            geo.pole_pitch(d),
-            d.stator.stack_length,
-        )
+    return phase_emf(
+        frequency,
+        winding.series_turns(c),
+        winding.winding_factor(c),
+        circuit.b_fundamental,
+        geo.pole_pitch(d),
+        d.stator.stack_length,
     )
 
 
@@ -303,20 +301,16 @@ def fault_current_peak(c: Calculation) -> float:
 def magnet_field_at_fault(c: Calculation, *, cold: bool, factor: float = 1.0) -> float:
     """Magnet field strength with ``factor`` times the worst credible current wholly on the
     d-axis [A/m] (hot: operating temperature; cold: lowest ambient)."""
-    from emgate.physics.inductance import demagnetising_field
+    from emgate.physics.magnetic import magnet_field_under_current
 
-    m = _magnets(c).magnet
     h0 = circuit_lowest_ambient(c).magnet_h if cold else rotor.magnet_h(c)
     rated_peak = math.sqrt(2.0) * winding.phase_current(c)
     armature = factor * fault_current(c, cold=cold) / rated_peak * winding.mmf_peak(c)
-    return float(
-        demagnetising_field(
-            h0,
-            armature,
-            m.thickness,
-            m.material.recoil_permeability,
-            magnetic.pole_path(c).effective_gap,
-        )
+    return magnet_field_under_current(
+        h0,
+        armature,
+        _magnets(c).magnet.material.recoil_permeability,
+        magnetic.effective_gap(c),  # kc g', the magnet's h_m / mu_rec included
     )
 
 

@@ -20,6 +20,33 @@ class Entry:
     unit: str
     method: str
     machines: tuple[str, ...] = MACHINE_KINDS
+    #: The condition beyond the machine kinds under which the quantity exists, in words
+    #: ("round wire in a semi-closed slot"); its function states it in code.
+    only: str = ""
+
+    @property
+    def scope(self) -> str:
+        """For which records the quantity is computed, in words."""
+        kinds = "all machines" if self.machines == MACHINE_KINDS else ", ".join(self.machines)
+        return f"{kinds}, {self.only} only" if self.only else f"{kinds} only"
+
+    def parse(self, text: str) -> float:
+        """A figure of this quantity written with any unit of its dimension, in SI.
+
+        Raises ValueError naming what was expected: a figure of another dimension, or a
+        temperature difference written in degC ('80 degC' is a temperature, not a rise).
+        """
+        from emgate.units import QuantityError, convert, describe, parse_quantity, parse_unit
+
+        q = parse_quantity(text)
+        dims = parse_unit(self.unit)[1] if self.unit not in ("", "1") else (0,) * 5
+        if q.dims != dims:
+            raise QuantityError(
+                f"is a {describe(q.dims)}; expected a {describe(dims)} such as '1 {self.unit}'"
+            )
+        if self.unit == "K":  # a rise written in degC would be read as a temperature
+            convert(text, "temperature_difference")
+        return q.value
 
 
 ENTRIES: tuple[Entry, ...] = (
@@ -61,6 +88,12 @@ ENTRIES: tuple[Entry, ...] = (
         "magnetic.total_mmf",
         "A",
         "ampere-turns per pole of the whole loop: gap, teeth, pole body and half of each yoke",
+    ),
+    Entry(
+        "rating.slip",
+        "%",
+        "rated slip |1 - n / n_s|, n_s = f / p the synchronous speed (motor or generator)",
+        ("induction",),
     ),
     Entry(
         "rating.torque",
@@ -214,6 +247,11 @@ ENTRIES: tuple[Entry, ...] = (
         " or pole bodies",
     ),
     Entry(
+        "stator.aspect_ratio",
+        "1",
+        "stack length over bore diameter, l / D",
+    ),
+    Entry(
         "stator.conductors_per_slot",
         "1",
         "layers times turns per coil",
@@ -233,6 +271,13 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.electric_loading",
         "kA/m",
         "A = 2 m N_ph I / (pi D), rms",
+    ),
+    Entry(
+        "stator.opening_clearance",
+        "mm",
+        "slot opening less the insulated strand diameter, b0 - d_ins: the free width of a"
+        " strand fed through the opening",
+        only="round wire in a semi-closed slot",
     ),
     Entry(
         "stator.slot_area",
@@ -257,6 +302,16 @@ ENTRIES: tuple[Entry, ...] = (
         " wire takes in a layer",
     ),
     Entry(
+        "stator.slot_height_clearance",
+        "mm",
+        "slot depth less the form-wound coil's radial stack, h - (n_r z h_ins + (layers - 1)"
+        " s + 2 t + h_w): z conductors a slot of n_r strand rows each (stator.strands_across"
+        " side by side, the rest stacked), a separator s = 0.5 mm between layers (slot-fill's"
+        " `separator` option sets another), a liner t at the bottom and under the wedge, the"
+        " wedge h_w",
+        only="rectangular strands in an open slot",
+    ),
+    Entry(
         "stator.slot_permeance",
         "1",
         "slot-leakage permeance coefficient lambda = k1 lambda_zone + k2 lambda_above:"
@@ -270,6 +325,20 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.slot_pitch",
         "mm",
         "bore circumference over slots",
+    ),
+    Entry(
+        "stator.slot_width_clearance",
+        "mm",
+        "slot width less the insulated strand width and a liner on each wall,"
+        " b - (w_ins + 2 t), strands stacked radially",
+        only="rectangular strands in an open slot",
+    ),
+    Entry(
+        "stator.strands_across",
+        "1",
+        "insulated strands side by side across the slot: as many as the width net of two"
+        " liners takes, floor((b - 2 t) / w_ins), at least one",
+        only="rectangular strands in an open slot",
     ),
     Entry(
         "stator.thermal_load",

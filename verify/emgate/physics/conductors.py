@@ -49,10 +49,12 @@ from emgate.physics.slots import (
     open_full_area,
     open_slot_area,
     open_slot_perimeter,
+    opening_clearance,
     semi_closed_full_area,
     semi_closed_slot_area,
     semi_closed_slot_perimeter,
     semi_closed_winding_height,
+    slot_width_clearance,
     strand_passes_opening,
 )
 from emgate.physics.strands import copper_area_per_slot, rectangular_strand_area, round_strand_area
@@ -82,6 +84,7 @@ __all__ = [
     "open_full_area",
     "open_slot_area",
     "open_slot_perimeter",
+    "opening_clearance",
     "phase_current",
     "phase_resistance",
     "phase_voltage",
@@ -94,6 +97,7 @@ __all__ = [
     "semi_closed_slot_area",
     "semi_closed_slot_perimeter",
     "semi_closed_winding_height",
+    "slot_width_clearance",
     "strand_passes_opening",
     "temperature_rise_limit",
     "thermal_load",

@@ -4,8 +4,9 @@ The circuit of one phase: the magnetising inductance of the gap's fundamental fi
 leakage of the slots, of the end windings and of the gap's harmonic fields; from them the
 synchronous inductance of a surface-magnet machine, its short-circuit (characteristic)
 current and torque constant; the magnetising current of an induction machine; the
-excitation EMF of a wound-field generator on load; torque and air-gap shear stress; the
-no-load EMF and the magnet's field strength under a demagnetising current.
+excitation EMF of a wound-field generator on load; torque and air-gap shear stress. (The
+no-load EMF is :func:`emgate.physics.winding.phase_emf`, the magnet's field strength under a
+demagnetising current :func:`emgate.physics.magnetic.magnet_field_under_current`.)
 
 Inductances are per phase [H] under balanced m-phase currents; EMFs and currents rms unless
 stated. Formulas are plain arithmetic, so arrays sweep as well as floats; the slot-layout
@@ -23,13 +24,11 @@ from emgate.physics.winding import as_layout
 
 __all__ = [
     "armature_reaction_on_field",
-    "demagnetising_field",
     "end_winding_inductance",
     "excitation_emf",
     "harmonic_leakage_inductance",
     "magnetising_current",
     "magnetising_inductance",
-    "no_load_emf",
     "open_slot_permeance",
     "salient_pole_axis_factors",
     "semi_closed_slot_permeance",
@@ -587,92 +586,6 @@ def torque_constant(phases: int, emf: Num, frequency: Num, pole_pairs: int) -> N
     """
     _positive("torque-constant inputs", phases, emf, frequency, pole_pairs)
     return _out(phases * pole_pairs * emf / (2.0 * np.pi * frequency))
-
-
-def no_load_emf(
-    frequency: Num,
-    series_turns: Num,
-    winding_factor: Num,
-    flux_density_fundamental: Num,
-    pole_pitch: Num,
-    stack_length: Num,
-) -> Num:
-    """Phase EMF at no load, rms: E = sqrt(2) pi f kw1 N Phi1, Phi1 = (2/pi) B1 tau_p l.
-
-    With the magnets cold and the speed at its maximum this is the voltage an uncontrolled
-    converter sees: pass B1 of the cold magnet's working point and f at the top speed.
-
-    Parameters
-    ----------
-    frequency : float or numpy.ndarray
-        Electrical frequency f [Hz].
-    series_turns : float or numpy.ndarray
-        Series turns per phase N [-].
-    winding_factor : float or numpy.ndarray
-        kw1 [-].
-    flux_density_fundamental : float or numpy.ndarray
-        Amplitude of the gap flux density's fundamental B1 [T].
-    pole_pitch : float or numpy.ndarray
-        tau_p at the bore [m].
-    stack_length : float or numpy.ndarray
-        l [m].
-
-    Returns
-    -------
-    float or numpy.ndarray
-        E [V], rms.
-
-    References
-    ----------
-    A. E. Fitzgerald, C. Kingsley, S. Umans, *Electric Machinery*, McGraw-Hill, the
-    generated voltage of a distributed winding (from memory).
-    """
-    _positive("EMF inputs", frequency, series_turns, winding_factor, pole_pitch, stack_length)
-    _non_negative("flux density", flux_density_fundamental)
-    phi1 = 2.0 / np.pi * flux_density_fundamental * pole_pitch * stack_length
-    return _out(np.sqrt(2.0) * np.pi * frequency * winding_factor * series_turns * phi1)
-
-
-def demagnetising_field(
-    no_load_field: Num,
-    armature_mmf: Num,
-    magnet_thickness: Num,
-    recoil_permeability: Num,
-    gap: Num,
-) -> Num:
-    """Magnet field strength with an armature MMF wholly against the magnet (d-axis).
-
-    H = H_0 - F / (h_m + mu_rec g): the no-load working point H_0 (iron included, from the
-    magnetic circuit) shifted along the recoil line by the armature's ampere-turns F across
-    magnet and gap in series (iron reluctance and magnet leakage neglected: the worst side).
-
-    Parameters
-    ----------
-    no_load_field : float or numpy.ndarray
-        H_0 [A/m], negative for a magnet in its circuit.
-    armature_mmf : float or numpy.ndarray
-        Peak ampere-turns across one gap, demagnetising F [A], >= 0.
-    magnet_thickness : float or numpy.ndarray
-        h_m [m].
-    recoil_permeability : float or numpy.ndarray
-        mu_rec [-].
-    gap : float or numpy.ndarray
-        Gap beside the magnet, Carter's coefficient included, g [m].
-
-    Returns
-    -------
-    float or numpy.ndarray
-        H [A/m] (negative: demagnetising).
-
-    References
-    ----------
-    J. R. Hendershot, T. J. E. Miller, *Design of Brushless Permanent-Magnet Machines*,
-    the magnet's load line with armature reaction (from memory).
-    """
-    _non_negative("armature MMF", armature_mmf)
-    _positive("magnet thickness, recoil permeability and gap", magnet_thickness, gap)
-    _positive("recoil permeability", recoil_permeability)
-    return _out(no_load_field - armature_mmf / (magnet_thickness + recoil_permeability * gap))
 
 
 # --- induction machines ---------------------------------------------------------------------

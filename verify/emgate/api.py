@@ -1,0 +1,147 @@
+"""The public API of emgate for rule packs: everything a rule author needs, in one module.
+
+A pack imports from here only; every other module of emgate is internal and may change
+between versions. A rule::
+
+    from emgate.api import Check, Context, FluxDensity, Options, Problem, Rule, hookimpl, limit
+
+    class PoleBodyOptions(Options):
+        maximum: FluxDensity = limit(1.9, "T", "acme design manual, table 4")
+
+    class PoleBody(Rule[PoleBodyOptions]):
+        "Pole-body flux density ... (the method, shown by `emgate explain`)."
+        id = "acme/pole-body"
+        ...
+        def check(self, design, options, context):
+            yield context.check("rotor.pole_body_flux_density", options.limit_for("maximum"),
+                                "max", path=("rotor", "pole", "body_width"))
+
+    @hookimpl
+    def emgate_rules():
+        return [PoleBody]
+
+Rules read the calculation through ``context.sheet``, a read-only mapping of the sheet names
+that ``emgate show`` prints; they never see the mutable calculation.
+"""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING
+
+from emgate.calc.names import Entry
+from emgate.calc.view import NotComputed, Sheet
+from emgate.hookspecs import hookimpl
+from emgate.model import (
+    MACHINE_KINDS,
+    AnyDesign,
+    InductionDesign,
+    SalientFieldDesign,
+    SurfacePMDesign,
+)
+from emgate.quantity import (
+    Area,
+    Current,
+    FieldStrength,
+    FluxDensity,
+    Frequency,
+    Length,
+    LengthOrZero,
+    PerTemperature,
+    Power,
+    Speed,
+    Temperature,
+    TemperatureDifference,
+    Voltage,
+    quantity,
+)
+from emgate.rule import (
+    TEAM_LIMIT,
+    Bound,
+    Check,
+    Context,
+    Limit,
+    Options,
+    Problem,
+    Rule,
+    limit,
+    winding_path,
+)
+from emgate.terms import SEVERITIES, RecordPath, Severity
+from emgate.units import format_value
+
+__all__ = [
+    "MACHINE_KINDS",
+    "SEVERITIES",
+    "TEAM_LIMIT",
+    "AnyDesign",
+    "Area",
+    "Bound",
+    "Check",
+    "Context",
+    "Current",
+    "Entry",
+    "FieldStrength",
+    "FluxDensity",
+    "Frequency",
+    "InductionDesign",
+    "Length",
+    "LengthOrZero",
+    "Limit",
+    "NotComputed",
+    "Options",
+    "PerTemperature",
+    "Power",
+    "Problem",
+    "Ratio",
+    "RatioOrZero",
+    "RecordPath",
+    "Rule",
+    "SalientFieldDesign",
+    "Severity",
+    "Sheet",
+    "Speed",
+    "SurfacePMDesign",
+    "Temperature",
+    "TemperatureDifference",
+    "Voltage",
+    "format_value",
+    "hookimpl",
+    "limit",
+    "quantity",
+    "ratio",
+    "temperature_rise_limit",
+    "winding_path",
+]
+
+
+def temperature_rise_limit(insulation_class: str) -> float:
+    """IEC 60034-1 winding temperature-rise limit by resistance [K] for a thermal class
+    ('B', 'F', 'H'); ValueError for a class without a tabulated limit."""
+    from emgate.physics.conductors import temperature_rise_limit as lookup
+
+    return lookup(insulation_class)
+
+
+_PERCENT = r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d{1,3})?\s*%\s*$"
+
+
+def ratio(sign: str = "positive") -> object:
+    """A dimensionless option type that takes 0.45 or '45 %' alike (the schema says both)."""
+    from typing import Annotated
+
+    from pydantic import WithJsonSchema
+
+    schema = {
+        "anyOf": [{"type": "number"}, {"type": "string", "pattern": _PERCENT}],
+        "description": "a ratio, e.g. 0.45 or '45 %'",
+    }
+    return Annotated[quantity("dimensionless", sign=sign), WithJsonSchema(schema)]
+
+
+if TYPE_CHECKING:  # to a type checker both are floats; pydantic sees the validators
+    Ratio = float
+    RatioOrZero = float
+else:
+    #: A positive ratio option (a fill, a THD, a tolerance), and one that may be zero.
+    Ratio = ratio()
+    RatioOrZero = ratio("non_negative")

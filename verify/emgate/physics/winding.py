@@ -31,6 +31,7 @@ __all__ = [
     "phase_name",
     "series_turns_per_phase",
     "star_of_slots",
+    "star_of_slots_layers",
     "winding_factor_closed_form",
     "winding_factors",
 ]
@@ -325,6 +326,35 @@ def star_of_slots(
     raise WindingError(
         f"{problem}; pole pitch {pole_pitch:g} slots; usable pitches nearest it: {usable}"
     )
+
+
+def star_of_slots_layers(
+    slots: int, pole_pairs: int, phases: int, layers: int, coil_pitch: int
+) -> tuple[np.ndarray, np.ndarray | None]:
+    """The layers of :func:`star_of_slots`'s layout: (top, bottom), bottom None for one layer.
+
+    The top layer of slot s is the go side of the coil its belt names; the bottom layer the
+    return sides, y slots on. Their sum is :func:`star_of_slots`'s layout.
+
+    Parameters
+    ----------
+    slots, pole_pairs, phases, layers, coil_pitch : int
+        As for :func:`star_of_slots`.
+
+    Returns
+    -------
+    tuple
+        Top and bottom layouts, int64, shape (m, Q) each.
+
+    References
+    ----------
+    As :func:`star_of_slots`.
+    """
+    layout = star_of_slots(slots, pole_pairs, phases, layers, coil_pitch)
+    if layers == 1:
+        return layout, None
+    top = belt_sides(slots, pole_pairs, phases)
+    return top, _bottom_layer(top, coil_pitch)
 
 
 def parallel_path_counts(

@@ -99,6 +99,13 @@ def _parser() -> argparse.ArgumentParser:
         help="text output: the findings only (no margins, summary or rules line); no"
         " summary on standard error",
     )
+    c.add_argument(
+        "-v",
+        "--verbose",
+        action="store_true",
+        help="also note each YAML file found under a folder that is not an emgate file"
+        " (skipped silently otherwise)",
+    )
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path, metavar="FILE", help="a design record")
     s.add_argument(
@@ -333,7 +340,7 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
         policy = load_policy(config, rules, Path.cwd(), installed)
         _narrow(policy, dropped)
         paths = list(args.paths) or (policy.configured_files() if policy.source else [Path(".")])
-        run = Run(paths=paths, policy=policy, plugins=plugins)
+        run = Run(paths=paths, policy=policy, plugins=plugins, verbose=args.verbose)
         if args.changed_since:
             from emgate.changes import changed_since
 

@@ -79,10 +79,12 @@ class Override(_Strict):
 
 class ConfigFile(_Strict):
     schema_: Literal["emgate/config@1"] = Field(alias="schema")
-    files: RelativeGlobs = Field(
-        default_factory=lambda: ["**/*.yaml", "**/*.yml"],
+    files: RelativeGlobs | None = Field(
+        default=None,
         description="glob patterns, relative to this file, of the records to check when"
-        " `emgate check` is given no paths",
+        " `emgate check` is given no paths; when absent, every YAML file git lists in the"
+        " work tree (tracked, or untracked and not ignored), else every YAML file outside"
+        " hidden folders and virtual environments",
     )
     rules: RuleSelection = Field(default_factory=RuleSelection)
     severity: dict[str, Severity] = Field(default_factory=dict)
@@ -133,7 +135,8 @@ class Policy:
 
     root: Path
     base: RulePolicy = field(default_factory=lambda: RulePolicy(("all",), (), {}, {}))
-    files: list[str] = field(default_factory=lambda: ["**/*.yaml", "**/*.yml"])
+    #: The config's globs; empty: the whole repository, as ``emgate.listing`` lists it.
+    files: list[str] = field(default_factory=list)
     overrides: list[tuple[tuple[str, ...], RulePolicy]] = field(default_factory=list)
     source: Path | None = None
     waivers_file: Path | None = None
@@ -155,6 +158,9 @@ class Policy:
         return self.base
 
     def configured_files(self) -> list[Path]:
+        """The files the globs select, or the repository's folder when there are none."""
+        if not self.files:
+            return [self.root]
         out: set[Path] = set()
         for pattern in self.files:
             out.update(p for p in self.root.glob(pattern) if p.is_file())
@@ -291,7 +297,7 @@ def load_policy(
     return Policy(
         root=path.parent,
         base=base,
-        files=list(cfg.files),
+        files=list(cfg.files or ()),
         overrides=overrides,
         source=path,
         waivers_file=waivers if waivers.is_file() else None,

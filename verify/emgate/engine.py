@@ -28,6 +28,7 @@ from emgate.findings import (
     anchor,
     source_root,
 )
+from emgate.listing import yaml_files
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
 from emgate.model import AnyDesign
@@ -51,7 +52,6 @@ from emgate.waivers import (
 )
 
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
-SKIP_DIRS = {".git", ".hg", ".svn", ".nox", ".tox", ".venv", "venv", "node_modules", "__pycache__"}
 
 
 @dataclass
@@ -80,22 +80,17 @@ class Run:
     #: With --changed-since, only the records the change touches are checked (and a waiver
     #: for a record outside the run is not reported as unknown).
     changes: ChangeSet | None = None
+    #: Also report the YAML files under a folder that are not emgate files (--verbose).
+    verbose: bool = False
 
 
-def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
+def discover(paths: Iterable[Path], result: RunResult, verbose: bool = False) -> list[Source]:
     """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema."""
     out: list[Source] = []
     seen: set[Path] = set()
     for root in paths:
         if root.is_dir():
-            candidates = sorted(
-                p
-                for p in root.rglob("*")
-                if p.suffix in (".yaml", ".yml")
-                and p.is_file()
-                and p.name != CONFIG_NAME
-                and not SKIP_DIRS.intersection(p.relative_to(root).parts[:-1])
-            )
+            candidates = [p for p in yaml_files(root) if p.name != CONFIG_NAME]
             explicit = False
         elif root.exists():
             candidates, explicit = [root], True
@@ -115,7 +110,9 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
             m = _DECLARES.search(text[:4096])
             declared = m.group(1) if m else _declared_by_parsing(path, text)
             if declared is None:
-                if explicit:  # e.g. a CI file that pre-commit passes along: say, don't fail
+                if (
+                    explicit or verbose
+                ):  # a file named (pre-commit passes CI files): say, do not fail
                     result.findings.append(
                         Finding(
                             "input",
@@ -270,7 +267,7 @@ def execute(run: Run) -> RunResult:
         )
         for rid, lr in sorted(run.plugins.rules.items())
     ]
-    sources = discover(run.paths, result)
+    sources = discover(run.paths, result, run.verbose)
     named = {src.path.resolve() for src in sources}
     roots = {r for p in run.paths if p.exists() and (r := repository_root(p)) is not None}
     for root in sorted(roots):

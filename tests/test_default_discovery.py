@@ -1,0 +1,86 @@
+"""Without ``files:`` in emgate.yaml the gate checks the repository's own YAML files: what git
+lists in a work tree, else a walk that skips hidden folders and virtual environments; a
+YAML file that is not an emgate file is skipped silently unless ``--verbose`` asks."""
+
+from __future__ import annotations
+
+import os
+import shutil
+import subprocess
+from pathlib import Path
+
+import pytest
+
+from conftest import PUMP, run_cli
+from emgate.listing import yaml_files
+
+pytestmark = pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
+
+
+def git(repo: Path, *args: str) -> None:
+    env = {**os.environ, "GIT_AUTHOR_NAME": "t", "GIT_AUTHOR_EMAIL": "t@t"}
+    env |= {"GIT_COMMITTER_NAME": "t", "GIT_COMMITTER_EMAIL": "t@t"}
+    subprocess.run(["git", *args], cwd=repo, env=env, check=True, capture_output=True)
+
+
+def design_repository(root: Path) -> Path:
+    """A record, a CI file, and copies of the record where no design lives: inside a
+    virtual environment's site-packages, a venv of another name, node_modules and .nox."""
+    root.mkdir()
+    (root / "emgate.yaml").write_text("schema: emgate/config@1\n")
+    (root / "designs").mkdir()
+    (root / "designs" / "pump.yaml").write_text(PUMP.read_text())
+    (root / "ci.yml").write_text("stages: [test]\n")
+    record = PUMP.read_text().replace("id: pump-drive-4p36s", "id: not-ours")
+    for folder in (
+        ".venv/lib/python3.12/site-packages/pkg",
+        "tools-env/lib/python3.12/site-packages/pkg",
+        "node_modules/pkg",
+        ".nox/gate/lib",
+    ):
+        (root / folder).mkdir(parents=True)
+        (root / folder / "record.yaml").write_text(record)
+    (root / "tools-env" / "pyvenv.cfg").write_text("home = /usr/bin\n")
+    return root
+
+
+def names(root: Path) -> list[str]:
+    return [p.relative_to(root).as_posix() for p in yaml_files(root)]
+
+
+def test_git_lists_tracked_and_untracked_not_ignored_files(tmp_path: Path) -> None:
+    root = design_repository(tmp_path / "repo")
+    (root / ".gitignore").write_text("scratch/\n")
+    (root / "scratch").mkdir()
+    (root / "scratch" / "old.yaml").write_text(PUMP.read_text())
+    git(root, "init", "-q")
+    git(root, "add", "designs/pump.yaml")
+    git(root, "commit", "-qm", "one record")
+    (root / "designs" / "new.yaml").write_text("a: 1\n")  # untracked, not ignored
+    # The environments are not ignored by git (no entry in .gitignore): skipped all the same.
+    assert names(root) == ["ci.yml", "designs/new.yaml", "designs/pump.yaml", "emgate.yaml"]
+
+
+def test_without_git_the_walk_skips_hidden_folders_and_environments(tmp_path: Path) -> None:
+    root = design_repository(tmp_path / "plain")
+    (root / ".hidden").mkdir()
+    (root / ".hidden" / "x.yaml").write_text("a: 1\n")
+    assert names(root) == ["ci.yml", "designs/pump.yaml", "emgate.yaml"]
+
+
+@pytest.mark.parametrize("with_git", [True, False])
+def test_a_config_without_files_checks_only_the_repositorys_records(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, with_git: bool
+) -> None:
+    root = design_repository(tmp_path / "repo")
+    if with_git:
+        git(root, "init", "-q")
+    monkeypatch.chdir(root)
+    quiet = run_cli("check", "--format", "json")
+    assert quiet.code == 0, quiet.out
+    assert [r["record_id"] for r in quiet.json()["records"]] == ["pump-drive-4p36s"]
+    assert quiet.json()["findings"] == []  # ci.yml is skipped silently
+    told = run_cli("check", "--verbose", "--format", "json")
+    notes = [f for f in told.json()["findings"] if f["kind"] == "note"]
+    assert [(f["file"], f["severity"]) for f in notes] == [("ci.yml", "info")]
+    assert "not an emgate file" in notes[0]["message"]

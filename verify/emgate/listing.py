@@ -1,0 +1,76 @@
+"""The YAML files of a folder, as the gate sees them when no ``files:`` names them.
+
+In a git work tree git says which files belong to the repository: tracked ones and untracked
+ones it does not ignore (``git ls-files --cached --others --exclude-standard``). Elsewhere, or
+without git, a walk that does not enter hidden folders or virtual environments. Both skip
+what is never a design record of the repository: virtual environments (any folder holding a
+``pyvenv.cfg``, and the usual names), installed packages and caches, even when git does not
+ignore them (a fresh repository with a ``.venv`` and no ``.gitignore``).
+"""
+
+from __future__ import annotations
+
+import os
+import subprocess
+from pathlib import Path
+
+SUFFIXES = (".yaml", ".yml")
+#: Folders never searched, whatever their place: environments, installed packages, caches.
+SKIP_NAMES = frozenset({"venv", "site-packages", "dist-packages", "node_modules", "__pycache__"})
+
+
+def _skipped(folder: Path) -> bool:
+    """A folder that holds no design records of the repository: hidden (``.git``, ``.venv``,
+    ``.nox``, ``.tox``), a virtual environment of any name, or one of :data:`SKIP_NAMES`."""
+    name = folder.name
+    return name.startswith(".") or name in SKIP_NAMES or (folder / "pyvenv.cfg").is_file()
+
+
+def yaml_files(root: Path) -> list[Path]:
+    """Every ``*.yaml``/``*.yml`` file under ``root`` that the gate should read, sorted."""
+    listed = _git_listing(root)
+    if listed is None:
+        return sorted(p for p in _walk(root) if p.is_file())
+    verdict: dict[Path, bool] = {}
+
+    def kept(path: Path) -> bool:
+        folder = path.parent
+        chain = []
+        while folder != root and folder not in verdict:
+            chain.append(folder)
+            folder = folder.parent
+        ok = verdict.get(folder, True)
+        for f in reversed(chain):  # outermost first: a skipped parent skips its children
+            ok = ok and not _skipped(f)
+            verdict[f] = ok
+        return ok
+
+    return sorted(p for p in listed if p.suffix in SUFFIXES and kept(p) and p.is_file())
+
+
+def _git_listing(root: Path) -> list[Path] | None:
+    """Git's files under ``root``, or None when ``root`` is not in a work tree (or git is
+    missing or does not answer): then the caller walks the folder instead."""
+    try:
+        done = subprocess.run(
+            ["git", "ls-files", "-z", "--cached", "--others", "--exclude-standard", "--", "."],
+            cwd=root,
+            capture_output=True,
+            check=False,
+            timeout=60,
+        )
+    except (OSError, subprocess.TimeoutExpired):
+        return None
+    if done.returncode != 0:
+        return None
+    names = done.stdout.decode("utf-8", "surrogateescape").split("\0")
+    return [root / name for name in dict.fromkeys(names) if name]
+
+
+def _walk(root: Path) -> list[Path]:
+    out: list[Path] = []
+    for folder, dirs, names in os.walk(root):
+        here = Path(folder)
+        dirs[:] = sorted(d for d in dirs if not _skipped(here / d))
+        out.extend(here / n for n in names if n.endswith(SUFFIXES))
+    return out

@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import json
 import os
-import shlex
 import shutil
 import subprocess
 import sys
@@ -46,11 +45,19 @@ def git(repo: Path, *args: str) -> str:
 
 
 def template_gate_command() -> list[str]:
-    """The gate command of the CI workflow template, as the template writes it."""
+    """The gate command of the CI workflow template, as the template writes it and bash
+    expands it on a push (GITHUB_BASE_REF empty: no --changed-since)."""
     workflow = yaml.safe_load(TEMPLATE.read_text())
     steps = workflow["jobs"]["emgate"]["steps"]
     step = next(s for s in steps if s.get("name") == "Run the gate")
-    return shlex.split(step["run"])
+    words = subprocess.run(
+        ["bash", "-c", f"set -- {step['run']}\nprintf '%s\\0' \"$@\""],
+        env={**os.environ, "GITHUB_BASE_REF": ""},
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    return words.stdout.split("\0")[:-1]
 
 
 def gate(repo: Path, *extra: str) -> subprocess.CompletedProcess[str]:

@@ -619,7 +619,10 @@ STARTER = {
     "emgate.yaml",
     "waivers.yaml",
     "designs/example-4p36s.yaml",
+    "requirements-emgate.txt",
     ".github/workflows/emgate.yml",
+    ".gitlab-ci.yml",
+    ".gitignore",
     ".pre-commit-config.yaml",
     "noxfile.py",
     *(f"schemas/{k}.schema.json" for k in ("design", "materials", "waivers", "config")),
@@ -641,6 +644,33 @@ def test_init_writes_a_starter_repository_that_passes(
     check = check_json()
     assert check.code == 0, check.out
     assert record_ids(check) == ["example-4p36s"]
+
+
+@pytest.mark.parametrize(
+    ("machine", "record"),
+    [
+        ("induction", "example-4p36s"),
+        ("surface_pm", "example-10p12s"),
+        ("salient_field", "example-4p48s"),
+    ],
+)
+def test_each_machine_starter_is_a_complete_record_that_passes(
+    repo: Path, monkeypatch: pytest.MonkeyPatch, machine: str, record: str
+) -> None:
+    """`emgate init --machine KIND`: a valid record of that kind, with no finding from any
+    installed rule on the default limits."""
+    target = repo / "team"
+    assert run_cli("init", target, "--machine", machine).code == 0
+    assert {p for p in files_under(target) if p.startswith("designs/")} == {
+        f"designs/{record}.yaml"
+    }
+    monkeypatch.chdir(target)
+    check = check_json()
+    assert check.code == 0, check.out
+    assert record_ids(check) == [record]
+    (result,) = check.json()["records"]
+    assert result["machine"] == machine
+    assert check.json()["findings"] == []
 
 
 @pytest.mark.parametrize("kind", ["design", "materials", "waivers", "config"])

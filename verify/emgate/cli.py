@@ -152,6 +152,12 @@ def _parser() -> argparse.ArgumentParser:
     i.add_argument(
         "dir", nargs="?", type=Path, default=Path("."), help="folder to write into (default: .)"
     )
+    i.add_argument(
+        "--machine",
+        choices=["induction", "surface_pm", "salient_field"],
+        default="induction",
+        help="the kind of machine of the starter record (default: induction)",
+    )
     sub.add_parser(
         "lsp",
         help="run the language server on standard input and output (for an editor; needs"
@@ -229,7 +235,7 @@ def _dispatch(args: argparse.Namespace) -> int:
     if args.command == "init":
         from emgate.scaffold import init
 
-        return init(args.dir)
+        return init(args.dir, args.machine)
     if args.command == "lsp":
         from emgate.lsp import main as lsp
 

@@ -73,6 +73,23 @@ class Document:
         return Location(self.path, mark[0] + 1, mark[1] + 1, path_string(path))
 
 
+#: What libyaml says, one line late, about a key written without its colon.
+_LOST_COLON = ("could not find expected ':'", "mapping values are not allowed in this context")
+
+
+def _line_without_colon(text: str, problem_line: int) -> int | None:
+    """The line a colon is likely missing from: the nearest line above the parser's mark
+    that holds text and no ':' (libyaml reads such a line as the start of a key or a
+    multi-line scalar and stops on the next line). 0-based; None when there is none."""
+    lines = text.splitlines()
+    for n in range(min(problem_line, len(lines)) - 1, -1, -1):
+        content = lines[n].split(" #", 1)[0].strip()
+        if not content or content.startswith("#"):
+            continue
+        return n if ":" not in content and not content.startswith(("-", "[", "{")) else None
+    return None
+
+
 class _Builder:
     def __init__(self, path: Path, text: str) -> None:
         self.path = path
@@ -101,6 +118,16 @@ class _Builder:
                 raise InputError(
                     f"nesting deeper than {MAX_DEPTH} levels", Location(self.path, line, col, "$")
                 ) from None
+            if problem in _LOST_COLON and mark is not None:
+                line = _line_without_colon(self.text, mark.line)
+                if line is not None:
+                    text = self.text.splitlines()[line]
+                    raise InputError(
+                        "YAML syntax error: a ':' is likely missing after the key on this"
+                        f" line (write 'key: value'; the parser stopped on line"
+                        f" {mark.line + 1}: {problem})",
+                        Location(self.path, line + 1, len(text) - len(text.lstrip()) + 1, "$"),
+                    ) from None
             raise self.fail(mark, f"YAML syntax error: {problem}") from None
         except yaml.YAMLError as exc:
             raise InputError(f"YAML error: {exc}", Location(self.path, 1, 1, "$")) from None

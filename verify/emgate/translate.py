@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import difflib
 from functools import cache
-from typing import Any
+from typing import Any, Literal, get_args, get_origin
 
 from pydantic import BaseModel, ValidationError
 from pydantic_core import ErrorDetails
@@ -44,8 +44,22 @@ def _vocabulary() -> tuple[str, ...]:
     return tuple(sorted(names))
 
 
-def _allowed_keys(data: Any, path: RecordPath) -> set[str] | None:
-    """The keys the model allows at ``path`` of the record, or None when not found."""
+#: Each string pattern of the models and the policy files, in words: no regex reaches a user.
+PATTERN_WORDS = {
+    r"^[a-z0-9][a-z0-9._-]{0,63}$": "an id of 1 to 64 lower-case letters, digits, '.', '_'"
+    " or '-', starting with a letter or a digit, such as 'pump-drive-4p36s'",
+    r"^\s*[-+]?[A-Z](\s+[-+]?[A-Z])?\s*$": "one or two coil sides, top layer first, each"
+    " a phase letter with its sign, such as '+A' or '+A -C'",
+    r"^IC[0-9A-Z]{2,12}$": "a cooling code of IEC 60034-6: 'IC' followed by 2 to 12 digits"
+    " or capital letters, such as 'IC411'",
+    r"^(all|tag:[a-z][a-z0-9-]*|[a-z][a-z0-9-]*(/([a-z][a-z0-9-]*)?)?)$": "a rule selector:"
+    " 'all', a rule id such as 'slot-fill', a pack prefix such as 'acme/' or a tag such as"
+    " 'tag:thermal'",
+}
+
+
+def _model_at(data: Any, path: RecordPath) -> type[BaseModel] | None:
+    """The record model that holds the keys at ``path``, or None when not found."""
     from emgate import model as m
 
     kinds: dict[Any, type[BaseModel]] = {
@@ -72,9 +86,45 @@ def _allowed_keys(data: Any, path: RecordPath) -> set[str] | None:
         choices = _models_in(info.annotation)
         shape = node.get("shape") if isinstance(node, dict) else None
         current = next((c for c in choices if shape is None or _has_tag(c, shape)), None)
-    if current is None:
+    return current
+
+
+def _allowed_keys(data: Any, path: RecordPath) -> set[str] | None:
+    """The keys the model allows at ``path`` of the record, or None when not found."""
+    model = _model_at(data, path)
+    if model is None:
         return None
-    return {f.alias or name for name, f in current.model_fields.items()}
+    return {f.alias or name for name, f in model.model_fields.items()}
+
+
+def _typical(data: Any, path: RecordPath) -> str:
+    """What a missing key could be given: the field's first example (as the schema offers
+    it to an editor), the choices of a closed set, or the keys a mapping needs."""
+    from pydantic import WithJsonSchema
+
+    model = _model_at(data, path[:-1])
+    key = str(path[-1])
+    info = None
+    if model is not None:
+        info = model.model_fields.get(key) or next(
+            (f for f in model.model_fields.values() if f.alias == key), None
+        )
+    if info is None:
+        return ""
+    examples = list(info.examples or [])
+    for meta in info.metadata:
+        if isinstance(meta, WithJsonSchema) and meta.json_schema:
+            examples += meta.json_schema.get("examples", [])
+    if examples:
+        return f"; for example '{key}: {examples[0]}'"
+    choices = [a for a in get_args(info.annotation) if isinstance(a, str | int)]
+    if get_origin(info.annotation) is Literal and choices:
+        return f"; one of {', '.join(map(str, choices))}"
+    subs = _models_in(info.annotation)
+    if len(subs) == 1:
+        needed = [f.alias or n for n, f in subs[0].model_fields.items() if f.is_required()]
+        return f"; a mapping with {', '.join(needed)}" if needed else ""
+    return ""
 
 
 def _has_tag(model: type[BaseModel], tag: Any) -> bool:
@@ -139,7 +189,11 @@ def _message(error: ErrorDetails, doc: Document, path: RecordPath) -> str:
             hint = f"; expected one of {', '.join(sorted(allowed))}"
         return f"unknown key {key!r}{hint}"
     if kind == "missing":
-        return f"required key {str(path[-1])!r} is missing"
+        return f"required key {str(path[-1])!r} is missing{_typical(doc.data, path)}"
+    if kind == "string_pattern_mismatch":
+        pattern = error.get("ctx", {}).get("pattern", "")
+        words = PATTERN_WORDS.get(pattern, "text of another form (see the field's description)")
+        return f"expected {words}, found {describe_value(error.get('input'))}"
     found = describe_value(error.get("input"))
     if kind == "literal_error":
         expected = msg.removeprefix("Input should be ")

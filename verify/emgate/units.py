@@ -84,6 +84,11 @@ UNITS: dict[str, tuple[float, Dims]] = {
     "mW": (1e-3, _W),
     "kW": (1e3, _W),
     "MW": (1e6, _W),
+    # The mechanical (imperial) horsepower, 550 ft*lbf/s, as ratings on NEMA nameplates are
+    # given: 550 x 0.3048 m x 0.45359237 kg x 9.80665 m/s^2 = 745.7 W, from the exact
+    # definitions of the foot, the pound and standard gravity [calc: NIST SP 811, B.8 lists
+    # 745.6999 W, from memory]. Not the metric horsepower (735.5 W), which has no symbol here.
+    "hp": (550 * 0.3048 * 0.45359237 * 9.80665, _W),
     "VA": (1.0, _W),
     "kVA": (1e3, _W),
     "MVA": (1e6, _W),
@@ -155,6 +160,15 @@ DIMENSIONS: dict[str, tuple[Dims, str]] = {
 
 class QuantityError(ValueError):
     """A quantity string that does not parse or has the wrong dimension."""
+
+
+class UnknownUnit(QuantityError):
+    """A unit symbol outside the whitelist; the hint suggests a symbol of the dimension
+    the field expects when it is known (``convert``), else the closest symbol."""
+
+    def __init__(self, token: str, dims: Dims | None = None, label: str = "") -> None:
+        self.token = token
+        super().__init__(f"unknown unit {token!r}{_hint(token, dims, label)}")
 
 
 @dataclass(frozen=True)
@@ -262,7 +276,7 @@ class _UnitParser:
         elif tok in CELSIUS:
             raise QuantityError("degC stands only alone ('40 degC'); in a compound unit use K")
         else:
-            raise QuantityError(f"unknown unit {tok!r}{_hint(tok)}")
+            raise UnknownUnit(tok)
         exp = self.exponent()
         dims = _mul(_ONE, d, exp)
         if any(abs(e) > MAX_EXPONENT * 2 for e in dims):
@@ -291,15 +305,23 @@ class _UnitParser:
         return int(raw)
 
 
-def _hint(tok: str) -> str:
+def _hint(tok: str, dims: Dims | None = None, label: str = "") -> str:
+    """A 'did you mean', among the symbols of dimension ``dims`` when given (a power is
+    never offered 'h'); with none close, the symbols a field of that dimension takes."""
     import difflib  # only on the error path
 
     if tok in ("C", "c", "deg_C", "degree_Celsius", "celsius", "Celsius"):
         return " (for a temperature write '40 degC'; for a difference, K)"
     names = [*UNITS, "degC"]
+    if dims is not None:
+        names = [n for n in UNITS if UNITS[n][1] == dims] + (["degC"] if dims == _TH else [])
     same_letters = [n for n in names if n.lower() == tok.lower()]
     close = same_letters or difflib.get_close_matches(tok, names, n=1, cutoff=0.6)
-    return f" (did you mean {close[0]!r}?)" if close else ""
+    if close:
+        return f" (did you mean {close[0]!r}?)"
+    if dims is not None and names:
+        return f" (a {label} is written in {', '.join(names[:8])})"
+    return ""
 
 
 @lru_cache(maxsize=512)
@@ -366,7 +388,13 @@ def convert(text: str | float | int, expected: str) -> float:
         return value
     if expected == "temperature_difference" and text.strip().endswith(CELSIUS):
         raise QuantityError(f"a temperature difference is given in K, such as '{example}'")
-    q = parse_quantity(text)
+    try:
+        q = parse_quantity(text)
+    except UnknownUnit as exc:
+        m = _NUMBER.match(text.strip())
+        if m and text.strip()[m.end() :].strip() == exc.token:  # the whole unit: its kind is known
+            raise UnknownUnit(exc.token, dims, label) from None
+        raise
     if q.dims != dims:
         raise QuantityError(
             f"expected a {label} such as '{example}', found {text!r}, which is a {describe(q.dims)}"

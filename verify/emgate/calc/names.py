@@ -23,6 +23,10 @@ class Entry:
     #: The condition beyond the machine kinds under which the quantity exists, in words
     #: ("round wire in a semi-closed slot"); its function states it in code.
     only: str = ""
+    #: The record fields a designer would change to move the quantity, most direct first,
+    #: as dotted record paths; fields the record does not have are skipped (a round wire
+    #: has no width). Remedies (``emgate.remedies``) try the first three a record has.
+    drivers: tuple[str, ...] = ()
 
     @property
     def scope(self) -> str:
@@ -73,6 +77,12 @@ ENTRIES: tuple[Entry, ...] = (
         "air_gap.flux_density_peak",
         "T",
         "peak gap flux density from the magnetic circuit of the machine kind, iron included",
+        drivers=(
+            "air_gap",
+            "rotor.magnet.thickness",
+            "winding.turns_per_coil",
+            "rotor.field.current",
+        ),
     ),
     Entry(
         "air_gap.flux_per_pole",
@@ -94,6 +104,7 @@ ENTRIES: tuple[Entry, ...] = (
         "%",
         "rated slip |1 - n / n_s|, n_s = f / p the synchronous speed (motor or generator)",
         ("induction",),
+        drivers=("rating.speed",),
     ),
     Entry(
         "rotor.bar_current",
@@ -107,12 +118,26 @@ ENTRIES: tuple[Entry, ...] = (
         "A/mm^2",
         "bar current over bar section (a cast bar fills its slot)",
         ("induction",),
+        drivers=(
+            "rotor.cage.bar.width",
+            "rotor.cage.bar.height",
+            "rotor.slot.height",
+            "rotor.slot.width",
+            "rotor.slot.top_width",
+        ),
     ),
     Entry(
         "rotor.field_current_density",
         "A/mm^2",
         "field current over the conductor section",
         ("salient_field",),
+        drivers=(
+            "rotor.field.conductor.bare_diameter",
+            "rotor.field.conductor.width",
+            "rotor.field.conductor.height",
+            "rotor.field.conductor.strands",
+            "rotor.field.current",
+        ),
     ),
     Entry(
         "rotor.magnet_coercivity_cold",
@@ -139,6 +164,11 @@ ENTRIES: tuple[Entry, ...] = (
         "H_m with the rated-current staircase MMF peak F_max (winding.mmf_peak) wholly on the"
         " d-axis, H_0 - F_max / (h_m + mu_rec kc g) (a worst case; negative: demagnetising)",
         ("surface_pm",),
+        drivers=(
+            "rotor.magnet.thickness",
+            "winding.turns_per_coil",
+            "air_gap",
+        ),
     ),
     Entry(
         "rotor.magnet_field_strength_worst_cold",
@@ -146,18 +176,28 @@ ENTRIES: tuple[Entry, ...] = (
         "as rotor.magnet_field_strength_worst with the magnet at the coolant temperature (a"
         " cold start): H_0 from Br at cooling.ambient, the same armature term",
         ("surface_pm",),
+        drivers=(
+            "rotor.magnet.thickness",
+            "winding.turns_per_coil",
+            "air_gap",
+        ),
     ),
     Entry(
         "rotor.pole_body_flux_density",
         "T",
         "pole-body flux density, leakage included",
         ("salient_field",),
+        drivers=("rotor.pole.body_width",),
     ),
     Entry(
         "rotor.ring_current_density",
         "A/mm^2",
         "ring current I_bar / (2 sin(pi p / Q_r)) over the ring section",
         ("induction",),
+        drivers=(
+            "rotor.cage.end_ring.axial_width",
+            "rotor.cage.end_ring.radial_height",
+        ),
     ),
     Entry(
         "rotor.tooth_flux_density",
@@ -170,11 +210,13 @@ ENTRIES: tuple[Entry, ...] = (
         "T",
         "apparent rotor tooth flux density at the narrowest tooth section, as for the stator",
         ("induction",),
+        drivers=("rotor.slot.bottom_width", "rotor.slot.width"),
     ),
     Entry(
         "rotor.yoke_flux_density",
         "T",
         "peak rotor yoke flux density, Phi / (2 k_Fe l h_y), with pole leakage for salient poles",
+        drivers=("rotor.inner_diameter",),
     ),
     Entry(
         "rotor.yoke_height",
@@ -186,6 +228,10 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.aspect_ratio",
         "1",
         "stack length over bore diameter, l / D",
+        drivers=(
+            "stator.stack_length",
+            "stator.bore_diameter",
+        ),
     ),
     Entry(
         "stator.conductors_per_slot",
@@ -202,11 +248,23 @@ ENTRIES: tuple[Entry, ...] = (
         "A/mm^2",
         "J = I_ph / (a n S): phase current over parallel paths a, strands in hand n and bare"
         " strand section S",
+        drivers=(
+            "winding.conductor.bare_diameter",
+            "winding.conductor.width",
+            "winding.conductor.height",
+            "winding.conductor.strands",
+            "winding.parallel_paths",
+        ),
     ),
     Entry(
         "stator.electric_loading",
         "kA/m",
         "A = 2 m N_ph I / (pi D), rms",
+        drivers=(
+            "winding.turns_per_coil",
+            "winding.parallel_paths",
+            "stator.bore_diameter",
+        ),
     ),
     Entry(
         "stator.opening_clearance",
@@ -214,6 +272,10 @@ ENTRIES: tuple[Entry, ...] = (
         "slot opening less the insulated strand diameter, b0 - d_ins: the free width of a"
         " strand fed through the opening",
         only="round wire in a semi-closed slot",
+        drivers=(
+            "stator.slot.opening",
+            "winding.conductor.insulated_diameter",
+        ),
     ),
     Entry(
         "stator.slot_area",
@@ -229,6 +291,13 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.slot_fill",
         "1",
         "bare copper area over the slot area net of liner",
+        drivers=(
+            "winding.turns_per_coil",
+            "winding.conductor.bare_diameter",
+            "winding.conductor.width",
+            "stator.slot.height",
+            "winding.conductor.strands",
+        ),
     ),
     Entry(
         "stator.slot_pitch",
@@ -241,11 +310,23 @@ ENTRIES: tuple[Entry, ...] = (
         "slot width less the insulated strand width and a liner on each wall,"
         " b - (w_ins + 2 t), strands stacked radially",
         only="rectangular strands in an open slot",
+        drivers=(
+            "stator.slot.width",
+            "winding.conductor.insulated_width",
+            "winding.slot_liner",
+        ),
     ),
     Entry(
         "stator.thermal_load",
         "A^2/mm^3",
         "electric loading times current density, A J",
+        drivers=(
+            "winding.conductor.bare_diameter",
+            "winding.conductor.width",
+            "winding.turns_per_coil",
+            "winding.conductor.strands",
+            "winding.parallel_paths",
+        ),
     ),
     Entry(
         "stator.tooth_flux_density",
@@ -256,6 +337,12 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.tooth_flux_density_apparent",
         "T",
         "B_g tau_s l / (k_Fe l_Fe b_t) at the narrowest tooth section",
+        drivers=(
+            "stator.slot.top_width",
+            "stator.slot.bottom_width",
+            "stator.slot.width",
+            "winding.turns_per_coil",
+        ),
     ),
     Entry(
         "stator.tooth_width_min",
@@ -266,6 +353,11 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.yoke_flux_density",
         "T",
         "peak yoke flux density, Phi / (2 k_Fe l h_y)",
+        drivers=(
+            "stator.outer_diameter",
+            "stator.slot.height",
+            "winding.turns_per_coil",
+        ),
     ),
     Entry(
         "stator.yoke_height",
@@ -278,6 +370,11 @@ ENTRIES: tuple[Entry, ...] = (
         "phase EMF rms at the rated frequency, no load: sqrt 2 pi f N_ph kw1 Phi1 with"
         " Phi1 = (2/pi) B1 tau_p l, B1 the fundamental gap flux density",
         ("surface_pm", "salient_field"),
+        drivers=(
+            "winding.turns_per_coil",
+            "rotor.magnet.thickness",
+            "stator.stack_length",
+        ),
     ),
     Entry(
         "winding.copper_loss",
@@ -308,6 +405,7 @@ ENTRIES: tuple[Entry, ...] = (
         "1",
         "total harmonic distortion of the staircase MMF, all orders"
         " including sub-harmonics, over the working harmonic (Parseval)",
+        drivers=("winding.coil_pitch",),
     ),
     Entry(
         "winding.phase_current",
@@ -342,6 +440,14 @@ ENTRIES: tuple[Entry, ...] = (
         "K",
         "lumped steady-state estimate of the mean winding"
         " rise over the coolant, copper loss only (an estimate, to be confirmed by test)",
+        drivers=(
+            "winding.conductor.bare_diameter",
+            "winding.conductor.width",
+            "cooling.fin_area_factor",
+            "winding.conductor.strands",
+            "cooling.frame_length",
+            "winding.turns_per_coil",
+        ),
     ),
     Entry(
         "winding.winding_factor",

@@ -65,6 +65,13 @@ def _parser() -> argparse.ArgumentParser:
         " that changed materials or configuration affect",
     )
     c.add_argument("--today", type=_date, help="judge waiver expiry as of this date")
+    c.add_argument(
+        "--remedies",
+        choices=["on", "off"],
+        default="on",
+        help="for each failing check, the value of a record field that would fix it (default"
+        " on; off is faster)",
+    )
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path)
     s.add_argument("--format", default="text", choices=["text", "json"])
@@ -261,7 +268,7 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
         rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
         policy = load_policy(config, rules, Path.cwd(), installed)
         paths = list(args.paths) or (policy.configured_files() if policy.source else [Path(".")])
-        run = Run(paths=paths, policy=policy, plugins=plugins)
+        run = Run(paths=paths, policy=policy, plugins=plugins, remedies=args.remedies == "on")
         if args.changed_since:
             from emgate.changes import changed_since
 

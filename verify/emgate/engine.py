@@ -71,6 +71,8 @@ class Run:
     #: With --changed-since, only the records the change touches are checked (and a waiver
     #: for a record outside the run is not reported as unknown).
     changes: ChangeSet | None = None
+    #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
+    remedies: bool = True
 
 
 def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
@@ -361,6 +363,11 @@ def _check_design(
             _check_rule(run, ld, policy, loaded.rule, context, record, produced, builtin)
     finally:  # an error of emgate's own keeps what the rules before it found
         result.findings.extend(apply_waivers(waivers, produced, record, run.today))
+    if run.remedies:
+        from emgate.remedies import attach_remedies
+
+        budget = run.policy.rule_time_budget
+        attach_remedies(ld.doc, catalogue, policy, run.plugins, ld.file, budget, produced)
 
 
 def _check_rule(

@@ -7,6 +7,7 @@ from __future__ import annotations
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
+from emgate.remedies import report_lines
 from emgate.report.common import margins_line, rules_line, summary_line, where
 
 
@@ -17,6 +18,8 @@ def _line(f: Finding) -> str:
         text += f" [{f.record_path}]"
     if f.waived_by:
         text += f"\n      waived: {f.waived_by}"
+    for remedy in report_lines(f):
+        text += f"\n      {remedy}"
     return text
 
 

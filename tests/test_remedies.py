@@ -347,3 +347,16 @@ def test_every_declared_driver_moves_its_quantity_on_a_bundled_record(tmp_path: 
             if any(r is not None for r in results) and not any(results):
                 unproven.append(f"{entry.name} <- {driver}")
     assert unproven == []
+
+
+def test_the_readme_shows_the_servos_remedies_as_the_gate_prints_them(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    # The README's demo block is the gate's own output (regenerate it with
+    # `emgate check designs/servo-10p12s.yaml` in examples/design-repo when the physics moves).
+    readme = (REPO / "README.md").read_text(encoding="utf-8")
+    shown = [line[4:] for line in readme.splitlines() if line.startswith("          fix: ")]
+    assert len(shown) >= 3
+    monkeypatch.chdir(DEMO)
+    out = run_cli("check", "--format", "text", Path("designs") / SERVO.name).out
+    assert set(shown) <= set(out.splitlines())

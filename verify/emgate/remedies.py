@@ -61,7 +61,7 @@ _R40 = (1.00, 1.06, 1.12, 1.18, 1.25, 1.32, 1.40, 1.50, 1.60, 1.70, 1.80, 1.90, 
 WIRE_DIAMETERS_MM: tuple[float, ...] = tuple(
     round(v * decade, 4) for decade in (0.1, 1.0) for v in _R40 if v * decade <= 5.0
 )
-WIRE_TABLE = "IEC 60317-0-1 nominal diameters (from memory)"
+WIRE_TABLE = "IEC 60317-0-1, from memory"
 
 _NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
 
@@ -171,6 +171,12 @@ def _get(data: Any, path: RecordPath) -> Any:
     return data
 
 
+def _attr(model: Any, path: RecordPath) -> Any:
+    for p in path:
+        model = getattr(model, str(p), None)
+    return model
+
+
 def _set(data: Any, path: RecordPath, value: Any) -> Any:
     """A copy of ``data`` with ``value`` at ``path`` (only the containers along it copied)."""
     if not path:
@@ -192,12 +198,16 @@ class NumberField:
     raw: Any
 
     @classmethod
-    def read(cls, data: Any, path: RecordPath) -> NumberField | None:
+    def read(cls, data: Any, path: RecordPath, design: Any = None) -> NumberField | None:
+        """The field at ``path`` of the raw record, or None where it is not a number; a
+        count is one the validated ``design`` holds as an int (a float field may be
+        written '4')."""
         raw = _get(data, path)
         if isinstance(raw, bool):
             return None
         if isinstance(raw, int):
-            return cls(path, float(raw), "", True, raw)
+            whole = design is None or isinstance(_attr(design, path), int)
+            return cls(path, float(raw), "", whole, raw)
         if isinstance(raw, float):
             return cls(path, raw, "", False, raw)
         if isinstance(raw, str) and (m := _NUMBER.match(raw)) is not None:
@@ -282,14 +292,15 @@ class _Search:
         return ins, ins.text((bare + build) / scale)
 
     def solve(self, path: RecordPath) -> Remedy | None:
-        f = NumberField.read(self.data, path)
+        f = NumberField.read(self.data, path, self.trial.design(self.data))
         if f is None or f.number == 0.0:
             return None
         base = self.check.margin
         name = ".".join(str(p) for p in path)
-        none = lambda why: Remedy(  # noqa: E731
-            self.rule, self.check.quantity, path, "none", old=str(f.raw), reason=why
-        )
+
+        def none(why: str) -> Remedy:
+            return Remedy(self.rule, self.check.quantity, path, "none", old=str(f.raw), reason=why)
+
         # which way helps: a small step either way
         steps = [1.0, -1.0] if f.whole else [f.number * 0.02, -f.number * 0.02]
         probes = []
@@ -418,9 +429,9 @@ class _Search:
         d = min(sizes) if up else max(sizes)
         final = float(_fmt(d / per_mm))
         c = self.coupled(f, final)
-        note = f"a standard size, {WIRE_TABLE}"
+        note = f"standard size, {WIRE_TABLE}"
         if c is not None:
-            note += f"; insulated diameter {c[1]}"
+            note += f"; insulated {c[1]}"
         return final, note
 
     def _finish(
@@ -559,6 +570,10 @@ def attach_remedies(
                 )
             if remedy is not None:
                 out.append(remedy)
+        if fields and not out:
+            names = ", ".join(".".join(map(str, p)) for p in fields)
+            why = f"none of its fields ({names}) moves this check on this record"
+            out.append(Remedy(f.rule, f.check.quantity, (), "none", reason=why))
         f.remedies = out
 
 

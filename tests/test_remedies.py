@@ -68,24 +68,57 @@ def apply(text: str, edits: list[dict[str, Any]]) -> str:
     return "".join(lines)
 
 
+#: Failing records: the servo as bundled (it fails on purpose), and the other two bundled
+#: records rated for more current at the same voltage (invented for the test, so that
+#: other checks fail: an induction cage, rectangular strands, a declared figure).
+CASES: dict[str, tuple[str, dict[str, str]]] = {
+    "servo": (SERVO.name, {}),
+    "pump-overrated": (
+        "pump-drive-4p36s.yaml",
+        {"power: 7.5 kW": "power: 15 kW", "line_current: 14.6 A": "line_current: 29.2 A"},
+    ),
+    "genset-overrated": (
+        "genset-4p48s.yaml",
+        {"power: 30 kVA": "power: 45 kVA", "line_current: 43.3 A": "line_current: 65 A"},
+    ),
+}
+
+
+def make_case(folder: Path, case: str) -> Path:
+    """The case's record in a copy of the demo repository at ``folder``."""
+    name, edits = CASES[case]
+    if not folder.exists():
+        shutil.copytree(DEMO, folder)
+    path = folder / "designs" / name
+    text = path.read_text(encoding="utf-8")
+    for old, new in edits.items():
+        assert text.count(old) == 1
+        text = text.replace(old, new)
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
 @cache
-def servo_run() -> str:
-    """The gate's JSON on a fresh copy of the demo (computed once for this module)."""
+def case_run(case: str) -> str:
+    """The gate's JSON on a fresh copy of the case (computed once for this module)."""
     import tempfile
 
-    folder = Path(tempfile.mkdtemp()) / "design-repo"
-    shutil.copytree(DEMO, folder)
-    return json.dumps(gate(folder / "designs" / SERVO.name))
+    return json.dumps(gate(make_case(Path(tempfile.mkdtemp()) / "design-repo", case)))
+
+
+def servo_run() -> str:
+    return case_run("servo")
 
 
 def servo_failing() -> list[dict[str, Any]]:
     return failing(json.loads(servo_run()))
 
 
-def fix_cases() -> list[tuple[str, str, str]]:
+def fix_cases() -> list[tuple[str, str, str, str, str]]:
     return [
-        (f["rule"], f["check"]["quantity"], r["field"])
-        for f in servo_failing()
+        (case, f["rule"], f["check"]["quantity"], f["check"]["bound"], r["field"])
+        for case in CASES
+        for f in failing(json.loads(case_run(case)))
         for r in f["remedies"]
         if r["status"] == "fix"
     ]
@@ -101,25 +134,36 @@ def test_every_failing_check_of_the_servo_has_a_fix() -> None:
         assert len(f["remedies"]) <= 3
 
 
-@pytest.mark.parametrize(("rule", "quantity", "field"), fix_cases())
+def test_the_cases_fail_other_checks_too() -> None:
+    quantities = {
+        f["check"]["quantity"] for case in CASES for f in failing(json.loads(case_run(case)))
+    }
+    assert {"rotor.bar_current_density", "stator.current_density"} <= quantities
+    assert len(fix_cases()) >= 15
+
+
+@pytest.mark.parametrize(("case", "rule", "quantity", "bound", "field"), fix_cases())
 def test_applying_a_remedy_at_its_line_and_column_makes_the_check_pass(
-    demo: Path, rule: str, quantity: str, field: str
+    tmp_path: Path, case: str, rule: str, quantity: str, bound: str, field: str
 ) -> None:
-    before = json.loads(servo_run())
+    before = json.loads(case_run(case))
     (finding,) = [
-        f for f in failing(before) if (f["rule"], f["check"]["quantity"]) == (rule, quantity)
+        f
+        for f in failing(before)
+        if (f["rule"], f["check"]["quantity"], f["check"]["bound"]) == (rule, quantity, bound)
     ]
     (remedy,) = [r for r in finding["remedies"] if r["field"] == field]
-    path = demo / "designs" / SERVO.name
+    path = make_case(tmp_path / "design-repo", case)
     path.write_text(apply(path.read_text(encoding="utf-8"), remedy["edits"]), encoding="utf-8")
     after = gate(path, "--remedies", "off")
     assert not [f for f in after["findings"] if f["kind"] == "input"]  # a valid value
+    record_id = finding["record_id"]
     key = check_key(rule, finding["check"])
-    now = checks(after, "servo-10p12s")
+    now = checks(after, record_id)
     assert now[key]["passed"], now[key]
     # the run agrees with what the remedy said: its value, and what it breaks
     assert now[key]["value"] == pytest.approx(remedy["value"], rel=1e-12)  # same calculation
-    was = checks(before, "servo-10p12s")
+    was = checks(before, record_id)
     broken = sorted(
         f"{k[0]}: {was[k]['label']}" for k, c in now.items() if not c["passed"] and was[k]["passed"]
     )

@@ -63,6 +63,12 @@ WIRE_DIAMETERS_MM: tuple[float, ...] = tuple(
 )
 WIRE_TABLE = "IEC 60317-0-1, from memory"
 
+#: The insulated dimension of a strand that moves with each bare one.
+_INSULATED = {
+    "bare_diameter": "insulated_diameter",
+    "width": "insulated_width",
+    "height": "insulated_height",
+}
 _NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
 
 
@@ -277,11 +283,11 @@ class _Search:
         return data, self.margin(data)
 
     def coupled(self, f: NumberField, number: float) -> tuple[NumberField, Any] | None:
-        """A round wire keeps its insulation build: the insulated diameter moves with the
-        bare one (common practice, no source)."""
-        if f.path[-1] != "bare_diameter":
+        """A strand keeps its insulation build: the insulated diameter, width or height
+        moves with the bare one (common practice, no source)."""
+        if f.path[-1] not in _INSULATED:
             return None
-        ins = NumberField.read(self.data, (*f.path[:-1], "insulated_diameter"))
+        ins = NumberField.read(self.data, (*f.path[:-1], _INSULATED[str(f.path[-1])]))
         if ins is None:
             return None
         from emgate.units import convert
@@ -317,6 +323,7 @@ class _Search:
         up = gains[0] >= gains[1]
 
         lo, lo_margin = f.number, base  # failing side
+        prev = lo
         hi: float | None = None
         k = 1
         while True:
@@ -336,7 +343,11 @@ class _Search:
                     if m_edge is not None:
                         lo, lo_margin = edge, m_edge
                 if lo != f.number and lo_margin >= 0.0:  # inside, if by less than the target
-                    return self._finish(f, lo, "the furthest valid value this way")
+                    for digits in (3, 4, 5, 6):  # rounded towards the record's value
+                        edge = lo if f.whole else _round_away(lo, not up, digits)
+                        m_edge = self.at(f, edge)[1]
+                        if m_edge is not None and m_edge >= 0.0:
+                            return self._finish(f, edge, "the furthest valid value this way")
                 return none(
                     f"within its valid range ({f.text(lo)} is as far as it goes) the check"
                     f" stays beyond its limit (margin {lo_margin:+.1%} there)"
@@ -344,12 +355,20 @@ class _Search:
             if m >= TARGET_MARGIN:
                 hi = x
                 break
-            if m < lo_margin - 1e-12:
+            if m < lo_margin - 1e-12:  # past a peak (a two-sided check): find it
+                best, best_margin = self._peak(f, prev, x)
+                if best_margin < lo_margin:
+                    best, best_margin = lo, lo_margin
+                if best_margin >= TARGET_MARGIN:
+                    lo, hi = (prev, best) if (best - lo) * (x - lo) <= 0 else (lo, best)
+                    break
+                if best_margin >= 0.0:
+                    return self._finish(f, best, "the best value this way")
                 return none(
-                    f"the check is best near {f.text(lo)} (margin {lo_margin:+.1%}),"
+                    f"the check is best near {f.text(best)} (margin {best_margin:+.1%}),"
                     " still beyond its limit"
                 )
-            lo, lo_margin = x, m
+            prev, (lo, lo_margin) = lo, (x, m)
             if factor >= MAX_FACTOR:
                 break
             k += 1
@@ -389,6 +408,37 @@ class _Search:
             else:
                 lo = mid
         return hi
+
+    def _peak(self, f: NumberField, a: float, b: float) -> tuple[float, float]:
+        """The value between ``a`` and ``b`` where the check's margin peaks, and that margin
+        (golden-section search; one peak assumed, as for a two-sided difference)."""
+        g = (math.sqrt(5.0) - 1.0) / 2.0
+        best, best_margin = a, -math.inf
+
+        def margin(x: float) -> float:
+            nonlocal best, best_margin
+            m = self.at(f, x)[1]
+            m = -math.inf if m is None else m
+            if m > best_margin:
+                best, best_margin = x, m
+            return m
+
+        lo, hi = min(a, b), max(a, b)
+        for _ in range(24):
+            if (hi - lo) <= (1.0 if f.whole else TOLERANCE * abs(hi)):
+                break
+            x1, x2 = hi - g * (hi - lo), lo + g * (hi - lo)
+            if f.whole:
+                x1, x2 = float(math.floor(x1)), float(math.ceil(x2))
+                if x1 == x2:
+                    x2 += 1.0
+            if margin(x1) >= margin(x2):
+                hi = x2
+            else:
+                lo = x1
+        for x in (lo, hi) if f.whole else ():
+            margin(x)
+        return best, best_margin
 
     def _edge(self, f: NumberField, valid: float, invalid: float) -> float:
         """The last valid value between ``valid`` and ``invalid``."""
@@ -504,16 +554,18 @@ def scalar_spans(text: str) -> dict[tuple[int, int], tuple[int, int, str]]:
 
 def drivers(check: Check, data: Any) -> list[RecordPath]:
     """The fields that drive a check and that the record writes as numbers, first three:
-    its sheet entry's declared drivers, else the check's own path."""
+    the check's own path where it is a number, then its sheet entry's declared drivers. A
+    check of a figure in the record's ``declared`` block is fixed there: the calculation
+    never reads that block, so its drivers are not what the check is about."""
     from emgate.calc.core import SHEET
 
+    own = tuple(check.path)
+    if own[:1] == ("declared",):
+        return [own] if NumberField.read(data, own) is not None else []
     entry = SHEET.get(check.quantity)
-    declared: list[RecordPath] = (
-        [tuple(d.split(".")) for d in entry.drivers] if entry is not None else []
-    )
-    if not declared:
-        declared = [tuple(check.path)]
-    return [p for p in declared if NumberField.read(data, p) is not None][:MAX_FIELDS]
+    named: list[RecordPath] = [tuple(d.split(".")) for d in entry.drivers] if entry else []
+    paths = list(dict.fromkeys([own, *named]))
+    return [p for p in paths if NumberField.read(data, p) is not None][:MAX_FIELDS]
 
 
 def attach_remedies(

@@ -69,7 +69,7 @@ class Remedy:
 
     @property
     def field_name(self) -> str:
-        return ".".join(str(p) for p in self.field)
+        return path_string(self.field).removeprefix("$.")
 
     def describe(self) -> str:
         """One line for people."""

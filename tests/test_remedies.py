@@ -404,3 +404,17 @@ def test_the_readme_shows_the_servos_remedies_as_the_gate_prints_them(
     monkeypatch.chdir(DEMO)
     out = run_cli("check", "--format", "text", Path("designs") / SERVO.name).out
     assert set(shown) <= set(out.splitlines())
+
+
+def test_a_waived_check_gets_no_remedies(demo: Path) -> None:
+    record = demo / "designs" / SERVO.name
+    record.write_text(
+        record.read_text(encoding="utf-8")
+        + "waivers:\n  - rule: current-density\n    reason: prototype frame, see test report\n"
+        "    owner: test\n    expires: 2999-01-01\n",
+        encoding="utf-8",
+    )
+    doc = gate(record)
+    (waived,) = [f for f in doc["findings"] if f["rule"] == "current-density"]
+    assert waived["waived"] and waived["remedies"] == []
+    assert all(f["remedies"] for f in failing(doc) if not f["waived"])

@@ -15,6 +15,12 @@ The suggestion is verified once more with every rule, and marked with the checks
 fail that passed before. A field that moves the check but cannot bring it inside its limit
 within its valid range says so.
 
+The drivers are declared, not traced: a trace of what a quantity reads through ``c.d``
+lists every input (stacking factor, steel grade, ambient, slot opening), where a designer
+asks for the few fields they would change; ``tests/test_remedies.py`` holds each declared
+driver to the calculation (it moves its quantity on a bundled record), and the search skips
+a declared field that does not move the check on the record at hand.
+
 Other front ends use :func:`remedies_for`: each :class:`Remedy` carries its :class:`Edit`
 s, the text to replace and where (1-based line and column, end exclusive, as SARIF counts;
 :meth:`Edit.lsp_range` gives the 0-based range a language server wants).

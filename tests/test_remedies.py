@@ -418,3 +418,25 @@ def test_a_waived_check_gets_no_remedies(demo: Path) -> None:
     (waived,) = [f for f in doc["findings"] if f["rule"] == "current-density"]
     assert waived["waived"] and waived["remedies"] == []
     assert all(f["remedies"] for f in failing(doc) if not f["waived"])
+
+
+def test_the_sheet_finds_a_checks_remedies_from_its_outcome() -> None:
+    # The HTML sheet reads checks from the records' outcomes, not findings.
+    from emgate.config import find_config, load_policy
+    from emgate.engine import Run, execute
+    from emgate.plugins import load_plugins
+    from emgate.remedies import remedies_for, remedies_for_check
+
+    plugins = load_plugins()
+    rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
+    installed = {p.distribution: p.version for p in plugins.packs}
+    policy = load_policy(find_config(DEMO), rules, DEMO, installed)
+    result = execute(Run(paths=[SERVO], policy=policy, plugins=plugins))
+    (record,) = result.records
+    failing_checks = [c for o in record.outcomes for c in o.checks if not c.passed]
+    assert failing_checks
+    for c in failing_checks:
+        (finding,) = [f for f in result.findings if f.check is c]
+        assert remedies_for_check(result, c) == remedies_for(finding) != []
+    passing = next(c for o in record.outcomes for c in o.checks if c.passed)
+    assert remedies_for_check(result, passing) == []

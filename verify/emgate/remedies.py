@@ -39,7 +39,7 @@ from emgate.terms import RecordPath
 
 if TYPE_CHECKING:
     from emgate.config import RulePolicy
-    from emgate.findings import Finding
+    from emgate.findings import Finding, RunResult
     from emgate.loader import Document
     from emgate.materials import Catalogue
     from emgate.model import AnyDesign
@@ -82,6 +82,13 @@ def remedies_for(finding: Finding) -> list[Remedy]:
     """The remedies of a finding (empty unless it is a failing check and the run computed
     remedies): the one call the HTML sheet and the language server need."""
     return list(finding.remedies)
+
+
+def remedies_for_check(result: RunResult, check: Check) -> list[Remedy]:
+    """The remedies of a check of a rule's outcome (``RecordResult.outcomes[i].checks``), as
+    the HTML sheet reads checks: those of the finding that reports it (empty for a passing
+    or waived check)."""
+    return next((list(f.remedies) for f in result.findings if f.check is check), [])
 
 
 def summary(remedies: Iterable[Remedy]) -> str:

@@ -387,8 +387,9 @@ class _Search:
             k += 1
         if hi is None:
             return none(
-                f"even at {f.text(lo)} ({MAX_FACTOR:g} times or less) the check stays beyond"
-                f" its limit (margin {lo_margin:+.1%})"
+                f"moved as far as {f.text(lo)} (the search stops at {MAX_FACTOR:g} times or"
+                f" 1/{MAX_FACTOR:g} of its value) the check stays beyond its limit (margin"
+                f" {lo_margin:+.1%})"
             )
         x = self._bisect(f, lo, hi)
         note = ""

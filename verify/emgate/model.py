@@ -364,6 +364,29 @@ UNION_TAGS = frozenset({*MACHINE_KINDS, "semi_closed", "open", "round", "rectang
 # --- materials file ---------------------------------------------------------------------
 
 
+class LossCurveTable(Strict):
+    """Specific loss against peak flux density at one frequency."""
+
+    frequency: Frequency
+    points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
+        min_length=2, max_length=200, description="(B, loss) pairs, B increasing"
+    )
+
+
+class LossTable(Strict):
+    """Measured specific iron loss of a steel (sinusoidal flux, Epstein or single sheet)."""
+
+    source: Annotated[str, StringConstraints(min_length=3)] = Field(
+        description="where the losses come from (supplier datasheet, measurement report)"
+    )
+    columns: Annotated[list[str], Field(min_length=2, max_length=2)] = Field(
+        description="units of the two columns, e.g. ['T', 'W/kg']"
+    )
+    curves: list[LossCurveTable] = Field(
+        min_length=1, max_length=20, description="one curve per frequency"
+    )
+
+
 class SteelTable(Strict):
     """A steel grade given as a B-H table."""
 
@@ -376,6 +399,11 @@ class SteelTable(Strict):
     )
     points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
         min_length=3, max_length=500, description="(B, H) pairs from (0, 0), increasing"
+    )
+    losses: LossTable | None = Field(
+        default=None,
+        description="specific loss against B at one or more frequencies; when given it wins"
+        " over the scaling from a grade designation",
     )
 
 

@@ -214,7 +214,7 @@ def test_text_output_grouped_by_file_with_summary_and_disclaimer(
     block = result.out.split("b-servo.yaml\n", 1)[1].split("\n\n", 1)[0].splitlines()
     # one line per finding: file:line:col, severity, rule id, message
     assert block and all(
-        re.match(r"  b-servo\.yaml:\d+:\d+: error [a-z-]+: ", entry) for entry in block
+        re.match(r"  b-servo\.yaml:\d+:\d+: (error|warning) [a-z-]+: ", entry) for entry in block
     )
     summary = next(line for line in lines if line.startswith("INVALID INPUT:"))
     assert re.search(r"1 record\(s\) checked.*\d+ error\(s\)", summary)

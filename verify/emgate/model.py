@@ -204,6 +204,24 @@ class Cooling(Strict):
     )
 
 
+class MeasuredLosses(Strict):
+    """Losses the team has measured (or otherwise established) that replace emgate's
+    estimate of the same loss."""
+
+    stray_load: Power | None = Field(
+        default=None,
+        description="additional load losses measured by IEC 60034-2-1 (otherwise its assigned"
+        " allowance)",
+    )
+    friction_windage: Power | None = Field(
+        default=None, description="friction and windage, measured (otherwise an estimate)"
+    )
+    magnet_eddy: Power | None = Field(
+        default=None,
+        description="surface-magnet eddy loss (otherwise an estimate from the MMF harmonics)",
+    )
+
+
 class Waiver(Strict):
     rule: str
     path: str | None = Field(
@@ -300,6 +318,11 @@ class FieldCoil(Strict):
     turns_per_pole: int = Field(ge=1, le=100000)
     current: Current
     conductor: Conductor
+    brushes: Literal["none", "carbon", "metal_carbon"] = Field(
+        default="none",
+        description="field fed through slip rings and two brushes of this kind (their drop"
+        " counts as rotor loss), or 'none' for a brushless exciter",
+    )
 
 
 class SalientRotor(Strict):
@@ -324,6 +347,11 @@ class DesignBase(Strict):
     )
     winding: Winding
     cooling: Cooling
+    losses: MeasuredLosses | None = Field(
+        default=None,
+        description="measured losses that replace emgate's estimates (stray load, friction"
+        " and windage, magnet eddy loss)",
+    )
     declared: dict[str, str | float] = Field(
         default_factory=dict,
         description="the designer's own figures, by emgate quantity name, for the"

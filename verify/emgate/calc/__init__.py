@@ -10,7 +10,8 @@ One module a domain, so that a newcomer finds each where it belongs:
 | ``conductors`` | slots and fill, current density, loading, turn length, resistance, copper loss |
 | ``magnetic`` | steels, Carter's coefficient, the magnetic circuit, tooth and yoke flux densities |
 | ``rotor`` | cage bars and rings, field coils, magnet working points and coercivity |
-| ``thermal`` | the lumped winding-temperature estimate |
+| ``losses`` | the loss budget, energy balance, efficiency and IEC 60034-30-1 class |
+| ``thermal`` | the lumped thermal estimate fed by every loss, at a self-consistent temperature |
 
 Each quantity calls the physics kernel (``emgate.physics``) with inputs taken from the
 validated record. Rules share one computation of a quantity, not one another's verdicts.
@@ -18,13 +19,13 @@ validated record. Rules share one computation of a quantity, not one another's v
 
 from __future__ import annotations
 
-from emgate.calc import conductors, magnetic, rotor, thermal, winding
+from emgate.calc import conductors, losses, magnetic, rotor, thermal, winding
 from emgate.calc.conductors import conductor_strand_area, slot_winding_area
 from emgate.calc.core import PROVIDERS, SHEET, Calculation
 from emgate.calc.names import Entry
 from emgate.calc.winding import layout_from_table
 
-DOMAINS = (winding, conductors, magnetic, rotor, thermal)
+DOMAINS = (winding, conductors, magnetic, rotor, losses, thermal)
 
 __all__ = [
     "DOMAINS",

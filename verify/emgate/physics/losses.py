@@ -408,3 +408,80 @@ def input_power_with_allowance(
     """
     share = stray_load_allowance(1.0, rated_output)
     return (output_power + other_losses) / (1.0 - share)
+
+
+# --- travelling waves of the stator MMF ------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class TravellingWaves:
+    """The stator MMF as travelling waves (peak ampere-turns per order and direction).
+
+    Parameters
+    ----------
+    orders : numpy.ndarray
+        Mechanical orders ``n`` [-].
+    amplitudes : numpy.ndarray
+        Peak ``F_n`` [A].
+    directions : numpy.ndarray
+        +1 with the working wave (order p), -1 against it.
+    """
+
+    orders: np.ndarray
+    amplitudes: np.ndarray
+    directions: np.ndarray
+
+
+def mmf_travelling_waves(
+    layout: np.ndarray, turns_per_coil: float, current_rms: float, pole_pairs: int, max_order: int
+) -> TravellingWaves:
+    """Split the staircase MMF of balanced sinusoidal currents into travelling waves.
+
+    With slot ampere-conductors ``a_s(t) = Re{A_s e^(j w t)}``, ``A_s = a_s(0) - j a_s(T/4)``,
+    the order-n phasor sum ``X_n(t) = sum_s a_s(t) e^(j n theta_s)`` is ``(P_n e^(j w t) +
+    Q_n e^(-j w t)) / 2`` with ``P_n = sum A_s e^(j n theta_s)`` and ``Q_n`` the same with
+    conj(A_s): two waves of peak ``|P_n| / (2 pi n)`` and ``|Q_n| / (2 pi n)`` travelling in
+    opposite directions. The one that carries the working order p sets the forward sense.
+
+    Parameters
+    ----------
+    layout : numpy.ndarray
+        Shape (m, Q).
+    turns_per_coil : float
+    current_rms : float
+        Conductor current, rms [A] (phase current over parallel paths).
+    pole_pairs : int
+    max_order : int
+        Highest mechanical order kept.
+
+    Returns
+    -------
+    TravellingWaves
+        Both directions of every order 1..max_order with a non-zero amplitude.
+
+    References
+    ----------
+    Slot phasor sums [Skaar, Kroevel, Nilssen, ICEM 2006]; the split into two travelling
+    waves [calc].
+    """
+    from emgate.physics.mmf import balanced_currents, slot_ampere_conductors
+    from emgate.physics.winding import harmonic_phasors
+
+    m = np.asarray(layout).shape[0]
+    a0 = slot_ampere_conductors(layout, turns_per_coil, balanced_currents(m, current_rms, 0.0))
+    a1 = slot_ampere_conductors(
+        layout, turns_per_coil, balanced_currents(m, current_rms, 0.5 * math.pi)
+    )
+    n = np.arange(1, int(max_order) + 1)
+    p_n = harmonic_phasors(a0, n) - 1j * harmonic_phasors(a1, n)
+    q_n = harmonic_phasors(a0, n) + 1j * harmonic_phasors(a1, n)
+    amp_p = np.abs(p_n) / (2.0 * math.pi * n)
+    amp_q = np.abs(q_n) / (2.0 * math.pi * n)
+    p_forward = amp_p[pole_pairs - 1] >= amp_q[pole_pairs - 1]
+    orders = np.concatenate((n, n))
+    amps = np.concatenate((amp_p, amp_q))
+    dirs = np.concatenate((np.ones(n.size), -np.ones(n.size)))
+    if not p_forward:
+        dirs = -dirs
+    keep = amps > 1e-12 * max(float(amps.max()), 1e-300)
+    return TravellingWaves(orders[keep], amps[keep], dirs[keep].astype(int))

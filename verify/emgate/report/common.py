@@ -72,6 +72,8 @@ def si_unit(unit: str) -> str:
 
     if unit in ("", "1"):
         return "1"
+    if unit == "degC":  # a display unit of absolute temperature: SI kelvin
+        return "K"
     dims = parse_unit(unit)[1]
     if dims in _NAMED_SI:
         return _NAMED_SI[dims]

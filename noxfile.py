@@ -21,9 +21,11 @@ def tests(session: nox.Session) -> None:
 
 @nox.session
 def lint(session: nox.Session) -> None:
-    session.install("ruff>=0.6")
+    """ruff (check and format) and mypy, as configured in pyproject.toml (verify/ and rules/)."""
+    session.install("-e", ".[lint]")  # mypy needs emgate's dependencies for their types
     session.run("ruff", "check", "verify", "rules", "tests", "examples", "noxfile.py")
     session.run("ruff", "format", "--check", "verify", "rules", "tests", "noxfile.py")
+    session.run("mypy")
 
 
 @nox.session

@@ -9,9 +9,20 @@ from typing import Any
 
 import pytest
 
-from conftest import DELETE, GENSET, PUMP, SERVO, run_cli
+from conftest import (
+    DELETE,
+    GENSET,
+    PUMP,
+    SERVO,
+    calculation,
+    check_json,
+    findings,
+    run_cli,
+    sheet,
+    variant,
+    write_config,
+)
 from emgate.physics.efficiency_classes import nominal_efficiency
-from test_sheet import check_json, findings, sheet, variant, write_config
 
 DEMOS = {"pump": PUMP, "servo": SERVO, "genset": GENSET}
 LOSSES = (
@@ -95,7 +106,6 @@ def test_the_fixed_point_resistance_follows_iec_60028() -> None:
 def test_all_losses_warm_the_winding_more_than_copper_alone() -> None:
     from emgate.calc import thermal
     from emgate.physics import thermal as th
-    from test_review_fixes import calculation
 
     c = calculation(PUMP)
     op = thermal.operating_point(c)

@@ -11,6 +11,7 @@ a hostile message and file names; the demo repository is also run through the en
 from __future__ import annotations
 
 import json
+import math
 import re
 import subprocess
 import sys
@@ -20,15 +21,20 @@ from typing import Any, Literal
 from urllib.parse import unquote
 
 import jsonschema
+import pint
 import pytest
 
+from conftest import DEMO, PUMP, check_json, run_cli, the_check, variant
 from emgate import __version__
+from emgate.calc import SHEET
 from emgate.findings import DISCLAIMER, Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
 from emgate.report import FORMATS, reporter
 from emgate.report.annotations import escape_data, escape_property
 from emgate.report.common import printable
 from emgate.rule import Check
 
+UREG = pint.UnitRegistry()
+SQRT3 = math.sqrt(3.0)
 REPO = Path(__file__).resolve().parents[1]
 SARIF_SCHEMA = REPO / "tests" / "data" / "sarif" / "sarif-schema-2.1.0.json"
 
@@ -657,3 +663,94 @@ def test_markdown_demo(demo: RunResult) -> None:
     failing = {(f.record_id, f.rule) for f in demo.active("error")}
     assert {(r[0], r[1]) for r in rows if r[2] == "fail"} == failing
     assert all(r[6].startswith("-") for r in rows if (r[0], r[1]) in failing)
+
+
+# --- JSON checks: SI unit and a display text ------------------------------------------------------
+
+
+DISPLAY = re.compile(r"^(\S+)(?: (\S+))? (<=|>=) (\S+)(?: (\S+))?$")
+
+
+def _display_si(number: str, unit: str | None) -> float:
+    return float(number) if unit is None else UREG.Quantity(float(number), unit).to_base_units().m
+
+
+def test_every_demo_check_gives_si_values_in_its_si_unit_and_a_display() -> None:
+    result = run_cli("check", "--format", "json", DEMO)
+    checks = [c for r in result.json()["records"] for o in r["outcomes"] for c in o["checks"]]
+    assert len(checks) > 30
+    for c in checks:
+        match = DISPLAY.match(c["display"])
+        assert match, c["display"]
+        value, vunit, bound, limit, lunit = match.groups()
+        assert bound == ("<=" if c["bound"] == "max" else ">=")
+        assert vunit == lunit
+        # pint, not emgate, converts the display unit; the SI unit has the same dimension
+        # and factor 1 from base units. Four significant figures shown: 5e-4 relative.
+        si = UREG.Quantity(1.0, c["unit"] if c["unit"] != "1" else "")
+        assert si.to_base_units().m == pytest.approx(1.0, rel=1e-12), c["unit"]
+        if vunit is not None:
+            assert UREG.Quantity(1.0, vunit).dimensionality == si.dimensionality, c
+        assert _display_si(value, vunit) == pytest.approx(c["value"], rel=5e-4, abs=1e-12)
+        assert _display_si(limit, lunit) == pytest.approx(c["limit"], rel=5e-4, abs=1e-12)
+
+
+def test_the_current_density_check_reads_as_the_brief_shows() -> None:
+    c = the_check(check_json(PUMP), "current-density", "stator.current_density")
+    assert c["unit"] == "A/m^2"
+    # [calc] 14.6 A delta: I_ph = 14.6 / sqrt 3, two strands of 0.90 mm; limit 8 A/mm^2 from
+    # the demo team's emgate.yaml (the demo's own data).
+    j = 14.6 / SQRT3 / (2 * math.pi / 4 * 0.90**2)
+    assert c["display"] == f"{j:.4g} A/mm^2 <= 8 A/mm^2"
+
+
+def test_the_sheet_and_the_checks_share_one_si_unit_function() -> None:
+    from emgate import sheet as sheet_module
+    from emgate import units
+    from emgate.report import jsonfmt
+
+    assert sheet_module.si_unit is units.si_unit and jsonfmt.si_unit is units.si_unit
+    for entry in SHEET.values():  # pint judges each SI unit against the display unit
+        si, shown = units.si_unit(entry.unit), entry.unit
+        if si == "1":
+            assert shown in ("1", "%"), entry.name  # a ratio, shown as such or in percent
+            continue
+        factor = UREG.Quantity(1.0, si).to_base_units().m
+        assert factor == pytest.approx(1.0, rel=1e-12), entry.name  # an SI unit: no prefix
+        assert UREG.Quantity(1.0, si).dimensionality == UREG.Quantity(1.0, shown).dimensionality
+
+
+# --- the margins line of the text report ----------------------------------------------------------
+
+
+def test_a_passing_run_shows_each_records_closest_margin(repo: Path) -> None:
+    path = variant(repo, {})
+    text = run_cli("check", path)
+    assert text.code == 0
+    result = check_json(path)
+    (record,) = result.json()["records"]
+    checks = [(o["rule"], c) for o in record["outcomes"] for c in o["checks"]]
+
+    # The smallest margin, recomputed here from value and limit: (limit - value) / limit for
+    # an upper bound, (value - limit) / limit for a lower one [calc].
+    def margin(c: dict[str, Any]) -> float:
+        rel = (c["limit"] - c["value"]) / abs(c["limit"])
+        return rel if c["bound"] == "max" else -rel
+
+    rule, c = min(checks, key=lambda rc: margin(rc[1]))
+    line = next(ln for ln in text.out.splitlines() if ln.startswith("pump-drive-4p36s: "))
+    assert line.startswith(f"pump-drive-4p36s: {len(checks)} checks; closest to a limit: {rule}")
+    assert c["label"] in line
+    assert line.endswith(f"({margin(c) * 100:+.1f} %)")
+    assert text.out.index(line) < text.out.index("PASS:")  # before the verdict
+
+
+def test_the_margins_lines_follow_the_findings() -> None:
+    out = run_cli("check", DEMO).out
+    lines = out.splitlines()
+    ids = ["genset-4p48s", "pump-drive-4p36s", "servo-10p12s"]
+    at = [next(i for i, ln in enumerate(lines) if ln.startswith(f"{rid}: ")) for rid in ids]
+    last_finding = max(i for i, ln in enumerate(lines) if ln.startswith("  "))
+    assert at == sorted(at) and at[0] > last_finding  # one line per record, after findings
+    # The failing servo's closest check is beyond its limit: a negative margin.
+    assert re.search(r"\(-\d+\.\d %\)$", lines[at[2]])

@@ -2,8 +2,7 @@
 
 from __future__ import annotations
 
-from emgate.hookspecs import hookimpl
-from emgate.rule import Rule
+from emgate.api import Rule, hookimpl
 
 
 @hookimpl

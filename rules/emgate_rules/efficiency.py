@@ -7,10 +7,19 @@ from typing import Literal
 
 from pydantic import Field
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio
-from emgate_rules._winding import unless_unbalanced
+from emgate.api import (
+    AnyDesign,
+    Check,
+    Context,
+    Limit,
+    Options,
+    Problem,
+    Ratio,
+    Rule,
+    efficiency_scope,
+    loss_reference_temperature,
+    nominal_efficiency,
+)
 
 
 class EfficiencyOptions(Options):
@@ -23,7 +32,7 @@ class EfficiencyOptions(Options):
     )
 
 
-class Efficiency(Rule):
+class Efficiency(Rule[EfficiencyOptions]):
     """Rated efficiency from the recomputed loss budget, against the team's minimum and an
     IEC 60034-30-1 class.
 
@@ -73,40 +82,29 @@ class Efficiency(Rule):
     id = "efficiency"
     summary = "rated efficiency at least the team's minimum and IEC 60034-30-1 class"
     tags = ("efficiency",)
-    options = EfficiencyOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: EfficiencyOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        from emgate.calc.conductors import class_reference_temperature
-        from emgate.calc.losses import class_scope
-        from emgate.physics.efficiency_classes import nominal_efficiency
-
-        assert isinstance(options, EfficiencyOptions)
-        calc = context.calc
-        eta = calc.value("rating.efficiency")
-        t_ref = class_reference_temperature(calc) - 273.15
+        t_ref = loss_reference_temperature(design.winding.insulation_class) - 273.15
         basis_t = (
             f"copper at {t_ref:.0f} degC, the reference temperature of class"
             f" {design.winding.insulation_class} (IEC 60034-2-1)"
         )
         if options.minimum is not None:
-            yield Check(
+            yield context.check(
                 "rating.efficiency",
-                "rated efficiency from the recomputed losses",
-                ("rating", "power"),
-                eta,
-                options.minimum,
+                Limit(options.minimum, f"the team's minimum (emgate.yaml); {basis_t}"),
                 "min",
-                "%",
-                f"the team's minimum (emgate.yaml); {basis_t}",
+                path=("rating", "power"),
+                label="rated efficiency from the recomputed losses",
             )
         if options.minimum_class is None:
             return
         if design.machine != "induction" or design.rating.operation != "motor":
             return  # the classes are for motors of that kind (docstring)
-        reason = class_scope(calc)
+        r = design.rating
+        reason = efficiency_scope(r.power, design.poles, r.frequency)
         if reason is not None:
             yield Problem(
                 ("rating", "power"),
@@ -115,18 +113,17 @@ class Efficiency(Rule):
                 severity="info",
             )
             return
-        r = design.rating
         floor = nominal_efficiency(options.minimum_class, r.power, design.poles, r.frequency)
-        yield Check(
+        yield context.check(
             "rating.efficiency",
-            f"rated efficiency against {options.minimum_class}",
-            ("rating", "power"),
-            eta,
-            floor,
+            Limit(
+                floor,
+                f"IEC 60034-30-1 {options.minimum_class} at {r.power / 1e3:g} kW,"
+                f" {design.poles} poles, {r.frequency:g} Hz (table from memory, verify against"
+                " the standard); the standard's efficiency is at the reference temperature"
+                f" of the insulation class: {basis_t}",
+            ),
             "min",
-            "%",
-            f"IEC 60034-30-1 {options.minimum_class} at {r.power / 1e3:g} kW,"
-            f" {design.poles} poles, {r.frequency:g} Hz (table from memory, verify against"
-            f" the standard); the standard's efficiency is at the reference temperature of"
-            f" the insulation class: {basis_t}",
+            path=("rating", "power"),
+            label=f"rated efficiency against {options.minimum_class}",
         )

@@ -4,22 +4,18 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, basis, limit
-from emgate_rules._winding import UNBALANCED, winding_path
+from emgate.api import AnyDesign, Check, Context, Options, Problem, Ratio, Rule, limit
 
-SOURCE = "common practice, no source"
-DEFAULTS = {"induction": 0.2, "surface_pm": 1.2, "salient_field": 0.2}
+CP = "common practice, no source"
 
 
 class MmfThdOptions(Options):
-    induction: Ratio = limit(DEFAULTS["induction"], SOURCE)
-    surface_pm: Ratio = limit(DEFAULTS["surface_pm"], SOURCE)
-    salient_field: Ratio = limit(DEFAULTS["salient_field"], SOURCE)
+    induction: Ratio = limit(0.2, "1", CP)
+    surface_pm: Ratio = limit(1.2, "1", CP)
+    salient_field: Ratio = limit(0.2, "1", CP)
 
 
-class MmfThd(Rule):
+class MmfThd(Rule[MmfThdOptions]):
     """Total harmonic distortion of the stator MMF, sub-harmonics included.
 
     Method: the winding-function staircase MMF of the slot layout (conductors concentrated at
@@ -41,24 +37,15 @@ class MmfThd(Rule):
     id = "mmf-thd"
     summary = "MMF harmonic distortion of the winding within the limit"
     tags = ("winding",)
-    options = MmfThdOptions
+    needs_balanced_winding = True
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: MmfThdOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        if context.calc.winding_problems:
-            yield Problem(
-                winding_path(design), f"MMF THD not computed: {UNBALANCED}", severity="info"
-            )
-            return
-        kind = design.machine
-        yield Check(
+        yield context.check(
             "winding.mmf_thd",
-            "MMF THD",
-            ("winding", "coil_pitch"),
-            context.calc.mmf_thd,
-            getattr(options, kind),
+            options.limit_for(design.machine),
             "max",
-            "",
-            basis(options, kind, DEFAULTS[kind], SOURCE),
+            path=("winding", "coil_pitch"),
+            label="MMF THD",
         )

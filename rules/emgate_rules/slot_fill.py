@@ -5,26 +5,21 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.physics.conductors import OPENING_CLEARANCE
-from emgate.quantity import quantity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, basis, limit
+from emgate.api import AnyDesign, Check, Context, Options, Problem, Ratio, Rule, limit, quantity
 
-SOURCE = "common practice, no source"
-DEFAULTS = {"random_wound": 0.45, "tooth_coil": 0.65, "form_wound": 0.65}
-#: Free width a form-wound strand needs across the slot beyond itself and two liners [m]:
-#: none, it must merely fit (common practice, no source).
-WIDTH_CLEARANCE = 0.0
+CP = "common practice, no source"
 Clearance = quantity("length", sign="non_negative")
 
 
 class SlotFillOptions(Options):
-    random_wound: Ratio = limit(DEFAULTS["random_wound"], SOURCE, le=0.91)
-    tooth_coil: Ratio = limit(DEFAULTS["tooth_coil"], SOURCE, le=0.91)
-    form_wound: Ratio = limit(DEFAULTS["form_wound"], SOURCE, le=1.0)
-    opening_clearance: Clearance = limit(OPENING_CLEARANCE, SOURCE)
-    width_clearance: Clearance = limit(WIDTH_CLEARANCE, SOURCE)
+    random_wound: Ratio = limit(0.45, "1", CP, le=0.91)
+    tooth_coil: Ratio = limit(0.65, "1", CP, le=0.91)
+    form_wound: Ratio = limit(0.65, "1", CP, le=1.0)
+    #: Free width a round strand fed through the opening needs beyond its own diameter.
+    opening_clearance: Clearance = limit(0.2, "mm", CP)
+    #: Free width a form-wound strand needs across the slot beyond itself and two liners:
+    #: none, it must merely fit.
+    width_clearance: Clearance = limit(0.0, "mm", CP)
 
 
 def winding_type(design: AnyDesign) -> str:
@@ -33,7 +28,7 @@ def winding_type(design: AnyDesign) -> str:
     return "tooth_coil" if design.winding.coil_pitch == 1 else "random_wound"
 
 
-class SlotFill(Rule):
+class SlotFill(Rule[SlotFillOptions]):
     """Bare copper over slot area, by winding type; round wire through the opening; form-wound
     strands across the slot.
 
@@ -56,43 +51,31 @@ class SlotFill(Rule):
     id = "slot-fill"
     summary = "slot fill within the limit for the winding type; the wire fits the slot"
     tags = ("electrical", "manufacturing")
-    options = SlotFillOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: SlotFillOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, SlotFillOptions)
         kind = winding_type(design)
-        yield Check(
+        yield context.check(
             "stator.slot_fill",
-            f"slot fill ({kind.replace('_', '-')})",
-            ("winding", "turns_per_coil"),
-            context.calc.slot_fill,
-            getattr(options, kind),
+            options.limit_for(kind),
             "max",
-            "",
-            basis(options, kind, DEFAULTS[kind], SOURCE),
+            path=("winding", "turns_per_coil"),
+            label=f"slot fill ({kind.replace('_', '-')})",
         )
-        c, slot = design.winding.conductor, design.stator.slot
-        if c.shape == "round" and slot.shape == "semi_closed":
-            yield Check(
+        if "stator.opening_clearance" in context.sheet:  # round wire, semi-closed slot
+            yield context.check(
                 "stator.opening_clearance",
-                "slot opening less insulated strand",
-                ("stator", "slot", "opening"),
-                slot.opening - c.insulated_diameter,
-                options.opening_clearance,
+                options.limit_for("opening_clearance"),
                 "min",
-                "mm",
-                basis(options, "opening_clearance", OPENING_CLEARANCE, SOURCE),
+                path=("stator", "slot", "opening"),
+                label="slot opening less insulated strand",
             )
-        if c.shape == "rectangular" and slot.shape == "open":
-            yield Check(
+        if "stator.slot_width_clearance" in context.sheet:  # rectangular strands, open slot
+            yield context.check(
                 "stator.slot_width_clearance",
-                "slot width less insulated strand width and two liners",
-                ("stator", "slot", "width"),
-                slot.width - (c.insulated_width + 2.0 * context.calc.liner),
-                options.width_clearance,
+                options.limit_for("width_clearance"),
                 "min",
-                "mm",
-                basis(options, "width_clearance", WIDTH_CLEARANCE, SOURCE),
+                path=("stator", "slot", "width"),
+                label="slot width less insulated strand width and two liners",
             )

@@ -6,10 +6,19 @@ from collections.abc import Iterable
 
 from pydantic import Field
 
-from emgate.model import AnyDesign
-from emgate.quantity import quantity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._winding import unless_unbalanced
+from emgate.api import (
+    AnyDesign,
+    Check,
+    Context,
+    Limit,
+    NotComputed,
+    Options,
+    Problem,
+    Rule,
+    quantity,
+    rise_limit_allowance,
+    temperature_rise_limit,
+)
 
 Reserve = quantity("temperature_difference", sign="non_negative")
 #: Coolant temperature the IEC 60034-1 rise limits are tabulated for [K] (40 degC).
@@ -22,7 +31,7 @@ class TemperatureRiseOptions(Options):
     reserve: Reserve = Field(default=0.0, description="K kept below the class limit")
 
 
-class TemperatureRise(Rule):
+class TemperatureRise(Rule[TemperatureRiseOptions]):
     """Lumped estimate of the winding temperature rise against the insulation class limit.
 
     An ESTIMATE, to be confirmed by a heat run or a thermal network model of the real frame.
@@ -67,15 +76,10 @@ class TemperatureRise(Rule):
     id = "temperature-rise"
     summary = "estimated winding temperature rise within the insulation class limit"
     tags = ("thermal",)
-    options = TemperatureRiseOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: TemperatureRiseOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        from emgate.physics.conductors import temperature_rise_limit
-
-        assert isinstance(options, TemperatureRiseOptions)
         letter = design.winding.insulation_class
         try:
             class_limit = temperature_rise_limit(letter)
@@ -88,20 +92,15 @@ class TemperatureRise(Rule):
                 severity="warning",
             )
             return
-        from emgate.calc.thermal import operating_point
-        from emgate.physics.thermal import rise_limit_allowance
-
-        op = operating_point(context.calc)
-        if op.runaway or op.estimate is None:
-            yield Problem(
-                ("cooling", "method"),
-                "thermal run-away: the copper loss grows with the winding temperature faster"
-                " than the cooling sheds it; no steady temperature exists (estimate)",
-                severity="error",
-            )
+        sheet = context.sheet
+        try:
+            rise = sheet["winding.temperature_rise"]
+        except NotComputed:
+            raise
+        except ValueError as exc:  # a thermal run-away: no steady temperature exists
+            yield Problem(("cooling", "method"), f"{exc} (estimate)", severity="error")
             return
-        estimate = op.estimate
-        worst = max(estimate.steps, key=lambda s: s.rise)
+        worst = max(sheet.thermal_steps, key=lambda s: s.rise)
         method = design.cooling.method
         excess = max(0.0, design.cooling.ambient - TABLE_COOLANT)
         fanless = method == "enclosed_natural" or design.cooling.code == "IC410"
@@ -118,25 +117,23 @@ class TemperatureRise(Rule):
             basis += f", less the coolant's {excess:.3g} K above 40 degC"
         if options.reserve:
             basis += f", less a {options.reserve:g} K reserve"
-        yield Check(
+        yield context.check(
             "winding.temperature_rise",
-            f"estimated winding temperature rise, all losses, copper at"
-            f" {estimate.winding_temperature - 273.15:.0f} degC (largest step: {worst.name},"
-            f" {worst.rise:.0f} K; an estimate to be confirmed by test)",
-            ("cooling", "method"),
-            estimate.winding_rise,
-            class_limit + allowance - excess - options.reserve,
+            Limit(class_limit + allowance - excess - options.reserve, basis),
             "max",
-            "K",
-            basis,
+            path=("cooling", "method"),
+            label="estimated winding temperature rise, all losses, copper at"
+            f" {rise + design.cooling.ambient - 273.15:.0f} degC (largest step: {worst.name},"
+            f" {worst.rise:.0f} K; an estimate to be confirmed by test)",
         )
-        if design.machine == "surface_pm" and estimate.rotor_temperature is not None:
+        if design.machine == "surface_pm":
+            rotor = sheet["rotor.temperature"]
             declared = design.rotor.magnet.operating_temperature
-            if declared < estimate.rotor_temperature:
+            if declared < rotor:  # NaN (not estimated) compares False
                 yield Problem(
                     ("rotor", "magnet", "operating_temperature"),
                     f"declared magnet temperature {declared - 273.15:.0f} degC is below the"
-                    f" estimated rotor temperature {estimate.rotor_temperature - 273.15:.0f}"
-                    " degC (rotor.temperature): the magnet checks were made too cold",
+                    f" estimated rotor temperature {rotor - 273.15:.0f} degC"
+                    " (rotor.temperature): the magnet checks were made too cold",
                     severity="warning",
                 )

@@ -14,6 +14,7 @@ from pathlib import Path
 
 from emgate import __version__
 from emgate.report import FORMATS
+from emgate.schemas import SCHEMA_KINDS
 from emgate.terms import EXIT_CRASH, EXIT_INPUT, EXIT_OK
 
 
@@ -86,24 +87,6 @@ def _parser() -> argparse.ArgumentParser:
     return p
 
 
-SCHEMA_KINDS = ("design", "materials", "waivers", "config")
-
-
-def schema_text(kind: str) -> str:
-    """The JSON Schema of a record kind, as committed under schemas/."""
-    import json
-
-    if kind == "config":
-        from emgate.config import config_json_schema
-
-        schema = config_json_schema()
-    else:
-        from emgate.model import json_schema
-
-        schema = json_schema(kind)
-    return json.dumps(schema, indent=2, sort_keys=True) + "\n"
-
-
 def main(argv: list[str] | None = None) -> int:
     args = _parser().parse_args(argv)
     try:
@@ -126,6 +109,8 @@ def main(argv: list[str] | None = None) -> int:
 
 def _dispatch(args: argparse.Namespace) -> int:
     if args.command == "schema":
+        from emgate.schemas import schema_text
+
         if args.write:
             from emgate.atomic import write_atomic
 
@@ -159,8 +144,10 @@ def _dispatch(args: argparse.Namespace) -> int:
 
 
 def _plugin_errors(plugins) -> int:  # type: ignore[no-untyped-def]
-    for err in plugins.errors:
+    for err in [*plugins.errors, *plugins.crashes]:
         print(f"emgate: {err}", file=sys.stderr)
+    if plugins.crashes:
+        return EXIT_CRASH
     return EXIT_INPUT if plugins.errors else EXIT_OK
 
 

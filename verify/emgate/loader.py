@@ -137,7 +137,7 @@ class _Builder:
                 path,
             )
         tag = getattr(event, "tag", None)
-        implicit = getattr(event, "implicit", True)
+        implicit: Any = getattr(event, "implicit", True)
         explicit_tag = tag not in _PLAIN_TAGS and not (
             isinstance(event, yaml.ScalarEvent) and implicit[0]
         )

@@ -11,8 +11,8 @@ from typing import Any
 from emgate import __version__
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import DISCLAIMER
-from emgate.report.common import si_unit as _si_unit
 from emgate.terms import DESIGN_SCHEMA, EXIT_INPUT, EXIT_OK
+from emgate.units import si_unit
 
 
 def sheet_values(
@@ -72,7 +72,7 @@ def show(path: Path, fmt: str) -> int:
             "quantities": {
                 name: {
                     "value": v if v is not None and math.isfinite(v) else None,
-                    "unit": _si_unit(unit),
+                    "unit": si_unit(unit),
                     "method": method,
                     **({"error": err} if err else {}),
                 }
@@ -92,12 +92,12 @@ def show(path: Path, fmt: str) -> int:
     width = max(len(n) for n in values)
     group = ""
     for name in sorted(values):
-        value, unit, method, err = values[name]
+        value, unit, method, problem = values[name]
         head = name.split(".")[0]
         if head != group:
             print(f"[{head}]")
             group = head
-        shown = err if value is None else format_value(value, "" if unit == "1" else unit, 5)
+        shown = problem if value is None else format_value(value, "" if unit == "1" else unit, 5)
         print(f"  {name:<{width}}  {shown:>16}   {method}")
     print(f"\n{DISCLAIMER}")
     return status

@@ -6,12 +6,13 @@ One module a domain, so that a newcomer finds each where it belongs:
 | --- | --- |
 | ``names`` | the sheet: every name, unit, method and machine kinds, in one list |
 | ``core`` | ``Calculation``, ``@memo`` and ``@quantity`` |
-| ``winding`` | layout, series turns, phase current and voltage, winding factor, MMF |
-| ``conductors`` | slots and fill, current density, loading, turn length, resistance, copper loss |
-| ``magnetic`` | steels, Carter's coefficient, the magnetic circuit, tooth and yoke flux densities |
+| ``winding`` | layout, series turns, phase current and voltage, winding factor, MMF, slip |
+| ``conductors`` | slots, fill, clearances, current density, loading, resistance, copper loss |
+| ``magnetic`` | steels, Carter, the magnetic circuit, tooth and yoke flux densities, back-EMF |
 | ``rotor`` | cage bars and rings, field coils, magnet working points and coercivity |
 | ``losses`` | the loss budget, energy balance, efficiency and IEC 60034-30-1 class |
 | ``thermal`` | the lumped thermal estimate fed by every loss, at a self-consistent temperature |
+| ``view`` | ``Sheet``, the read-only view of the sheet that rules get |
 
 Each quantity calls the physics kernel (``emgate.physics``) with inputs taken from the
 validated record. Rules share one computation of a quantity, not one another's verdicts.

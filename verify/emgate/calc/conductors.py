@@ -72,6 +72,30 @@ def slot_area(c: Calculation) -> float:
     return _slot_area(c, liner(c))
 
 
+@quantity(
+    "stator.opening_clearance",
+    when=lambda d: d.winding.conductor.shape == "round" and d.stator.slot.shape == "semi_closed",
+)
+def opening_clearance(c: Calculation) -> float:
+    from emgate.physics.conductors import opening_clearance
+
+    return opening_clearance(c.d.stator.slot.opening, c.d.winding.conductor.insulated_diameter)
+
+
+@quantity(
+    "stator.slot_width_clearance",
+    when=lambda d: d.winding.conductor.shape == "rectangular" and d.stator.slot.shape == "open",
+)
+def slot_width_clearance(c: Calculation) -> float:
+    from emgate.physics.conductors import slot_width_clearance
+
+    return slot_width_clearance(
+        c.d.stator.slot.width,
+        c.d.winding.conductor.insulated_width,
+        liner(c),
+    )
+
+
 @quantity("stator.conductors_per_slot")
 def conductors_per_slot(c: Calculation) -> float:
     return c.d.winding.layers * c.d.winding.turns_per_coil

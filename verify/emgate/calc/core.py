@@ -24,6 +24,8 @@ T = TypeVar("T")
 SHEET: dict[str, Entry] = {e.name: e for e in ENTRIES}
 #: The function computing each sheet name, filled as the domain modules are imported.
 PROVIDERS: dict[str, Callable[[Calculation], float]] = {}
+#: For the entries computed only for some records of their machine kinds, the condition.
+CONDITIONS: dict[str, Callable[[AnyDesign], bool]] = {}
 
 
 class Calculation:
@@ -39,22 +41,10 @@ class Calculation:
         return float(PROVIDERS[name](self))
 
     def applies(self, name: str) -> bool:
-        """Whether the sheet quantity ``name`` exists for this record's machine kind."""
-        return self.d.machine in SHEET[name].machines
-
-    def __getattr__(self, attr: str) -> Any:
-        # Transitional: the attribute names of the former single class, until every rule
-        # reads quantities by sheet name.
-        from emgate.calc import DOMAINS
-
-        if not attr.startswith("__"):
-            for module in DOMAINS:
-                fn = getattr(module, attr, None)
-                if callable(fn) and getattr(fn, "__module__", "") == module.__name__:
-                    if getattr(fn, "memoized", False):
-                        return fn(self)
-                    return functools.partial(fn, self)
-        raise AttributeError(attr)
+        """Whether the sheet quantity ``name`` exists for this record: its machine kind, and
+        the condition its entry states (``Entry.only``), such as a slot shape."""
+        when = CONDITIONS.get(name)
+        return self.d.machine in SHEET[name].machines and (when is None or when(self.d))
 
 
 def memo(fn: Callable[[Calculation], T]) -> Callable[[Calculation], T]:
@@ -76,16 +66,23 @@ def memo(fn: Callable[[Calculation], T]) -> Callable[[Calculation], T]:
 Provider = Callable[["Calculation"], float]
 
 
-def quantity(name: str) -> Callable[[Provider], Provider]:
-    """Bind a function to the sheet entry ``name`` (computed once per calculation)."""
+def quantity(
+    name: str, *, when: Callable[[AnyDesign], bool] | None = None
+) -> Callable[[Provider], Provider]:
+    """Bind a function to the sheet entry ``name`` (computed once per calculation); ``when``
+    is the condition its entry states in words (``Entry.only``), if any."""
     if name not in SHEET:
         raise KeyError(f"{name!r} is not in emgate.calc.names")
+    if (when is None) != (not SHEET[name].only):
+        raise KeyError(f"{name!r}: a condition needs both its words (Entry.only) and `when`")
 
     def bind(fn: Provider) -> Provider:
         if name in PROVIDERS:
             raise KeyError(f"{name!r} is computed twice")
         once = memo(fn)
         PROVIDERS[name] = once
+        if when is not None:
+            CONDITIONS[name] = when
         return once
 
     return bind

@@ -84,17 +84,12 @@ def pole_path(c: Calculation) -> PolePath:
         rotor_teeth = Teeth(
             geo.rotor_slot_pitch(d), geo.rotor_tooth_width_min(d), d.rotor.slot.height
         )
-    gap = effective_gap(c)
-    if d.machine == "surface_pm":
-        # The kernel adds the magnet's h_m / mu_rec itself; hand it the rest of kc g'.
-        m = d.rotor.magnet
-        gap -= m.thickness / m.material.recoil_permeability
     return PolePath(
         pole_pitch=geo.pole_pitch(d),
         stack_length=d.stator.stack_length,
         iron_length=d.stator.stack_length,
         stacking_factor=d.stator.stacking_factor,
-        effective_gap=gap,
+        effective_gap=effective_gap(c),  # kc g', for surface magnets the whole of it
         stator_teeth=Teeth(
             geo.stator_slot_pitch(d), geo.stator_tooth_width_min(d), geo.stator_tooth_height(d)
         ),
@@ -195,19 +190,16 @@ def total_mmf(c: Calculation) -> float:
 
 @quantity("winding.back_emf")
 def back_emf(c: Calculation) -> float:
-    """E = sqrt(2) pi f N_ph kw1 Phi1, Phi1 = (2/pi) B1 tau_p l [V] [from memory:
-    Fitzgerald and Kingsley, Electric Machinery]: the fundamental flux per pole cut by
-    the series turns at the rated electrical frequency."""
+    from emgate.physics.winding import phase_emf
+
     d = c.d
-    phi1 = 2.0 / math.pi * gap_flux_density_fundamental(c) * geo.pole_pitch(d)
-    phi1 *= d.stator.stack_length
-    return (
-        math.sqrt(2.0)
-        * math.pi
-        * d.rating.frequency
-        * winding.series_turns(c)
-        * winding.winding_factor(c)
-        * phi1
+    return phase_emf(
+        d.rating.frequency,
+        winding.series_turns(c),
+        winding.winding_factor(c),
+        gap_flux_density_fundamental(c),
+        geo.pole_pitch(d),
+        d.stator.stack_length,
     )
 
 
@@ -249,6 +241,11 @@ def pole_body_b(c: Calculation) -> float:
 @quantity("stator.slot_pitch")
 def slot_pitch(c: Calculation) -> float:
     return geo.stator_slot_pitch(c.d)
+
+
+@quantity("stator.aspect_ratio")
+def aspect_ratio(c: Calculation) -> float:
+    return c.d.stator.stack_length / c.d.stator.bore_diameter
 
 
 @quantity("stator.tooth_width_min")

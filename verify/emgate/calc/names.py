@@ -20,6 +20,33 @@ class Entry:
     unit: str
     method: str
     machines: tuple[str, ...] = MACHINE_KINDS
+    #: The condition beyond the machine kinds under which the quantity exists, in words
+    #: ("round wire in a semi-closed slot"); its function states it in code.
+    only: str = ""
+
+    @property
+    def scope(self) -> str:
+        """For which records the quantity is computed, in words."""
+        kinds = "all machines" if self.machines == MACHINE_KINDS else ", ".join(self.machines)
+        return f"{kinds}, {self.only} only" if self.only else f"{kinds} only"
+
+    def parse(self, text: str) -> float:
+        """A figure of this quantity written with any unit of its dimension, in SI.
+
+        Raises ValueError naming what was expected: a figure of another dimension, or a
+        temperature difference written in degC ('80 degC' is a temperature, not a rise).
+        """
+        from emgate.units import QuantityError, convert, describe, parse_quantity, parse_unit
+
+        q = parse_quantity(text)
+        dims = parse_unit(self.unit)[1] if self.unit not in ("", "1") else (0,) * 5
+        if q.dims != dims:
+            raise QuantityError(
+                f"is a {describe(q.dims)}; expected a {describe(dims)} such as '1 {self.unit}'"
+            )
+        if self.unit == "K":  # a rise written in degC would be read as a temperature
+            convert(text, "temperature_difference")
+        return q.value
 
 
 ENTRIES: tuple[Entry, ...] = (
@@ -145,6 +172,12 @@ ENTRIES: tuple[Entry, ...] = (
         " losses (output = input - losses)",
     ),
     Entry(
+        "rating.slip",
+        "%",
+        "rated slip |1 - n / n_s|, n_s = f / p the synchronous speed (motor or generator)",
+        ("induction",),
+    ),
+    Entry(
         "rotor.bar_current",
         "A",
         "stator current referred to a bar by equal fundamental MMF,"
@@ -240,6 +273,11 @@ ENTRIES: tuple[Entry, ...] = (
         " carries the rotor loss)",
     ),
     Entry(
+        "stator.aspect_ratio",
+        "1",
+        "stack length over bore diameter, l / D",
+    ),
+    Entry(
         "stator.conductors_per_slot",
         "1",
         "layers times turns per coil",
@@ -261,6 +299,13 @@ ENTRIES: tuple[Entry, ...] = (
         "A = 2 m N_ph I / (pi D), rms",
     ),
     Entry(
+        "stator.opening_clearance",
+        "mm",
+        "slot opening less the insulated strand diameter, b0 - d_ins: the free width of a"
+        " strand fed through the opening",
+        only="round wire in a semi-closed slot",
+    ),
+    Entry(
         "stator.slot_area",
         "mm^2",
         "winding zone net of the slot liner laid along its perimeter",
@@ -279,6 +324,13 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.slot_pitch",
         "mm",
         "bore circumference over slots",
+    ),
+    Entry(
+        "stator.slot_width_clearance",
+        "mm",
+        "slot width less the insulated strand width and a liner on each wall,"
+        " b - (w_ins + 2 t), strands stacked radially",
+        only="rectangular strands in an open slot",
     ),
     Entry(
         "stator.thermal_load",

@@ -81,21 +81,23 @@ def magnet_h_with_current(c: Calculation, current_factor: float, *, cold: bool =
     """Magnet field strength with the stator's peak staircase MMF at ``current_factor``
     times the rated current taken wholly on the d-axis, demagnetising [A/m].
 
-    Superposes on the no-load working point H_0 (iron included) the armature term of the
-    linear magnet-and-gap loop, H = H_0 - F_max / (h_m + mu_rec g_e), g_e the gap beside
-    the magnet that the circuit is handed (kc g' - h_m / mu_rec), so the denominator is
-    mu_rec kc g'. F_max is the peak of the staircase MMF over the gap and the period
-    (``winding.mmf_peak``), not the rotating fundamental F1: a tooth-coil winding's
-    sub- and higher harmonics raise it well above F1. An approximation on the worst
-    side: the whole peak on the d-axis, across magnet and gap only (iron reluctance and
-    magnet leakage neglected). With ``cold``, H_0 is that of the magnet at the coolant
-    temperature (``cooling.ambient``); the armature term is the same.
+    The kernel's superposition on the no-load working point H_0 (iron included),
+    H = H_0 - F_max / (mu_rec kc g'), kc g' the effective gap (Carter on the magnetic gap
+    g' = g + sleeve + h_m / mu_rec). F_max is the peak of the staircase MMF over the gap
+    and the period (``winding.mmf_peak``), not the rotating fundamental F1: a tooth-coil
+    winding's sub- and higher harmonics raise it well above F1. With ``cold``, H_0 is that
+    of the magnet at the coolant temperature (``cooling.ambient``); the armature term is
+    the same.
     """
-    m = c.d.rotor.magnet
-    mu_rec = m.material.recoil_permeability
-    across = m.thickness + mu_rec * magnetic.pole_path(c).effective_gap
+    from emgate.physics.magnetic import magnet_field_under_current
+
     h0 = magnet_h_cold(c) if cold else magnet_h(c)
-    return h0 - current_factor * winding.mmf_peak(c) / across
+    return magnet_field_under_current(
+        h0,
+        current_factor * winding.mmf_peak(c),
+        c.d.rotor.magnet.material.recoil_permeability,
+        magnetic.effective_gap(c),
+    )
 
 
 @quantity("rotor.magnet_field_strength_worst")

@@ -47,6 +47,14 @@ def phase_voltage(c: Calculation) -> float:
     return phase_voltage(r.line_voltage, r.connection, c.d.winding.phases)
 
 
+@quantity("rating.slip")
+def slip(c: Calculation) -> float:
+    from emgate.physics.rating import slip
+
+    r = c.d.rating
+    return abs(slip(r.speed, r.frequency, c.d.pole_pairs))
+
+
 @quantity("winding.winding_factor")
 def winding_factor(c: Calculation) -> float:
     import numpy as np

@@ -27,6 +27,7 @@ __all__ = [
     "balance",
     "feasibility",
     "harmonic_phasors",
+    "phase_emf",
     "phase_name",
     "series_turns_per_phase",
     "star_of_slots",
@@ -449,8 +450,8 @@ def balance(layout: np.ndarray, pole_pairs: int) -> list[str]:
     m = lay.shape[0]
     problems: list[str] = []
     counts = np.abs(lay).sum(axis=1)
-    for k in np.flatnonzero(counts == 0):
-        problems.append(f"phase {phase_name(int(k))} has no coil sides")
+    for empty in np.flatnonzero(counts == 0):
+        problems.append(f"phase {phase_name(int(empty))} has no coil sides")
     if np.any(counts != counts[0]):
         listed = ", ".join(f"{phase_name(k)} {int(c)}" for k, c in enumerate(counts))
         problems.append(f"coil sides per phase differ: {listed}")
@@ -564,3 +565,46 @@ def winding_factor_closed_form(q: float, pitch_ratio: float, order: int, phases:
         kd = math.sin(half_belt) / den
     kp = math.sin(v * pitch_ratio * math.pi / 2)
     return kd * kp
+
+
+def phase_emf(
+    frequency: float,
+    series_turns: float,
+    winding_factor: float,
+    flux_density_fundamental: float,
+    pole_pitch: float,
+    stack_length: float,
+) -> float:
+    """Phase EMF, rms, induced by the fundamental of a rotating gap field.
+
+    ``E = sqrt(2) pi f N_ph kw1 Phi1`` with the fundamental flux per pole
+    ``Phi1 = (2/pi) B1 tau_p l``: the sinusoidal flux of one pole cut by the series turns at
+    the electrical frequency.
+
+    Parameters
+    ----------
+    frequency : float
+        Electrical frequency f [Hz].
+    series_turns : float
+        Series turns per phase N_ph [-].
+    winding_factor : float
+        Winding factor kw1 at the working order [-].
+    flux_density_fundamental : float
+        Amplitude B1 of the fundamental of the gap flux density wave [T].
+    pole_pitch : float
+        Pole pitch tau_p at the gap [m].
+    stack_length : float
+        Axial length l the flux density is referred to [m].
+
+    Returns
+    -------
+    float
+        E [V], rms; an array for array inputs.
+
+    References
+    ----------
+    A. E. Fitzgerald, C. Kingsley, *Electric Machinery* (the EMF of a distributed winding;
+    from memory).
+    """
+    phi1 = 2.0 / math.pi * flux_density_fundamental * pole_pitch * stack_length
+    return math.sqrt(2.0) * math.pi * frequency * series_turns * winding_factor * phi1

@@ -9,8 +9,9 @@ from typing import Any
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RunResult
-from emgate.report.common import check_display, si_unit
+from emgate.report.common import check_display
 from emgate.rule import Check
+from emgate.units import si_unit
 
 
 def _num(x: float) -> float | None:

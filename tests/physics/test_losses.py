@@ -289,12 +289,6 @@ def test_textbook_induction_motor_power_flow() -> None:
     assert bal.efficiency == pytest.approx(0.88, abs=0.005)
 
 
-def test_slip_of_a_four_pole_motor() -> None:
-    # [calc] 1460 rpm on 50 Hz, 4 poles: n_s 1500 rpm, s = 40/1500
-    assert lk.slip(1460 / 60, 50.0, 2) == pytest.approx(40 / 1500, rel=1e-12)
-    assert lk.slip(1540 / 60, 50.0, 2) < 0  # a generator runs above synchronism
-
-
 def test_generator_balance() -> None:
     bal = lk.energy_balance(100e3, 5e3, "generator")
     # output = input - losses, the rating being the output

@@ -197,21 +197,13 @@ def magnet_eddy_estimate(c: Calculation) -> float:
     )
 
 
-@memo
-def slip(c: Calculation) -> float:
-    from emgate.physics.losses import slip
-
-    r = c.d.rating
-    return slip(r.speed, r.frequency, c.d.pole_pairs)
-
-
 @quantity("losses.rotor")
 def rotor(c: Calculation) -> float:
     from emgate.physics import losses as lk
 
     d = c.d
     if d.machine == "induction":
-        s = slip(c)
+        s = winding.slip(c)  # |s|: the motor's slip, or a generator's magnitude
         if d.rating.operation == "motor":
             gap = lk.air_gap_power(d.rating.power + friction_windage(c), s)
         else:

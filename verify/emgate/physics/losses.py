@@ -32,54 +32,6 @@ NDFEB_RESISTIVITY: float = 1.4e-6
 # --- slip and the rotor --------------------------------------------------------------------
 
 
-def synchronous_speed(frequency: float, pole_pairs: int) -> float:
-    """``n_s = f / p`` [1/s].
-
-    Parameters
-    ----------
-    frequency : float
-        [Hz].
-    pole_pairs : int
-        ``p`` [-].
-
-    Returns
-    -------
-    float
-        [1/s].
-
-    References
-    ----------
-    [mem: Fitzgerald and Kingsley, Electric Machinery].
-    """
-    if pole_pairs < 1:
-        raise ValueError("pole pairs must be >= 1")
-    return frequency / pole_pairs
-
-
-def slip(speed: float, frequency: float, pole_pairs: int) -> float:
-    """``s = (n_s - n) / n_s`` [-]: positive for a motor, negative above synchronism.
-
-    Parameters
-    ----------
-    speed : float
-        Rotor speed [1/s].
-    frequency : float
-        [Hz].
-    pole_pairs : int
-
-    Returns
-    -------
-    float
-        [-].
-
-    References
-    ----------
-    [mem: Fitzgerald and Kingsley, Electric Machinery].
-    """
-    ns = synchronous_speed(frequency, pole_pairs)
-    return (ns - speed) / ns
-
-
 def air_gap_power(mechanical_power: float, slip: float) -> float:
     """Power crossing the gap of an induction machine, ``P_mech / (1 - s)`` [W].
 

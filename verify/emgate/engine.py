@@ -10,6 +10,7 @@ from __future__ import annotations
 import dataclasses
 import datetime as dt
 import re
+import time
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -18,7 +19,15 @@ from typing import Literal
 from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy, RulePolicy
 from emgate.errors import InputError, InputErrors, display_path
-from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.findings import (
+    Finding,
+    RecordResult,
+    RuleInfo,
+    RuleOutcome,
+    RunResult,
+    anchor,
+    source_root,
+)
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
 from emgate.model import AnyDesign
@@ -240,6 +249,7 @@ def input_findings(exc: InputError | InputErrors) -> list[Finding]:
 
 def execute(run: Run) -> RunResult:
     """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
+    from emgate.explain import explain_markdown
     from emgate.validate import schema_of, validate_design, validate_materials
 
     result = RunResult()
@@ -248,7 +258,16 @@ def execute(run: Run) -> RunResult:
     for error in run.plugins.crashes:
         result.findings.append(dataclasses.replace(_input_finding(error), kind="crash"))
     result.rules = [
-        RuleInfo(rid, lr.rule.version, lr.rule.summary, lr.pack.distribution, lr.pack.version)
+        RuleInfo(
+            rid,
+            lr.rule.version,
+            lr.rule.summary,
+            lr.pack.distribution,
+            lr.pack.version,
+            lr.rule.severity,
+            lr.rule.explain(),
+            explain_markdown(rid, lr),
+        )
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     sources = discover(run.paths, result)
@@ -335,8 +354,18 @@ def execute(run: Run) -> RunResult:
                     )
                 )
             )
+    anchor(result, run_root(run))
     result.sort()
     return result
+
+
+def run_root(run: Run) -> Path:
+    """What a run's files are named from in SARIF and fingerprints: the git work tree of the
+    policy's folder, else of the first path, else the working folder."""
+    if run.policy.source is not None:
+        return source_root(run.policy.root)
+    first = next((p for p in run.paths if p.exists()), Path.cwd())
+    return source_root(first if first.is_dir() else first.parent)
 
 
 def _check_design(
@@ -379,6 +408,7 @@ def _check_rule(
     rid = rule.id
     if not policy.selected(rule):
         return
+    started = time.perf_counter()
     ran = run_rule(
         rule,
         ld.design,
@@ -392,6 +422,7 @@ def _check_rule(
         return
     severity = policy.severity_for(rule)
     outcome = RuleOutcome(rid, "pass")
+    outcome.seconds = time.perf_counter() - started
     for item in ran.items:
         if isinstance(item, Check):
             outcome.checks.append(item)

@@ -62,7 +62,10 @@ def render(result: RunResult) -> str:
     doc = {
         "tool": {"name": "emgate", "version": __version__},
         "exit_code": result.exit_code,
-        "rules": [r.__dict__ for r in result.rules],
+        "rules": [  # (the help texts are for people: emgate explain RULE prints them)
+            {k: v for k, v in r.__dict__.items() if k not in ("description", "help")}
+            for r in result.rules
+        ],
         "summary": {
             "records": len(result.records),
             "errors": len(result.active("error")),

@@ -95,7 +95,9 @@ ENTRIES: tuple[Entry, ...] = (
         "losses.rotor",
         "W",
         "induction: cage loss |s| P_gap, P_gap = (P2 + P_fw) / (1 - s) for a motor, output"
-        " plus stator losses for a generator (rotor iron at slip frequency neglected); wound"
+        " plus stator losses for a generator; rotor iron loss not counted (slip frequency in"
+        " a cage rotor, steady flux in a synchronous one; slot-ripple pole-face loss is left"
+        " to the stray-load allowance); wound"
         " field: I_f^2 R_f at the class reference temperature plus two brushes' drop"
         " (carbon 1.0 V, metal-carbon 0.3 V; IEC 60034-2-1, from memory) times I_f;"
         " surface magnets: losses.magnet_eddy of the record when declared, else an upper"

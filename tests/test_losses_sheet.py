@@ -186,3 +186,18 @@ def test_a_runaway_is_a_finding_not_a_hang(repo: Path) -> None:
     result = check_json(path)
     msgs = [f["message"] for f in findings(result, "temperature-rise")]
     assert any("run-away" in m for m in msgs), msgs
+
+
+def test_an_undeclared_magnet_temperature_is_the_estimate(repo: Path) -> None:
+    declared = sheet(SERVO)
+    # the record's 100 degC is used verbatim [calc]
+    assert declared["rotor.magnet_temperature"] == pytest.approx(373.15, rel=1e-12)
+    path = variant(repo, {"rotor.magnet.operating_temperature": DELETE}, base=SERVO)
+    q = sheet(path)
+    # [calc] one pass of the network with the magnet at class F's 115 degC: the rotor
+    # temperature of that pass, close to (not equal to) the final one
+    assert q["rotor.magnet_temperature"] == pytest.approx(q["rotor.temperature"], rel=0.1)
+    assert q["rotor.magnet_temperature"] > declared["rotor.magnet_temperature"]
+    result = check_json(path)  # the magnet checks run at it: findings, no crash
+    assert all(f["kind"] != "crash" for f in result.json()["findings"])
+    assert not [f for f in findings(result, "temperature-rise") if "magnet" in f["message"]]

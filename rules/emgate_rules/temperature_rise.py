@@ -70,7 +70,8 @@ class TemperatureRise(Rule[TemperatureRiseOptions]):
 
     Magnets: a surface-magnet record whose declared magnet operating temperature lies below
     the estimated rotor temperature (rotor.temperature: bore temperature plus the rotor
-    loss across the gap) gets a warning: the magnet checks were made too cold.
+    loss across the gap) gets a warning: the magnet checks were made too cold. A record that
+    declares none is checked at the estimate.
     """
 
     id = "temperature-rise"
@@ -129,7 +130,8 @@ class TemperatureRise(Rule[TemperatureRiseOptions]):
         if design.machine == "surface_pm":
             rotor = sheet["rotor.temperature"]
             declared = design.rotor.magnet.operating_temperature
-            if declared < rotor:  # NaN (not estimated) compares False
+            # NaN (not estimated) compares False; an undeclared one is the estimate
+            if declared is not None and declared < rotor:
                 yield Problem(
                     ("rotor", "magnet", "operating_temperature"),
                     f"declared magnet temperature {declared - 273.15:.0f} degC is below the"

@@ -297,7 +297,11 @@ class Magnet(Strict):
     thickness: Length
     pole_arc: Fraction = Field(description="magnet arc as a fraction of the pole pitch")
     material: MagnetMaterial
-    operating_temperature: Temperature
+    operating_temperature: Temperature | None = Field(
+        default=None,
+        description="magnet temperature the magnet checks use; when absent, emgate's"
+        " estimated rotor temperature (rotor.temperature)",
+    )
 
 
 class SurfacePMRotor(Strict):

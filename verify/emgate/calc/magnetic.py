@@ -120,7 +120,7 @@ def magnetic(c: Calculation) -> GapResult:
             winding_factor=winding.winding_factor(c),
         )
     if d.machine == "surface_pm":
-        return _surface_pm_circuit(c, d.rotor.magnet.operating_temperature)
+        return _surface_pm_circuit(c, c.value("rotor.magnet_temperature"))  # calc.thermal
     pole = d.rotor.pole
     # The kernel's pole height runs from the gap to the rim, shoe included; the record's
     # body_height stops at the shoe. The body's flux density is carried over the shoe

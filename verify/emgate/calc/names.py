@@ -212,6 +212,15 @@ ENTRIES: tuple[Entry, ...] = (
         ("surface_pm",),
     ),
     Entry(
+        "rotor.magnet_temperature",
+        "degC",
+        "magnet temperature of the magnet checks: rotor.magnet.operating_temperature of the"
+        " record, or when it declares none the estimated rotor temperature (one pass of the"
+        " thermal network with the magnet at the class reference temperature; that"
+        " temperature where the network gives none)",
+        ("surface_pm",),
+    ),
+    Entry(
         "rotor.magnet_field_strength",
         "kA/m",
         "magnet working point H_m on the recoil line (negative: demagnetising)",

@@ -131,3 +131,26 @@ def phase_resistance_operating(c: Calculation) -> float:
 def rotor_temperature(c: Calculation) -> float:
     t = thermal_estimate(c).rotor_temperature
     return float("nan") if t is None else t
+
+
+@quantity("rotor.magnet_temperature")
+def magnet_temperature(c: Calculation) -> float:
+    """The magnet temperature of the magnet checks [K]: the record's, or else the estimated
+    rotor temperature. The estimate comes from one pass of the thermal network of the same
+    record with the magnet provisionally at the reference temperature of the insulation
+    class (the losses hardly depend on it); where the network gives no rotor temperature
+    (open or direct-liquid cooling), that reference temperature itself."""
+    import math
+
+    declared = c.d.rotor.magnet.operating_temperature
+    if declared is not None:
+        return declared
+    provisional = conductors.class_reference_temperature(c)
+    rotor = c.d.rotor.model_copy(
+        update={
+            "magnet": c.d.rotor.magnet.model_copy(update={"operating_temperature": provisional})
+        }
+    )
+    first = Calculation(c.d.model_copy(update={"rotor": rotor}), c.catalogue)
+    estimate = rotor_temperature(first)
+    return provisional if math.isnan(estimate) else estimate

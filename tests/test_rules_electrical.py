@@ -250,13 +250,17 @@ def test_declared_name_of_another_machine_kind_says_so(repo: Path) -> None:
 
 BUILTIN = [
     "back-emf",
+    "back-emf-top-speed",
+    "cold-magnet-flux",
     "current-density",
     "declared-values",
     "demagnetisation",
+    "demagnetisation-fault",
     "efficiency",
     "gap-flux",
     "mmf-thd",
     "nameplate",
+    "shear-stress",
     "slot-fill",
     "temperature-rise",
     "thermal-load",

@@ -1,4 +1,4 @@
-"""Command line: ``emgate check|show|rules|explain|plugins|schema``.
+"""Command line: ``emgate check|show|diff|rules|explain|plugins|schema``.
 
 Exit codes: 0 clean; 1 a rule found an error; 2 input, configuration or usage error; 3 a rule,
 a plugin or emgate itself crashed (fail closed: a crash never passes a merge).
@@ -30,6 +30,12 @@ def _date(text: str) -> dt.date:
         return dt.date.fromisoformat(text)
     except ValueError:
         raise argparse.ArgumentTypeError(f"expected a date YYYY-MM-DD, found {text!r}") from None
+
+
+def _show_format(text: str) -> str:
+    if text in ("text", "json", "html") or text.startswith("html:"):
+        return text
+    raise argparse.ArgumentTypeError(f"expected text, json or html[:FILE], found {text!r}")
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -64,7 +70,8 @@ def _parser() -> argparse.ArgumentParser:
         metavar="NAME[:FILE]",
         dest="formats",
         help=f"output format, one of {', '.join(FORMATS)}; with :FILE, written to"
-        " FILE atomically instead of standard output; repeatable",
+        " FILE atomically instead of standard output; repeatable; html:FILE writes an index"
+        " and every record's calculation sheet beside it",
     )
     c.add_argument("--config", type=Path, help="project config (default: nearest emgate.yaml)")
     c.add_argument(
@@ -95,10 +102,37 @@ def _parser() -> argparse.ArgumentParser:
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path, metavar="FILE", help="a design record")
     s.add_argument(
-        "--format", default="text", choices=["text", "json"], help="output (default: text)"
+        "--format",
+        default="text",
+        type=_show_format,
+        metavar="{text,json,html[:FILE]}",
+        help="html: the sheet as one self-contained page with plots (to FILE, or stdout)",
     )
     s.add_argument(
         "--config", type=Path, help="accepted and not used: the sheet does not depend on policy"
+    )
+    d = sub.add_parser(
+        "diff", help="the physics of a change: records, quantities and margins between revisions"
+    )
+    d.add_argument(
+        "refs",
+        nargs="+",
+        metavar="BASE [HEAD] [PATHS...]",
+        help="git revisions to compare (HEAD omitted: the working tree) and paths to limit it"
+        " to; or two record files",
+    )
+    d.add_argument(
+        "--format",
+        action="append",
+        metavar="NAME[:FILE]",
+        dest="formats",
+        help="text, json, markdown or html; with :FILE, written to FILE; repeatable",
+    )
+    d.add_argument(
+        "--threshold",
+        default="0.1",
+        metavar="PERCENT",
+        help="report a quantity that moved by more than this, relative (default 0.1 %%)",
     )
     r = sub.add_parser("rules", help="list every installed rule")
     r.add_argument(
@@ -194,9 +228,18 @@ def _dispatch(args: argparse.Namespace) -> int:
 
         return lsp(plugins)
     if args.command == "show":
+        if args.format.startswith("html"):
+            from emgate.page import show_html
+
+            out = args.format.partition(":")[2]
+            return show_html(args.file, Path(out) if out else None, args.config, plugins)
         from emgate.sheet import show
 
         return show(args.file, args.format)
+    if args.command == "diff":
+        from emgate.diff import main as diff_main
+
+        return diff_main(args, plugins)
     return _check(args, plugins)
 
 
@@ -254,8 +297,12 @@ def _outputs(specs: list[str] | None) -> list[tuple[str, Path | None]]:
     out: list[tuple[str, Path | None]] = []
     for spec in specs or ["text"]:
         name, _, file = spec.partition(":")
-        if name not in FORMATS:
-            raise _UsageError(f"unknown format {name!r}; expected one of {', '.join(FORMATS)}")
+        if name == "html" and not file:  # an index and a sheet per record: files only
+            raise _UsageError("html needs a FILE (html:reports/index.html)")
+        if name not in (*FORMATS, "html"):
+            raise _UsageError(
+                f"unknown format {name!r}; expected one of {', '.join(FORMATS)}, html:FILE"
+            )
         out.append((name, Path(file) if file else None))
     if sum(1 for _, f in out if f is None) > 1:
         raise _UsageError("only one --format may go to standard output; give the others a FILE")
@@ -374,6 +421,16 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
 
     status, written = EXIT_OK, []
     for name, file in outputs:
+        if name == "html" and file is not None:
+            from emgate.page import write_run
+
+            try:
+                write_run(result, file)
+            except OSError as exc:
+                why = exc.strerror or str(exc)
+                print(f"emgate: cannot write html to {file}: {why}", file=sys.stderr)
+                status = EXIT_INPUT
+            continue
         if name == "text":
             from emgate.report.text import render
 

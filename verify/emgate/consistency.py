@@ -271,6 +271,30 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
                 f"coolant at {d.cooling.ambient - 273.15:g} degC is outside -60 to 120 degC",
             )
         )
+    low = d.cooling.ambient_min
+    if low is not None and not 213.15 <= low <= d.cooling.ambient:
+        out.append(
+            (
+                ("cooling", "ambient_min"),
+                f"the lowest coolant temperature {low - 273.15:g} degC must lie between"
+                f" -60 degC and the rated ambient {d.cooling.ambient - 273.15:g} degC",
+            )
+        )
+    if r.max_speed is not None and r.max_speed < n:
+        out.append(
+            (
+                ("rating", "max_speed"),
+                f"the top speed {r.max_speed * 60:g} rpm is below the rated {n * 60:g} rpm",
+            )
+        )
+    if r.peak_current is not None and r.peak_current < r.line_current:
+        out.append(
+            (
+                ("rating", "peak_current"),
+                f"a drive limit of {r.peak_current:g} A peak is below the rated"
+                f" {r.line_current:g} A rms line current",
+            )
+        )
     code = _short_ic(d.cooling.code)
     if code in IC_METHODS and IC_METHODS[code] != d.cooling.method:
         out.append(

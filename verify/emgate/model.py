@@ -59,6 +59,27 @@ class Rating(Strict):
         description="what the rating describes: a motor (power is shaft"
         " output) or a generator (power is electrical output, W or VA)",
     )
+    power_factor: Fraction | None = Field(
+        default=None,
+        description="rated power factor, lagging (a generator's field current on load is"
+        " computed at it; 0.8 when absent, the usual rating of synchronous generators)",
+    )
+    max_speed: Speed | None = Field(
+        default=None,
+        description="highest speed in service (field weakening, overspeed, a load that"
+        " drives the machine); the rated speed when absent",
+    )
+    peak_current: Current | None = Field(
+        default=None,
+        description="highest phase current the drive can deliver, peak (its current limit);"
+        " the fault demagnetisation check uses it instead of the short-circuit current",
+    )
+    converter_max_phase_voltage: Voltage | None = Field(
+        default=None,
+        description="highest phase voltage, rms, the converter withstands at its terminals"
+        " (a three-phase bridge on a DC link U_dc: U_dc / sqrt 6); the cold magnets' EMF at"
+        " the top speed must stay below it",
+    )
 
 
 class SemiClosedSlot(Strict):
@@ -182,6 +203,11 @@ class Cooling(Strict):
         | None
     ) = Field(default=None, description="IEC 60034-6 cooling code, e.g. IC411")
     ambient: Temperature = Field(description="coolant (ambient air or inlet liquid) temperature")
+    ambient_min: Temperature | None = Field(
+        default=None,
+        description="lowest coolant temperature in service (a cold start); -15 degC when"
+        " absent, the lower end of the ambient range of IEC 60034-1",
+    )
     fin_area_factor: float = Field(
         default=4.0,
         ge=1.0,

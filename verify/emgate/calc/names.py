@@ -180,6 +180,13 @@ ENTRIES: tuple[Entry, ...] = (
         ("induction",),
     ),
     Entry(
+        "rating.torque",
+        "N*m",
+        "T = P / (2 pi n) at the rated speed; P the shaft power of a motor, P cos phi"
+        " for a generator (its active output, losses neglected; cos phi from"
+        " rating.power_factor, 0.8 when absent)",
+    ),
+    Entry(
         "rotor.bar_current",
         "A",
         "stator current referred to a bar by equal fundamental MMF,"
@@ -193,9 +200,37 @@ ENTRIES: tuple[Entry, ...] = (
         ("induction",),
     ),
     Entry(
+        "rotor.field_copper_loss_rated_load",
+        "W",
+        "I_f^2 R_f with the field current at rated load, R_f = rho(T) 2p N_f l_f / S_f"
+        " at the reference temperature of the insulation class; l_f = 2 (l + b_p) + pi"
+        " w_f round the pole body, w_f = N_f n A_ins / h_p the coil's width with its"
+        " turns filling the body height (A_ins the insulated strand's square or"
+        " rectangle)",
+        ("salient_field",),
+    ),
+    Entry(
         "rotor.field_current_density",
         "A/mm^2",
         "field current over the conductor section",
+        ("salient_field",),
+    ),
+    Entry(
+        "rotor.field_current_density_rated_load",
+        "A/mm^2",
+        "field current at rated load over the conductor section",
+        ("salient_field",),
+    ),
+    Entry(
+        "rotor.field_current_rated_load",
+        "A",
+        "field MMF on load over turns per pole: the resultant MMF that the no-load magnetic"
+        " circuit (iron included) needs for the air-gap EMF E_d = U + (R + j X_s) I less,"
+        " as phasors, the armature's fundamental MMF at rated current referred to the field,"
+        " C_d F_1 / ((4/pi) sin(a pi/2)) along the current (a motor: E_d = U - (R + j X_s) I,"
+        " current leading); X_s the slot, end and harmonic leakage reactance, R hot, cos phi"
+        " rating.power_factor or 0.8 lagging; the whole armature MMF on the d-axis, as for a"
+        " cylindrical rotor (overrates the field current of salient poles: the safe side)",
         ("salient_field",),
     ),
     Entry(
@@ -221,9 +256,32 @@ ENTRIES: tuple[Entry, ...] = (
         ("surface_pm",),
     ),
     Entry(
+        "rotor.magnet_coercivity_lowest_ambient",
+        "kA/m",
+        "intrinsic coercivity at the lowest ambient (cooling.ambient_min, -15 degC when"
+        " absent: IEC 60034-1's range), H_cJ0 (1 + beta (T - T0))",
+        ("surface_pm",),
+    ),
+    Entry(
         "rotor.magnet_field_strength",
         "kA/m",
         "magnet working point H_m on the recoil line (negative: demagnetising)",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.magnet_field_strength_fault_cold",
+        "kA/m",
+        "as rotor.magnet_field_strength_fault_hot with the magnet at the lowest"
+        " ambient: H_0 from Br there and, without a declared peak current, the"
+        " short-circuit current of the cold magnet",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.magnet_field_strength_fault_hot",
+        "kA/m",
+        "H_m with the worst credible current winding.fault_current_peak wholly on the"
+        " d-axis, magnet at its operating temperature: H_0 - (i / (sqrt 2 I_ph)) F_max /"
+        " (h_m + mu_rec kc g), F_max = winding.mmf_peak at rated current",
         ("surface_pm",),
     ),
     Entry(
@@ -251,6 +309,12 @@ ENTRIES: tuple[Entry, ...] = (
         "A/mm^2",
         "ring current I_bar / (2 sin(pi p / Q_r)) over the ring section",
         ("induction",),
+    ),
+    Entry(
+        "rotor.shear_stress",
+        "kN/m^2",
+        "air-gap tangential stress T / (2 V_r), V_r = pi D_r^2 l / 4, D_r = D - 2 g the"
+        " rotor's outer diameter, T = rating.torque",
     ),
     Entry(
         "rotor.tooth_flux_density",
@@ -332,6 +396,33 @@ ENTRIES: tuple[Entry, ...] = (
         "bare copper area over the slot area net of liner",
     ),
     Entry(
+        "stator.slot_fill_insulated",
+        "1",
+        "insulated conductor area over the slot area net of liner: conductors x strands"
+        " x (d_ins^2 for round wire, w_ins h_ins for rectangular), the square each round"
+        " wire takes in a layer",
+    ),
+    Entry(
+        "stator.slot_height_clearance",
+        "mm",
+        "slot depth less the form-wound coil's radial stack, h - (n_r z h_ins + (layers - 1)"
+        " s + 2 t + h_w): z conductors a slot of n_r strand rows each (stator.strands_across"
+        " side by side, the rest stacked), a separator s = 0.5 mm between layers (slot-fill's"
+        " `separator` option sets another), a liner t at the bottom and under the wedge, the"
+        " wedge h_w",
+        only="rectangular strands in an open slot",
+    ),
+    Entry(
+        "stator.slot_permeance",
+        "1",
+        "slot-leakage permeance coefficient lambda = k1 lambda_zone + k2 lambda_above:"
+        " the winding zone h / (3 b) (trapezoid: its strip integral), wedge zone 2 h_w /"
+        " (b_0 + b_1) and opening h_0 / b_0 (open slot: h_w / b); k1, k2 from the"
+        " layers' currents (distributed: layers stacked, tooth coils: side by side);"
+        " straight flux lines: the fringing under tooth tips overhanging a wide slot is"
+        " left out (a field solution of the servo's slot gives 30 % more), so it errs low",
+    ),
+    Entry(
         "stator.slot_pitch",
         "mm",
         "bore circumference over slots",
@@ -341,6 +432,13 @@ ENTRIES: tuple[Entry, ...] = (
         "mm",
         "slot width less the insulated strand width and a liner on each wall,"
         " b - (w_ins + 2 t), strands stacked radially",
+        only="rectangular strands in an open slot",
+    ),
+    Entry(
+        "stator.strands_across",
+        "1",
+        "insulated strands side by side across the slot: as many as the width net of two"
+        " liners takes, floor((b - 2 t) / w_ins), at least one",
         only="rectangular strands in an open slot",
     ),
     Entry(
@@ -359,6 +457,20 @@ ENTRIES: tuple[Entry, ...] = (
         "B_g tau_s l / (k_Fe l_Fe b_t) at the narrowest tooth section",
     ),
     Entry(
+        "stator.tooth_flux_density_apparent_cold",
+        "T",
+        "as stator.tooth_flux_density_apparent with the magnet at the lowest ambient"
+        " (cooling.ambient_min, -15 degC when absent)",
+        ("surface_pm",),
+    ),
+    Entry(
+        "stator.tooth_flux_density_cold",
+        "T",
+        "as stator.tooth_flux_density with the magnet at the lowest ambient"
+        " (cooling.ambient_min, -15 degC when absent)",
+        ("surface_pm",),
+    ),
+    Entry(
         "stator.tooth_width_min",
         "mm",
         "narrowest tooth along the winding zone: slot pitch at a depth less the slot width there",
@@ -367,6 +479,13 @@ ENTRIES: tuple[Entry, ...] = (
         "stator.yoke_flux_density",
         "T",
         "peak yoke flux density, Phi / (2 k_Fe l h_y)",
+    ),
+    Entry(
+        "stator.yoke_flux_density_cold",
+        "T",
+        "as stator.yoke_flux_density with the magnet at the lowest ambient"
+        " (cooling.ambient_min, -15 degC when absent)",
+        ("surface_pm",),
     ),
     Entry(
         "stator.yoke_height",
@@ -381,9 +500,53 @@ ENTRIES: tuple[Entry, ...] = (
         ("surface_pm", "salient_field"),
     ),
     Entry(
+        "winding.back_emf_cold_top_speed",
+        "V",
+        "phase EMF rms with the magnet at the lowest ambient (cooling.ambient_min, -15"
+        " degC when absent) at the top speed (rating.max_speed, the rated speed when"
+        " absent): as winding.back_emf, B1 from the cold circuit, f n_max / n",
+        ("surface_pm",),
+    ),
+    Entry(
         "winding.copper_loss",
         "W",
         "m I^2 R at the class reference temperature",
+    ),
+    Entry(
+        "winding.end_leakage_inductance",
+        "mH",
+        "each coil group's ends, both ends together, as one circular loop in air: mu0"
+        " z^2 R (ln(8R/r) - 2), R = l_e / (2 pi), l_e = l_av - 2 l, r the radius of the"
+        " group's coil-side section; groups in series, their coupling and the end face's"
+        " image neglected (low: the safe side for fault currents)",
+    ),
+    Entry(
+        "winding.fault_current_peak",
+        "A",
+        "worst credible phase current, peak, for demagnetisation: rating.peak_current"
+        " when declared, else sqrt 2 winding.short_circuit_current (hot magnet), its"
+        " steady value wholly on the d-axis",
+        ("surface_pm",),
+    ),
+    Entry(
+        "winding.harmonic_leakage_coefficient",
+        "1",
+        "sigma_delta = sum over n != p of (p kw_n / (n kw_p))^2 = winding.mmf_thd"
+        " squared (the gap's harmonic fields relative to the working one)",
+    ),
+    Entry(
+        "winding.magnetising_current",
+        "A",
+        "I_m = pi p F / (sqrt 2 m kw1 N_ph), F = magnetic.total_mmf at the rated"
+        " voltage (iron included)",
+        ("induction",),
+    ),
+    Entry(
+        "winding.magnetising_inductance",
+        "mH",
+        "L_m = (m / pi) mu0 (kw1 N_ph)^2 D l / (p^2 g_e), g_e ="
+        " air_gap.effective_length (unsaturated; surface magnets count as gap); salient"
+        " poles: the d-axis C_d L_m, C_d = a + sin(a pi) / pi for the pole-shoe arc a",
     ),
     Entry(
         "winding.mean_turn_length",
@@ -396,6 +559,18 @@ ENTRIES: tuple[Entry, ...] = (
         "winding.mmf_fundamental",
         "A",
         "peak rotating fundamental ampere-turns per pole, (sqrt 2 m / pi) kw1 N_ph I / p",
+    ),
+    Entry(
+        "winding.mmf_largest_slot_harmonic",
+        "1",
+        "largest MMF harmonic of the slot orders |k Q +- p|, k = 1..3, over the working"
+        " harmonic (exact spectrum; p / (Q - p) for k = 1)",
+    ),
+    Entry(
+        "winding.mmf_largest_subharmonic",
+        "1",
+        "largest single MMF harmonic of order below p over the working harmonic (exact"
+        " spectrum); 0 for p = 1 and for integral-slot windings",
     ),
     Entry(
         "winding.mmf_peak",
@@ -451,6 +626,25 @@ ENTRIES: tuple[Entry, ...] = (
         "series turns per phase N_ph: coils per phase times turns per coil, over parallel paths",
     ),
     Entry(
+        "winding.short_circuit_current",
+        "A",
+        "steady three-phase short-circuit current rms, psi / L_s = E / (omega L_s) with"
+        " the hot magnet's EMF, resistance neglected (the highest)",
+        ("surface_pm",),
+    ),
+    Entry(
+        "winding.slot_leakage_inductance",
+        "mH",
+        "L_u = 4 m mu0 l N_ph^2 lambda / Q, lambda = stator.slot_permeance",
+    ),
+    Entry(
+        "winding.synchronous_inductance",
+        "mH",
+        "L_m (1 + sigma_delta) + L_u + L_ew: magnetising (salient poles: d-axis),"
+        " harmonic, slot and end leakage; unsaturated",
+        ("surface_pm", "salient_field"),
+    ),
+    Entry(
         "winding.temperature_rise",
         "K",
         "lumped steady-state estimate of the mean winding rise over the coolant, every loss"
@@ -458,6 +652,13 @@ ENTRIES: tuple[Entry, ...] = (
         " teeth and yoke with the stray load at the teeth, rotor loss across the gap,"
         " friction at the frame; open machines: rotor loss and friction leave with the"
         " through air; an estimate, to be confirmed by test)",
+    ),
+    Entry(
+        "winding.torque_constant",
+        "N*m/A",
+        "k_T = m p E / omega (torque per rms ampere on the q-axis), E ="
+        " winding.back_emf with the hot magnet; the JSON unit Wb is N m/A",
+        ("surface_pm",),
     ),
     Entry(
         "winding.winding_factor",

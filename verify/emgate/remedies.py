@@ -338,6 +338,7 @@ class _Search:
         lo, lo_margin = f.number, base  # failing side
         prev = lo
         hi: float | None = None
+        cap = self._wire_cap(f, up)  # a round wire stays within the standard sizes
         k = 1
         while True:
             factor = STEP**k
@@ -348,6 +349,8 @@ class _Search:
                 x = float(math.ceil(x) if up else math.floor(x))
                 if x == lo:
                     x = lo + (1 if up else -1)
+            if cap is not None and (x >= cap if up else x <= cap):
+                x, factor = cap, MAX_FACTOR  # the last step
             _, m = self.at(f, x)
             if m is None:  # past the valid range: find its edge
                 edge = self._edge(f, lo, x)
@@ -385,6 +388,11 @@ class _Search:
             if factor >= MAX_FACTOR:
                 break
             k += 1
+        if hi is None and cap is not None and lo == cap:
+            return none(
+                f"at the {'largest' if up else 'smallest'} standard size, {f.text(cap)}"
+                f" ({WIRE_TABLE}), the check stays beyond its limit (margin {lo_margin:+.1%})"
+            )
         if hi is None:
             return none(
                 f"moved as far as {f.text(lo)} (the search stops at {MAX_FACTOR:g} times or"
@@ -479,6 +487,16 @@ class _Search:
             and conductor.get("shape") == "round"
             and f.unit != ""
         )
+
+    def _wire_cap(self, f: NumberField, up: bool) -> float | None:
+        """The largest (``up``) or smallest standard wire size in the record's unit, for a
+        round wire's bare diameter; None for any other field."""
+        if not self._wire(f):
+            return None
+        from emgate.units import convert
+
+        per_mm = convert(f"1 {f.unit}", "length") / 1e-3
+        return float(_fmt((max if up else min)(WIRE_DIAMETERS_MM) / per_mm))
 
     def _standard_wire(self, f: NumberField, x: float, up: bool) -> tuple[float, str]:
         """The next standard nominal diameter from ``x`` away from the limit, in the

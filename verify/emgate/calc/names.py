@@ -95,9 +95,93 @@ ENTRIES: tuple[Entry, ...] = (
         "(gap + teeth ampere-turns) over gap ampere-turns",
     ),
     Entry(
+        "losses.friction_windage",
+        "W",
+        "losses.friction_windage of the record when declared (measured), else the estimate"
+        " k D (l + 0.6 tau_p) v^2, v = pi D n, k = 15 W s^2/m^4 with a shaft fan and 10"
+        " without (common practice, after Pyrhonen; from memory)",
+    ),
+    Entry(
+        "losses.rotor",
+        "W",
+        "induction: cage loss |s| P_gap, P_gap = (P2 + P_fw) / (1 - s) for a motor, output"
+        " plus stator losses for a generator; rotor iron loss not counted (slip frequency in"
+        " a cage rotor, steady flux in a synchronous one; slot-ripple pole-face loss is left"
+        " to the stray-load allowance); wound"
+        " field: I_f^2 R_f at the class reference temperature plus two brushes' drop"
+        " (carbon 1.0 V, metal-carbon 0.3 V; IEC 60034-2-1, from memory) times I_f;"
+        " surface magnets: losses.magnet_eddy of the record when declared, else an upper"
+        " bound from the travelling waves of the staircase MMF, B_n = mu0 F_n / g_m seen at"
+        " |n/p -+ 1| omega by unsegmented magnets of unlimited length, resistance limited"
+        " (rho 1.4 uOhm m); slot-permeance and inverter harmonics not included",
+    ),
+    Entry(
+        "losses.stator_copper",
+        "W",
+        "m I^2 R at the reference temperature of the insulation class, the IEC 60034-2-1"
+        " basis of the efficiency (the thermal estimate re-evaluates it at"
+        " winding.operating_temperature)",
+    ),
+    Entry(
+        "losses.stator_iron",
+        "W",
+        "losses.stator_iron_teeth plus losses.stator_iron_yoke",
+    ),
+    Entry(
+        "losses.stator_iron_teeth",
+        "W",
+        "build factor x specific loss at stator.tooth_flux_density and the rated frequency x"
+        " tooth mass (bore to slot bottom, less the slots); build factor 1.8 induction, 2.0"
+        " synchronous (from memory: Pyrhonen); specific loss from the steel's loss table when"
+        " a materials file gives one, else the designation's 1.5 T / 50 Hz figure split into"
+        " hysteresis f B^2, classical eddy pi^2 d^2 (B f)^2 / (6 rho_e rho_m) and excess"
+        " (f B)^1.5 (15 % of the non-classical part) (Bertotti); no-load flux for magnet and"
+        " field machines; valid while the sheet is thinner than the skin depth (above, it"
+        " overstates)",
+    ),
+    Entry(
+        "losses.stator_iron_yoke",
+        "W",
+        "as losses.stator_iron_teeth at stator.yoke_flux_density with the yoke mass and a"
+        " build factor of 1.5",
+    ),
+    Entry(
+        "losses.stray_load",
+        "W",
+        "losses.stray_load of the record when declared (measured), else the IEC 60034-2-1"
+        " assigned allowance P1 (0.025 - 0.005 log10(P2 / 1 kW)), 2.5 % of input up to 1 kW,"
+        " 0.5 % from 10 MW (from memory)",
+    ),
+    Entry(
+        "losses.total",
+        "W",
+        "stator copper, stator iron, rotor, stray load, friction and windage",
+    ),
+    Entry(
         "magnetic.total_mmf",
         "A",
         "ampere-turns per pole of the whole loop: gap, teeth, pole body and half of each yoke",
+    ),
+    Entry(
+        "rating.efficiency",
+        "1",
+        "output over input, P2 / (P2 + losses.total), copper at the reference temperature of"
+        " the insulation class (the IEC 60034-2-1 basis of IEC 60034-30-1)",
+    ),
+    Entry(
+        "rating.efficiency_class",
+        "1",
+        "IEC 60034-30-1 class reached by rating.efficiency at the rated power, poles and"
+        " frequency: 1 to 4 for IE1 to IE4, 0 below IE1, NaN outside the standard (a"
+        " generator, not 50/60 Hz, not 2-8 poles, outside 0.12-1000 kW); table from memory,"
+        " linear in log10 P between rated powers",
+        ("induction",),
+    ),
+    Entry(
+        "rating.input_power",
+        "kW",
+        "motor: electrical input P2 + losses.total; generator: shaft input, output plus"
+        " losses (output = input - losses)",
     ),
     Entry(
         "rating.slip",
@@ -185,6 +269,15 @@ ENTRIES: tuple[Entry, ...] = (
         "rotor.magnet_coercivity_hot",
         "kA/m",
         "intrinsic coercivity at the magnet operating temperature, H_cJ0 (1 + beta (T - T0))",
+        ("surface_pm",),
+    ),
+    Entry(
+        "rotor.magnet_temperature",
+        "degC",
+        "magnet temperature of the magnet checks: rotor.magnet.operating_temperature of the"
+        " record, or when it declares none the estimated rotor temperature (one pass of the"
+        " thermal network with the magnet at the class reference temperature; that"
+        " temperature where the network gives none)",
         ("surface_pm",),
     ),
     Entry(
@@ -287,6 +380,14 @@ ENTRIES: tuple[Entry, ...] = (
         "mm",
         "radial height of the rotor yoke, from the inner diameter to the cage slots, magnets"
         " or pole bodies",
+    ),
+    Entry(
+        "rotor.temperature",
+        "degC",
+        "estimated rotor surface temperature: the bore temperature of the thermal network"
+        " plus losses.rotor across the gap (Becker and Kaye gap Nusselt number, from"
+        " memory); NaN for direct liquid and open ventilated cooling (the through air"
+        " carries the rotor loss)",
     ),
     Entry(
         "stator.aspect_ratio",
@@ -583,6 +684,13 @@ ENTRIES: tuple[Entry, ...] = (
         drivers=("winding.coil_pitch",),
     ),
     Entry(
+        "winding.operating_temperature",
+        "degC",
+        "mean winding temperature at the fixed point T = T_c + rise(P_cu(T)), R(T) by IEC"
+        " 60028 (copper alpha20 0.00393 /K), all losses in the thermal network, to 0.01 K; a"
+        " run-away (no fixed point) is not computed",
+    ),
+    Entry(
         "winding.phase_current",
         "A",
         "rated line current through the connection of m phases"
@@ -598,6 +706,11 @@ ENTRIES: tuple[Entry, ...] = (
         "winding.phase_resistance_hot",
         "ohm",
         "phase resistance at the reference temperature of the insulation class",
+    ),
+    Entry(
+        "winding.phase_resistance_operating",
+        "ohm",
+        "phase resistance at winding.operating_temperature",
     ),
     Entry(
         "winding.phase_voltage",
@@ -632,8 +745,11 @@ ENTRIES: tuple[Entry, ...] = (
     Entry(
         "winding.temperature_rise",
         "K",
-        "lumped steady-state estimate of the mean winding"
-        " rise over the coolant, copper loss only (an estimate, to be confirmed by test)",
+        "lumped steady-state estimate of the mean winding rise over the coolant, every loss"
+        " where it arises (copper in slots and ends at winding.operating_temperature, iron in"
+        " teeth and yoke with the stray load at the teeth, rotor loss across the gap,"
+        " friction at the frame; open machines: rotor loss and friction leave with the"
+        " through air; an estimate, to be confirmed by test)",
         drivers=(
             "winding.conductor.bare_diameter",
             "winding.conductor.width",

@@ -14,6 +14,7 @@ def emgate_rules() -> list[type[Rule]]:
     from emgate_rules.declared_values import DeclaredValues
     from emgate_rules.demagnetisation import Demagnetisation
     from emgate_rules.demagnetisation_fault import DemagnetisationFault
+    from emgate_rules.efficiency import Efficiency
     from emgate_rules.gap_flux import GapFlux
     from emgate_rules.mmf_thd import MmfThd
     from emgate_rules.nameplate import Nameplate
@@ -32,6 +33,7 @@ def emgate_rules() -> list[type[Rule]]:
         CurrentDensity,
         DeclaredValues,
         Demagnetisation,
+        Efficiency,
         DemagnetisationFault,
         GapFlux,
         MmfThd,

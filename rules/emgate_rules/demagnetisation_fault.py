@@ -73,7 +73,7 @@ class DemagnetisationFault(Rule[DemagnetisationFaultOptions]):
         factor = options.current_factor
         declared = design.rating.peak_current is not None
         source = "declared peak current" if declared else "short-circuit current"
-        hot_t = design.rotor.magnet.operating_temperature
+        hot_t = sheet["rotor.magnet_temperature"]  # declared, or the estimate
         cases = []
         for name, temperature, cold, coercivity in (
             ("hot", hot_t, False, "rotor.magnet_coercivity_hot"),

@@ -106,6 +106,13 @@ def _parser() -> argparse.ArgumentParser:
         help="also note each YAML file found under a folder that is not an emgate file"
         " (skipped silently otherwise)",
     )
+    c.add_argument(
+        "--remedies",
+        choices=["on", "off"],
+        default="on",
+        help="for each failing check, the value of a record field that would fix it (default"
+        " on; off is faster)",
+    )
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path, metavar="FILE", help="a design record")
     s.add_argument(
@@ -346,7 +353,13 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
         policy = load_policy(config, rules, Path.cwd(), installed)
         _narrow(policy, dropped)
         paths = list(args.paths) or (policy.configured_files() if policy.source else [Path(".")])
-        run = Run(paths=paths, policy=policy, plugins=plugins, verbose=args.verbose)
+        run = Run(
+            paths=paths,
+            policy=policy,
+            plugins=plugins,
+            verbose=args.verbose,
+            remedies=args.remedies == "on",
+        )
         if args.changed_since:
             from emgate.changes import changed_since
 

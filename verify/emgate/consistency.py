@@ -171,7 +171,7 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             attempt((*at, "corner_radius"), partial(conductor_strand_area, c))
     if w.slot_liner:
         attempt(("winding", "slot_liner"), partial(slot_winding_area, st.slot, w.slot_liner))
-    if d.machine == "surface_pm":
+    if d.machine == "surface_pm" and d.rotor.magnet.operating_temperature is not None:
         m = d.rotor.magnet
         hot, t0 = m.operating_temperature, m.material.reference_temperature
         # The kernel's reversible law on a unit value: the share of Br0 and H_cJ0 left.
@@ -181,7 +181,7 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             out.append(
                 (
                     ("rotor", "magnet", "operating_temperature"),
-                    f"at {m.operating_temperature - 273.15:g} degC the temperature"
+                    f"at {hot - 273.15:g} degC the temperature"
                     " coefficients leave the magnet no remanence or coercivity",
                 )
             )

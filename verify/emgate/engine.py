@@ -82,6 +82,8 @@ class Run:
     changes: ChangeSet | None = None
     #: Also report the YAML files under a folder that are not emgate files (--verbose).
     verbose: bool = False
+    #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
+    remedies: bool = True
 
 
 def discover(paths: Iterable[Path], result: RunResult, verbose: bool = False) -> list[Source]:
@@ -387,6 +389,11 @@ def _check_design(
             _check_rule(run, ld, policy, loaded.rule, context, record, produced, builtin)
     finally:  # an error of emgate's own keeps what the rules before it found
         result.findings.extend(apply_waivers(waivers, produced, record, run.today))
+    if run.remedies:
+        from emgate.remedies import attach_remedies
+
+        budget = run.policy.rule_time_budget
+        attach_remedies(ld.doc, catalogue, policy, run.plugins, ld.file, budget, produced)
 
 
 def _check_rule(

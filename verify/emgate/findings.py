@@ -5,11 +5,14 @@ from __future__ import annotations
 import hashlib
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Literal
+from typing import TYPE_CHECKING, Literal
 
 from emgate.errors import display_path
 from emgate.rule import Check
 from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK, Severity
+
+if TYPE_CHECKING:
+    from emgate.remedy import Remedy
 
 Status = Literal["pass", "fail", "waived", "crash", "not_applicable"]
 DISCLAIMER = (
@@ -40,6 +43,8 @@ class Finding:
     #: The file relative to the repository's root (:func:`anchor`), whatever the working
     #: folder; None where nobody anchored the finding (then :attr:`file` stands for it).
     repo_file: str | None = None
+    #: For a failing check, what would fix it (``emgate.remedies``; empty with --remedies off).
+    remedies: list[Remedy] = field(default_factory=list)
 
     @property
     def fingerprint(self) -> str:

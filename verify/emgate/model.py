@@ -230,6 +230,24 @@ class Cooling(Strict):
     )
 
 
+class MeasuredLosses(Strict):
+    """Losses the team has measured (or otherwise established) that replace emgate's
+    estimate of the same loss."""
+
+    stray_load: Power | None = Field(
+        default=None,
+        description="additional load losses measured by IEC 60034-2-1 (otherwise its assigned"
+        " allowance)",
+    )
+    friction_windage: Power | None = Field(
+        default=None, description="friction and windage, measured (otherwise an estimate)"
+    )
+    magnet_eddy: Power | None = Field(
+        default=None,
+        description="surface-magnet eddy loss (otherwise an estimate from the MMF harmonics)",
+    )
+
+
 class Waiver(Strict):
     rule: str
     path: str | None = Field(
@@ -305,7 +323,11 @@ class Magnet(Strict):
     thickness: Length
     pole_arc: Fraction = Field(description="magnet arc as a fraction of the pole pitch")
     material: MagnetMaterial
-    operating_temperature: Temperature
+    operating_temperature: Temperature | None = Field(
+        default=None,
+        description="magnet temperature the magnet checks use; when absent, emgate's"
+        " estimated rotor temperature (rotor.temperature)",
+    )
 
 
 class SurfacePMRotor(Strict):
@@ -326,6 +348,11 @@ class FieldCoil(Strict):
     turns_per_pole: int = Field(ge=1, le=100000)
     current: Current
     conductor: Conductor
+    brushes: Literal["none", "carbon", "metal_carbon"] = Field(
+        default="none",
+        description="field fed through slip rings and two brushes of this kind (their drop"
+        " counts as rotor loss), or 'none' for a brushless exciter",
+    )
 
 
 class SalientRotor(Strict):
@@ -350,6 +377,11 @@ class DesignBase(Strict):
     )
     winding: Winding
     cooling: Cooling
+    losses: MeasuredLosses | None = Field(
+        default=None,
+        description="measured losses that replace emgate's estimates (stray load, friction"
+        " and windage, magnet eddy loss)",
+    )
     declared: dict[str, str | float] = Field(
         default_factory=dict,
         description="the designer's own figures, by emgate quantity name, for the"
@@ -390,6 +422,29 @@ UNION_TAGS = frozenset({*MACHINE_KINDS, "semi_closed", "open", "round", "rectang
 # --- materials file ---------------------------------------------------------------------
 
 
+class LossCurveTable(Strict):
+    """Specific loss against peak flux density at one frequency."""
+
+    frequency: Frequency
+    points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
+        min_length=2, max_length=200, description="(B, loss) pairs, B increasing"
+    )
+
+
+class LossTable(Strict):
+    """Measured specific iron loss of a steel (sinusoidal flux, Epstein or single sheet)."""
+
+    source: Annotated[str, StringConstraints(min_length=3)] = Field(
+        description="where the losses come from (supplier datasheet, measurement report)"
+    )
+    columns: Annotated[list[str], Field(min_length=2, max_length=2)] = Field(
+        description="units of the two columns, e.g. ['T', 'W/kg']"
+    )
+    curves: list[LossCurveTable] = Field(
+        min_length=1, max_length=20, description="one curve per frequency"
+    )
+
+
 class SteelTable(Strict):
     """A steel grade given as a B-H table."""
 
@@ -402,6 +457,11 @@ class SteelTable(Strict):
     )
     points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
         min_length=3, max_length=500, description="(B, H) pairs from (0, 0), increasing"
+    )
+    losses: LossTable | None = Field(
+        default=None,
+        description="specific loss against B at one or more frequencies; when given it wins"
+        " over the scaling from a grade designation",
     )
 
 

@@ -437,6 +437,8 @@ def si_unit(unit: str) -> str:
     which the JSON outputs give values."""
     if unit in ("", "1"):
         return "1"
+    if unit in CELSIUS:  # a display unit of absolute temperature: SI kelvin
+        return "K"
     dims = parse_unit(unit)[1]
     if dims in _NAMED_SI:
         return _NAMED_SI[dims]

@@ -120,7 +120,7 @@ def magnetic(c: Calculation) -> GapResult:
             winding_factor=winding.winding_factor(c),
         )
     if d.machine == "surface_pm":
-        return _surface_pm_circuit(c, d.rotor.magnet.operating_temperature)
+        return _surface_pm_circuit(c, c.value("rotor.magnet_temperature"))  # calc.thermal
     return salient_circuit(c, d.rotor.field.turns_per_pole * d.rotor.field.current)
 
 

@@ -55,6 +55,7 @@ def finding_dict(f: Finding) -> dict[str, Any]:
         "waived": f.waived_by is not None,
         "waiver": f.waived_by,
         "check": check_dict(f.check) if f.check else None,
+        "remedies": [r.as_dict() for r in f.remedies],
     }
 
 

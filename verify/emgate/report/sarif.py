@@ -27,6 +27,7 @@ from urllib.parse import quote
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RuleInfo, RunResult
+from emgate.remedies import sarif_fixes
 from emgate.report.common import VERDICTS, rules_run
 from emgate.report.jsonfmt import check_dict
 
@@ -101,6 +102,9 @@ def _result(f: Finding, index: int) -> dict[str, Any]:
         out["suppressions"] = [
             {"kind": "external", "status": "accepted", "justification": f.waived_by}
         ]
+    fixes = sarif_fixes(f, _artifact(f)) if f.file else []
+    if fixes:
+        out["fixes"] = fixes
     props: dict[str, Any] = {"kind": f.kind, "recordId": f.record_id}
     if f.check:
         props["check"] = check_dict(f.check)

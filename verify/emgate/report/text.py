@@ -7,16 +7,19 @@ from __future__ import annotations
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
+from emgate.remedies import report_lines
 from emgate.report.common import margins_line, rules_line, summary_line, where
 
 
-def _line(f: Finding) -> str:
+def _line(f: Finding, remedies: bool = True) -> str:
     sev = "waived" if f.waived_by else f.severity
     text = f"  {where(f)}: {sev} {f.rule}: {f.message}"
     if f.record_path != "$":
         text += f" [{f.record_path}]"
     if f.waived_by:
         text += f"\n      waived: {f.waived_by}"
+    for remedy in report_lines(f) if remedies else ():
+        text += f"\n      {remedy}"
     return text
 
 
@@ -33,12 +36,15 @@ def _paint(text: str, key: str, colour: bool) -> str:
 
 
 def render(result: RunResult, *, quiet: bool = False, colour: bool = False) -> str:
-    """The report; ``quiet``: the findings and the caution alone (nothing when clean);
-    ``colour``: ANSI colours by severity."""
+    """The report; ``quiet``: the findings (without remedies) and the caution alone
+    (nothing when clean); ``colour``: ANSI colours by severity."""
     out: list[str] = []
     for file, group in groupby(result.findings, key=lambda f: f.file):
         out.append(file or "(run)")
-        out.extend(_paint(_line(f), "waived" if f.waived_by else f.severity, colour) for f in group)
+        out.extend(
+            _paint(_line(f, not quiet), "waived" if f.waived_by else f.severity, colour)
+            for f in group
+        )
         out.append("")
     if quiet:  # every report carries the caution, a quiet one too
         return "\n".join([*out, DISCLAIMER]) + "\n" if out else ""

@@ -8,9 +8,17 @@ the JSON Schemas in schemas/ (``nox -s schema`` regenerates them).
 from __future__ import annotations
 
 import datetime as dt
-from typing import Annotated, Any, Literal
+from typing import Annotated, Any, Literal, get_args, get_origin
 
-from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, StringConstraints
+from pydantic import (
+    BaseModel,
+    BeforeValidator,
+    ConfigDict,
+    Field,
+    StringConstraints,
+    WithJsonSchema,
+    model_validator,
+)
 
 from emgate.quantity import (
     Current,
@@ -34,6 +42,29 @@ class Strict(BaseModel):
     """Unknown keys are errors; numbers are not read from quoted text."""
 
     model_config = ConfigDict(extra="forbid", strict=True, frozen=True)
+
+    @model_validator(mode="before")
+    @classmethod
+    def _whole_numbers(cls, data: Any) -> Any:
+        """21.0 is the whole number 21, as JSON Schema (and so every editor) counts it: a
+        whole-number field takes it, and 21.5 stays an error."""
+        if not isinstance(data, dict):
+            return data
+        out = dict(data)
+        for name, info in cls.model_fields.items():
+            key = info.alias or name
+            value = out.get(key)
+            if isinstance(value, float) and value.is_integer() and _whole(info.annotation):
+                out[key] = int(value)
+        return out
+
+
+def _whole(annotation: Any) -> bool:
+    """A field of whole numbers: int, or a choice of ints (``Literal[1, 2]``)."""
+    if annotation is int:
+        return True
+    args = get_args(annotation)
+    return get_origin(annotation) is Literal and all(type(a) is int for a in args)
 
 
 # --- shared parts -----------------------------------------------------------------------
@@ -173,14 +204,27 @@ class Winding(Strict):
     parallel_paths: int = Field(default=1, ge=1, le=100)
     conductor: Conductor
     insulation_class: Annotated[
-        Literal["A", "E", "B", "F", "H"], BeforeValidator(_class_letter)
+        Literal["A", "E", "B", "F", "H"],
+        BeforeValidator(_class_letter),
+        WithJsonSchema(
+            {
+                "anyOf": [
+                    {"enum": ["A", "E", "B", "F", "H", *CLASS_BY_TEMPERATURE]},
+                    {"enum": [int(t) for t in CLASS_BY_TEMPERATURE]},
+                ],
+                "examples": ["F", 155],
+            }
+        ),
     ] = Field(
         description="thermal class of IEC 60085, by letter or temperature (105 A, 120 E, 130 B,"
         " 155 F, 180 H: the classes whose IEC 60034-1 rise limits and loss reference"
         " temperatures emgate holds; for 200 (N) and above there is no such data yet)"
     )
     slot_liner: LengthOrZero | None = Field(
-        default=None, description="slot liner (ground insulation) thickness"
+        default=None,
+        description="slot liner (ground insulation) thickness; 0.25 mm when absent (a"
+        " low-voltage random winding's liner; common practice, no source)",
+        json_schema_extra={"default": "0.25 mm", "examples": ["0.25 mm", "0.4 mm"]},
     )
     layout: list[SlotEntry] | None = Field(
         default=None,
@@ -199,9 +243,21 @@ class Cooling(Strict):
         "enclosed_natural", "enclosed_fan", "open_ventilated", "liquid_jacket", "direct_liquid"
     ]
     code: (
-        Annotated[str, BeforeValidator(_ic_code), StringConstraints(pattern=r"^IC[0-9A-Z]{2,12}$")]
+        Annotated[
+            str,
+            BeforeValidator(_ic_code),
+            StringConstraints(pattern=r"^IC[0-9A-Z]{2,12}$"),
+            # the pattern on the text as written: spaces and lower case are normalised
+            WithJsonSchema({"type": "string", "pattern": r"^ *[Ii] *[Cc]( *[0-9A-Za-z]){2,12} *$"}),
+        ]
         | None
-    ) = Field(default=None, description="IEC 60034-6 cooling code, e.g. IC411")
+    ) = Field(
+        default=None,
+        description="IEC 60034-6 cooling code: 'IC', the circuit arrangement and the coolant's"
+        " way of moving, e.g. IC411 (totally enclosed, fan-cooled) or IC01 (open, self-"
+        "ventilated)",
+        examples=["IC411"],
+    )
     ambient: Temperature = Field(description="coolant (ambient air or inlet liquid) temperature")
     ambient_min: Temperature | None = Field(
         default=None,
@@ -310,7 +366,10 @@ class MagnetMaterial(Strict):
     coercivity_temperature_coefficient: PerTemperature = Field(
         default="-0.6 %/K",
         validate_default=True,
-        description="temperature coefficient of H_cJ, e.g. '-0.6 %/K' (NdFeB; default)",
+        description="temperature coefficient of H_cJ; -0.6 %/K when absent, a sintered"
+        " NdFeB's (from memory, manufacturers' data sheets): a ferrite magnet's coercivity"
+        " rises with temperature (a positive coefficient, some +0.2 to +0.5 %/K, from"
+        " memory), so give its own value",
     )
     reference_temperature: Temperature = Field(
         default="20 degC",

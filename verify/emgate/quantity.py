@@ -7,6 +7,7 @@ offers the same contract as emgate.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from typing import Annotated, Any
 
 from pydantic import AfterValidator, BeforeValidator, WithJsonSchema
@@ -42,6 +43,32 @@ def _non_negative(value: float) -> float:
     return value
 
 
+@dataclass(frozen=True)
+class DimensionPattern:
+    """The schema's pattern of a quantity field: only its dimension's units, and a sign and
+    a zero as the field takes them (a bare 0 needs no unit, except for a temperature).
+    Built when a schema is asked for, never on the start-up path of a check."""
+
+    dimension: str
+    sign: str
+
+    def __get_pydantic_json_schema__(self, core: Any, handler: Any) -> dict[str, Any]:
+        from emgate.unit_patterns import quantity_pattern
+
+        schema = dict(handler(core))
+        # a temperature's sign is on the absolute scale: '-20 degC' and '0 degC' are positive
+        sign = "any" if self.dimension == "temperature" else self.sign
+        text = {"type": "string", "pattern": quantity_pattern(self.dimension, sign)}
+        if "anyOf" in schema:  # dimensionless: a number or a text
+            schema["anyOf"] = [{"type": "number"}, text]
+        elif self.sign == "positive" or self.dimension == "temperature":
+            schema |= text
+        else:
+            schema = {k: v for k, v in schema.items() if k not in ("type", "pattern")}
+            schema["anyOf"] = [{"const": 0}, text]
+        return schema
+
+
 def quantity(dimension: str, *, sign: str = "positive") -> Any:
     """An annotated float field holding a quantity of ``dimension`` in SI units.
 
@@ -71,7 +98,13 @@ def quantity(dimension: str, *, sign: str = "positive") -> Any:
         "non_negative": [AfterValidator(_non_negative)],
         "any": [],
     }[sign]
-    return Annotated[float, BeforeValidator(_converter(dimension)), *checks, WithJsonSchema(schema)]
+    return Annotated[
+        float,
+        BeforeValidator(_converter(dimension)),
+        *checks,
+        WithJsonSchema(schema),
+        DimensionPattern(dimension, sign),
+    ]
 
 
 Length = quantity("length")

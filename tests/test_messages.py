@@ -103,6 +103,11 @@ def test_a_missing_key_gives_a_typical_value(tmp_path: Path) -> None:
     assert error["message"] == "required key 'air_gap' is missing; for example 'air_gap: 0.45 mm'"
 
 
+def test_a_missing_whole_number_gives_a_typical_value(tmp_path: Path) -> None:
+    (error,) = errors_of(tmp_path, replaced("poles: 4\n", ""))
+    assert error["message"] == "required key 'poles' is missing; for example 'poles: 4'"
+
+
 def test_a_missing_mapping_names_the_keys_it_needs(tmp_path: Path) -> None:
     text = PUMP.read_text()
     start = text.index("cooling:\n")

@@ -191,3 +191,24 @@ def test_every_example_in_the_schema_is_a_valid_value(kind: str) -> None:
 
     walk(schema, "#")
     assert bad == []
+
+
+def _scalar(prop: dict[str, Any]) -> bool:
+    branches = [prop, *prop.get("anyOf", [])]
+    return not any("$ref" in b or b.get("type") in ("object", "array") for b in branches)
+
+
+@pytest.mark.parametrize("kind", ["design", "materials", "waivers"])
+def test_every_property_is_described_and_every_value_has_an_example(kind: str) -> None:
+    """An editor's hover shows the description and its completion inserts the first
+    example: no property is left with none, or with only its type's generic text."""
+    schema = json.loads((SCHEMAS / f"{kind}.schema.json").read_text())
+    bare, no_example = [], []
+    for model, definition in schema["$defs"].items():
+        for name, prop in definition.get("properties", {}).items():
+            text = str(prop.get("description", ""))
+            if not text or "with its unit, e.g." in text:
+                bare.append(f"{model}.{name}")
+            if _scalar(prop) and "examples" not in prop and "const" not in prop:
+                no_example.append(f"{model}.{name}")
+    assert bare == [] and no_example == []

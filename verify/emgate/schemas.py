@@ -11,7 +11,8 @@ check-jsonschema) says what emgate says:
   generic validators ignore and then report the closest-looking branch's errors;
 - the configuration's ``options`` (and each override's) name every installed rule, each with
   its own options schema: a key a rule does not have, or an id no installed rule has, is red
-  in the editor as it is an error for emgate.
+  in the editor as it is an error for emgate;
+- each record field's meaning, typical range and typical value (``emgate.field_docs``).
 """
 
 from __future__ import annotations
@@ -33,9 +34,10 @@ def schema_text(kind: str, rules: Mapping[str, Any] | None = None) -> str:
         schema = config_json_schema()
         _rule_options(schema, _installed_rules() if rules is None else rules)
     else:
+        from emgate.field_docs import annotate
         from emgate.model import json_schema
 
-        schema = json_schema(kind)
+        schema = annotate(json_schema(kind))
     schema = branch_by_tag(schema)
     return json.dumps(schema, indent=2, sort_keys=True) + "\n"
 

@@ -109,9 +109,11 @@ def _typical(data: Any, path: RecordPath) -> str:
         info = model.model_fields.get(key) or next(
             (f for f in model.model_fields.values() if f.alias == key), None
         )
-    if info is None:
+    if info is None or model is None:
         return ""
-    examples = list(info.examples or [])
+    from emgate.field_docs import doc_for
+
+    examples = doc_for(model.__name__, key)[1] + list(info.examples or [])
     for meta in info.metadata:
         if isinstance(meta, WithJsonSchema) and meta.json_schema:
             examples += meta.json_schema.get("examples", [])

@@ -184,6 +184,7 @@ def test_the_github_workflow_passes_a_push_to_main(world: dict) -> None:
         assert done.returncode == 0, f"{name}: {done.stdout}{done.stderr}"
     assert [name for name, _ in results] == [
         "Install emgate",
+        "Make the reports folder",
         "Run the gate",
         "Annotations and job summary",
     ]

@@ -112,9 +112,8 @@ def discover(paths: Iterable[Path], result: RunResult, verbose: bool = False) ->
             m = _DECLARES.search(text[:4096])
             declared = m.group(1) if m else _declared_by_parsing(path, text)
             if declared is None:
-                if (
-                    explicit or verbose
-                ):  # a file named (pre-commit passes CI files): say, do not fail
+                # a file named, or --verbose: say so, do not fail (pre-commit passes CI files)
+                if explicit or verbose:
                     result.findings.append(
                         Finding(
                             "input",

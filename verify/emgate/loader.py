@@ -119,14 +119,14 @@ class _Builder:
                     f"nesting deeper than {MAX_DEPTH} levels", Location(self.path, line, col, "$")
                 ) from None
             if problem in _LOST_COLON and mark is not None:
-                line = _line_without_colon(self.text, mark.line)
-                if line is not None:
-                    text = self.text.splitlines()[line]
+                lost = _line_without_colon(self.text, mark.line)
+                if lost is not None:
+                    text = self.text.splitlines()[lost]
                     raise InputError(
                         "YAML syntax error: a ':' is likely missing after the key on this"
                         f" line (write 'key: value'; the parser stopped on line"
                         f" {mark.line + 1}: {problem})",
-                        Location(self.path, line + 1, len(text) - len(text.lstrip()) + 1, "$"),
+                        Location(self.path, lost + 1, len(text) - len(text.lstrip()) + 1, "$"),
                     ) from None
             raise self.fail(mark, f"YAML syntax error: {problem}") from None
         except yaml.YAMLError as exc:

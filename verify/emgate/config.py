@@ -8,6 +8,7 @@ validated against that rule's own options model, with located errors.
 from __future__ import annotations
 
 import fnmatch
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 from functools import cache
 from pathlib import Path
@@ -60,6 +61,18 @@ def _relative_glob(pattern: str) -> str:
 
 RelativeGlobs = list[Annotated[str, AfterValidator(_relative_glob)]]
 
+#: Files that need not be emgate files unless the policy says otherwise: hidden files and
+#: folders (.github/, .gitlab-ci.yml, .pre-commit-config.yaml). '*' matches across folders.
+DEFAULT_IGNORE = (".*", "*/.*")
+
+
+def glob_match(rel: str, globs: Iterable[str]) -> bool:
+    """Whether a path relative to the repository matches one of ``globs`` ('*' also
+    matches across folders, and '**/' matches no folder too)."""
+    return any(
+        fnmatch.fnmatchcase(rel, g) or fnmatch.fnmatchcase(rel, g.replace("**/", "")) for g in globs
+    )
+
 
 class Override(_Strict):
     files: RelativeGlobs = Field(
@@ -91,7 +104,15 @@ class ConfigFile(_Strict):
     )
     waivers: str = Field(
         default=WAIVERS_NAME,
-        description="the reviewed waivers file, relative to this file (ignored when absent)",
+        description="the reviewed waivers file, relative to this file, inside the repository"
+        " (ignored when absent)",
+    )
+    ignore_files: RelativeGlobs = Field(
+        default_factory=lambda: list(DEFAULT_IGNORE),
+        description="glob patterns, relative to this file, of YAML files that are not emgate"
+        " files and may stay so (hidden files and folders by default, where CI configuration"
+        " lives); every other file the files globs select, or named on the command line, must"
+        " be a valid emgate file. A valid emgate record is checked even when listed here",
     )
 
 
@@ -126,18 +147,35 @@ class Policy:
     overrides: list[tuple[tuple[str, ...], RulePolicy]] = field(default_factory=list)
     source: Path | None = None
     waivers_file: Path | None = None
+    ignore_files: list[str] = field(default_factory=lambda: list(DEFAULT_IGNORE))
+
+    def relative(self, path: Path) -> str | None:
+        """``path`` relative to the repository root, or None outside it."""
+        try:
+            return path.resolve().relative_to(self.root.resolve()).as_posix()
+        except (ValueError, OSError):
+            return None
+
+    def inside(self, path: Path) -> bool:
+        return self.relative(path) is not None
+
+    def selects(self, path: Path) -> bool:
+        """Whether the ``files`` globs select a file."""
+        rel = self.relative(path)
+        return rel is not None and glob_match(rel, self.files)
+
+    def ignored(self, path: Path) -> bool:
+        """Whether ``ignore_files`` lets a file be no emgate file."""
+        rel = self.relative(path)
+        return rel is not None and glob_match(rel, self.ignore_files)
 
     def for_file(self, path: Path) -> RulePolicy:
         """The policy for one record: the last matching override wins, else the base."""
-        try:
-            rel = path.resolve().relative_to(self.root.resolve()).as_posix()
-        except ValueError:
+        rel = self.relative(path)
+        if rel is None:
             return self.base
         for globs, rule_policy in reversed(self.overrides):
-            if any(
-                fnmatch.fnmatchcase(rel, g) or fnmatch.fnmatchcase(rel, g.replace("**/", ""))
-                for g in globs
-            ):
+            if glob_match(rel, globs):
                 return rule_policy
         return self.base
 
@@ -282,6 +320,7 @@ def load_policy(
         overrides=overrides,
         source=path,
         waivers_file=waivers if waivers.is_file() else None,
+        ignore_files=list(cfg.ignore_files),
     )
 
 

@@ -16,7 +16,7 @@ from pathlib import Path
 
 from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy
-from emgate.errors import InputError, InputErrors, display_path
+from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
@@ -64,8 +64,21 @@ class Run:
     changes: ChangeSet | None = None
 
 
-def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
-    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema."""
+def discover(
+    paths: Iterable[Path],
+    result: RunResult,
+    policy: Policy | None = None,
+    changes: ChangeSet | None = None,
+) -> list[Source]:
+    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema.
+
+    Fail closed: a file that is not a valid emgate file is an input error when it resembles
+    one (a near-miss ``schema:`` value or key, a list root holding a record, a record's keys
+    with no schema), and, in a configured repository, whenever the configuration's ``files``
+    globs select it or it is named on the command line, unless ``ignore_files`` lists it.
+    Otherwise it is skipped (with a note when named). With a change set, only the files the
+    change touches are held to this.
+    """
     out: list[Source] = []
     seen: set[Path] = set()
     for root in paths:
@@ -89,13 +102,38 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
             if key in seen:
                 continue
             seen.add(key)
+            if explicit and not path.is_file():
+                result.findings.append(
+                    _input_finding(
+                        InputError(
+                            "not a regular file (a folder, device, pipe or socket): emgate reads"
+                            " only regular files",
+                            Location(path, 1, 1, "$"),
+                        )
+                    )
+                )
+                continue
             try:
                 text = read_text(path)
             except InputError as exc:
                 result.findings.append(_input_finding(exc))
                 continue
             m = _DECLARES.search(text[:4096])
-            declared = m.group(1) if m else _declared_by_parsing(path, text)
+            declared = m.group(1) if m and m.group(1) in _KNOWN else None
+            if declared is None:
+                declared, problem = _classify(path, text)
+                named = explicit or bool(changes and changes.named and key in changes.files)
+                strict = _strict(path, named, policy)
+                if problem is None and strict is not None:
+                    problem = InputError(
+                        "not an emgate file (no 'schema: emgate/...' line at the top level):"
+                        f" {strict}; list it under ignore_files in {CONFIG_NAME} if it is no"
+                        " record",
+                        Location(path, 1, 1, "$"),
+                    )
+                if problem is not None and _touched(changes, key):
+                    result.findings.append(_input_finding(problem))
+                    continue
             if declared is None:
                 if explicit:  # e.g. a CI file that pre-commit passes along: say, don't fail
                     result.findings.append(
@@ -117,6 +155,96 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
     return out
 
 
+#: Top-level keys of emgate records: a file holding one of them is meant as a record.
+RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
+_KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
+
+
+def _touched(changes: ChangeSet | None, key: Path) -> bool:
+    """Whether a change (if any) touches a file: an untouched file's problems are its own."""
+    return changes is None or changes.everything or key in changes.files
+
+
+def _strict(path: Path, named: bool, policy: Policy | None) -> str | None:
+    """Why a non-emgate file is an error here (None: it may be skipped)."""
+    if policy is None or policy.source is None or not policy.inside(path):
+        return None
+    if policy.ignored(path):
+        return None
+    if named:
+        return "it is named inside a configured repository"
+    if policy.selects(path):
+        return f"the files globs of {CONFIG_NAME} select it"
+    return None
+
+
+def _classify(path: Path, text: str) -> tuple[str | None, InputError | None]:
+    """A file the schema-line scan misses: (the emgate schema it declares, or None; the
+    reason it is a broken emgate file, or None when it does not resemble one)."""
+    import difflib
+
+    try:
+        doc = load_text(path, text)
+    except InputError as exc:
+        if "emgate" in text.lower() and exc.location is not None:
+            return None, InputError(f"not a valid emgate file: {exc.message}", exc.location)
+        return None, None
+    data = doc.data
+    if isinstance(data, list):
+        if any(isinstance(item, dict) and _resembles(item) for item in data):
+            return None, InputError(
+                "expected a mapping with a 'schema' key at the top level, found a list holding"
+                " a record: an emgate file holds one record, not a list",
+                doc.locate(()),
+            )
+        return None, None
+    if not isinstance(data, dict):
+        return None, None
+    for k in data:
+        if k != "schema" and k.strip().lower() == "schema":
+            return None, InputError(
+                f"key {k!r} is not 'schema': emgate reads the key in lower case, without"
+                " spaces; did you mean 'schema'?",
+                doc.locate_key((k,)),
+            )
+    if "schema" not in data:
+        if _resembles(data):
+            return None, InputError(
+                "a record's keys with no 'schema' key: expected 'schema: emgate/design@1'"
+                " (or another emgate schema) at the top level",
+                doc.locate(()),
+            )
+        return None, None
+    declared = data["schema"]
+    if isinstance(declared, str) and declared in _KNOWN:
+        return declared, None  # (flow style, JSON, CR line ends)
+    looks = isinstance(declared, str) and "emgate" in declared.lower()
+    if not looks and not _resembles(data):
+        return None, None
+    hint = ""
+    if isinstance(declared, str):
+        close = difflib.get_close_matches(declared.strip().lower(), _KNOWN, n=1, cutoff=0.6)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        if close and declared.strip().lower() != close[0]:
+            hint += " (emgate reads version 1 of each schema)"
+        hint += " Schema ids are lower case, without spaces."
+    shown = (
+        repr(declared)
+        if isinstance(declared, str) and len(declared) <= 40
+        else ("a list" if isinstance(declared, list) else type(declared).__name__)
+    )
+    return None, InputError(
+        f"expected one of {', '.join(repr(s) for s in _KNOWN)}, found {shown}{hint}",
+        doc.locate(("schema",)),
+    )
+
+
+def _resembles(data: dict) -> bool:
+    return bool(RECORD_KEYS.intersection(data)) or (
+        isinstance(data.get("schema"), str) and "emgate" in data["schema"].lower()
+    )
+
+
 _RECORD_ID = re.compile(r"^id:\s*['\"]?([a-z0-9][a-z0-9._-]*)", re.MULTILINE)
 
 
@@ -128,18 +256,6 @@ def _repository_record_ids(root: Path) -> set[str]:
         if src.declared == DESIGN_SCHEMA:
             ids.update(_RECORD_ID.findall(src.text))
     return ids
-
-
-def _declared_by_parsing(path: Path, text: str) -> str | None:
-    """The schema of a record the line scan misses (flow style, JSON, CR line ends)."""
-    if "emgate/" not in text:
-        return None
-    try:
-        data = load_text(path, text).data
-    except InputError:
-        return None
-    declared = data.get("schema") if isinstance(data, dict) else None
-    return declared if isinstance(declared, str) and declared.startswith("emgate/") else None
 
 
 def repository_root(start: Path) -> Path | None:
@@ -211,7 +327,7 @@ def execute(run: Run) -> RunResult:
         RuleInfo(rid, lr.rule.version, lr.rule.summary, lr.pack.distribution, lr.pack.version)
         for rid, lr in sorted(run.plugins.rules.items())
     ]
-    sources = discover(run.paths, result)
+    sources = discover(run.paths, result, run.policy, run.changes)
     named = {src.path.resolve() for src in sources}
     roots = {r for p in run.paths if p.exists() and (r := repository_root(p)) is not None}
     for root in sorted(roots):

@@ -88,6 +88,12 @@ class Catalogue:
                 errors.append(InputError(str(exc), doc.locate((*at, "density"))))
                 continue
             pts = np.asarray(table.points, dtype=float)
+            from emgate.plausible import steel_table_problem
+
+            implausible = steel_table_problem(list(pts[:, 0] * fb), list(pts[:, 1] * fh), density)
+            if implausible:
+                errors.append(InputError(implausible[1], doc.locate((*at, *implausible[0]))))
+                continue
             try:
                 curve = BHCurve(name, pts[:, 0] * fb, pts[:, 1] * fh, table.source, density)
             except ValueError as exc:
@@ -114,7 +120,8 @@ class Catalogue:
         return sorted({*steels.builtin_grades(), *self.local})
 
     def resolve(self, doc: Document, design: AnyDesign) -> None:
-        """Check that every steel the design names exists (InputErrors otherwise)."""
+        """Check that every steel the design names exists, and that the design with these
+        steels is physically plausible (:mod:`emgate.plausible`); InputErrors otherwise."""
         refs = [(("stator", "steel"), design.stator.steel)]
         if design.rotor.steel is not None:
             refs.append((("rotor", "steel"), design.rotor.steel))
@@ -130,5 +137,9 @@ class Catalogue:
                         doc.locate(path),
                     )
                 )
+        if not errors:
+            from emgate.plausible import record_problems
+
+            errors = [InputError(m, doc.locate(p)) for p, m in record_problems(design, self)]
         if errors:
             raise InputErrors(errors)

@@ -1,0 +1,307 @@
+"""The gate fails closed: no bypass by a broken schema line, no absurd value accepted, no
+policy that checks nothing, nothing read outside the repository, nothing overwritten.
+
+Each test is a regression test for one way a broken design or a hostile file could once pass
+the gate or lose its report.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import re
+import subprocess
+from pathlib import Path
+
+import pytest
+import yaml
+
+from conftest import GENSET, PUMP, REPO, SERVO, STEELS, run_cli, write_variant
+
+# The servo record breaks the current-density limit on purpose: checked, it exits 1.
+BROKEN = SERVO
+
+
+def _config(repo: Path, text: str = "") -> Path:
+    path = repo / "emgate.yaml"
+    path.write_text("schema: emgate/config@1\n" + text, encoding="utf-8")
+    return path
+
+
+def _json(*argv: str | Path) -> tuple[int, dict]:
+    result = run_cli("check", "--format", "json", *argv)
+    assert result.err == "" or result.code != 0, result.err
+    return result.code, json.loads(result.out)
+
+
+def _inputs(doc: dict) -> list[dict]:
+    return [f for f in doc["findings"] if f["kind"] == "input" and f["severity"] == "error"]
+
+
+# --- 1: a broken schema line is no bypass ------------------------------------------------
+
+SCHEMA_VARIANTS = {
+    "missing": None,
+    "upper case": "EMGATE/design@1",
+    "leading space": " emgate/design@1",
+    "other version": "emgate/design@2",
+    "a number": 1.5,
+    "a list": ["emgate/design@1"],
+}
+
+
+def _variant(folder: Path, schema: object, name: str = "motor.yaml") -> Path:
+    data = yaml.safe_load(BROKEN.read_text(encoding="utf-8"))
+    if schema is None:
+        del data["schema"]
+    else:
+        data["schema"] = schema
+    path = folder / name
+    path.write_text(yaml.safe_dump(data, sort_keys=False), encoding="utf-8")
+    return path
+
+
+@pytest.mark.parametrize("label", list(SCHEMA_VARIANTS))
+@pytest.mark.parametrize("mode", ["folder", "named", "configured folder"])
+def test_a_broken_schema_line_is_an_error_not_a_skip(
+    repo: Path, monkeypatch: pytest.MonkeyPatch, label: str, mode: str
+) -> None:
+    monkeypatch.chdir(repo)
+    if mode == "configured folder":
+        _config(repo)
+    (repo / "designs").mkdir()
+    path = _variant(repo / "designs", SCHEMA_VARIANTS[label])
+    code, doc = _json(path if mode == "named" else repo / "designs")
+    assert code == 2, doc
+    (error,) = _inputs(doc)
+    assert error["file"] == "designs/motor.yaml"
+    # located at the schema value, or at the top of the file when the key is missing
+    assert error["line"] >= 1
+    if label in ("upper case", "leading space", "other version"):
+        assert "did you mean 'emgate/design@1'" in error["message"], error
+
+
+def test_a_misspelt_schema_key_is_an_error_with_a_hint(repo: Path) -> None:
+    text = BROKEN.read_text(encoding="utf-8").replace("schema: emgate", "Schema: emgate")
+    (repo / "motor.yaml").write_text(text, encoding="utf-8")
+    code, doc = _json(repo)
+    assert code == 2
+    (error,) = _inputs(doc)
+    assert "did you mean 'schema'" in error["message"]
+    # the key's line, read from the file itself
+    want = next(i for i, ln in enumerate(text.splitlines(), 1) if ln.startswith("Schema:"))
+    assert error["line"] == want
+
+
+def test_a_list_root_holding_a_record_is_an_error(repo: Path) -> None:
+    body = BROKEN.read_text(encoding="utf-8")
+    text = "- " + body.replace("\n", "\n  ").rstrip() + "\n"
+    (repo / "motor.yaml").write_text(text, encoding="utf-8")
+    code, doc = _json(repo)
+    assert code == 2
+    (error,) = _inputs(doc)
+    assert "found a list" in error["message"]
+
+
+def test_unrelated_yaml_in_a_plain_folder_is_still_skipped(repo: Path) -> None:
+    (repo / "ci.yml").write_text("jobs: {test: {runs-on: x}}\nschema: 1.5\n", encoding="utf-8")
+    write_variant(repo, base=PUMP)
+    code, doc = _json(repo)
+    assert code == 0, doc
+    assert [r["record_id"] for r in doc["records"]] == ["pump-drive-4p36s"]
+
+
+def test_in_a_configured_repository_every_selected_file_must_be_emgate(repo: Path) -> None:
+    _config(repo, 'files: ["designs/*.yaml"]\n')
+    (repo / "designs").mkdir()
+    write_variant(repo / "designs", base=PUMP)
+    notes = repo / "designs" / "notes.yaml"
+    notes.write_text("owner: team\n", encoding="utf-8")
+    code, doc = _json(repo)
+    assert code == 2
+    (error,) = _inputs(doc)
+    assert error["file"].endswith("designs/notes.yaml")
+    assert "ignore_files" in error["message"]
+    # listed as ignored, it passes; a hidden CI file is ignored by default
+    _config(repo, 'files: ["designs/*.yaml"]\nignore_files: ["designs/notes.yaml"]\n')
+    (repo / ".ci.yml").write_text("jobs: {}\n", encoding="utf-8")
+    code, doc = _json(repo)
+    assert code == 0, doc
+
+
+def test_a_named_non_emgate_file_in_a_configured_repository_is_an_error(
+    repo: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    monkeypatch.chdir(repo)
+    _config(repo)
+    write_variant(repo, base=PUMP)
+    (repo / "notes.yaml").write_text("owner: team\n", encoding="utf-8")
+    code, doc = _json("notes.yaml")
+    assert code == 2
+    assert _inputs(doc)[0]["file"] == "notes.yaml"
+    # an ignored one is skipped
+    _config(repo, 'ignore_files: ["notes.yaml"]\n')
+    code, doc = _json("notes.yaml")
+    assert code == 0, doc
+
+
+def _git(repo: Path, *args: str) -> None:
+    subprocess.run(
+        ["git", "-c", "user.name=t", "-c", "user.email=t@t", *args],
+        cwd=repo,
+        check=True,
+        capture_output=True,
+    )
+
+
+@pytest.mark.skipif(
+    subprocess.run(["git", "--version"], capture_output=True).returncode != 0,
+    reason="needs git",
+)
+def test_changed_since_sees_a_record_that_lost_its_schema_line(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    repo = tmp_path / "r"
+    repo.mkdir()
+    _git(repo, "init", "-q")
+    _config(repo)
+    path = _variant(repo, "emgate/design@1")
+    write_variant(repo, base=PUMP)
+    _git(repo, "add", "-A")
+    _git(repo, "commit", "-q", "-m", "start")
+    monkeypatch.chdir(repo)
+    path.write_text(path.read_text().replace("schema: emgate/design@1", "schema: 1.5"))
+    code, doc = _json("--changed-since", "HEAD")
+    assert code == 2, doc
+    (error,) = _inputs(doc)
+    assert error["file"] == "motor.yaml"
+
+
+# --- 5, 8: physically plausible ranges; non-finite is an input error at the field ----------
+
+
+@pytest.mark.parametrize(
+    ("base", "dotted", "value"),
+    [
+        (SERVO, "rotor.magnet.material.coercivity_temperature_coefficient", "1e308 %/K"),
+        (PUMP, "stator.stack_length", "1e308 m"),
+        (PUMP, "rating.frequency", "5e-324 Hz"),
+        (PUMP, "winding.slot_liner", "1e300 mm"),
+        (PUMP, "stator.stacking_factor", 5e-324),
+        (GENSET, "rotor.field.current", "1e300 A"),
+    ],
+)
+def test_an_implausible_value_is_an_input_error_at_its_field(
+    repo: Path, base: Path, dotted: str, value: object
+) -> None:
+    if base is GENSET:
+        (repo / "materials").mkdir()
+        (repo / "materials" / "steels.yaml").write_text(STEELS.read_text(), encoding="utf-8")
+    path = write_variant(repo, {dotted: value}, base=base)
+    code, doc = _json(path)
+    assert code == 2, doc
+    (error,) = _inputs(doc)
+    assert error["record_path"] == "$." + dotted
+    assert "plausible" in error["message"] or "0.5" in error["message"], error
+    shown = run_cli("show", path)
+    assert shown.code == 2 and shown.out == "", shown.out
+
+
+def test_the_plausible_range_is_stated_in_the_schema() -> None:
+    schema = json.loads((REPO / "schemas" / "design.schema.json").read_text())
+    text = json.dumps(schema)
+    assert "plausible range 0.001 mm to 100 m" in text
+    assert "plausible range -5 %/K to 5 %/K" in text
+
+
+def test_a_bh_point_out_of_range_is_located(repo: Path) -> None:
+    data = yaml.safe_load(STEELS.read_text(encoding="utf-8"))
+    (grade,) = data["steels"]
+    data["steels"][grade]["points"][3] = [1e300, 1e300]
+    (repo / "steels.yaml").write_text(yaml.safe_dump(data, sort_keys=False))
+    write_variant(repo, base=GENSET)
+    code, doc = _json(repo)
+    assert code == 2
+    # the table's error, and the record's, whose steel is now unknown
+    (error,) = [f for f in _inputs(doc) if f["file"].endswith("steels.yaml")]
+    assert error["record_path"].endswith(".points[3]"), error
+    assert "at most 10 T" in error["message"]
+
+
+def test_a_non_finite_sheet_quantity_is_an_input_error_not_a_pass(
+    repo: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    from emgate import calc
+
+    monkeypatch.setattr(
+        calc.Calculation, "temperature_rise", property(lambda self: math.nan), raising=False
+    )
+    path = write_variant(repo, base=PUMP)
+    code, doc = _json(path)
+    assert code == 2
+    (error,) = _inputs(doc)
+    assert error["record_path"] == "$.cooling"
+    assert "winding.temperature_rise" in error["message"]
+    assert run_cli("show", "--format", "json", path).code == 2
+
+
+def _leaves(node: object, path: tuple = ()):  # type: ignore[no-untyped-def]
+    if isinstance(node, dict):
+        for k, v in node.items():
+            yield from _leaves(v, (*path, k))
+    elif isinstance(node, list):
+        for i, v in enumerate(node):
+            yield from _leaves(v, (*path, i))
+    else:
+        yield path, node
+
+
+_NUMBER = re.compile(r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?")
+EXTREMES = ("1e308", "5e-324", "1e300", "-1", "0")
+
+
+def _extremes(value: object) -> list[object]:
+    if isinstance(value, bool):
+        return []
+    if isinstance(value, int | float):
+        return [1e308, 5e-324, 1e300, -1, 0]
+    if isinstance(value, str) and (m := _NUMBER.match(value)):
+        return [x + value[m.end() :] for x in EXTREMES]
+    return []
+
+
+def test_every_field_at_an_extreme_is_a_located_input_error_or_a_finite_verdict(
+    tmp_path: Path,
+) -> None:
+    """Each numeric field of each bundled record set to 1e308, 5e-324, 1e300, -1 and 0 in
+    turn: never a crash, a non-finite number or a traceback."""
+    from emgate.config import load_policy
+    from emgate.engine import Run, execute
+    from emgate.plugins import load_plugins
+
+    plugins = load_plugins()
+    (tmp_path / ".git").mkdir()
+    (tmp_path / "steels.yaml").write_text(STEELS.read_text(encoding="utf-8"))
+    policy = load_policy(None, {r: lr.rule for r, lr in plugins.rules.items()}, tmp_path)
+    target = tmp_path / "record.yaml"
+    runs = 0
+    for base in (PUMP, SERVO, GENSET):
+        data = yaml.safe_load(base.read_text(encoding="utf-8"))
+        for path, value in _leaves(data):
+            for extreme in _extremes(value):
+                node = data
+                for part in path[:-1]:
+                    node = node[part]
+                node[path[-1]] = extreme
+                target.write_text(yaml.safe_dump(data, sort_keys=False))
+                node[path[-1]] = value
+                result = execute(Run(paths=[target], policy=policy, plugins=plugins))
+                runs += 1
+                where = f"{base.name} {path} = {extreme!r}"
+                assert result.exit_code in (0, 1, 2), where
+                assert not [f for f in result.findings if f.kind == "crash"], where
+                for record in result.records:
+                    for outcome in record.outcomes:
+                        for check in outcome.checks:
+                            assert math.isfinite(check.value), (where, check)
+    assert runs > 500  # every numeric field of three records, five values each [count]

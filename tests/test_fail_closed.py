@@ -305,3 +305,123 @@ def test_every_field_at_an_extreme_is_a_located_input_error_or_a_finite_verdict(
                         for check in outcome.checks:
                             assert math.isfinite(check.value), (where, check)
     assert runs > 500  # every numeric field of three records, five values each [count]
+
+
+# --- 6: a policy that checks nothing, a waiver that is no reviewed exception ---------------
+
+
+@pytest.mark.parametrize(
+    ("text", "at"),
+    [
+        ("rules:\n  select: []\n", "$.rules"),
+        ("rules:\n  ignore: [all]\n", "$.rules"),
+        ("overrides:\n  - files: ['*.yaml']\n    rules: {ignore: [all]}\n", "$.overrides[0].rules"),
+    ],
+)
+def test_a_policy_that_runs_no_rule_is_a_configuration_error(
+    repo: Path, text: str, at: str
+) -> None:
+    _config(repo, text)
+    code, doc = _json(write_variant(repo, base=BROKEN))
+    assert code == 2
+    (error,) = _inputs(doc)
+    assert error["record_path"] == at
+    assert "runs no rule" in error["message"]
+
+
+WAIVER = {
+    "rule": "current-density",
+    "reason": "prototype frame, see test report",
+    "owner": "J. Doe",
+    "expires": "2099-01-01",
+}
+
+
+@pytest.mark.parametrize(
+    ("change", "words"),
+    [
+        ({"rule": "current-denisty"}, "did you mean 'current-density'"),
+        ({"rule": "all"}, "'all', wildcards and tags"),
+        ({"rule": "*"}, "'all', wildcards and tags"),
+        ({"rule": "current-*"}, "'all', wildcards and tags"),
+        ({"rule": "tag:thermal"}, "'all', wildcards and tags"),
+        ({"rule": "acme/"}, "pack prefix"),
+        ({"path": "$.winding.cond"}, "names no node"),
+        ({"path": "$.nowhere"}, "names no node"),
+    ],
+)
+@pytest.mark.parametrize("where", ["record", "file"])
+def test_a_waiver_that_names_no_rule_or_no_node_is_an_error(
+    repo: Path, change: dict, words: str, where: str
+) -> None:
+    _config(repo)
+    waiver = {**WAIVER, **change}
+    if where == "record":
+        path = write_variant(repo, {"waivers": [waiver]}, base=BROKEN)
+    else:
+        path = write_variant(repo, base=BROKEN)
+        data = {"schema": "emgate/waivers@1", "waivers": [{**waiver, "record": "servo-10p12s"}]}
+        (repo / "waivers.yaml").write_text(yaml.safe_dump(data, sort_keys=False))
+    code, doc = _json(path)
+    assert code == 2, doc
+    errors = [f for f in _inputs(doc) if words in f["message"]]
+    assert len(errors) == 1, _inputs(doc)
+    # the broken design is still checked and reported, its finding not waived
+    (finding,) = [f for f in doc["findings"] if f["rule"] == "current-density"]
+    assert finding["waived"] is False
+
+
+def test_an_option_out_of_the_plausible_range_is_an_error(repo: Path) -> None:
+    _config(repo, "options:\n  current-density:\n    enclosed_natural: 1e300 A/mm^2\n")
+    code, doc = _json(write_variant(repo, base=BROKEN))
+    assert code == 2
+    (error,) = _inputs(doc)
+    assert error["record_path"] == "$.options['current-density'].enclosed_natural" or (
+        error["record_path"].endswith("enclosed_natural")
+    )
+    assert "plausible range 0.001 A/mm^2 to 1000 A/mm^2" in error["message"]
+
+
+# --- 11: nothing outside the repository is read or quoted ---------------------------------
+
+
+def test_a_waivers_file_outside_the_repository_is_refused_unread(tmp_path: Path) -> None:
+    outside = tmp_path / "secret.yaml"
+    outside.write_text("root-password-line\n", encoding="utf-8")
+    repo = tmp_path / "repo"
+    repo.mkdir()
+    (repo / ".git").mkdir()
+    _config(repo, "waivers: ../secret.yaml\n")
+    result = run_cli("check", "--format", "json", write_variant(repo, base=PUMP))
+    assert result.code == 2
+    (error,) = _inputs(result.json())
+    assert error["record_path"] == "$.waivers"
+    assert "outside the repository" in error["message"]
+    assert "root-password-line" not in result.out + result.err
+
+
+def test_a_link_out_of_the_repository_is_not_followed(tmp_path: Path) -> None:
+    outside = tmp_path / "secret.yaml"
+    outside.write_text("schema: 1.5\nstator: root-password-line\n", encoding="utf-8")
+    repo = tmp_path / "repo"
+    repo.mkdir()
+    (repo / ".git").mkdir()
+    _config(repo, "waivers: linked.yaml\n")
+    (repo / "linked.yaml").symlink_to(outside)
+    result = run_cli("check", "--format", "json", write_variant(repo, base=PUMP))
+    assert result.code == 2
+    assert "root-password-line" not in result.out + result.err
+    # and a folder walk does not read a linked file either
+    (repo / "emgate.yaml").unlink()
+    result = run_cli("check", "--format", "json", repo)
+    assert "root-password-line" not in result.out + result.err
+    assert any("outside" in f["message"] for f in _inputs(result.json()))
+
+
+def test_a_waivers_file_that_is_no_emgate_file_is_not_quoted(repo: Path) -> None:
+    _config(repo, "waivers: notes.yaml\n")
+    (repo / "notes.yaml").write_text("first-line-of-a-private-file: 1\n", encoding="utf-8")
+    result = run_cli("check", "--format", "json", write_variant(repo, base=PUMP))
+    assert result.code == 2
+    assert "first-line-of-a-private-file" not in result.out + result.err
+    assert any("emgate/waivers@1" in f["message"] for f in _inputs(result.json()))

@@ -181,8 +181,8 @@ class Policy:
 
     def configured_files(self) -> list[Path]:
         out: set[Path] = set()
-        for pattern in self.files:
-            out.update(p for p in self.root.glob(pattern) if p.is_file())
+        for pattern in self.files:  # (a link leading out of the repository is not followed)
+            out.update(p for p in self.root.glob(pattern) if p.is_file() and self.inside(p))
         return sorted(out)
 
 
@@ -310,9 +310,28 @@ def load_policy(
             (tuple(ov.files), RulePolicy(sel[0], sel[1], levels, {**base.options, **opts}))
         )
     _check_required(cfg.required_plugins, installed or {}, ld)
+    policies = [(("rules",), base)]
+    policies += [(("overrides", i, "rules"), p) for i, (_, p) in enumerate(overrides)]
+    for at, rule_policy in policies:
+        if not ld.errors and not any(rule_policy.selected(r) for r in rules.values()):
+            ld.errors.append(
+                InputError(
+                    "this selection runs no rule: a gate that checks nothing must not pass"
+                    f" (installed: {', '.join(sorted(rules)) or 'none'})",
+                    doc.locate(at),
+                )
+            )
+    waivers = path.parent / cfg.waivers
+    if not _within(waivers, path.parent):
+        ld.errors.append(
+            InputError(
+                f"waivers file {cfg.waivers!r} lies outside the repository: every path the"
+                " configuration names stays inside the folder of emgate.yaml",
+                doc.locate(("waivers",)),
+            )
+        )
     if ld.errors:
         raise InputErrors(ld.errors)
-    waivers = path.parent / cfg.waivers
     return Policy(
         root=path.parent,
         base=base,
@@ -322,6 +341,15 @@ def load_policy(
         waivers_file=waivers if waivers.is_file() else None,
         ignore_files=list(cfg.ignore_files),
     )
+
+
+def _within(path: Path, root: Path) -> bool:
+    """Whether ``path``, symbolic links resolved, lies inside ``root``."""
+    try:
+        path.resolve().relative_to(root.resolve())
+    except (ValueError, OSError):
+        return False
+    return True
 
 
 def _check_required(required: list[str], installed: dict[str, str], ld: _Loader) -> None:

@@ -27,6 +27,7 @@ from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,
+    invalid_waivers,
     load_waivers_file,
     record_waivers,
     unknown_record_waivers,
@@ -102,6 +103,17 @@ def discover(
             if key in seen:
                 continue
             seen.add(key)
+            if not explicit and not _within(path, root):
+                result.findings.append(
+                    _input_finding(
+                        InputError(
+                            f"a symbolic link leading outside {display_path(root)}: emgate"
+                            " reads nothing outside the folders it checks",
+                            Location(path, 1, 1, "$"),
+                        )
+                    )
+                )
+                continue
             if explicit and not path.is_file():
                 result.findings.append(
                     _input_finding(
@@ -158,6 +170,14 @@ def discover(
 #: Top-level keys of emgate records: a file holding one of them is meant as a record.
 RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
 _KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
+
+
+def _within(path: Path, root: Path) -> bool:
+    try:
+        path.resolve().relative_to(root.resolve())
+    except (ValueError, OSError):
+        return False
+    return True
 
 
 def _touched(changes: ChangeSet | None, key: Path) -> bool:
@@ -378,6 +398,8 @@ def execute(run: Run) -> RunResult:
         ld = LoadedDesign(doc, design, display_path(doc.path))
         waivers = record_waivers(doc, design.id, list(design.waivers))
         waivers += file_waivers.get(design.id, [])
+        waivers, bad = invalid_waivers(waivers, run.plugins.rules, doc)
+        result.findings.extend(_input_finding(e) for e in bad)
         _check_design(run, ld, catalogue, result, waivers)
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | _repository_record_ids(run.policy.root)

@@ -9,8 +9,13 @@ from __future__ import annotations
 
 import json
 import math
+import os
 import re
+import signal
+import stat
 import subprocess
+import sys
+import threading
 from pathlib import Path
 
 import pytest
@@ -425,3 +430,180 @@ def test_a_waivers_file_that_is_no_emgate_file_is_not_quoted(repo: Path) -> None
     assert result.code == 2
     assert "first-line-of-a-private-file" not in result.out + result.err
     assert any("emgate/waivers@1" in f["message"] for f in _inputs(result.json()))
+
+
+# --- 9: only regular files are read ------------------------------------------------------
+
+
+def _emgate(*args: str, cwd: Path, timeout: float = 60) -> subprocess.CompletedProcess[str]:
+    return subprocess.run(
+        [sys.executable, "-m", "emgate", *args],
+        cwd=cwd,
+        capture_output=True,
+        text=True,
+        timeout=timeout,  # a blocked read fails the test instead of hanging it
+        check=False,
+    )
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="needs FIFOs")
+@pytest.mark.parametrize("how", ["record", "config"])
+def test_a_fifo_is_an_error_not_a_block(repo: Path, how: str) -> None:
+    fifo = repo / "pipe.yaml"
+    os.mkfifo(fifo)
+    write_variant(repo, base=PUMP)
+    args = ["check", "pipe.yaml"] if how == "record" else ["check", "--config", "pipe.yaml", "."]
+    proc = _emgate(*args, cwd=repo)
+    assert proc.returncode == 2, proc.stdout + proc.stderr
+    assert "not a regular file" in proc.stdout + proc.stderr
+
+
+# --- 10: control characters escaped in every human-readable output -----------------------
+
+FORGED = "Motor\\e[2J\\nPASS: forged\\a"  # YAML escapes: ESC, a line end, BEL
+
+
+def test_record_text_cannot_forge_a_line_or_drive_a_terminal(repo: Path) -> None:
+    path = write_variant(repo, base=BROKEN)
+    text = path.read_text(encoding="utf-8")
+    title = next(ln for ln in text.splitlines() if ln.startswith("title:"))
+    path.write_text(text.replace(title, f'title: "{FORGED}"'), encoding="utf-8")
+    shown = run_cli("show", path)
+    assert shown.code == 0, shown.err
+    for out in (shown.out, run_cli("check", path).out):
+        assert "\x1b" not in out and "\x07" not in out
+        assert not any(line.startswith("PASS: forged") for line in out.splitlines())
+    assert "\\x1b[2J\\nPASS: forged\\x07" in shown.out
+
+
+def test_text_and_junit_escape_every_finding_line() -> None:
+    from xml.dom import minidom
+
+    from emgate.findings import Finding, RecordResult, RuleOutcome, RunResult
+    from emgate.report import reporter
+
+    hostile = "ok\nPASS: 0 error(s)\r::error file=x::forged\x1b[0m\u2028x"
+    result = RunResult(
+        records=[RecordResult("d/a.yaml", "m-1", "induction", [RuleOutcome("r", "fail")])],
+        findings=[
+            Finding("r", "warning", "d/a\n.yaml", 3, 1, "$", hostile, "m-1"),
+            Finding("r", "error", "d/a.yaml", 4, 1, "$", "x", "m-1", waived_by=hostile),
+        ],
+    )
+    text = reporter("text")(result)
+    junit = reporter("junit")(result)
+    assert "\x1b" not in text and "\u2028" not in text
+    assert "\x1b" not in junit  # (attributes keep line ends, which XML encodes as &#10;)
+    dom = minidom.parseString(junit)
+    texts = [
+        node.firstChild.data
+        for tag in ("system-out", "failure", "skipped", "error")
+        for node in dom.getElementsByTagName(tag)
+        if node.firstChild is not None
+    ]
+    for out in (text, *texts):
+        assert not any(
+            line.lstrip().startswith(("PASS: 0", "::error")) for line in out.splitlines()
+        ), out
+        assert "\u2028" not in out
+    system_out = dom.getElementsByTagName("system-out")
+    assert system_out and "\\nPASS: 0 error(s)" in system_out[0].firstChild.data
+
+
+# --- 12: python -m emgate imports nothing planted in the working directory ----------------
+
+
+def test_python_m_emgate_does_not_import_a_planted_module(repo: Path) -> None:
+    marker = repo / "planted-ran"
+    (repo / "argparse.py").write_text(
+        f"open({str(marker)!r}, 'w').close()\nraise SystemExit(99)\n", encoding="utf-8"
+    )
+    write_variant(repo, base=PUMP)
+    proc = _emgate("check", ".", cwd=repo)
+    assert proc.returncode == 0, proc.stdout + proc.stderr
+    assert not marker.exists()
+
+
+# --- 13: nothing overwritten, nothing left behind ---------------------------------------
+
+
+def test_a_report_in_a_missing_folder_is_an_error(repo: Path) -> None:
+    report = repo / "missing" / "r.json"
+    result = run_cli("check", "--format", f"json:{report}", write_variant(repo, base=PUMP))
+    assert result.code == 2
+    assert "folder does not exist" in result.err
+    assert not (repo / "missing").exists()
+
+
+def test_a_symbolic_link_is_written_through_not_replaced(repo: Path) -> None:
+    target = repo / "target.json"
+    target.write_text("old\n")
+    link = repo / "link.json"
+    link.symlink_to(target)
+    result = run_cli("check", "--format", f"json:{link}", write_variant(repo, base=PUMP))
+    assert result.code == 0, result.err
+    assert link.is_symlink()
+    assert json.loads(target.read_text())["exit_code"] == 0
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="needs FIFOs")
+def test_a_fifo_report_is_written_in_place(repo: Path) -> None:
+    from emgate.atomic import write_atomic
+
+    fifo = repo / "report.fifo"
+    os.mkfifo(fifo)
+    got: list[str] = []
+    reader = threading.Thread(target=lambda: got.append(fifo.read_text()), daemon=True)
+    reader.start()
+    write_atomic(fifo, "report\n")
+    reader.join(timeout=30)
+    assert got == ["report\n"]
+    assert stat.S_ISFIFO(os.lstat(fifo).st_mode)
+    assert sorted(p.name for p in repo.iterdir()) == [".git", "report.fifo"]
+
+
+def test_a_character_device_is_written_in_place(tmp_path: Path) -> None:
+    from emgate.atomic import write_atomic
+
+    node = tmp_path / "null"
+    try:  # a copy of the null device (Linux: major 1, minor 3), never the system's own
+        os.mknod(node, 0o666 | stat.S_IFCHR, os.makedev(1, 3))
+    except (OSError, AttributeError):
+        pytest.skip("cannot make a device node here")
+    write_atomic(node, "report\n")
+    assert stat.S_ISCHR(os.lstat(node).st_mode)
+    assert [p.name for p in tmp_path.iterdir()] == ["null"]
+
+
+def test_sigterm_during_a_write_leaves_no_temporary(tmp_path: Path) -> None:
+    code = f"""
+import sys, time
+import emgate.atomic as a
+from pathlib import Path
+def slow(fd):
+    print("ready", flush=True)
+    time.sleep(60)
+a.os.fsync = slow
+a.write_atomic(Path({str(tmp_path / "r.json")!r}), "x" * 100000)
+"""
+    proc = subprocess.Popen(
+        [sys.executable, "-c", code], stdout=subprocess.PIPE, text=True, cwd=tmp_path
+    )
+    assert proc.stdout is not None and proc.stdout.readline().strip() == "ready"
+    assert any(p.name.endswith(".emgate-tmp") for p in tmp_path.iterdir())  # premise
+    proc.send_signal(signal.SIGTERM)
+    assert proc.wait(timeout=30) == 128 + signal.SIGTERM  # the shell's convention
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_a_stale_temporary_of_a_dead_run_is_removed(tmp_path: Path) -> None:
+    from emgate.atomic import write_atomic
+
+    report = tmp_path / "r.json"
+    # 2**22 + 1 lies above Linux's largest process id: no process has it.
+    dead = tmp_path / f".r.json.{2**22 + 1}.abcd.emgate-tmp"
+    alive = tmp_path / f".r.json.{os.getppid()}.abcd.emgate-tmp"
+    dead.write_text("half")
+    alive.write_text("busy")
+    write_atomic(report, "new\n")
+    assert sorted(p.name for p in tmp_path.iterdir()) == sorted([alive.name, "r.json"])

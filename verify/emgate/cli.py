@@ -130,7 +130,7 @@ def _dispatch(args: argparse.Namespace) -> int:
             from emgate.atomic import write_atomic
 
             for kind in SCHEMA_KINDS:
-                write_atomic(args.write / f"{kind}.schema.json", schema_text(kind))
+                write_atomic(args.write / f"{kind}.schema.json", schema_text(kind), parents=True)
             return EXIT_OK
         sys.stdout.write(schema_text(args.kind))
         return EXIT_OK
@@ -159,8 +159,10 @@ def _dispatch(args: argparse.Namespace) -> int:
 
 
 def _plugin_errors(plugins) -> int:  # type: ignore[no-untyped-def]
+    from emgate.report.common import one_line
+
     for err in plugins.errors:
-        print(f"emgate: {err}", file=sys.stderr)
+        print(one_line(f"emgate: {err}"), file=sys.stderr)
     return EXIT_INPUT if plugins.errors else EXIT_OK
 
 
@@ -319,7 +321,10 @@ def _emit(result, outputs: list[tuple[str, Path | None]]) -> int:  # type: ignor
         try:
             write_atomic(file, text)
         except OSError as exc:
-            print(f"emgate: cannot write {name} report to {file}: {exc.strerror}", file=sys.stderr)
+            from emgate.report.common import one_line
+
+            message = f"emgate: cannot write {name} report to {file}: {exc.strerror}"
+            print(one_line(message), file=sys.stderr)
             status = EXIT_INPUT
     return status
 

@@ -114,17 +114,6 @@ def discover(
                     )
                 )
                 continue
-            if explicit and not path.is_file():
-                result.findings.append(
-                    _input_finding(
-                        InputError(
-                            "not a regular file (a folder, device, pipe or socket): emgate reads"
-                            " only regular files",
-                            Location(path, 1, 1, "$"),
-                        )
-                    )
-                )
-                continue
             try:
                 text = read_text(path)
             except InputError as exc:

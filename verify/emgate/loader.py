@@ -11,7 +11,9 @@ schema, restricted: null, true/false, decimal integers and floats; everything el
 
 from __future__ import annotations
 
+import os
 import re
+import stat
 from collections.abc import Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -251,11 +253,27 @@ def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
 
 def read_text(path: Path) -> str:
     """Read a file as UTF-8 text, refusing oversized, binary or wrongly encoded files."""
+    # Opened without blocking and checked on the open descriptor: a FIFO or a device would
+    # otherwise hold the run forever (and a check before opening could be raced).
     try:
-        with path.open("rb") as handle:
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    except OSError as exc:
+        raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
+    try:
+        if not stat.S_ISREG(os.fstat(fd).st_mode):
+            raise InputError(
+                "not a regular file (a pipe, device, socket or folder): emgate reads only"
+                " regular files",
+                Location(path, 1, 1, "$"),
+            )
+        with os.fdopen(fd, "rb") as handle:
+            fd = -1
             raw = handle.read(MAX_BYTES + 1)
     except OSError as exc:
         raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
+    finally:
+        if fd >= 0:
+            os.close(fd)
     if len(raw) > MAX_BYTES:
         raise InputError(
             f"file larger than {MAX_BYTES // 1024} KiB; a design record is a few KiB",

@@ -11,6 +11,7 @@ from typing import Any
 from emgate import __version__
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import DISCLAIMER
+from emgate.report.common import one_line
 from emgate.report.common import si_unit as _si_unit
 from emgate.terms import DESIGN_SCHEMA, EXIT_INPUT, EXIT_OK
 
@@ -59,7 +60,7 @@ def show(path: Path, fmt: str) -> int:
     except (InputError, InputErrors) as exc:
         errors = exc.errors if isinstance(exc, InputErrors) else [exc]
         for err in errors:
-            print(str(err), file=sys.stderr)
+            print(one_line(str(err)), file=sys.stderr)
         return EXIT_INPUT
     status = EXIT_INPUT if any(err for *_, err in values.values()) else EXIT_OK
     if fmt == "json":
@@ -84,20 +85,24 @@ def show(path: Path, fmt: str) -> int:
         return status
     from emgate.units import format_value
 
-    print(f"{design.id}: {design.title} ({design.machine}, {design.poles} poles)")
-    print(f"file: {display_path(path)}")
+    def say(line: str = "") -> None:  # every line escaped: a title cannot drive a terminal
+        sys.stdout.write(one_line(line) + "\n")
+
+    say(f"{design.id}: {design.title} ({design.machine}, {design.poles} poles)")
+    say(f"file: {display_path(path)}")
     for part, name, source in steels:
-        print(f"{part} steel {name}: {source}")
-    print()
+        say(f"{part} steel {name}: {source}")
+    say()
     width = max(len(n) for n in values)
     group = ""
     for name in sorted(values):
         value, unit, method, err = values[name]
         head = name.split(".")[0]
         if head != group:
-            print(f"[{head}]")
+            say(f"[{head}]")
             group = head
         shown = err if value is None else format_value(value, "" if unit == "1" else unit, 5)
-        print(f"  {name:<{width}}  {shown:>16}   {method}")
-    print(f"\n{DISCLAIMER}")
+        say(f"  {name:<{width}}  {shown:>16}   {method}")
+    say()
+    say(DISCLAIMER)
     return status

@@ -7,24 +7,22 @@ from __future__ import annotations
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
-from emgate.report.common import margins_line, rules_line, summary_line, where
+from emgate.report.common import margins_line, one_line, rules_line, summary_line, where
 
 
-def _line(f: Finding) -> str:
+def _lines(f: Finding) -> list[str]:
     sev = "waived" if f.waived_by else f.severity
     text = f"  {where(f)}: {sev} {f.rule}: {f.message}"
     if f.record_path != "$":
         text += f" [{f.record_path}]"
-    if f.waived_by:
-        text += f"\n      waived: {f.waived_by}"
-    return text
+    return [text, f"      waived: {f.waived_by}"] if f.waived_by else [text]
 
 
 def render(result: RunResult) -> str:
     out: list[str] = []
     for file, group in groupby(result.findings, key=lambda f: f.file):
         out.append(file or "(run)")
-        out.extend(_line(f) for f in group)
+        out.extend(line for f in group for line in _lines(f))
         out.append("")
     if result.records:
         out.extend(margins_line(r) for r in result.records)
@@ -32,4 +30,5 @@ def render(result: RunResult) -> str:
     out.append(summary_line(result))
     out.append(rules_line(result))
     out.append(DISCLAIMER)
-    return "\n".join(out) + "\n"
+    # Every line escaped: record text, file names and waivers cannot start a line.
+    return "\n".join(one_line(line) for line in out) + "\n"

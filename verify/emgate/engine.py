@@ -8,6 +8,7 @@ them and turns rule output into findings.
 from __future__ import annotations
 
 import datetime as dt
+import math
 import re
 import traceback
 from collections.abc import Iterable
@@ -236,7 +237,7 @@ def _classify(path: Path, text: str) -> tuple[str | None, InputError | None]:
         hint = f"; did you mean {close[0]!r}?" if close else ""
         if close and declared.strip().lower() != close[0]:
             hint += " (emgate reads version 1 of each schema)"
-        hint += " Schema ids are lower case, without spaces."
+        hint += "; schema ids are lower case, without spaces"
     shown = (
         repr(declared)
         if isinstance(declared, str) and len(declared) <= 40
@@ -495,7 +496,12 @@ def _describe(check: Check) -> str:
 
     word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
     basis = f" ({check.basis})" if check.basis else ""
+    margin = (  # a limit of zero has no relative margin: say by how much instead
+        f"margin {check.margin:+.1%}"
+        if math.isfinite(check.margin)
+        else f"off by {format_value(abs(check.value - check.limit), check.unit)}"
+    )
     return (
         f"{check.label} {format_value(check.value, check.unit)} {word}"
-        f" {format_value(check.limit, check.unit)}{basis}; margin {check.margin:+.1%}"
+        f" {format_value(check.limit, check.unit)}{basis}; {margin}"
     )

@@ -46,6 +46,8 @@ def sheet_values(
             error = ""
         except (ValueError, ArithmeticError) as exc:
             value, error = None, f"not computed: {exc}"
+        if value is not None and not math.isfinite(value):  # never a silent null
+            value, error = None, f"not computed: the value is not finite ({value})"
         out[name] = (value, entry.unit, entry.method, error)
     grades = [("stator", design.stator.steel)]
     if design.rotor.steel and design.rotor.steel != design.stator.steel:

@@ -67,16 +67,17 @@ def _variant(folder: Path, schema: object, name: str = "motor.yaml") -> Path:
 
 
 @pytest.mark.parametrize("label", list(SCHEMA_VARIANTS))
-@pytest.mark.parametrize("mode", ["folder", "named", "configured folder"])
+@pytest.mark.parametrize("mode", ["folder", "named", "configured folder", "configured named"])
 def test_a_broken_schema_line_is_an_error_not_a_skip(
     repo: Path, monkeypatch: pytest.MonkeyPatch, label: str, mode: str
 ) -> None:
     monkeypatch.chdir(repo)
-    if mode == "configured folder":
+    if mode.startswith("configured"):
         _config(repo)
+        write_variant(repo, base=PUMP)  # a valid record beside it, checked too
     (repo / "designs").mkdir()
     path = _variant(repo / "designs", SCHEMA_VARIANTS[label])
-    code, doc = _json(path if mode == "named" else repo / "designs")
+    code, doc = _json(path if mode.endswith("named") else repo / "designs")
     assert code == 2, doc
     (error,) = _inputs(doc)
     assert error["file"] == "designs/motor.yaml"

@@ -99,9 +99,14 @@ def named_files(
 
 def _grades_defined(path: Path, root: Path, rev: str | None) -> set[str]:
     """Steel names a materials file defines now or defined at ``rev``."""
+    from emgate.loader import read_text
+
     texts = []
-    if path.is_file():
-        texts.append(path.read_text(encoding="utf-8", errors="replace"))
+    try:  # a regular file inside the repository only (a link out is not followed)
+        path.resolve().relative_to(root.resolve())
+        texts.append(read_text(path))
+    except (ValueError, OSError, InputError):
+        pass  # deleted, not a regular file, or outside: the file's own check reports it
     if rev is not None:
         old = _git(["show", f"{rev}:{path.relative_to(root).as_posix()}"], root)
         if old.returncode == 0:

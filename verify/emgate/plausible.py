@@ -98,6 +98,8 @@ def sheet_problems(design: AnyDesign, catalogue: Catalogue) -> list[tuple[Record
             if _unbalanced(calc):
                 continue
             reason = f"the calculation fails ({exc})"
+        except Exception:  # emgate's own bug, not the input's: the rule
+            continue  # that needs the quantity reports it as its crash (exit 3)
         else:
             if math.isfinite(value):
                 continue

@@ -135,6 +135,20 @@ def test_in_a_configured_repository_every_selected_file_must_be_emgate(repo: Pat
     assert code == 0, doc
 
 
+def test_ignore_files_exempts_a_look_alike_but_not_a_near_miss_schema(repo: Path) -> None:
+    _config(repo, 'ignore_files: ["fixtures/*"]\n')
+    write_variant(repo, base=PUMP)
+    (repo / "fixtures").mkdir()
+    _variant(repo / "fixtures", None, "no-schema.yaml")  # a record's keys, no schema
+    code, doc = _json(repo)
+    assert code == 0, _inputs(doc)
+    _variant(repo / "fixtures", "EMGATE/design@1", "upper.yaml")
+    code, doc = _json(repo)
+    assert code == 2
+    (error,) = _inputs(doc)
+    assert error["file"].endswith("fixtures/upper.yaml")
+
+
 def test_a_named_non_emgate_file_in_a_configured_repository_is_an_error(
     repo: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:

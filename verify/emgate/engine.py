@@ -123,9 +123,11 @@ def discover(
             m = _DECLARES.search(text[:4096])
             declared = m.group(1) if m and m.group(1) in _KNOWN else None
             if declared is None:
-                declared, problem = _classify(path, text)
+                declared, problem, near_miss = _classify(path, text)
                 named = explicit or bool(changes and changes.named and key in changes.files)
                 strict = _strict(path, named, policy)
+                if problem is not None and not near_miss and _ignored(path, policy):
+                    problem = None  # the team says it is no record (a fixture, a draft)
                 if problem is None and strict is not None:
                     problem = InputError(
                         "not an emgate file (no 'schema: emgate/...' line at the top level):"
@@ -175,6 +177,11 @@ def _touched(changes: ChangeSet | None, key: Path) -> bool:
     return changes is None or changes.everything or key in changes.files
 
 
+def _ignored(path: Path, policy: Policy | None) -> bool:
+    """Whether a configuration's ignore_files lists a file."""
+    return policy is not None and policy.source is not None and policy.ignored(path)
+
+
 def _strict(path: Path, named: bool, policy: Policy | None) -> str | None:
     """Why a non-emgate file is an error here (None: it may be skipped)."""
     if policy is None or policy.source is None or not policy.inside(path):
@@ -188,49 +195,54 @@ def _strict(path: Path, named: bool, policy: Policy | None) -> str | None:
     return None
 
 
-def _classify(path: Path, text: str) -> tuple[str | None, InputError | None]:
+def _classify(path: Path, text: str) -> tuple[str | None, InputError | None, bool]:
     """A file the schema-line scan misses: (the emgate schema it declares, or None; the
-    reason it is a broken emgate file, or None when it does not resemble one)."""
+    reason it is a broken emgate file, or None when it does not resemble one; whether the
+    reason is a near-miss schema key or value, an error even where ignore_files lists it)."""
     import difflib
 
     try:
         doc = load_text(path, text)
     except InputError as exc:
         if "emgate" in text.lower() and exc.location is not None:
-            return None, InputError(f"not a valid emgate file: {exc.message}", exc.location)
-        return None, None
+            problem = InputError(f"not a valid emgate file: {exc.message}", exc.location)
+            return None, problem, False
+        return None, None, False
     data = doc.data
     if isinstance(data, list):
         if any(isinstance(item, dict) and _resembles(item) for item in data):
-            return None, InputError(
+            problem = InputError(
                 "expected a mapping with a 'schema' key at the top level, found a list holding"
                 " a record: an emgate file holds one record, not a list",
                 doc.locate(()),
             )
-        return None, None
+            return None, problem, False
+        return None, None, False
     if not isinstance(data, dict):
-        return None, None
+        return None, None, False
     for k in data:
         if k != "schema" and k.strip().lower() == "schema":
-            return None, InputError(
+            problem = InputError(
                 f"key {k!r} is not 'schema': emgate reads the key in lower case, without"
                 " spaces; did you mean 'schema'?",
                 doc.locate_key((k,)),
             )
+            return None, problem, True
     if "schema" not in data:
         if _resembles(data):
-            return None, InputError(
+            problem = InputError(
                 "a record's keys with no 'schema' key: expected 'schema: emgate/design@1'"
                 " (or another emgate schema) at the top level",
                 doc.locate(()),
             )
-        return None, None
+            return None, problem, False
+        return None, None, False
     declared = data["schema"]
     if isinstance(declared, str) and declared in _KNOWN:
-        return declared, None  # (flow style, JSON, CR line ends)
+        return declared, None, False  # (flow style, JSON, CR line ends)
     looks = isinstance(declared, str) and "emgate" in declared.lower()
     if not looks and not _resembles(data):
-        return None, None
+        return None, None, False
     hint = ""
     if isinstance(declared, str):
         close = difflib.get_close_matches(declared.strip().lower(), _KNOWN, n=1, cutoff=0.6)
@@ -243,10 +255,11 @@ def _classify(path: Path, text: str) -> tuple[str | None, InputError | None]:
         if isinstance(declared, str) and len(declared) <= 40
         else ("a list" if isinstance(declared, list) else type(declared).__name__)
     )
-    return None, InputError(
+    problem = InputError(
         f"expected one of {', '.join(repr(s) for s in _KNOWN)}, found {shown}{hint}",
         doc.locate(("schema",)),
     )
+    return None, problem, looks
 
 
 def _resembles(data: dict) -> bool:

@@ -1,4 +1,9 @@
-"""Shared fixtures: the CLI run in-process, and design-record variants written to tmp_path.
+"""Shared fixtures and the one home of the helpers test modules share.
+
+The CLI run in-process; design-record variants written to tmp_path; the JSON of a run taken
+apart (findings, outcomes, checks); hand calculations used as oracles by several modules; and
+calculations built directly with a chosen steel. Test modules import helpers from here, never
+from one another.
 
 Record variants start from the demo records, are edited as plain data and written back with
 PyYAML's dumper; the expected line of a node is read back with PyYAML's composer, which is
@@ -10,16 +15,25 @@ from __future__ import annotations
 import copy
 import io
 import json
+import math
+import shutil
 import sys
 import textwrap
 from collections.abc import Callable, Mapping
 from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
+import numpy as np
 import pytest
+import scipy.constants
 import yaml
+
+from emgate.physics.bh import BHCurve
+
+if TYPE_CHECKING:
+    from emgate.calc import Calculation
 
 REPO = Path(__file__).resolve().parents[1]
 DEMO = REPO / "examples" / "design-repo"
@@ -31,6 +45,9 @@ STEELS = DEMO / "materials" / "steels.yaml"
 SCHEMAS = REPO / "schemas"
 
 DELETE = object()  # an override value that removes the key
+MM = 1e-3  # m per mm
+MM2 = 1e-6  # m^2 per mm^2
+MU0 = scipy.constants.mu_0  # [pub: CODATA 2022, via scipy]
 
 
 @dataclass
@@ -170,3 +187,171 @@ def plugin_host(tmp_path: Path, monkeypatch: pytest.MonkeyPatch):  # type: ignor
     yield host
     for module in host.modules:
         sys.modules.pop(module, None)
+
+
+# --- runs and their JSON --------------------------------------------------------------------------
+
+
+def show_json(path: Path) -> dict[str, dict[str, Any]]:
+    """The quantities of ``emgate show --format json PATH``."""
+    result = run_cli("show", "--format", "json", path)
+    assert result.code == 0, result.err
+    return result.json()["quantities"]
+
+
+def sheet(path: Path) -> dict[str, float]:
+    """Name -> SI value of the calculation sheet of one record."""
+    return {name: q["value"] for name, q in show_json(path).items()}
+
+
+def variant(repo: Path, overrides: dict[str, Any], base: Path = PUMP) -> Path:
+    """A demo record with overrides in ``repo``; the genset's steel file comes along."""
+    if base == GENSET and not (repo / "materials").exists():
+        (repo / "materials").mkdir()
+        shutil.copy(STEELS, repo / "materials" / STEELS.name)
+    return write_variant(repo, overrides, base=base)
+
+
+def write_config(repo: Path, text: str) -> Path:
+    path = repo / "emgate.yaml"
+    path.write_text("schema: emgate/config@1\n" + text, encoding="utf-8")
+    return path
+
+
+def check_json(path: Path) -> CliResult:
+    result = run_cli("check", "--format", "json", path)
+    assert result.code in (0, 1), result.out + result.err
+    return result
+
+
+def findings(result: CliResult, rule: str | None = None) -> list[dict[str, Any]]:
+    return [f for f in result.json()["findings"] if rule is None or f["rule"] == rule]
+
+
+def outcome(result: CliResult, rule: str, record_id: str | None = None) -> dict[str, Any]:
+    records = result.json()["records"]
+    (record,) = [r for r in records if record_id is None or r["record_id"] == record_id]
+    (out,) = [o for o in record["outcomes"] if o["rule"] == rule]
+    return out
+
+
+def the_check(
+    result: CliResult,
+    rule: str,
+    quantity: str,
+    record_id: str | None = None,
+    bound: str | None = None,
+) -> Any:
+    """The one check of ``rule`` on ``quantity`` (of one bound, where a rule checks both)."""
+    (c,) = [
+        c
+        for c in outcome(result, rule, record_id)["checks"]
+        if c["quantity"] == quantity and bound in (None, c["bound"])
+    ]
+    return c
+
+
+def assert_located(result: Any, rule: str, path: Path, dotted: str) -> dict[str, Any]:
+    """The rule's one finding sits at the node ``dotted`` of ``path``; returns it."""
+    assert result.code == 1, result.out
+    (finding,) = findings(result, rule)
+    assert finding["file"].endswith(path.name)
+    assert (finding["line"], finding["column"]) == node_mark(path, dotted)
+    assert finding["record_path"] == "$." + dotted
+    assert finding["severity"] == "error"
+    return finding
+
+
+# --- hand calculations shared by several modules --------------------------------------------------
+
+
+def carter(slot_pitch: float, opening: float, gap: float) -> float:
+    """kc = tau / (tau - gamma g), gamma = (4/pi)[u atan u - ln sqrt(1 + u^2)], u = b0/(2g).
+    [mem: Carter 1901, as given in Pyrhonen, Design of Rotating Electrical Machines, ch. 3]"""
+    u = opening / (2.0 * gap)
+    gamma = 4.0 / math.pi * (u * math.atan(u) - math.log(math.sqrt(1.0 + u * u)))
+    return slot_pitch / (slot_pitch - gamma * gap)
+
+
+def kd_kp(q: int, slot_angle: float, pitch: float) -> float:
+    """Integral-slot 60-degree-belt winding factor, kd kp [mem: Pyrhonen, Design of Rotating
+    Electrical Machines]; slot_angle in electrical radians, pitch y / tau_p."""
+    kd = math.sin(q * slot_angle / 2.0) / (q * math.sin(slot_angle / 2.0))
+    return kd * math.sin(pitch * math.pi / 2.0)
+
+
+#: 12-slot 10-pole double-layer tooth-coil table, derived by hand: the coil on tooth k links
+#: the working order at 150 k degrees electrical; phase A takes +c0 -c1 -c6 +c7, B (120 deg on
+#: in slot order) -c2 +c3 +c8 -c9, C +c4 -c5 -c10 +c11. Slot k holds coil k's go side (top)
+#: and coil k-1's return side.
+TOOTH_COIL_12_10 = [
+    "+A -C", "-A -A", "-B +A", "+B +B", "+C -B", "-C -C",
+    "-A +C", "+A +A", "+B -A", "-B -B", "-C +B", "+C +C",
+]  # fmt: skip
+
+
+def table_layout(table: list[str]) -> np.ndarray:
+    lay = np.zeros((3, len(table)), dtype=int)
+    for s, entry in enumerate(table):
+        for side in entry.split():
+            lay["ABC".index(side[1]), s] += 1 if side[0] == "+" else -1
+    return lay
+
+
+def phasors(lay: np.ndarray, order: int) -> np.ndarray:
+    """Slot phasor sums sum_s c_s exp(j n 2 pi s / Q) [pub: Skaar, Kroevel, Nilssen, ICEM 2006]."""
+    theta = 2.0 * np.pi * np.arange(lay.shape[1]) / lay.shape[1]
+    return (lay * np.exp(1j * order * theta)).sum(axis=1)
+
+
+# --- calculations built directly, with a chosen steel ---------------------------------------------
+
+
+def m350_50a_curve(b_max: float = 2.2, points: int = 221) -> BHCurve:
+    """M350-50A tabulated from a published relative-permeability fit.
+
+    mu_r(B) = 1 + (mu_i - 1 + c_a B_N) / (1 + c_b B_N + B_N^n), B_N = B / B_muMax.
+    """
+    # [pub: Modelica Standard Library, FluxTubes soft-magnetic materials] M350-50A:
+    # mu_i 1210, B_muMax 1.16 T, c_a 24630, c_b 2.44, n 14.
+    mu_i, b_mu_max, c_a, c_b, n = 1210.0, 1.16, 24630.0, 2.44, 14.0
+    b = np.linspace(0.0, b_max, points)
+    b_n = b[1:] / b_mu_max
+    mu_r = 1.0 + (mu_i - 1.0 + c_a * b_n) / (1.0 + c_b * b_n + b_n**n)
+    h = np.concatenate(([0.0], b[1:] / (MU0 * mu_r)))
+    return BHCurve("M350-50A", b, h, "Modelica FluxTubes fit")
+
+
+def linear_curve(mu_r: float, b_max: float = 10.0) -> BHCurve:
+    """A linear steel, H = B / (mu0 mu_r), tabulated far enough that no test reaches the table
+    end (no saturation in any demo record)."""
+    return BHCurve(
+        f"linear mu_r={mu_r:g}",
+        np.array([0.0, b_max]),
+        np.array([0.0, b_max / (MU0 * mu_r)]),
+        "linear",
+    )
+
+
+class OneSteel:
+    """A catalogue that answers every grade with the same curve."""
+
+    def __init__(self, curve: BHCurve) -> None:
+        self.curve = curve
+
+    def get(self, name: str) -> BHCurve:
+        return self.curve
+
+
+def calculation(path: Path, steel: BHCurve | None = None) -> Calculation:
+    """The Calculation of a record, as `emgate show` builds it; optionally with one steel."""
+    from emgate.calc import Calculation
+    from emgate.engine import discover_materials
+    from emgate.loader import load
+    from emgate.validate import validate_design
+
+    doc = load(path)
+    design = validate_design(doc)
+    catalogue: Any = discover_materials(path)
+    catalogue.resolve(doc, design)
+    return Calculation(design, OneSteel(steel) if steel is not None else catalogue)

@@ -253,9 +253,7 @@ def test_a_non_finite_sheet_quantity_is_an_input_error_not_a_pass(
 ) -> None:
     from emgate import calc
 
-    monkeypatch.setattr(
-        calc.Calculation, "temperature_rise", property(lambda self: math.nan), raising=False
-    )
+    monkeypatch.setitem(calc.PROVIDERS, "winding.temperature_rise", lambda c: math.nan)
     path = write_variant(repo, base=PUMP)
     code, doc = _json(path)
     assert code == 2
@@ -263,6 +261,26 @@ def test_a_non_finite_sheet_quantity_is_an_input_error_not_a_pass(
     assert error["record_path"] == "$.cooling"
     assert "winding.temperature_rise" in error["message"]
     assert run_cli("show", "--format", "json", path).code == 2
+
+
+@pytest.mark.parametrize("figure", ["5e-324 A/m^2", "-5e-324 A/m^2", "1e300 A/mm^2"])
+def test_a_declared_figure_of_no_machine_is_an_input_error_not_a_crash(
+    repo: Path, figure: str
+) -> None:
+    # The declared-values rule divides by the declared figure: the smallest subnormal would
+    # make the relative difference infinite (a crash of the rule, or a passed check).
+    path = repo / PUMP.name
+    text = PUMP.read_text(encoding="utf-8")
+    path.write_text(
+        text.replace("stator.current_density: 6.6 A/mm^2", f"stator.current_density: {figure}"),
+        encoding="utf-8",
+    )
+    code, doc = _json(path)
+    assert code == 2, doc
+    (error,) = _inputs(doc)
+    assert error["record_path"] == "$.declared['stator.current_density']"
+    assert "outside any quantity of a machine" in error["message"]
+    assert not [f for f in doc["findings"] if f["kind"] == "crash"]
 
 
 def _leaves(node: object, path: tuple = ()):  # type: ignore[no-untyped-def]
@@ -489,6 +507,18 @@ def test_record_text_cannot_forge_a_line_or_drive_a_terminal(repo: Path) -> None
         assert "\x1b" not in out and "\x07" not in out
         assert not any(line.startswith("PASS: forged") for line in out.splitlines())
     assert "\\x1b[2J\\nPASS: forged\\x07" in shown.out
+
+
+def test_diff_text_escapes_a_changed_title(repo: Path) -> None:
+    old = write_variant(repo, name="old.yaml")
+    new = write_variant(repo, name="new.yaml")
+    text = new.read_text(encoding="utf-8")
+    title = next(ln for ln in text.splitlines() if ln.startswith("title:"))
+    new.write_text(text.replace(title, f'title: "{FORGED}"'), encoding="utf-8")
+    done = run_cli("diff", old, new)
+    assert done.code == 0, done.err
+    assert "\x1b" not in done.out and "\x07" not in done.out
+    assert not any(line.startswith("PASS: forged") for line in done.out.splitlines())
 
 
 def test_text_and_junit_escape_every_finding_line() -> None:

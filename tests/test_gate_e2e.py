@@ -22,7 +22,8 @@ import yaml
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "examples" / "design-repo" / "designs" / "pump-drive-4p36s.yaml"
-TEMPLATE = ROOT / "ci" / "github-workflow.yml"
+# The template emgate init writes: the package templates are the one source of the CI files.
+TEMPLATE = ROOT / "verify" / "emgate" / "templates" / "github-workflow.yml"
 EMGATE = shutil.which("emgate")
 
 pytestmark = pytest.mark.skipif(

@@ -78,8 +78,8 @@ def test_sample_pack_rule_fails_a_long_stack(repo: Path) -> None:
 # --- broken packs ----------------------------------------------------------------------------
 
 
-def _assert_plugin_error(result: Any, name: str, pattern: str) -> None:
-    assert result.code == 2, result.out + result.err
+def _assert_plugin_error(result: Any, name: str, pattern: str, code: int = 2) -> None:
+    assert result.code == code, result.out + result.err
     lines = [line for line in result.err.splitlines() if f"plugin {name!r}" in line]
     assert lines, result.err
     assert re.search(pattern, lines[0]), lines[0]
@@ -88,11 +88,12 @@ def _assert_plugin_error(result: Any, name: str, pattern: str) -> None:
 def test_plugin_raising_on_import(plugin_host: Any, repo: Path) -> None:
     plugin_host.add("acme", "acme_raising_pack", "raise RuntimeError('broken on import')\n")
     result = run_cli("rules")
-    _assert_plugin_error(result, "acme", "failed to load: RuntimeError: broken on import")
+    _assert_plugin_error(result, "acme", "failed to load: RuntimeError: broken on import", code=3)
     assert "current-density" in result.out  # the other packs still load
     check = run_cli("check", "--format", "json", write_variant(repo, {}))  # fail closed
-    assert check.code == 2
-    assert any("plugin 'acme'" in f["message"] for f in check.input_findings())
+    assert check.code == 3  # the pack's code raised: a crash of that pack
+    (crash,) = [f for f in check.json()["findings"] if "plugin 'acme'" in f["message"]]
+    assert crash["kind"] == "crash"
 
 
 def test_plugin_module_missing(plugin_host: Any) -> None:

@@ -205,10 +205,10 @@ def test_version_and_formats_do_not_import_the_models() -> None:
 def test_show_says_when_a_quantity_could_not_be_computed(repo: Path, monkeypatch) -> None:
     from emgate import calc
 
-    def broken(self) -> float:  # type: ignore[no-untyped-def]
+    def broken(c: calc.Calculation) -> float:
         raise ValueError("a stand-in kernel failure")
 
-    monkeypatch.setattr(calc.Calculation, "copper_loss", property(broken), raising=False)
+    monkeypatch.setitem(calc.PROVIDERS, "winding.copper_loss", broken)
     result = run_cli("show", "--format", "json", write_variant(repo))
     assert result.code == 2
     assert "a stand-in kernel failure" in result.out + result.err

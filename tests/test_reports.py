@@ -11,175 +11,44 @@ a hostile message and file names; the demo repository is also run through the en
 from __future__ import annotations
 
 import json
+import math
 import re
 import subprocess
 import sys
 import xml.dom.minidom
 from pathlib import Path
-from typing import Any, Literal
+from typing import Any
 from urllib.parse import unquote
 
 import jsonschema
+import pint
 import pytest
 
+from conftest import DEMO, PUMP, check_json, run_cli, the_check, variant
 from emgate import __version__
-from emgate.findings import DISCLAIMER, Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.calc import SHEET
+from emgate.findings import DISCLAIMER, Finding, RunResult
 from emgate.report import FORMATS, reporter
 from emgate.report.annotations import escape_data, escape_property
 from emgate.report.common import printable
-from emgate.rule import Check
+from report_samples import (
+    CRASH,
+    FILE_A,
+    FILE_B,
+    FILE_BAD,
+    FILE_CI,
+    HOSTILE,
+    PLUGIN_ERROR,
+    SKIPPED,
+    WAIVER,
+    clean_result,
+    hand_result,
+)
 
+UREG = pint.UnitRegistry()
+SQRT3 = math.sqrt(3.0)
 REPO = Path(__file__).resolve().parents[1]
 SARIF_SCHEMA = REPO / "tests" / "data" / "sarif" / "sarif-schema-2.1.0.json"
-
-# Hostile text: table pipes, code and emphasis marks, a second workflow command after a line
-# break, a terminal escape, HTML, a mention, a link, percent signs that look like escapes.
-HOSTILE = (
-    "density | `x` 50%25 a:b,c\nsecond ::warning::line\r\n\x1b[31m<b>&amp;</b>"
-    " @team [x](y) *em* _u_ ~s~ \\ end"
-)
-FILE_A = "designs/motor,a:b%c.yaml"
-FILE_B = "designs/two\nlines%0A.yaml"
-FILE_BAD = "designs/broken.yaml"
-FILE_CI = "ci/pipeline.yaml"  # named on the command line, not an emgate file
-SKIPPED = "skipped: not an emgate file (no 'schema: emgate/...' line)"
-WAIVER = "waiver of 'acme/aspect' owned by Ada, until 2099-01-01: tooling trial, see note"
-CRASH = (
-    "rule crashed: ZeroDivisionError: division by zero (at balance.py:7); the record is not"
-    " verified by this rule"
-)
-PLUGIN_ERROR = "plugin 'acme' failed to load: ImportError: no module named acme_rules"
-
-
-# Demo numbers; the margins follow from Check.margin = (limit - value) / |limit| for a max
-# bound and its negative for a min bound [calc] closed form, the definition in emgate.rule.
-def _density(value: float, limit: float, quantity: str = "stator.current_density") -> Check:
-    """A current-density check, value and limit in A/mm^2 (SI inside: 1 A/mm^2 = 1e6 A/m^2)."""
-    return Check(
-        quantity, quantity, ("winding", "conductor"), value * 1e6, limit * 1e6, "max", "A/mm^2"
-    )
-
-
-def _aspect(value: float, limit: float, bound: Literal["max", "min"]) -> Check:
-    return Check(
-        "stator.aspect_ratio",
-        "stack length / bore",
-        ("stator", "stack_length"),
-        value,
-        limit,
-        bound,
-        "",
-    )
-
-
-J_FAIL = _density(8.8, 8)  # margin (8 - 8.8) / 8 = -10 %
-J_FIELD = _density(4, 5, "rotor.field_current_density")  # margin (5 - 4) / 5 = +20 %
-J_WIDE = _density(4, 8)  # margin (8 - 4) / 8 = +50 %
-J_CLOSE = _density(7.6, 8)  # margin (8 - 7.6) / 8 = +5 %: the worst of record B
-ASPECT_LOW = _aspect(0.54, 0.6, "min")  # margin -(0.6 - 0.54) / 0.6 = -10 %
-ASPECT_OK = _aspect(1.2, 1.6, "max")  # margin (1.6 - 1.2) / 1.6 = +25 %
-
-
-def hand_result() -> RunResult:
-    """Two records, a waived finding, a crash, a warning, a note, two input errors, and a
-    file skipped as not an emgate file."""
-    rules = [
-        RuleInfo("acme/aspect", "2.3", "stack aspect | within `tooling`", "acme-pack", "2.3.0"),
-        RuleInfo("current-density", "1", "current density within the limit", "emgate", "0.1.0"),
-        RuleInfo("gap-flux", "1", "air-gap flux density within the limit", "emgate", "0.1.0"),
-        RuleInfo("winding-balance", "1", "the winding is balanced", "emgate", "0.1.0"),
-    ]
-    rec_a = RecordResult(
-        FILE_A,
-        "m-1",
-        "pmsm",
-        [
-            RuleOutcome("acme/aspect", "waived", [ASPECT_LOW]),
-            RuleOutcome("current-density", "fail", [J_FIELD, J_FAIL]),
-            RuleOutcome("gap-flux", "not_applicable"),
-            RuleOutcome("winding-balance", "crash", [], CRASH),
-        ],
-    )
-    rec_b = RecordResult(
-        FILE_B,
-        "m-2",
-        "pmsm",
-        [
-            RuleOutcome("acme/aspect", "fail", [ASPECT_OK]),
-            RuleOutcome("current-density", "pass", [J_WIDE, J_CLOSE]),
-            RuleOutcome("gap-flux", "not_applicable"),
-            RuleOutcome("winding-balance", "fail", []),
-        ],
-    )
-    findings = [
-        Finding(
-            "current-density",
-            "error",
-            FILE_A,
-            12,
-            5,
-            "$.winding.conductor",
-            HOSTILE,
-            "m-1",
-            check=J_FAIL,
-        ),
-        Finding(
-            "acme/aspect",
-            "error",
-            FILE_A,
-            20,
-            3,
-            "$.stator.stack_length",
-            "stack length / bore 0.54 is below the minimum 0.6",
-            "m-1",
-            check=ASPECT_LOW,
-            waived_by=WAIVER,
-        ),
-        Finding("winding-balance", "error", FILE_A, 1, 1, "$", CRASH, "m-1", kind="crash"),
-        Finding(
-            "winding-balance",
-            "warning",
-            FILE_B,
-            30,
-            9,
-            "$.winding.layout",
-            "coil groups differ by one turn between phases",
-            "m-2",
-        ),
-        Finding(
-            "acme/aspect",
-            "info",
-            FILE_B,
-            8,
-            3,
-            "$.stator.stack_length",
-            "aspect ratio within 30 % of the tooling limit",
-            "m-2",
-        ),
-        Finding(
-            "input",
-            "error",
-            FILE_BAD,
-            3,
-            7,
-            "$.stator.slots",
-            "expected an integer, found 'many'",
-            kind="input",
-        ),
-        Finding("input", "error", "", 0, 0, "$", PLUGIN_ERROR, kind="input"),
-        Finding("input", "info", FILE_CI, 1, 1, "$", SKIPPED, kind="note"),
-    ]
-    result = RunResult([rec_a, rec_b], findings, rules, files_read=3)
-    result.sort()
-    return result
-
-
-def clean_result() -> RunResult:
-    rules = [RuleInfo("current-density", "1", "current density", "emgate", "0.1.0")]
-    rec = RecordResult(
-        "designs/ok.yaml", "ok", "pmsm", [RuleOutcome("current-density", "pass", [J_WIDE])]
-    )
-    return RunResult([rec], [], rules, files_read=1)
 
 
 @pytest.fixture(scope="module")
@@ -342,11 +211,18 @@ def test_sarif_file_outside_the_working_folder_is_an_absolute_uri(sarif_validato
 
 @pytest.mark.parametrize(
     ("keep", "code", "success"),
-    [(("current-density",), 1, True), (("input",), 2, False), ((), 0, True)],
+    [
+        (lambda f: f.rule == "current-density", 1, True),
+        (lambda f: f.file == FILE_BAD, 2, True),  # an invalid record: the tool worked
+        (lambda f: f.message == PLUGIN_ERROR, 2, False),  # a plugin did not load
+        (lambda f: f.kind == "crash", 3, False),  # a rule crashed
+        (lambda f: False, 0, True),
+    ],
+    ids=["findings", "invalid-record", "plugin-failed", "crash", "clean"],
 )
-def test_sarif_execution_success_follows_the_exit_code(keep, code, success) -> None:  # type: ignore[no-untyped-def]
+def test_sarif_execution_fails_only_when_the_tool_failed(keep, code, success) -> None:  # type: ignore[no-untyped-def]
     result = hand_result()
-    result.findings = [f for f in result.findings if f.rule in keep]
+    result.findings = [f for f in result.findings if keep(f)]
     assert result.exit_code == code
     run = json.loads(reporter("sarif")(result))["runs"][0]
     assert run["invocations"][0]["executionSuccessful"] is success
@@ -426,13 +302,26 @@ def test_junit_structure_and_counts() -> None:
     assert not _children(inputs[FILE_CI], "error")
     assert SKIPPED in _children(inputs[FILE_CI], "system-out")[0].firstChild.data
 
-    props = {
-        p.getAttribute("name"): p.getAttribute("value")
-        for p in suites["m-1"].getElementsByTagName("property")
-    }
-    assert props["disclaimer"] == DISCLAIMER
-    assert props["rule.acme/aspect"] == "2.3"
-    assert "rule.gap-flux" not in props
+    def props(node: Any) -> dict[str, str]:
+        (block,) = _children(node, "properties")
+        return {
+            p.getAttribute("name"): p.getAttribute("value") for p in _children(block, "property")
+        }
+
+    # the run's properties once, on the first suite; the rest on each testcase
+    run = props(suites["m-1"])
+    assert run["disclaimer"] == DISCLAIMER
+    assert run["emgate.verdict"] == "RULE CRASHED"
+    assert "acme/aspect v2.3" in run["emgate.rules"] and "gap-flux" not in run["emgate.rules"]
+    assert not _children(suites["m-2"], "properties")
+    aspect = props(cases["acme/aspect"])
+    assert (aspect["rule.version"], aspect["rule.origin"]) == ("2.3", "acme-pack 2.3.0")
+    assert aspect["emgate.waived"] == "1"
+    # the closest check of current-density on m-1 is J_FAIL, 8.8 against 8 A/mm^2: -10 %
+    assert props(cases["current-density"])["emgate.closest"] == (
+        "stator.current_density: 8.8 A/mm^2 <= 8 A/mm^2 (-10.0 %)"
+    )
+    assert props(m2["winding-balance"])["emgate.warnings"] == "1"
 
 
 def test_junit_demo_counts(demo: RunResult) -> None:
@@ -522,17 +411,32 @@ def test_annotations_demo(demo: RunResult) -> None:
 def test_codequality_items() -> None:
     result = hand_result()
     items = json.loads(reporter("codequality")(result))
-    live = [f for f in result.findings if f.waived_by is None]
-    assert isinstance(items, list) and len(items) == len(live)  # the waived one is left out
-    for f, item in zip(live, items, strict=True):
-        assert set(item) == {"description", "check_name", "fingerprint", "severity", "location"}
+    assert isinstance(items, list) and len(items) == len(result.findings)  # waived ones too
+    for f, item in zip(result.findings, items, strict=True):
+        assert set(item) == {
+            "type",
+            "description",
+            "check_name",
+            "categories",
+            "fingerprint",
+            "severity",
+            "location",
+        }
+        assert item["type"] == "issue"  # [mem: Code Climate analyzer spec, issue type]
         assert item["check_name"] == f.rule
         assert item["location"]["path"] == (f.file or ".")
         begin = item["location"]["lines"]["begin"]
         assert isinstance(begin, int) and begin >= 1
         assert f.message in item["description"]
-        assert item["fingerprint"] == f.fingerprint  # no two findings here share one
-    severities = {(f.rule, f.severity): i["severity"] for f, i in zip(live, items, strict=True)}
+        if f.waived_by:  # shown as info, naming the waiver, as a new issue in the widget
+            assert item["severity"] == "info"
+            assert item["description"].startswith("waived error: ")
+            assert f.waived_by in item["description"]
+            assert item["fingerprint"] != f.fingerprint
+        else:
+            assert item["fingerprint"] == f.fingerprint  # no two findings here share one
+    live = [(f, i) for f, i in zip(result.findings, items, strict=True) if not f.waived_by]
+    severities = {(f.rule, f.severity): i["severity"] for f, i in live}
     assert severities == {
         ("current-density", "error"): "critical",
         ("winding-balance", "error"): "blocker",  # the crash
@@ -560,7 +464,7 @@ def test_codequality_fingerprints_unique_when_problems_share_a_path() -> None:
 
 def test_codequality_demo(demo: RunResult) -> None:
     items = json.loads(reporter("codequality")(demo))
-    assert len(items) == sum(1 for f in demo.findings if f.waived_by is None)
+    assert len(items) == len(demo.findings)
     assert len({i["fingerprint"] for i in items}) == len(items)
 
 
@@ -654,6 +558,98 @@ def test_markdown_demo(demo: RunResult) -> None:
     assert len(rows) == sum(
         1 for r in demo.records for o in r.outcomes if o.status != "not_applicable"
     )
-    failing = {(f.record_id, f.rule) for f in demo.active("error")}
+    # a failed check is a finding at its rule's severity: errors and warnings both
+    failing = {(f.record_id, f.rule) for s in ("error", "warning") for f in demo.active(s)}
     assert {(r[0], r[1]) for r in rows if r[2] == "fail"} == failing
     assert all(r[6].startswith("-") for r in rows if (r[0], r[1]) in failing)
+
+
+# --- JSON checks: SI unit and a display text ------------------------------------------------------
+
+
+DISPLAY = re.compile(r"^(\S+)(?: (\S+))? (<=|>=) (\S+)(?: (\S+))?$")
+
+
+def _display_si(number: str, unit: str | None) -> float:
+    return float(number) if unit is None else UREG.Quantity(float(number), unit).to_base_units().m
+
+
+def test_every_demo_check_gives_si_values_in_its_si_unit_and_a_display() -> None:
+    result = run_cli("check", "--format", "json", DEMO)
+    checks = [c for r in result.json()["records"] for o in r["outcomes"] for c in o["checks"]]
+    assert len(checks) > 30
+    for c in checks:
+        match = DISPLAY.match(c["display"])
+        assert match, c["display"]
+        value, vunit, bound, limit, lunit = match.groups()
+        assert bound == ("<=" if c["bound"] == "max" else ">=")
+        assert vunit == lunit
+        # pint, not emgate, converts the display unit; the SI unit has the same dimension
+        # and factor 1 from base units. Four significant figures shown: 5e-4 relative.
+        si = UREG.Quantity(1.0, c["unit"] if c["unit"] != "1" else "")
+        assert si.to_base_units().m == pytest.approx(1.0, rel=1e-12), c["unit"]
+        if vunit is not None:
+            assert UREG.Quantity(1.0, vunit).dimensionality == si.dimensionality, c
+        assert _display_si(value, vunit) == pytest.approx(c["value"], rel=5e-4, abs=1e-12)
+        assert _display_si(limit, lunit) == pytest.approx(c["limit"], rel=5e-4, abs=1e-12)
+
+
+def test_the_current_density_check_reads_as_the_brief_shows() -> None:
+    c = the_check(check_json(PUMP), "current-density", "stator.current_density")
+    assert c["unit"] == "A/m^2"
+    # [calc] 14.6 A delta: I_ph = 14.6 / sqrt 3, two strands of 0.90 mm; limit 8 A/mm^2 from
+    # the demo team's emgate.yaml (the demo's own data).
+    j = 14.6 / SQRT3 / (2 * math.pi / 4 * 0.90**2)
+    assert c["display"] == f"{j:.4g} A/mm^2 <= 8 A/mm^2"
+
+
+def test_the_sheet_and_the_checks_share_one_si_unit_function() -> None:
+    from emgate import sheet as sheet_module
+    from emgate import units
+    from emgate.report import jsonfmt
+
+    assert sheet_module.si_unit is units.si_unit and jsonfmt.si_unit is units.si_unit
+    for entry in SHEET.values():  # pint judges each SI unit against the display unit
+        si, shown = units.si_unit(entry.unit), entry.unit
+        if si == "1":
+            assert shown in ("1", "%"), entry.name  # a ratio, shown as such or in percent
+            continue
+        factor = UREG.Quantity(1.0, si).to_base_units().m
+        assert factor == pytest.approx(1.0, rel=1e-12), entry.name  # an SI unit: no prefix
+        assert UREG.Quantity(1.0, si).dimensionality == UREG.Quantity(1.0, shown).dimensionality
+
+
+# --- the margins line of the text report ----------------------------------------------------------
+
+
+def test_a_passing_run_shows_each_records_closest_margin(repo: Path) -> None:
+    path = variant(repo, {})
+    text = run_cli("check", path)
+    assert text.code == 0
+    result = check_json(path)
+    (record,) = result.json()["records"]
+    checks = [(o["rule"], c) for o in record["outcomes"] for c in o["checks"]]
+
+    # The smallest margin, recomputed here from value and limit: (limit - value) / limit for
+    # an upper bound, (value - limit) / limit for a lower one [calc].
+    def margin(c: dict[str, Any]) -> float:
+        rel = (c["limit"] - c["value"]) / abs(c["limit"])
+        return rel if c["bound"] == "max" else -rel
+
+    rule, c = min(checks, key=lambda rc: margin(rc[1]))
+    line = next(ln for ln in text.out.splitlines() if ln.startswith("pump-drive-4p36s: "))
+    assert line.startswith(f"pump-drive-4p36s: {len(checks)} checks; closest to a limit: {rule}")
+    assert c["label"] in line
+    assert line.endswith(f"({margin(c) * 100:+.1f} %)")
+    assert text.out.index(line) < text.out.index("PASS:")  # before the verdict
+
+
+def test_the_margins_lines_follow_the_findings() -> None:
+    out = run_cli("check", DEMO).out
+    lines = out.splitlines()
+    ids = ["genset-4p48s", "pump-drive-4p36s", "servo-10p12s"]
+    at = [next(i for i, ln in enumerate(lines) if ln.startswith(f"{rid}: ")) for rid in ids]
+    last_finding = max(i for i, ln in enumerate(lines) if ln.startswith("  "))
+    assert at == sorted(at) and at[0] > last_finding  # one line per record, after findings
+    # The failing servo's closest check is beyond its limit: a negative margin.
+    assert re.search(r"\(-\d+\.\d %\)$", lines[at[2]])

@@ -1,16 +1,15 @@
 """``emgate show``: the calculation sheet's names, units and values, as a user meets them.
 
 The sheet is checked against hand calculations from each demo record's raw numbers, done here
-with the published closed forms (tags as in the shared reference notes), and against pint for
-the unit conversions between the text and JSON forms. The helpers at the top are shared with
-test_rules_magnetic.py and test_rules_electrical.py.
+with the published closed forms (source tags as in DEVELOPERS.md), and against pint for the
+unit conversions between the text and JSON forms; the method texts of the sheet are read back.
+The helpers shared with other modules live in conftest.py.
 """
 
 from __future__ import annotations
 
 import math
 import re
-import shutil
 from pathlib import Path
 from typing import Any
 
@@ -18,93 +17,34 @@ import numpy as np
 import pint
 import pytest
 
-from conftest import GENSET, PUMP, REPO, SERVO, STEELS, CliResult, run_cli, write_variant
+from conftest import (
+    GENSET,
+    MM,
+    MM2,
+    PUMP,
+    REPO,
+    SERVO,
+    TOOTH_COIL_12_10,
+    carter,
+    kd_kp,
+    phasors,
+    run_cli,
+    sheet,
+    show_json,
+    table_layout,
+    variant,
+)
 from emgate.calc import SHEET
 from emgate.model import MACHINE_KINDS
 
 DEMOS = {"pump": PUMP, "servo": SERVO, "genset": GENSET}
-MM = 1e-3  # m per mm
-MM2 = 1e-6  # m^2 per mm^2
 UREG = pint.UnitRegistry()
+
 
 # --- helpers shared by the rule tests --------------------------------------------------------
 
 
-def show_json(path: Path) -> dict[str, dict[str, Any]]:
-    """The quantities of ``emgate show --format json PATH``."""
-    result = run_cli("show", "--format", "json", path)
-    assert result.code == 0, result.err
-    return result.json()["quantities"]
-
-
-def sheet(path: Path) -> dict[str, float]:
-    """Name -> SI value of the calculation sheet of one record."""
-    return {name: q["value"] for name, q in show_json(path).items()}
-
-
-def variant(repo: Path, overrides: dict[str, Any], base: Path = PUMP) -> Path:
-    """A demo record with overrides in ``repo``; the genset's steel file comes along."""
-    if base == GENSET and not (repo / "materials").exists():
-        (repo / "materials").mkdir()
-        shutil.copy(STEELS, repo / "materials" / STEELS.name)
-    return write_variant(repo, overrides, base=base)
-
-
-def write_config(repo: Path, text: str) -> Path:
-    path = repo / "emgate.yaml"
-    path.write_text("schema: emgate/config@1\n" + text, encoding="utf-8")
-    return path
-
-
-def check_json(path: Path) -> CliResult:
-    result = run_cli("check", "--format", "json", path)
-    assert result.code in (0, 1), result.out + result.err
-    return result
-
-
-def findings(result: CliResult, rule: str | None = None) -> list[dict[str, Any]]:
-    return [f for f in result.json()["findings"] if rule is None or f["rule"] == rule]
-
-
-def outcome(result: CliResult, rule: str, record_id: str | None = None) -> dict[str, Any]:
-    records = result.json()["records"]
-    (record,) = [r for r in records if record_id is None or r["record_id"] == record_id]
-    (out,) = [o for o in record["outcomes"] if o["rule"] == rule]
-    return out
-
-
-def the_check(
-    result: CliResult,
-    rule: str,
-    quantity: str,
-    record_id: str | None = None,
-    bound: str | None = None,
-) -> Any:
-    """The one check of ``rule`` on ``quantity`` (of one bound, where a rule checks both)."""
-    (c,) = [
-        c
-        for c in outcome(result, rule, record_id)["checks"]
-        if c["quantity"] == quantity and bound in (None, c["bound"])
-    ]
-    return c
-
-
 # --- hand calculations from the raw records ---------------------------------------------------
-
-
-def carter(slot_pitch: float, opening: float, gap: float) -> float:
-    """kc = tau / (tau - gamma g), gamma = (4/pi)[u atan u - ln sqrt(1 + u^2)], u = b0/(2g).
-    [mem: Carter 1901, as given in Pyrhonen, Design of Rotating Electrical Machines, ch. 3]"""
-    u = opening / (2.0 * gap)
-    gamma = 4.0 / math.pi * (u * math.atan(u) - math.log(math.sqrt(1.0 + u * u)))
-    return slot_pitch / (slot_pitch - gamma * gap)
-
-
-def kd_kp(q: int, slot_angle: float, pitch: float) -> float:
-    """Integral-slot 60-degree-belt winding factor, kd kp [mem: Pyrhonen, Design of Rotating
-    Electrical Machines]; slot_angle in electrical radians, pitch y / tau_p."""
-    kd = math.sin(q * slot_angle / 2.0) / (q * math.sin(slot_angle / 2.0))
-    return kd * math.sin(pitch * math.pi / 2.0)
 
 
 def belt_layout(slots: int, pole_pairs: int, pitch: int) -> np.ndarray:
@@ -119,30 +59,6 @@ def belt_layout(slots: int, pole_pairs: int, pitch: int) -> np.ndarray:
         lay[phase, s] += sign
         lay[phase, (s + pitch) % slots] -= sign
     return lay
-
-
-#: 12-slot 10-pole double-layer tooth-coil table, derived by hand: the coil on tooth k links
-#: the working order at 150 k degrees electrical; phase A takes +c0 -c1 -c6 +c7, B (120 deg on
-#: in slot order) -c2 +c3 +c8 -c9, C +c4 -c5 -c10 +c11. Slot k holds coil k's go side (top)
-#: and coil k-1's return side.
-TOOTH_COIL_12_10 = [
-    "+A -C", "-A -A", "-B +A", "+B +B", "+C -B", "-C -C",
-    "-A +C", "+A +A", "+B -A", "-B -B", "-C +B", "+C +C",
-]  # fmt: skip
-
-
-def table_layout(table: list[str]) -> np.ndarray:
-    lay = np.zeros((3, len(table)), dtype=int)
-    for s, entry in enumerate(table):
-        for side in entry.split():
-            lay["ABC".index(side[1]), s] += 1 if side[0] == "+" else -1
-    return lay
-
-
-def phasors(lay: np.ndarray, order: int) -> np.ndarray:
-    """Slot phasor sums sum_s c_s exp(j n 2 pi s / Q) [pub: Skaar, Kroevel, Nilssen, ICEM 2006]."""
-    theta = 2.0 * np.pi * np.arange(lay.shape[1]) / lay.shape[1]
-    return (lay * np.exp(1j * order * theta)).sum(axis=1)
 
 
 def layout_winding_factor(lay: np.ndarray, order: int) -> float:
@@ -245,10 +161,16 @@ def test_text_form_lists_the_same_names_and_values(demo: str) -> None:
     for name, (shown, method) in rows.items():
         assert method == json_q[name]["method"]
         unit = json_q[name]["unit"]
+        if json_q[name]["value"] is None:  # not defined for this record (NaN)
+            assert shown.split()[0] == "nan", name
+            continue
         si = UREG.Quantity(json_q[name]["value"], "" if unit == "1" else unit)
+        number, _, display = shown.partition(" ")
+        # an absolute temperature in degC is an offset unit: pint converts it alone
+        text = UREG.Quantity(float(number), display) if display == "degC" else UREG(shown)
         # [pint] the display value converted to SI; 5 significant figures are shown, so the
         # relative rounding is at most 5e-5.
-        assert UREG.Quantity(shown).to_base_units().magnitude == pytest.approx(
+        assert text.to_base_units().magnitude == pytest.approx(
             si.to_base_units().magnitude, rel=1e-4
         ), name
 
@@ -272,6 +194,8 @@ def test_every_sheet_name_is_documented_in_developers_md() -> None:
         unit, machines, method = table[name]
         assert unit == entry.unit, name
         expected = "all" if entry.machines == MACHINE_KINDS else ", ".join(entry.machines)
+        if entry.only:  # a condition beyond the machine kinds
+            expected += f" ({entry.only})"
         assert machines == expected, name
         assert method == entry.method, name
 
@@ -455,3 +379,30 @@ def test_phase_resistance_and_copper_loss_of_the_pump() -> None:
     # m I^2 R at the class F reference temperature, 115 degC [mem].
     loss = 3 * i_ph**2 * r20 * (1 + 0.00393 * (115 - 20))
     assert s["winding.copper_loss"] == pytest.approx(loss, rel=1e-9)
+
+
+def test_every_sheet_name_has_exactly_one_function() -> None:
+    # The one list in emgate.calc.names and the @quantity bindings must agree both ways;
+    # a second binding of a name raises at import (emgate.calc.core.quantity).
+    from emgate.calc import PROVIDERS, SHEET
+
+    assert set(PROVIDERS) == set(SHEET)
+    assert len({id(fn) for fn in PROVIDERS.values()}) == len(PROVIDERS)
+
+
+# --- method texts ---------------------------------------------------------------------------------
+
+
+def test_the_fundamental_note_states_the_flat_top_factor() -> None:
+    method = SHEET["air_gap.flux_density_fundamental"].method
+    assert "(4/pi) sin(a pi/2)" in method
+    # [calc] (4/pi) sin(a pi/2) = 1 at a = (2/pi) asin(pi/4) = 0.5751.
+    assert f"a > {2 / math.pi * math.asin(math.pi / 4):.3f}" in method
+    s = sheet(SERVO)  # pole arc 0.8: above the peak, as the note says
+    assert s["air_gap.flux_density_fundamental"] > s["air_gap.flux_density_peak"]
+
+
+def test_the_effective_gap_text_names_carter_and_both_gaps() -> None:
+    method = SHEET["air_gap.effective_length"].method
+    assert "is taken on" not in method  # the garbled phrase is gone
+    assert "Carter's coefficient times" in method and "h_m / mu_rec" in method

@@ -4,22 +4,16 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, basis, limit
-from emgate_rules._winding import unless_unbalanced
-
-CP = "common practice, no source"
-#: Back-EMF over phase voltage at rated speed: an inverter-fed surface-magnet motor needs
-#: its no-load EMF below the supply to drive rated current (common practice, no source).
-MAX_RATIO = 1.0
+from emgate.api import AnyDesign, Check, Context, Limit, Options, Problem, Ratio, Rule, limit
 
 
 class BackEmfOptions(Options):
-    max_ratio: Ratio = limit(MAX_RATIO, CP)
+    #: Back-EMF over phase voltage at rated speed: an inverter-fed surface-magnet motor
+    #: needs its no-load EMF below the supply to drive rated current.
+    max_ratio: Ratio = limit(1.0, "1", "common practice, no source")
 
 
-class BackEmf(Rule):
+class BackEmf(Rule[BackEmfOptions]):
     """No-load back-EMF at rated speed below the supply's phase voltage.
 
     Method: the phase EMF, rms, at the rated electrical frequency f with the magnets'
@@ -45,28 +39,25 @@ class BackEmf(Rule):
     summary = "no-load back-EMF at rated speed below the phase voltage"
     machines = ("surface_pm",)
     tags = ("electrical", "magnetic")
-    options = BackEmfOptions
 
     @classmethod
     def applies(cls, design: AnyDesign) -> bool:
         return design.rating.operation != "generator"
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: BackEmfOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, BackEmfOptions)
-        calc = context.calc
-        emf, voltage = calc.back_emf, calc.phase_voltage
+        sheet = context.sheet
+        emf, voltage = sheet["winding.back_emf"], sheet["winding.phase_voltage"]
         # Compared in volts, E <= max_ratio U_ph: the same verdict and margin as the ratio's.
-        yield Check(
+        yield context.check(
             "winding.back_emf",
-            f"no-load back-EMF at rated speed (E / U_ph {emf / voltage:.3g})",
-            ("winding", "turns_per_coil"),
-            emf,
-            options.max_ratio * voltage,
+            Limit(
+                options.max_ratio * voltage,
+                f"{options.max_ratio:.3g} x the phase voltage {voltage:.4g} V: "
+                + options.basis("max_ratio"),
+            ),
             "max",
-            "V",
-            f"{options.max_ratio:.3g} x the phase voltage {voltage:.4g} V: "
-            + basis(options, "max_ratio", MAX_RATIO, CP),
+            path=("winding", "turns_per_coil"),
+            label=f"no-load back-EMF at rated speed (E / U_ph {emf / voltage:.3g})",
         )

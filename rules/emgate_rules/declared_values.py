@@ -6,39 +6,37 @@ from collections.abc import Iterable
 
 from pydantic import Field, field_validator
 
-from emgate.calc import SHEET
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate.units import (
-    QuantityError,
-    convert,
-    describe,
+from emgate.api import (
+    AnyDesign,
+    Check,
+    Context,
+    Entry,
+    NotComputed,
+    Options,
+    Problem,
+    Ratio,
+    Rule,
+    Sheet,
     format_value,
-    parse_quantity,
-    parse_unit,
+    limit,
 )
-from emgate_rules._limits import Ratio, basis
-from emgate_rules._winding import UNBALANCED
 
-SOURCE = "common practice, no source"
-#: Relative difference allowed between a declared and a recomputed figure.
-DEFAULT_TOLERANCE = 0.05
+#: Every sheet name, whatever the record (the options are validated before any record).
+NAMES: dict[str, Entry] = dict(Sheet.ENTRIES)
 
 
 def _unknown_name(name: str, what: str) -> str:
     """'... is not a quantity emgate computes', with the closest sheet name as a hint."""
     import difflib
 
-    close = difflib.get_close_matches(name, list(SHEET), n=1, cutoff=0.6)
+    close = difflib.get_close_matches(name, list(NAMES), n=1, cutoff=0.6)
     hint = f"; did you mean {close[0]!r}?" if close else ""
     return f"{what} {name!r} is not a quantity emgate computes{hint} (`emgate show` lists them)"
 
 
 class DeclaredValuesOptions(Options):
-    tolerance: Ratio = Field(
-        default=DEFAULT_TOLERANCE,
-        description=f"relative tolerance, e.g. 0.05 or '5 %' ({SOURCE})",
-    )
+    #: Relative difference allowed between a declared and a recomputed figure.
+    tolerance: Ratio = limit(0.05, "1", "common practice, no source")
     tolerances: dict[str, Ratio] = Field(
         default_factory=dict,
         description="per calculation-sheet name, a tolerance overriding `tolerance`",
@@ -48,12 +46,12 @@ class DeclaredValuesOptions(Options):
     @classmethod
     def _sheet_names(cls, value: dict[str, float]) -> dict[str, float]:
         for name in value:
-            if name not in SHEET:
+            if name not in NAMES:
                 raise ValueError(_unknown_name(name, "tolerance for"))
         return value
 
 
-class DeclaredValues(Rule):
+class DeclaredValues(Rule[DeclaredValuesOptions]):
     """Each figure of the record's `declared` block agrees with emgate's recomputed value.
 
     Method: every name in `declared` must be a calculation-sheet name (`emgate show` lists
@@ -72,17 +70,18 @@ class DeclaredValues(Rule):
     id = "declared-values"
     summary = "declared figures agree with the recomputed ones"
     tags = ("review",)
-    options = DeclaredValuesOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: DeclaredValuesOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, DeclaredValuesOptions)
-        calc = context.calc
+        sheet = context.sheet
         for name, raw in sorted(design.declared.items()):
             at = ("declared", name)
-            entry = SHEET.get(name)
-            if entry is not None and not calc.applies(name):
+            entry = NAMES.get(name)
+            if entry is None:
+                yield Problem(at, _unknown_name(name, "declared"))
+                continue
+            if design.machine not in entry.machines:
                 kinds = ", ".join(entry.machines)
                 yield Problem(
                     at,
@@ -90,49 +89,37 @@ class DeclaredValues(Rule):
                     f" not for this {design.machine} machine",
                 )
                 continue
-            if entry is None:
-                yield Problem(at, _unknown_name(name, "declared"))
-                continue
-            try:
-                q = parse_quantity(str(raw))
-            except QuantityError as exc:
-                yield Problem(at, f"declared {name!r}: {exc}")
-                continue
-            dims = parse_unit(entry.unit)[1] if entry.unit not in ("", "1") else (0,) * 5
-            if q.dims != dims:
+            if name not in sheet:
                 yield Problem(
-                    at,
-                    f"declared {name!r} is a {describe(q.dims)}; expected a"
-                    f" {describe(dims)} such as '1 {entry.unit}'",
+                    at, f"declared {name!r} is computed for {entry.only} only, not for this record"
                 )
                 continue
-            if entry.unit == "K":
-                try:  # a rise written in degC would be read as a temperature, 273 K off
-                    convert(str(raw), "temperature_difference")
-                except QuantityError as exc:
-                    yield Problem(at, f"declared {name!r}: {exc}")
-                    continue
-            if q.value == 0.0:
+            try:
+                declared = entry.parse(str(raw))
+            except ValueError as exc:
+                gap = " " if str(exc).startswith("is a ") else ": "
+                yield Problem(at, f"declared {name!r}{gap}{exc}")
+                continue
+            if declared == 0.0:
                 yield Problem(at, f"declared {name!r} is zero; nothing to compare against")
                 continue
             try:
-                value = calc.value(name)
-            except (ValueError, ArithmeticError) as exc:
-                if not calc.winding_problems:
-                    raise
-                yield Problem(at, f"declared {name!r} not compared ({exc}): {UNBALANCED}")
+                value = sheet[name]
+            except NotComputed as exc:
+                yield Problem(
+                    at, f"declared {name!r} not compared ({exc.reason}): {NotComputed.UNBALANCED}"
+                )
                 continue
             unit = entry.unit if entry.unit != "1" else ""
+            tolerance = options.limit_for("tolerance")
             yield Check(
                 name,
                 f"{name} recomputed {format_value(value, unit)} against the"
-                f" declared {format_value(q.value, unit)}: relative difference",
+                f" declared {format_value(declared, unit)}: relative difference",
                 at,
-                abs(value - q.value) / abs(q.value),
-                options.tolerances.get(name, options.tolerance),
+                abs(value - declared) / abs(declared),
+                options.tolerances.get(name, tolerance.value),
                 "max",
                 "%",
-                "the team's tolerance"
-                if name in options.tolerances
-                else basis(options, "tolerance", DEFAULT_TOLERANCE, "declared-values tolerance"),
+                "the team's tolerance" if name in options.tolerances else tolerance.basis,
             )

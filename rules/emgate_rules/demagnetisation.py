@@ -5,25 +5,29 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, RatioOrZero, basis, limit
-from emgate_rules._winding import unless_unbalanced
-
-CP = "common practice, no source"
-#: Stator current, in rated currents, whose MMF the magnet must withstand: the rated
-#: current itself unless the team sets its overload or short-circuit factor.
-CURRENT_FACTOR = 1.0
-#: Share of the hot intrinsic coercivity kept in reserve (common practice, no source).
-MARGIN = 0.1
+from emgate.api import (
+    AnyDesign,
+    Check,
+    Context,
+    Limit,
+    Options,
+    Problem,
+    Ratio,
+    RatioOrZero,
+    Rule,
+    limit,
+)
 
 
 class DemagnetisationOptions(Options):
-    current_factor: Ratio = limit(CURRENT_FACTOR, "the rated current (set overload or fault)")
-    margin: RatioOrZero = limit(MARGIN, CP, lt=1.0)
+    #: Stator current, in rated currents, whose MMF the magnet must withstand: the rated
+    #: current itself unless the team sets its overload or short-circuit factor.
+    current_factor: Ratio = limit(1.0, "1", "the rated current (set overload or fault)")
+    #: Share of the hot intrinsic coercivity kept in reserve.
+    margin: RatioOrZero = limit(0.1, "1", "common practice, no source", lt=1.0)
 
 
-class Demagnetisation(Rule):
+class Demagnetisation(Rule[DemagnetisationOptions]):
     """The magnets' working point stays clear of the knee at the operating temperature, with
     the stator's demagnetising MMF, and cold too for a magnet whose coercivity grows with
     temperature (ferrite).
@@ -62,35 +66,34 @@ class Demagnetisation(Rule):
     summary = "magnet working point under the stator MMF clear of the coercivity, hot and cold"
     machines = ("surface_pm",)
     tags = ("magnetic",)
-    options = DemagnetisationOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: DemagnetisationOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, DemagnetisationOptions)
-        calc = context.calc
+        sheet = context.sheet
         magnet = design.rotor.magnet
         factor = options.current_factor
         at = "rated current" if math.isclose(factor, 1.0) else f"{factor:g} x rated current"
-        basis_text = basis(options, "margin", MARGIN, CP)
-        hot, cold = magnet.operating_temperature, design.cooling.ambient
+        hot, cold = sheet["rotor.magnet_temperature"], design.cooling.ambient
         cases = [("hot", hot, False)]
         if magnet.material.coercivity_temperature_coefficient > 0.0 and cold < hot:
             cases.append(("cold", cold, True))
         for name, temperature, at_coolant in cases:
-            worst = calc.magnet_h_with_current(factor, cold=at_coolant)
-            coercivity = calc.magnet_coercivity_at(temperature)
+            suffix = "_cold" if at_coolant else ""
+            worst = sheet.magnet_field_with_current(factor, cold=at_coolant)
+            coercivity = sheet[f"rotor.magnet_coercivity{suffix or '_hot'}"]
             celsius = temperature - 273.15
             where = "at the coolant temperature, " if at_coolant else ""
-            yield Check(
-                "rotor.magnet_field_strength_worst" + ("_cold" if at_coolant else ""),
-                f"magnet field strength at {at}, {where}stator MMF peak on the d-axis"
-                f" ({name} H_cJ {coercivity / 1e3:.4g} kA/m)",
-                ("rotor", "magnet", "thickness"),
-                abs(worst),
-                coercivity * (1.0 - options.margin),
+            yield context.check(
+                f"rotor.magnet_field_strength_worst{suffix}",
+                Limit(
+                    coercivity * (1.0 - options.margin),
+                    f"H_cJ at {celsius:.4g} degC less a {options.margin:.3g} margin: "
+                    + options.basis("margin"),
+                ),
                 "max",
-                "kA/m",
-                f"H_cJ at {celsius:.4g} degC less a {options.margin:.3g} margin: " + basis_text,
+                path=("rotor", "magnet", "thickness"),
+                label=f"magnet field strength at {at}, {where}stator MMF peak on the d-axis"
+                f" ({name} H_cJ {coercivity / 1e3:.4g} kA/m)",
+                value=abs(worst),  # demagnetising: its magnitude against H_cJ
             )

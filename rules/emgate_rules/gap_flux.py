@@ -4,20 +4,10 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.quantity import FluxDensity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import basis, limit
-from emgate_rules._winding import unless_unbalanced
+from emgate.api import AnyDesign, Check, Context, FluxDensity, Options, Problem, Rule, limit
 
 PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1 (from memory)"
 CP = "common practice, no source"
-DEFAULTS = {"induction": 0.9, "surface_pm": 1.1, "salient_field": 1.05}
-SOURCES = {"induction": PYRHONEN, "surface_pm": CP, "salient_field": PYRHONEN}
-#: Lower limits: below them the iron (a saturated pole body, too thin a magnet) starves the
-#: gap (common practice, no source). Surface magnets 0.3 T: a ferrite machine's gap runs at
-#: about that (common practice, no source).
-MINIMA = {"induction": 0.6, "surface_pm": 0.3, "salient_field": 0.6}
 #: What a designer changes to move the gap flux density, by machine kind.
 DRIVERS = {
     "induction": ("winding", "turns_per_coil"),
@@ -27,16 +17,18 @@ DRIVERS = {
 
 
 class GapFluxOptions(Options):
-    induction: FluxDensity = limit(DEFAULTS["induction"], SOURCES["induction"])
-    surface_pm: FluxDensity = limit(DEFAULTS["surface_pm"], SOURCES["surface_pm"])
-    salient_field: FluxDensity = limit(DEFAULTS["salient_field"], SOURCES["salient_field"])
-    # Lower limits; null switches one off.
-    induction_min: FluxDensity | None = limit(MINIMA["induction"], CP)
-    surface_pm_min: FluxDensity | None = limit(MINIMA["surface_pm"], CP)
-    salient_field_min: FluxDensity | None = limit(MINIMA["salient_field"], CP)
+    induction: FluxDensity = limit(0.9, "T", PYRHONEN)
+    surface_pm: FluxDensity = limit(1.1, "T", CP)
+    salient_field: FluxDensity = limit(1.05, "T", PYRHONEN)
+    # Lower limits, null switches one off: below them the iron (a saturated pole body, too
+    # thin a magnet) starves the gap. Surface magnets 0.3 T: a ferrite machine's gap runs at
+    # about that.
+    induction_min: FluxDensity | None = limit(0.6, "T", CP)
+    surface_pm_min: FluxDensity | None = limit(0.3, "T", CP)
+    salient_field_min: FluxDensity | None = limit(0.6, "T", CP)
 
 
-class GapFlux(Rule):
+class GapFlux(Rule[GapFluxOptions]):
     """Peak air-gap flux density from the machine's magnetic circuit, iron included.
 
     Method, by machine kind (emgate.physics.magnetic):
@@ -64,33 +56,19 @@ class GapFlux(Rule):
     id = "gap-flux"
     summary = "peak air-gap flux density within the limits for the machine kind"
     tags = ("magnetic",)
-    options = GapFluxOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: GapFluxOptions, context: Context
     ) -> Iterable[Check | Problem]:
         kind = design.machine
-        value = context.calc.gap_flux_density_peak
-        yield Check(
-            quantity="air_gap.flux_density_peak",
-            label="peak air-gap flux density",
-            path=DRIVERS[kind],
-            value=value,
-            limit=getattr(options, kind),
-            bound="max",
-            unit="T",
-            basis=basis(options, kind, DEFAULTS[kind], SOURCES[kind]),
-        )
-        minimum = getattr(options, f"{kind}_min")
-        if minimum is not None:
-            yield Check(
-                quantity="air_gap.flux_density_peak",
-                label="peak air-gap flux density (lower limit)",
+        name = "air_gap.flux_density_peak"
+        label = "peak air-gap flux density"
+        yield context.check(name, options.limit_for(kind), "max", path=DRIVERS[kind], label=label)
+        if getattr(options, f"{kind}_min") is not None:
+            yield context.check(
+                name,
+                options.limit_for(f"{kind}_min"),
+                "min",
                 path=DRIVERS[kind],
-                value=value,
-                limit=minimum,
-                bound="min",
-                unit="T",
-                basis=basis(options, f"{kind}_min", MINIMA[kind], CP),
+                label=f"{label} (lower limit)",
             )

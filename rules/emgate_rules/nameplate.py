@@ -4,19 +4,14 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import Ratio, basis, limit
-
-CP = "common practice, no source"
-MAX_SLIP = 0.15
+from emgate.api import AnyDesign, Check, Context, Options, Problem, Ratio, Rule, limit
 
 
 class NameplateOptions(Options):
-    max_slip: Ratio = limit(MAX_SLIP, CP)
+    max_slip: Ratio = limit(0.15, "1", "common practice, no source")
 
 
-class Nameplate(Rule):
+class Nameplate(Rule[NameplateOptions]):
     """Rated slip of an induction machine within the usual range.
 
     Method: slip s = 1 - n / (f / p) from the rated speed n, frequency f and pole pairs p.
@@ -31,21 +26,14 @@ class Nameplate(Rule):
     machines = ("induction",)
     severity = "warning"
     tags = ("review",)
-    options = NameplateOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: NameplateOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, NameplateOptions)
-        sync = design.rating.frequency / design.pole_pairs
-        slip = abs(1.0 - design.rating.speed / sync)
-        yield Check(
+        yield context.check(
             "rating.slip",
-            "rated slip",
-            ("rating", "speed"),
-            slip,
-            options.max_slip,
+            options.limit_for("max_slip"),
             "max",
-            "%",
-            basis(options, "max_slip", MAX_SLIP, CP),
+            path=("rating", "speed"),
+            label="rated slip",
         )

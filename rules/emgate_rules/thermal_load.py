@@ -4,36 +4,27 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.quantity import quantity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import basis, limit
+from emgate.api import AnyDesign, Check, Context, Options, Problem, Rule, limit, quantity
 
 ThermalLoad = quantity("thermal_load")
 LinearCurrent = quantity("field_strength")  # A/m: the same dimension as electric loading
-_AJ = 1e9  # 1 A^2/mm^3 in A^2/m^3
 CP = "common practice, no source"
-PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.2 (from memory)"
-AJ_DEFAULTS = {
-    "enclosed_natural": 150 * _AJ,
-    "enclosed_fan": 300 * _AJ,
-    "open_ventilated": 300 * _AJ,
-    "liquid_jacket": 500 * _AJ,
-    "direct_liquid": 1000 * _AJ,
-}
-A_DEFAULT = 65e3
 
 
 class ThermalLoadOptions(Options):
-    enclosed_natural: ThermalLoad = limit(AJ_DEFAULTS["enclosed_natural"], CP)
-    enclosed_fan: ThermalLoad = limit(AJ_DEFAULTS["enclosed_fan"], CP)
-    open_ventilated: ThermalLoad = limit(AJ_DEFAULTS["open_ventilated"], CP)
-    liquid_jacket: ThermalLoad = limit(AJ_DEFAULTS["liquid_jacket"], CP)
-    direct_liquid: ThermalLoad = limit(AJ_DEFAULTS["direct_liquid"], CP)
-    electric_loading: LinearCurrent = limit(A_DEFAULT, PYRHONEN)
+    enclosed_natural: ThermalLoad = limit(150, "A^2/mm^3", CP)
+    enclosed_fan: ThermalLoad = limit(300, "A^2/mm^3", CP)
+    open_ventilated: ThermalLoad = limit(300, "A^2/mm^3", CP)
+    liquid_jacket: ThermalLoad = limit(500, "A^2/mm^3", CP)
+    direct_liquid: ThermalLoad = limit(1000, "A^2/mm^3", CP)
+    electric_loading: LinearCurrent = limit(
+        65,
+        "kA/m",
+        "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.2 (from memory)",
+    )
 
 
-class ThermalLoadRule(Rule):
+class ThermalLoadRule(Rule[ThermalLoadOptions]):
     """Electric loading A and thermal load A J against limits by cooling method.
 
     Method: A = 2 m N_ph I / (pi D) (rms), N_ph the series turns per phase, I the phase
@@ -50,31 +41,23 @@ class ThermalLoadRule(Rule):
     id = "thermal-load"
     summary = "electric loading and thermal load A*J within the limits for the cooling"
     tags = ("thermal",)
-    options = ThermalLoadOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: ThermalLoadOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, ThermalLoadOptions)
         method = design.cooling.method
-        calc = context.calc
-        yield Check(
+        limit = options.limit_for(method)
+        yield context.check(
             "stator.thermal_load",
-            "thermal load A*J",
-            ("winding", "conductor"),
-            calc.thermal_load,
-            getattr(options, method),
+            type(limit)(limit.value, f"{method.replace('_', ' ')}: {limit.basis}"),
             "max",
-            "A^2/mm^3",
-            f"{method.replace('_', ' ')}: " + basis(options, method, AJ_DEFAULTS[method], CP),
+            path=("winding", "conductor"),
+            label="thermal load A*J",
         )
-        yield Check(
+        yield context.check(
             "stator.electric_loading",
-            "electric loading",
-            ("winding", "turns_per_coil"),
-            calc.electric_loading,
-            options.electric_loading,
+            options.limit_for("electric_loading"),
             "max",
-            "kA/m",
-            basis(options, "electric_loading", A_DEFAULT, PYRHONEN),
+            path=("winding", "turns_per_coil"),
+            label="electric loading",
         )

@@ -4,27 +4,25 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.quantity import FluxDensity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import basis, limit
-from emgate_rules._winding import unless_unbalanced
+from emgate.api import AnyDesign, Check, Context, FluxDensity, Options, Problem, Rule, limit
 
-STATOR_SOURCE = (
+#: The apparent stator tooth limit (value, unit, source); cold-magnet-flux's too.
+STATOR_APPARENT = (
+    2.1,
+    "T",
     "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1, apparent"
-    " stator tooth flux density 1.4-2.1 T (from memory)"
+    " stator tooth flux density 1.4-2.1 T (from memory)",
 )
-ROTOR_SOURCE = "Pyrhonen et al., Table 6.1, rotor tooth of induction machines (from memory)"
-STATOR_DEFAULT = 2.1
-ROTOR_DEFAULT = 2.2
 
 
 class ToothFluxOptions(Options):
-    stator_apparent: FluxDensity = limit(STATOR_DEFAULT, STATOR_SOURCE)
-    rotor_apparent: FluxDensity = limit(ROTOR_DEFAULT, ROTOR_SOURCE)
+    stator_apparent: FluxDensity = limit(*STATOR_APPARENT)
+    rotor_apparent: FluxDensity = limit(
+        2.2, "T", "Pyrhonen et al., Table 6.1, rotor tooth of induction machines (from memory)"
+    )
 
 
-class ToothFlux(Rule):
+class ToothFlux(Rule[ToothFluxOptions]):
     """Apparent tooth flux density at the narrowest tooth section, stator and cage rotor.
 
     Method: B_t,app = B_g tau_s l / (k_Fe l_Fe b_t), with B_g the peak gap flux density of the
@@ -41,33 +39,25 @@ class ToothFlux(Rule):
     id = "tooth-flux"
     summary = "apparent tooth flux density within the limit"
     tags = ("magnetic",)
-    options = ToothFluxOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: ToothFluxOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, ToothFluxOptions)
-        calc = context.calc
-        real = calc.stator_tooth_b
-        yield Check(
-            quantity="stator.tooth_flux_density_apparent",
-            label=f"apparent stator tooth flux density (real {real:.3g} T)",
+        sheet = context.sheet
+        real = sheet["stator.tooth_flux_density"]
+        yield context.check(
+            "stator.tooth_flux_density_apparent",
+            options.limit_for("stator_apparent"),
+            "max",
             path=("stator", "slot"),
-            value=calc.stator_tooth_b_apparent,
-            limit=options.stator_apparent,
-            bound="max",
-            unit="T",
-            basis=basis(options, "stator_apparent", STATOR_DEFAULT, STATOR_SOURCE),
+            label=f"apparent stator tooth flux density (real {real:.3g} T)",
         )
         if design.machine == "induction":
-            yield Check(
-                quantity="rotor.tooth_flux_density_apparent",
-                label=f"apparent rotor tooth flux density (real {calc.rotor_tooth_b:.3g} T)",
+            real = sheet["rotor.tooth_flux_density"]
+            yield context.check(
+                "rotor.tooth_flux_density_apparent",
+                options.limit_for("rotor_apparent"),
+                "max",
                 path=("rotor", "slot"),
-                value=calc.rotor_tooth_b_apparent,
-                limit=options.rotor_apparent,
-                bound="max",
-                unit="T",
-                basis=basis(options, "rotor_apparent", ROTOR_DEFAULT, ROTOR_SOURCE),
+                label=f"apparent rotor tooth flux density (real {real:.3g} T)",
             )

@@ -4,12 +4,10 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._winding import winding_path
+from emgate.api import AnyDesign, Check, Context, Options, Problem, Rule, winding_path
 
 
-class WindingBalance(Rule):
+class WindingBalance(Rule[Options]):
     """The winding is a balanced, symmetric m-phase winding.
 
     Method: the slot layout (the record's explicit table, or the one generated from the star
@@ -28,5 +26,5 @@ class WindingBalance(Rule):
         self, design: AnyDesign, options: Options, context: Context
     ) -> Iterable[Check | Problem]:
         where = winding_path(design)
-        for problem in context.calc.winding_problems:
+        for problem in context.sheet.winding_problems:
             yield Problem(where, f"winding is not balanced: {problem}")

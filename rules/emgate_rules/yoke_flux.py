@@ -4,43 +4,32 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.model import AnyDesign
-from emgate.quantity import FluxDensity
-from emgate.rule import Check, Context, Options, Problem, Rule
-from emgate_rules._limits import basis, limit
-from emgate_rules._winding import unless_unbalanced
+from emgate.api import AnyDesign, Check, Context, FluxDensity, Options, Problem, Rule, limit
 
-INDUCTION = (
-    "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1, stator yoke"
-    " of induction machines 1.4-1.7 T (from memory)"
+PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1"
+
+
+#: The stator yoke limit of synchronous machines (value, unit, source); cold-magnet-flux's
+#: too.
+STATOR_SYNCHRONOUS = (
+    1.5,
+    "T",
+    "Pyrhonen et al., Table 6.1, stator yoke of synchronous machines 1.0-1.5 T (from memory)",
 )
-SYNCHRONOUS = (
-    "Pyrhonen et al., Table 6.1, stator yoke of synchronous machines 1.0-1.5 T (from memory)"
-)
-ROTOR = "common practice, no source"
-POLE_BODY = "Pyrhonen et al., Table 6.1, pole core of salient-pole machines (from memory)"
-DEFAULTS = {
-    "stator_induction": 1.7,
-    "stator_synchronous": 1.5,
-    "rotor": 1.7,
-    "pole_body": 1.8,
-}
-SOURCES = {
-    "stator_induction": INDUCTION,
-    "stator_synchronous": SYNCHRONOUS,
-    "rotor": ROTOR,
-    "pole_body": POLE_BODY,
-}
 
 
 class YokeFluxOptions(Options):
-    stator_induction: FluxDensity = limit(DEFAULTS["stator_induction"], INDUCTION)
-    stator_synchronous: FluxDensity = limit(DEFAULTS["stator_synchronous"], SYNCHRONOUS)
-    rotor: FluxDensity = limit(DEFAULTS["rotor"], ROTOR)
-    pole_body: FluxDensity = limit(DEFAULTS["pole_body"], POLE_BODY)
+    stator_induction: FluxDensity = limit(
+        1.7, "T", f"{PYRHONEN}, stator yoke of induction machines 1.4-1.7 T (from memory)"
+    )
+    stator_synchronous: FluxDensity = limit(*STATOR_SYNCHRONOUS)
+    rotor: FluxDensity = limit(1.7, "T", "common practice, no source")
+    pole_body: FluxDensity = limit(
+        1.8, "T", "Pyrhonen et al., Table 6.1, pole core of salient-pole machines (from memory)"
+    )
 
 
-class YokeFlux(Rule):
+class YokeFlux(Rule[YokeFluxOptions]):
     """Peak flux density in the stator and rotor yokes, and in a salient pole's body.
 
     Method: half the flux per pole passes each way through the yoke, B_y = Phi / (2 k_Fe l
@@ -59,14 +48,10 @@ class YokeFlux(Rule):
     id = "yoke-flux"
     summary = "yoke and pole-body flux densities within the limits"
     tags = ("magnetic",)
-    options = YokeFluxOptions
 
-    @unless_unbalanced
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: YokeFluxOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, YokeFluxOptions)
-        calc = context.calc
         field = "stator_induction" if design.machine == "induction" else "stator_synchronous"
         checks = [
             (
@@ -74,14 +59,12 @@ class YokeFlux(Rule):
                 "stator.yoke_flux_density",
                 "stator yoke flux density",
                 ("stator", "outer_diameter"),
-                calc.stator_yoke_b,
             ),
             (
                 "rotor",
                 "rotor.yoke_flux_density",
                 "rotor yoke flux density",
                 ("rotor", "inner_diameter"),
-                calc.rotor_yoke_b,
             ),
         ]
         if design.machine == "salient_field":
@@ -91,17 +74,7 @@ class YokeFlux(Rule):
                     "rotor.pole_body_flux_density",
                     "pole-body flux density",
                     ("rotor", "pole", "body_width"),
-                    calc.pole_body_b,
                 )
             )
-        for option, name, label, path, value in checks:
-            yield Check(
-                name,
-                label,
-                path,
-                value,
-                getattr(options, option),
-                "max",
-                "T",
-                basis(options, option, DEFAULTS[option], SOURCES[option]),
-            )
+        for option, name, label, path in checks:
+            yield context.check(name, options.limit_for(option), "max", path=path, label=label)

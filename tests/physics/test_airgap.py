@@ -23,7 +23,7 @@ MM = 1e-3
 
 
 def test_carter_check_value() -> None:
-    # [calc] REFERENCE.md Air gap (formula [mem: Carter 1901, as given in Pyrhonen ch. 3]):
+    # [calc] from Carter's formula [mem: Carter 1901, as given in Pyrhonen ch. 3]:
     # tau_s 10 mm, b0 2.5 mm, g 0.5 mm -> kc 1.1447; the approximation gives 1.1429.
     # Tolerance 5e-5: the check values are quoted to 4 decimals.
     assert carter_coefficient(10 * MM, 2.5 * MM, 0.5 * MM) == pytest.approx(1.1447, abs=5e-5)
@@ -102,7 +102,7 @@ def test_kc_falls_as_gap_grows(tau: float, gap_fraction: float, ratio: float, st
 
 
 def test_magnetic_gap_of_surface_magnets() -> None:
-    # [calc] g' = g + sleeve + h_m / mu_rec (REFERENCE.md, [mem: Pyrhonen ch. 3]):
+    # [calc] g' = g + sleeve + h_m / mu_rec [mem: Pyrhonen ch. 3]:
     # 1 mm + 0.5 mm + 3 mm / 1.05 = 4.357142... mm. Tolerance 1e-12 relative: rounding only.
     g_mag = magnetic_gap(1 * MM, sleeve=0.5 * MM, magnet_thickness=3 * MM, recoil_permeability=1.05)
     assert g_mag == pytest.approx((1 + 0.5 + 3 / 1.05) * MM, rel=1e-12)
@@ -115,7 +115,7 @@ def test_magnetic_gap_of_surface_magnets() -> None:
 
 
 def test_effective_gap_slots_on_both_sides() -> None:
-    # [calc] kc = kc_s kc_r (REFERENCE.md, [mem: Pyrhonen ch. 3]); 1.1447 * 1.05 * 0.5 mm.
+    # [calc] kc = kc_s kc_r [mem: Pyrhonen ch. 3]; 1.1447 * 1.05 * 0.5 mm.
     # Tolerance 1e-12 relative: rounding only.
     kc_s = carter_coefficient(10 * MM, 2.5 * MM, 0.5 * MM)
     assert effective_gap(0.5 * MM, kc_s, 1.05) == pytest.approx(kc_s * 1.05 * 0.5 * MM, rel=1e-12)

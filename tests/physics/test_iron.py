@@ -1,4 +1,4 @@
-"""Iron flux densities and magnetic voltages against closed forms, REFERENCE.md and scipy."""
+"""Iron flux densities and magnetic voltages against closed forms, a published fit and scipy."""
 
 from __future__ import annotations
 
@@ -11,7 +11,8 @@ from hypothesis import strategies as st
 from scipy.integrate import quad
 from scipy.optimize import brentq
 
-from emgate.physics.bh import BHCurve, h_from_b
+from conftest import linear_curve, m350_50a_curve
+from emgate.physics.bh import h_from_b
 from emgate.physics.constants import MU0
 from emgate.physics.iron import (
     apparent_tooth_flux_density,
@@ -27,40 +28,15 @@ from emgate.physics.iron import (
 PROPERTY = settings(max_examples=40, deadline=None)
 
 
-def m350_50a_curve(b_max: float = 2.2, points: int = 221) -> BHCurve:
-    """M350-50A tabulated from a published relative-permeability fit.
-
-    mu_r(B) = 1 + (mu_i - 1 + c_a B_N) / (1 + c_b B_N + B_N^n), B_N = B / B_muMax.
-    """
-    # [pub: Modelica Standard Library, FluxTubes soft-magnetic materials] M350-50A:
-    # mu_i 1210, B_muMax 1.16 T, c_a 24630, c_b 2.44, n 14 (values as in REFERENCE.md).
-    mu_i, b_mu_max, c_a, c_b, n = 1210.0, 1.16, 24630.0, 2.44, 14.0
-    b = np.linspace(0.0, b_max, points)
-    b_n = b[1:] / b_mu_max
-    mu_r = 1.0 + (mu_i - 1.0 + c_a * b_n) / (1.0 + c_b * b_n + b_n**n)
-    h = np.concatenate(([0.0], b[1:] / (MU0 * mu_r)))
-    return BHCurve("M350-50A", b, h, "Modelica FluxTubes fit")
-
-
-def linear_curve(mu_r: float, b_max: float = 10.0) -> BHCurve:
-    """A linear steel, tabulated far enough that no test reaches the table end."""
-    return BHCurve(
-        f"linear mu_r={mu_r:g}",
-        np.array([0.0, b_max]),
-        np.array([0.0, b_max / (MU0 * mu_r)]),
-        "linear",
-    )
-
-
 M350 = m350_50a_curve()
 
-# REFERENCE.md tooth check: tau_s 11.5 mm, b_t 6 mm, k_Fe 0.97, l = l_Fe.
+# Tooth check [calc, method mem: Pyrhonen]: tau_s 11.5 mm, b_t 6 mm, k_Fe 0.97, l = l_Fe.
 TAU_S, B_T, K_FE, LENGTH = 11.5e-3, 6e-3, 0.97, 0.14
 TOOTH = (TAU_S, B_T, LENGTH, LENGTH, K_FE)
 
 
 def test_apparent_tooth_flux_density_reference_check() -> None:
-    # [calc] REFERENCE.md (method [mem: Pyrhonen]): B_g 0.75 T -> 1.482 T apparent.
+    # [calc] B_g tau_s l / (k_Fe l_Fe b_t) [mem: Pyrhonen]: B_g 0.75 T -> 1.482 T apparent.
     # Tolerance 5e-4 T: the check value is rounded to three decimals.
     assert apparent_tooth_flux_density(0.75, *TOOTH) == pytest.approx(1.482, abs=5e-4)
 

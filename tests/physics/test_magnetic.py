@@ -9,8 +9,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
-from test_iron import linear_curve, m350_50a_curve
 
+from conftest import linear_curve, m350_50a_curve
 from emgate.physics.bh import b_from_h
 from emgate.physics.constants import MU0
 from emgate.physics.iron import (
@@ -108,7 +108,7 @@ def test_series_flux_without_an_air_gap() -> None:
 
 @pytest.mark.parametrize("curve", [linear_curve(3000.0), M350], ids=["mu_r 3000", "M350-50A"])
 def test_rule_of_thumb_iron_changes_the_flux_by_a_few_percent(curve) -> None:
-    # [cp] REFERENCE.md: iron path 300 mm, gap 5 mm, mu_r several thousand: neglecting the
+    # [cp] iron path 300 mm, gap 5 mm, mu_r several thousand: neglecting the
     # iron changes the flux by only a few percent. Taken here as 0 < change < 5 %, at the
     # MMF that drives 1 T through the gap alone (M350-50A is near its mu_r maximum there).
     area, mmf = 1e-3, 1.0 * 5e-3 / MU0
@@ -120,14 +120,14 @@ def test_rule_of_thumb_iron_changes_the_flux_by_a_few_percent(curve) -> None:
 
 # --------------------------------------------------------------- surface magnets
 
-# REFERENCE.md check [calc, method mem: Hendershot and Miller]: Br 1.2 T, l_m 3 mm,
+# [calc] B_g = Br l_m / (l_m + mu_rec kc g) [mem: Hendershot and Miller]: Br 1.2 T, l_m 3 mm,
 # g 1 mm, kc 1.0, mu_rec 1.05 -> 0.8889 T.
 BR, MU_REC, L_M, GAP = 1.2, 1.05, 3e-3, 1e-3
 MAGNET = SurfaceMagnet(remanence=BR, recoil_permeability=MU_REC, thickness=L_M, arc_fraction=0.8)
 
 
 def test_surface_pm_ideal_iron_reference_check() -> None:
-    result = surface_pm_gap(make_path(GAP), MAGNET, IDEAL, IDEAL)
+    result = surface_pm_gap(make_path(GAP + L_M / MU_REC), MAGNET, IDEAL, IDEAL)
     # Tolerance 5e-5 T: the check value has four decimals.
     assert result.b_peak == pytest.approx(0.8889, abs=5e-5)
     # [calc] the closed form itself; tolerance 1e-7 relative (ideal iron's share ~1e-8).
@@ -142,7 +142,7 @@ def test_surface_pm_leakage_closed_form() -> None:
     # Tolerance 1e-7 relative: ideal iron's share of the MMF.
     k = 1.1
     result = surface_pm_gap(
-        make_path(GAP), dataclasses.replace(MAGNET, leakage_factor=k), IDEAL, IDEAL
+        make_path(GAP + L_M / MU_REC), dataclasses.replace(MAGNET, leakage_factor=k), IDEAL, IDEAL
     )
     assert result.b_peak == pytest.approx(BR * L_M / (k * L_M + MU_REC * GAP), rel=1e-7)
     assert result.magnet_b == pytest.approx(k * result.b_peak, rel=1e-12)
@@ -151,7 +151,7 @@ def test_surface_pm_leakage_closed_form() -> None:
 def test_surface_pm_flux_and_fundamental_of_a_rectangular_wave() -> None:
     # [calc] rectangular gap flux over the arc fraction a: Phi = B a tau_p l and the Fourier
     # fundamental (4/pi) B sin(a pi/2). Tolerance 1e-12 relative: arithmetic only.
-    path = make_path(GAP)
+    path = make_path(GAP + L_M / MU_REC)
     result = surface_pm_gap(path, MAGNET, M350, M350)
     a = MAGNET.arc_fraction
     assert result.flux_per_pole == pytest.approx(
@@ -189,7 +189,7 @@ def _rectangular_iron_mmf(
 def test_surface_pm_loop_matches_brentq() -> None:
     # [calc] external check: scipy.optimize.brentq on the loop H_m l_m + F_gap + F_iron = 0,
     # written out in the test from the iron formulas. Tolerance 1e-10 T: both solve to ~1e-12.
-    path = make_path(GAP)
+    path = make_path(GAP + L_M / MU_REC)
 
     def loop(b_gap: float) -> float:
         h_m = (b_gap - BR) / (MU0 * MU_REC)
@@ -217,8 +217,8 @@ def test_surface_pm_gap_flux_density_falls_as_the_gap_grows(
 ) -> None:
     # [calc] every term of the loop but the magnet's grows with the gap, so B_g must fall.
     magnet = dataclasses.replace(MAGNET, remanence=br)
-    narrow = surface_pm_gap(make_path(gap), magnet, M350, M350)
-    wide = surface_pm_gap(make_path(gap * ratio), magnet, M350, M350)
+    narrow = surface_pm_gap(make_path(gap + L_M / MU_REC), magnet, M350, M350)
+    wide = surface_pm_gap(make_path(gap * ratio + L_M / MU_REC), magnet, M350, M350)
     assert wide.b_peak < narrow.b_peak
 
 
@@ -227,7 +227,7 @@ def test_surface_pm_gap_flux_density_falls_as_the_gap_grows(
 def test_surface_pm_saturation_factor_grows_with_the_flux(br: float, step: float) -> None:
     # [calc] above the permeability maximum of the steel (~0.95 T for this M350-50A fit;
     # these teeth run above 1.2 T) H/B rises with B, so k_sat >= 1 rises with the flux.
-    path = make_path(GAP)
+    path = make_path(GAP + L_M / MU_REC)
     low = surface_pm_gap(path, dataclasses.replace(MAGNET, remanence=br), M350, M350)
     high = surface_pm_gap(path, dataclasses.replace(MAGNET, remanence=br + step), M350, M350)
     assert low.iron.stator_tooth_b > 1.0
@@ -240,7 +240,7 @@ POLE = SalientPole(shoe_width=0.07, body_width=0.04, body_height=0.04, leakage_f
 
 
 def test_salient_ideal_iron_is_the_iron_free_gap() -> None:
-    # [calc] REFERENCE.md iron-free gap: B = mu0 F / (kc g). Tolerance 1e-7 relative
+    # [calc] iron-free gap: B = mu0 F / (kc g). Tolerance 1e-7 relative
     # (ideal iron's share ~1e-8).
     gap, field = 1.5e-3, 1500.0
     result = salient_field_gap(make_path(gap), POLE, IDEAL, IDEAL, field_mmf=field)
@@ -315,7 +315,7 @@ def test_induction_flux_from_the_voltage_equation() -> None:
 
 
 def test_induction_ideal_iron_needs_only_the_gap_mmf() -> None:
-    # [calc] REFERENCE.md iron-free gap, inverted: F = B kc g / mu0 and k_sat = 1.
+    # [calc] iron-free gap, inverted: F = B kc g / mu0 and k_sat = 1.
     # Tolerance 1e-7 relative: ideal iron's share.
     gap = 0.55e-3
     result = induction_gap(make_path(gap, ROTOR_TEETH), IDEAL, IDEAL, **SUPPLY, voltage_drop=0.0)

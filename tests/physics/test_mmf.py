@@ -30,7 +30,7 @@ from emgate.physics.winding import (
 
 # Exact results (Parseval, closed forms) differ by rounding only.
 EXACT_TOL = 1e-12
-# REFERENCE.md quotes percentages to 2 decimals: half a unit in the last place, as a ratio.
+# The hand-computed percentages are quoted to 2 decimals: half a unit in the last place.
 PERCENT_TOL = 5e-5
 
 SQUARE_WAVE = np.array([[1, -1]])  # one full-pitch coil, single phase, 2 poles
@@ -40,7 +40,7 @@ SQUARE_WAVE = np.array([[1, -1]])  # one full-pitch coil, single phase, 2 poles
 
 
 def test_thd_square_wave() -> None:
-    # sqrt(pi^2/8 - 1) = 48.34 %  [calc, REFERENCE.md]
+    # sqrt(pi^2/8 - 1) = 48.34 %  [calc: Parseval on the staircase]
     assert mmf_thd(SQUARE_WAVE, 1) == pytest.approx(math.sqrt(math.pi**2 / 8 - 1), abs=EXACT_TOL)
     assert mmf_thd(SQUARE_WAVE, 1) == pytest.approx(0.4834, abs=PERCENT_TOL)
     # the same coil in a 24-slot stator is the same square wave  [calc]
@@ -51,7 +51,7 @@ def test_thd_square_wave() -> None:
 
 @pytest.mark.parametrize(("slots", "pole_pairs", "layers"), [(6, 1, 2), (6, 1, 1), (12, 2, 2)])
 def test_thd_three_phase_q1_full_pitch(slots: int, pole_pairs: int, layers: int) -> None:
-    # sqrt(pi^2/9 - 1) = 31.08 %  [calc, REFERENCE.md]
+    # sqrt(pi^2/9 - 1) = 31.08 %  [calc: Parseval on the staircase]
     layout = star_of_slots(slots, pole_pairs, 3, layers, 3)
     thd = mmf_thd(layout, pole_pairs)
     assert thd == pytest.approx(math.sqrt(math.pi**2 / 9 - 1), abs=EXACT_TOL)
@@ -59,7 +59,7 @@ def test_thd_three_phase_q1_full_pitch(slots: int, pole_pairs: int, layers: int)
 
 
 def test_thd_three_phase_q2_full_pitch() -> None:
-    # 16.86 %  [calc, REFERENCE.md]
+    # 16.86 %  [calc: Parseval on the staircase]
     assert mmf_thd(star_of_slots(12, 1, 3, 2, 6), 1) == pytest.approx(0.1686, abs=PERCENT_TOL)
 
 
@@ -89,8 +89,8 @@ def test_thd_matches_the_harmonic_series(q: int, pitch: int) -> None:
 
 
 def test_capped_thd_from_the_spectrum() -> None:
-    # truncated at order 49: 47.30 % (square wave) and 30.02 % (3-phase q = 1)  [calc,
-    # REFERENCE.md]
+    # truncated at order 49: 47.30 % (square wave) and 30.02 % (3-phase q = 1)  [calc:
+    # Fourier series of the staircase]
     for layout, expected in ((SQUARE_WAVE, 0.4730), (star_of_slots(6, 1, 3, 2, 3), 0.3002)):
         a = mmf_spectrum(layout, 1, balanced_currents(layout.shape[0], 1.0, 0.0), 49)
         capped = math.sqrt(np.sum(a[2:] ** 2)) / a[1]
@@ -134,7 +134,8 @@ def test_positive_sequence_field_moves_towards_increasing_angle(
 
 
 def test_fundamental_check_value() -> None:
-    # m=3, N_ph=100, kw1=0.933, I=10 A, p=2: F1 = 630.0 A  [calc, REFERENCE.md]; 1 decimal
+    # m=3, N_ph=100, kw1=0.933, I=10 A, p=2: F1 = 630.0 A [calc, formula mem: Fitzgerald and
+    # Kingsley]; 1 decimal
     assert mmf_fundamental_peak(3, 100, 0.933, 10.0, 2) == pytest.approx(630.0, abs=0.05)
 
 
@@ -170,7 +171,7 @@ def test_harmonic_amplitudes_follow_kw_over_v() -> None:
 
 
 def test_staircase_of_one_coil_is_a_square_wave() -> None:
-    # +-N I / 2 about the mean  [calc, REFERENCE.md square wave]; exact in floating point
+    # +-N I / 2 about the mean  [calc: the square wave of one coil]; exact in floating point
     theta, f = mmf_staircase(SQUARE_WAVE, 5, np.array([2.0]), samples_per_slot=4)
     assert theta.shape == f.shape == (8,)
     np.testing.assert_array_equal(f, [5.0] * 4 + [-5.0] * 4)
@@ -225,8 +226,8 @@ def windings(draw: st.DrawFn) -> tuple[np.ndarray, int]:
 @settings(max_examples=40, deadline=None)
 @given(windings(), st.floats(0.0, 2 * math.pi), st.floats(0.0, 2 * math.pi))
 def test_thd_does_not_depend_on_the_instant(winding: tuple[np.ndarray, int], t1: float, t2: float):
-    # balanced symmetric winding: every harmonic is a wave of constant amplitude  [calc,
-    # REFERENCE.md]; 1e-9 relative covers rounding in a ratio of sums of squares
+    # balanced symmetric winding: every harmonic is a wave of constant amplitude  [calc];
+    # 1e-9 relative covers rounding in a ratio of sums of squares
     layout, p = winding
     assert mmf_thd(layout, p, t1) == pytest.approx(mmf_thd(layout, p, t2), rel=1e-9, abs=1e-12)
 

@@ -17,7 +17,7 @@ from emgate.steels import (
     lookup,
 )
 
-# [mem: IEC 60404-8-4 / EN 10106 via REFERENCE.md] minimum polarization J (T) at
+# [mem: IEC 60404-8-4 / EN 10106] minimum polarization J (T) at
 # 2500 / 5000 / 10000 A/m, maximum loss at 1.5 T 50 Hz (W/kg), density (kg/m^3).
 IEC = {
     "M270-35A": ((1.49, 1.60, 1.70), 2.70, 7650.0),
@@ -25,9 +25,9 @@ IEC = {
     "M400-50A": ((1.53, 1.63, 1.73), 4.00, 7700.0),
     "M800-65A": ((1.60, 1.70, 1.78), 8.00, 7800.0),
 }
-FIELDS = (2500.0, 5000.0, 10000.0)  # [mem: IEC 60404-8-4 via REFERENCE.md]
+FIELDS = (2500.0, 5000.0, 10000.0)  # [mem: IEC 60404-8-4]
 
-# [pub: Modelica Standard Library, FluxTubes soft-magnetic materials, via REFERENCE.md]
+# [pub: Modelica Standard Library, FluxTubes soft-magnetic materials]
 # mu_i, B_muMax (T), c_a, c_b, n
 FIT = {
     "M350-50A": (1210.0, 1.16, 24630.0, 2.44, 14.0),
@@ -67,7 +67,7 @@ def test_curve_meets_the_standard_minima(grade: str) -> None:
 
 @pytest.mark.parametrize("grade", sorted(IEC))
 def test_stored_grade_data_match_the_standard(grade: str) -> None:
-    # [mem: IEC 60404-8-4 / EN 10106 via REFERENCE.md]; exact: the numbers are data
+    # [mem: IEC 60404-8-4 / EN 10106]; exact: the numbers are data
     j_min, loss, density = IEC[grade]
     assert MIN_POLARIZATION[grade] == j_min
     assert MIN_POLARIZATION_FIELDS == FIELDS
@@ -98,7 +98,7 @@ def test_loss_figures_of_the_fit_grades() -> None:
     # maximum loss at 1.5 T, 50 Hz: M350-50A 3.50 W/kg, M530-50A 5.30 W/kg (exact data)
     assert MAX_SPECIFIC_LOSS["M350-50A"] == 3.50
     assert MAX_SPECIFIC_LOSS["M530-50A"] == 5.30
-    # densities: from memory (IEC 60404-8-4), not in REFERENCE.md
+    # densities [mem: IEC 60404-8-4]
     assert lookup("M350-50A").density == 7650.0
     assert lookup("M530-50A").density == 7700.0
 

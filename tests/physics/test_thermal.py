@@ -1,4 +1,5 @@
-"""Checks of emgate.physics.thermal against ht, fluids, handbook values and closed forms."""
+"""Checks of emgate.physics.convection and emgate.physics.thermal against ht, fluids, handbook
+values and closed forms."""
 
 from __future__ import annotations
 
@@ -16,7 +17,7 @@ from ht.conv_free_immersed import Nu_horizontal_cylinder_Churchill_Chu
 from scipy.constants import g as scipy_g
 from scipy.constants import sigma as scipy_sigma
 
-from emgate.physics import conductors as c
+from emgate.physics import convection, slots
 from emgate.physics import thermal as th
 
 MM = 1e-3
@@ -34,7 +35,7 @@ def air_1976(temperature: float) -> tuple[float, float, float]:
 @pytest.mark.parametrize("temperature", [250.0, 300.0, 350.0, 400.0])
 def test_air_against_fluids_1976(temperature: float) -> None:
     rho, mu, k = air_1976(temperature)
-    air = th.air_properties(temperature)
+    air = convection.air_properties(temperature)
     # Same USSA 1976 relations coded independently: float rounding only, 1e-9.
     assert air.viscosity == pytest.approx(mu, rel=1e-9)
     assert air.conductivity == pytest.approx(k, rel=1e-9)
@@ -53,7 +54,7 @@ def test_air_against_fluids_1976(temperature: float) -> None:
 def test_air_against_handbook_table(
     temperature: float, rho: float, mu: float, k: float, pr: float
 ) -> None:
-    air = th.air_properties(temperature)
+    air = convection.air_properties(temperature)
     # The table and the closed forms come from different data fits: 2 % apart at most.
     assert air.density == pytest.approx(rho, rel=0.02)
     assert air.viscosity == pytest.approx(mu, rel=0.02)
@@ -70,13 +71,17 @@ def test_churchill_chu_against_ht(rayleigh: float, prandtl: float) -> None:
     # Churchill and Chu (1975), horizontal cylinder, coded independently in ht; ht takes
     # Gr = Ra / Pr. Same closed form: float rounding only, 1e-12.
     expected = Nu_horizontal_cylinder_Churchill_Chu(prandtl, rayleigh / prandtl)
-    assert th.nusselt_horizontal_cylinder(rayleigh, prandtl) == pytest.approx(expected, rel=1e-12)
+    assert convection.nusselt_horizontal_cylinder(rayleigh, prandtl) == pytest.approx(
+        expected, rel=1e-12
+    )
 
 
 def test_churchill_chu_textbook_example() -> None:
     # [mem: Bergman et al., Introduction to Heat Transfer 6e, Example 9.2, quoted in ht's
     # documentation]: Pr 0.69, Gr 2.63e9 -> Nu 139.13; the example is given to 5 figures.
-    assert th.nusselt_horizontal_cylinder(0.69 * 2.63e9, 0.69) == pytest.approx(139.13, rel=1e-4)
+    assert convection.nusselt_horizontal_cylinder(0.69 * 2.63e9, 0.69) == pytest.approx(
+        139.13, rel=1e-4
+    )
 
 
 @pytest.mark.parametrize("prandtl", [0.7, 2.0, 7.0])
@@ -84,7 +89,9 @@ def test_churchill_chu_textbook_example() -> None:
 def test_laminar_flat_plate_against_ht(reynolds: float, prandtl: float) -> None:
     # Pohlhausen 0.664 Re^0.5 Pr^(1/3): ht's Baehr correlation uses it for 0.6 < Pr < 10.
     expected = Nu_horizontal_plate_laminar_Baehr(reynolds, prandtl)
-    assert th.nusselt_flat_plate_laminar(reynolds, prandtl) == pytest.approx(expected, rel=1e-12)
+    assert convection.nusselt_flat_plate_laminar(reynolds, prandtl) == pytest.approx(
+        expected, rel=1e-12
+    )
 
 
 @pytest.mark.parametrize("reynolds", [1e4, 1e5, 3e5, 1e6])
@@ -92,18 +99,20 @@ def test_turbulent_flat_plate_against_ht(reynolds: float) -> None:
     pr = 0.71
     # Kreith, Manglik, Bohn, turbulent from the leading edge: same closed form in ht, 1e-12.
     kreith = Nu_horizontal_plate_turbulent_Kreith(reynolds, pr)
-    assert th.nusselt_flat_plate_turbulent(reynolds, pr) == pytest.approx(kreith, rel=1e-12)
+    assert convection.nusselt_flat_plate_turbulent(reynolds, pr) == pytest.approx(kreith, rel=1e-12)
     # An independent correlation (Schlichting / Petukhov form in ht): the two published fits
     # agree within 10 % for air from Re 1e4 to 1e6.
     schlichting = Nu_horizontal_plate_turbulent_Schlichting(reynolds, pr)
-    assert th.nusselt_flat_plate_turbulent(reynolds, pr) == pytest.approx(schlichting, rel=0.10)
+    assert convection.nusselt_flat_plate_turbulent(reynolds, pr) == pytest.approx(
+        schlichting, rel=0.10
+    )
 
 
 def test_forced_coefficient_takes_laminar_floor() -> None:
     # At Re ~ 3e3 the turbulent fit falls below the laminar one; the laminar value is kept.
-    air = th.air_properties(320.0)
+    air = convection.air_properties(320.0)
     length, velocity = 0.05, 3e3 * air.kinematic_viscosity / 0.05
-    h = th.forced_convection_coefficient(length, velocity, 340.0, 300.0)
+    h = convection.forced_convection_coefficient(length, velocity, 340.0, 300.0)
     re = velocity * length / air.kinematic_viscosity
     lam = Nu_horizontal_plate_laminar_Baehr(re, air.prandtl) * air.conductivity / length
     assert h == pytest.approx(lam, rel=1e-9)  # same properties, float rounding
@@ -121,9 +130,9 @@ def demo_geometry(**overrides: float) -> th.StatorThermalGeometry:
         "stack_length": 0.140,
         "slots": 36,
         "slot_depth": 16 * MM,
-        "winding_area": c.semi_closed_slot_area(*dims),
-        "winding_height": c.semi_closed_winding_height(0.8 * MM, 1.5 * MM, 16 * MM),
-        "winding_perimeter": c.semi_closed_slot_perimeter(*dims[1:]),
+        "winding_area": slots.semi_closed_slot_area(*dims),
+        "winding_height": slots.semi_closed_winding_height(0.8 * MM, 1.5 * MM, 16 * MM),
+        "winding_perimeter": slots.semi_closed_slot_perimeter(*dims[1:]),
         "liner_thickness": 0.25 * MM,
         "stacking_factor": 0.97,
         "frame_length": 0.25,
@@ -199,7 +208,7 @@ def test_jacket_and_conduction_closed_forms() -> None:
     assert r["frame surface"] == pytest.approx(1 / (3000.0 * math.pi * d_f * 0.25), rel=1e-12)
     yoke = math.log(0.105 / (0.068 + 0.016)) / (2 * math.pi * 25.0 * 0.97 * 0.14)
     assert r["stator yoke"] == pytest.approx(yoke, rel=1e-12)
-    perim = c.semi_closed_slot_perimeter(0.8 * MM, 1.5 * MM, 6 * MM, 8.6 * MM, 16 * MM)
+    perim = slots.semi_closed_slot_perimeter(0.8 * MM, 1.5 * MM, 6 * MM, 8.6 * MM, 16 * MM)
     liner = 0.25e-3 / (0.15 * 36 * perim * 0.14)
     assert r["slot liner"] == pytest.approx(liner, rel=1e-12)
     assert r["coolant"] == pytest.approx(1 / 400.0, rel=1e-12)
@@ -259,5 +268,5 @@ def test_zero_loss_and_validation() -> None:
 def test_radiation_coefficient_linearisation() -> None:
     # [calc] h_r dT equals eps sigma (Ts^4 - Tsur^4) exactly (difference of fourth powers).
     ts, tsur = 380.0, 313.15
-    h_r = th.radiation_coefficient(0.9, ts, tsur)
+    h_r = convection.radiation_coefficient(0.9, ts, tsur)
     assert h_r * (ts - tsur) == pytest.approx(0.9 * scipy_sigma * (ts**4 - tsur**4), rel=1e-9)

@@ -20,7 +20,7 @@ from emgate.physics.winding import (
     winding_factors,
 )
 
-# REFERENCE.md quotes winding factors to 4 decimals: half a unit in the last place.
+# The tabulated winding factors are quoted to 4 decimals: half a unit in the last place.
 TABLE_TOL = 5e-5
 # Two exact expressions of the same sum differ by rounding only (~1e-15 per term).
 EXACT_TOL = 1e-12

@@ -25,6 +25,7 @@ from pydantic import (
 
 from emgate.errors import InputError, InputErrors
 from emgate.loader import Document, load
+from emgate.quantity import quantity
 from emgate.rule import Options, Rule
 from emgate.terms import RecordPath, Severity
 
@@ -39,6 +40,11 @@ Selector = Annotated[
         " ('tag:thermal')"
     ),
 ]
+
+
+#: Default time budget of one rule on one record [s]: generous, a rule takes milliseconds.
+RULE_TIME_BUDGET = 60.0
+RuleTimeBudget = Annotated[quantity("time"), Field(le=3600.0)]
 
 
 class _Strict(BaseModel):
@@ -114,6 +120,11 @@ class ConfigFile(_Strict):
         " lives); every other file the files globs select, or named on the command line, must"
         " be a valid emgate file. A valid emgate record is checked even when listed here",
     )
+    rule_time_budget: RuleTimeBudget = Field(
+        default=RULE_TIME_BUDGET,
+        description="longest time one rule may take on one record, e.g. '60 s', at most"
+        " '3600 s'; a rule that takes longer is a crash of that rule",
+    )
 
 
 @dataclass(frozen=True)
@@ -148,6 +159,8 @@ class Policy:
     source: Path | None = None
     waivers_file: Path | None = None
     ignore_files: list[str] = field(default_factory=lambda: list(DEFAULT_IGNORE))
+    #: Longest time one rule may take on one record [s].
+    rule_time_budget: float = 60.0
 
     def relative(self, path: Path) -> str | None:
         """``path`` relative to the repository root, or None outside it."""
@@ -285,7 +298,7 @@ def load_policy(
     """
     if path is None:
         return Policy(root=root)
-    from emgate.validate import model_errors
+    from emgate.translate import model_errors
 
     doc = load(path)
     try:
@@ -340,6 +353,7 @@ def load_policy(
         source=path,
         waivers_file=waivers if waivers.is_file() else None,
         ignore_files=list(cfg.ignore_files),
+        rule_time_budget=cfg.rule_time_budget,
     )
 
 
@@ -398,7 +412,7 @@ MOVED_TO_RECORD = {
 def _option_errors(
     exc: ValidationError, doc: Document, at: RecordPath, rid: str
 ) -> list[InputError]:
-    from emgate.validate import record_path
+    from emgate.translate import record_path
 
     out = []
     for error in exc.errors(include_url=False):
@@ -407,7 +421,7 @@ def _option_errors(
         if error["type"] == "extra_forbidden":
             msg = f"rule {rid!r} has no option {str(path[-1])!r}"
             if str(path[-1]) in MOVED_TO_RECORD:
-                msg += f"; it describes the machine, so it is now {MOVED_TO_RECORD[path[-1]]}"
+                msg += f"; it describes the machine, so it is now {MOVED_TO_RECORD[str(path[-1])]}"
             out.append(InputError(msg, doc.locate_key(path)))
             continue
         out.append(

@@ -7,24 +7,42 @@ them and turns rule output into findings.
 
 from __future__ import annotations
 
+import dataclasses
 import datetime as dt
 import math
 import re
-import traceback
+import time
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import TYPE_CHECKING, Literal
 
 from emgate.changes import ChangeSet
-from emgate.config import CONFIG_NAME, Policy
+from emgate.config import CONFIG_NAME, Policy, RulePolicy
 from emgate.errors import InputError, InputErrors, Location, display_path
-from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.findings import (
+    Finding,
+    RecordResult,
+    RuleInfo,
+    RuleOutcome,
+    RunResult,
+    anchor,
+    source_root,
+)
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
 from emgate.model import AnyDesign
-from emgate.plugins import PluginSet
-from emgate.rule import Check, Context, Problem
-from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
+from emgate.plugins import PluginSet, describe_exception
+from emgate.rule import Check, Context, Rule
+from emgate.runner import crash_text, rule_guards, run_rule
+from emgate.terms import (
+    CONFIG_SCHEMA,
+    DESIGN_SCHEMA,
+    MATERIALS_SCHEMA,
+    WAIVERS_SCHEMA,
+    RecordPath,
+    Severity,
+)
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,
@@ -33,6 +51,9 @@ from emgate.waivers import (
     record_waivers,
     unknown_record_waivers,
 )
+
+if TYPE_CHECKING:
+    from emgate.calc import Calculation
 
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
 SKIP_DIRS = {".git", ".hg", ".svn", ".nox", ".tox", ".venv", "venv", "node_modules", "__pycache__"}
@@ -64,6 +85,8 @@ class Run:
     #: With --changed-since, only the records the change touches are checked (and a waiver
     #: for a record outside the run is not reported as unknown).
     changes: ChangeSet | None = None
+    #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
+    remedies: bool = True
 
 
 def discover(
@@ -320,6 +343,35 @@ def _untouched_record(run: Run, src: Source) -> bool:
     )
 
 
+def _record_failure(
+    doc: Document, kind: Literal["input", "crash"], exc: Exception, record_id: str = ""
+) -> Finding:
+    """A record that could not be checked, reported on that record alone: exit 2 when its
+    input caused it (a number the physics cannot take), exit 3 for emgate's own error."""
+    loc = doc.locate(())
+    if kind == "input":
+        message = (
+            f"the record could not be checked: {describe_exception(exc)}; a value is"
+            " outside what the calculation can take (check the record's numbers)"
+        )
+    else:
+        message = (
+            f"internal error on this record: {crash_text(exc)}; the record is not"
+            " verified (the other records are; please report it)"
+        )
+    return Finding(
+        rule="input" if kind == "input" else "internal",
+        severity="error",
+        file=display_path(doc.path),
+        line=loc.line,
+        column=loc.column,  # type: ignore[arg-type]
+        record_path=loc.record_path,
+        message=message,
+        record_id=record_id,
+        kind=kind,
+    )
+
+
 def _input_finding(exc: InputError) -> Finding:
     loc = exc.location
     return Finding(
@@ -341,13 +393,26 @@ def input_findings(exc: InputError | InputErrors) -> list[Finding]:
 
 def execute(run: Run) -> RunResult:
     """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
+    from emgate.explain import explain_markdown
+    from emgate.plausible import plausible_calculation
     from emgate.validate import schema_of, validate_design, validate_materials
 
     result = RunResult()
     for error in run.plugins.errors:
         result.findings.append(_input_finding(error))
+    for error in run.plugins.crashes:
+        result.findings.append(dataclasses.replace(_input_finding(error), kind="crash"))
     result.rules = [
-        RuleInfo(rid, lr.rule.version, lr.rule.summary, lr.pack.distribution, lr.pack.version)
+        RuleInfo(
+            rid,
+            lr.rule.version,
+            lr.rule.summary,
+            lr.pack.distribution,
+            lr.pack.version,
+            lr.rule.severity,
+            lr.rule.explain(),
+            explain_markdown(rid, lr),
+        )
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     sources = discover(run.paths, result, run.policy, run.changes)
@@ -381,29 +446,42 @@ def execute(run: Run) -> RunResult:
                 catalogue.failed.append(display_path(doc.path))
                 result.findings.extend(input_findings(exc))
     seen_ids: dict[str, str] = {}
-    for _, doc, kind in docs:
-        if kind != DESIGN_SCHEMA:
-            continue
-        if run.changes is not None and not run.changes.touches(doc.path, doc.data):
-            continue
-        try:
-            design = validate_design(doc)
-            catalogue.resolve(doc, design)
-            if design.id in seen_ids:
-                raise InputError(
-                    f"record id {design.id!r} is already used by {seen_ids[design.id]}",
-                    doc.locate(("id",)),
-                )
-        except (InputError, InputErrors) as exc:
-            result.findings.extend(input_findings(exc))
-            continue
-        seen_ids[design.id] = display_path(doc.path)
-        ld = LoadedDesign(doc, design, display_path(doc.path))
-        waivers = record_waivers(doc, design.id, list(design.waivers))
-        waivers += file_waivers.get(design.id, [])
-        waivers, bad = invalid_waivers(waivers, run.plugins.rules, doc)
-        result.findings.extend(_input_finding(e) for e in bad)
-        _check_design(run, ld, catalogue, result, waivers)
+    with rule_guards():
+        for _, doc, kind in docs:
+            if kind != DESIGN_SCHEMA:
+                continue
+            if run.changes is not None and not run.changes.touches(doc.path, doc.data):
+                continue
+            try:
+                design = validate_design(doc)
+                catalogue.resolve(doc, design)
+                calc = plausible_calculation(doc, design, catalogue)
+                if design.id in seen_ids:
+                    raise InputError(
+                        f"record id {design.id!r} is already used by {seen_ids[design.id]}",
+                        doc.locate(("id",)),
+                    )
+            except (InputError, InputErrors) as exc:
+                result.findings.extend(input_findings(exc))
+                continue
+            except (ValueError, ArithmeticError) as exc:  # absurd numbers validation let through
+                result.findings.append(_record_failure(doc, "input", exc))
+                continue
+            except Exception as exc:  # emgate's own bug: this record only, the others go on
+                result.findings.append(_record_failure(doc, "crash", exc))
+                continue
+            seen_ids[design.id] = display_path(doc.path)
+            ld = LoadedDesign(doc, design, display_path(doc.path))
+            try:
+                waivers = record_waivers(doc, design.id, list(design.waivers))
+                waivers += file_waivers.get(design.id, [])
+                waivers, bad = invalid_waivers(waivers, run.plugins.rules, doc)
+                result.findings.extend(_input_finding(e) for e in bad)
+                _check_design(run, ld, calc, result, waivers)
+            except (InputError, InputErrors) as exc:
+                result.findings.extend(input_findings(exc))
+            except Exception as exc:
+                result.findings.append(_record_failure(doc, "crash", exc, design.id))
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | _repository_record_ids(run.policy.root)
         result.findings.extend(
@@ -424,70 +502,105 @@ def execute(run: Run) -> RunResult:
                     )
                 )
             )
+    anchor(result, run_root(run))
     result.sort()
     return result
+
+
+def run_root(run: Run) -> Path:
+    """What a run's files are named from in SARIF and fingerprints: the git work tree of the
+    policy's folder, else of the first path, else the working folder."""
+    if run.policy.source is not None:
+        return source_root(run.policy.root)
+    first = next((p for p in run.paths if p.exists()), Path.cwd())
+    return source_root(first if first.is_dir() else first.parent)
 
 
 def _check_design(
     run: Run,
     ld: LoadedDesign,
-    catalogue: Catalogue,
+    calc: Calculation,
     result: RunResult,
     waivers: list[WaiverEntry],
 ) -> None:
-    from emgate.calc import Calculation
+    """Every selected rule on one record. ``calc`` is the record's calculation as the
+    plausibility pass filled it: the rules read those values, not a second computation."""
+    from emgate.calc.view import Sheet
 
     design = ld.design
     policy = run.policy.for_file(ld.doc.path)
     record = RecordResult(ld.file, design.id, design.machine)
     result.records.append(record)
-    calc = Calculation(design, catalogue)
-    context = Context(calc=calc, file=ld.file)
+    context = Context(sheet=Sheet(calc), file=ld.file)
     produced: list[Finding] = []
-    for rid, loaded in sorted(run.plugins.rules.items()):
-        rule = loaded.rule
-        if not policy.selected(rule):
-            continue
-        if design.machine not in rule.machines or not rule.applies(design):
-            record.outcomes.append(RuleOutcome(rid, "not_applicable"))
-            continue
-        severity = policy.severity_for(rule)
-        outcome = RuleOutcome(rid, "pass")
-        try:
-            items = list(rule().check(design, policy.options_for(rule), context))
-        except Exception as exc:
-            frame = traceback.extract_tb(exc.__traceback__)[-1]
-            message = (
-                f"rule crashed: {type(exc).__name__}: {exc} (at {Path(frame.filename).name}:"
-                f"{frame.lineno}); the record is not verified by this rule"
-            )
-            outcome.status, outcome.message = "crash", message
-            record.outcomes.append(outcome)
-            produced.append(_finding(ld, rid, "error", (), message, kind="crash"))
-            continue
-        for item in items:
-            if isinstance(item, Check):
-                outcome.checks.append(item)
-                if not item.passed:
-                    produced.append(_finding(ld, rid, severity, item.path, _describe(item), item))
-            elif isinstance(item, Problem):
-                produced.append(
-                    _finding(ld, rid, item.severity or severity, item.path, item.message)
-                )
-        if any(f.rule == rid for f in produced):
-            outcome.status = "fail"
-        record.outcomes.append(outcome)
-    result.findings.extend(apply_waivers(waivers, produced, record, run.today))
+    try:
+        for _, loaded in sorted(run.plugins.rules.items()):
+            builtin = loaded.pack.distribution == "emgate"
+            _check_rule(run, ld, policy, loaded.rule, context, record, produced, builtin)
+    finally:  # an error of emgate's own keeps what the rules before it found
+        result.findings.extend(apply_waivers(waivers, produced, record, run.today))
+    if run.remedies:
+        from emgate.remedies import attach_remedies
+
+        budget = run.policy.rule_time_budget
+        attach_remedies(ld.doc, calc.catalogue, policy, run.plugins, ld.file, budget, produced)
+
+
+def _check_rule(
+    run: Run,
+    ld: LoadedDesign,
+    policy: RulePolicy,
+    rule: type[Rule],
+    context: Context,
+    record: RecordResult,
+    produced: list[Finding],
+    builtin: bool = False,
+) -> None:
+    """Run one rule on one record: its findings go to ``produced``, its outcome to
+    ``record``. Whatever the rule does (raises anything, yields rubbish, overruns its time
+    budget) is a crash of that rule, and the checks it yielded before stand."""
+    rid = rule.id
+    if not policy.selected(rule):
+        return
+    started = time.perf_counter()
+    ran = run_rule(
+        rule,
+        ld.design,
+        lambda: policy.options_for(rule),
+        context,
+        run.policy.rule_time_budget,
+        builtin,
+    )
+    if ran is None:
+        record.outcomes.append(RuleOutcome(rid, "not_applicable"))
+        return
+    severity = policy.severity_for(rule)
+    outcome = RuleOutcome(rid, "pass")
+    outcome.seconds = time.perf_counter() - started
+    for item in ran.items:
+        if isinstance(item, Check):
+            outcome.checks.append(item)
+            if not item.passed:
+                produced.append(_finding(ld, rid, severity, item.path, _describe(item), item))
+        else:
+            produced.append(_finding(ld, rid, item.severity or severity, item.path, item.message))
+    if ran.crash:
+        message = f"rule crashed: {ran.crash}; the record is not verified by this rule"
+        outcome.status, outcome.message = "crash", message
+        produced.append(_finding(ld, rid, "error", (), message, kind="crash"))
+    elif any(f.rule == rid for f in produced):
+        outcome.status = "fail"
+    record.outcomes.append(outcome)
 
 
 def _finding(
     ld: LoadedDesign,
     rule: str,
-    severity: str,
-    path: tuple,
+    severity: Severity,
+    path: RecordPath,
     message: str,
     check: Check | None = None,
-    kind: str = "violation",
+    kind: Literal["violation", "crash"] = "violation",
 ) -> Finding:
     loc = ld.doc.locate(path)
     return Finding(
@@ -495,12 +608,12 @@ def _finding(
         severity=severity,
         file=ld.file,
         line=loc.line,
-        column=loc.column,  # type: ignore[arg-type]
+        column=loc.column,
         record_path=loc.record_path,
         message=message,
         record_id=ld.design.id,
         kind=kind,
-        check=check,  # type: ignore[arg-type]
+        check=check,
     )
 
 

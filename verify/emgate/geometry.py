@@ -10,7 +10,13 @@ import math
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
-    from emgate.model import AnyDesign, OpenSlot, SemiClosedSlot
+    from emgate.model import (
+        AnyDesign,
+        InductionDesign,
+        OpenSlot,
+        SalientFieldDesign,
+        SemiClosedSlot,
+    )
     from emgate.terms import RecordPath
 
 
@@ -126,26 +132,25 @@ def rotor_outer_diameter(d: AnyDesign) -> float:
 def rotor_yoke_height(d: AnyDesign) -> float:
     """Radial height of the rotor yoke (below cage slots, magnets or pole bodies) [m]."""
     r_out = rotor_outer_diameter(d) / 2.0
-    rotor = d.rotor
     if d.machine == "induction":
-        inner_edge = r_out - rotor.slot.height
+        inner_edge = r_out - d.rotor.slot.height
     elif d.machine == "surface_pm":
-        inner_edge = r_out - rotor.sleeve_thickness - rotor.magnet.thickness
+        inner_edge = r_out - d.rotor.sleeve_thickness - d.rotor.magnet.thickness
     else:
-        inner_edge = r_out - rotor.pole.shoe_height - rotor.pole.body_height
-    return inner_edge - rotor.inner_diameter / 2.0
+        inner_edge = r_out - d.rotor.pole.shoe_height - d.rotor.pole.body_height
+    return inner_edge - d.rotor.inner_diameter / 2.0
 
 
 def rotor_yoke_mean_diameter(d: AnyDesign) -> float:
     return d.rotor.inner_diameter + rotor_yoke_height(d)
 
 
-def rotor_slot_pitch(d: AnyDesign) -> float:
+def rotor_slot_pitch(d: InductionDesign) -> float:
     """Rotor slot pitch at the rotor surface (cage rotors) [m]."""
     return math.pi * rotor_outer_diameter(d) / d.rotor.slots
 
 
-def rotor_tooth_width_min(d: AnyDesign) -> float:
+def rotor_tooth_width_min(d: InductionDesign) -> float:
     """Narrowest rotor tooth along the bar zone of a cage rotor [m]."""
     top, bottom, w_top, w_bottom = winding_zone(d.rotor.slot)
     r = rotor_outer_diameter(d) / 2.0
@@ -153,7 +158,7 @@ def rotor_tooth_width_min(d: AnyDesign) -> float:
     return min(2 * math.pi * (r - top) / q - w_top, 2 * math.pi * (r - bottom) / q - w_bottom)
 
 
-def pole_shoe_width(d: AnyDesign) -> float:
+def pole_shoe_width(d: SalientFieldDesign) -> float:
     """Arc width of a salient pole's shoe at the rotor surface [m]."""
     return d.rotor.pole.shoe_arc * math.pi * rotor_outer_diameter(d) / d.poles
 
@@ -183,16 +188,16 @@ def rotor_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             )
         )
     if d.machine == "induction":
-        out.extend(slot_shape_problems(rotor.slot, ("rotor", "slot")))
+        out.extend(slot_shape_problems(d.rotor.slot, ("rotor", "slot")))
         if rotor_yoke_height(d) > 0.0 and rotor_tooth_width_min(d) <= 0.0:
             out.append((("rotor", "slot"), "rotor slots leave no rotor tooth"))
     if d.machine == "salient_field":
         shoe = pole_shoe_width(d)
-        if rotor.pole.body_width >= shoe:
+        if d.rotor.pole.body_width >= shoe:
             out.append(
                 (
                     ("rotor", "pole", "body_width"),
-                    f"pole body {rotor.pole.body_width * 1e3:g}"
+                    f"pole body {d.rotor.pole.body_width * 1e3:g}"
                     f" mm is not narrower than the pole shoe ({shoe * 1e3:.4g} mm)",
                 )
             )

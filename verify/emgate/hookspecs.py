@@ -1,7 +1,8 @@
 """Plugin hook specifications.
 
 A plugin pack is an installed distribution with an entry point in the group ``emgate.plugins``
-naming a module (or object) that implements these hooks, marked with :data:`hookimpl`. The
+naming a module (or object) that implements these hooks, marked with :data:`hookimpl` (which
+packs import from :mod:`emgate.api`). The
 built-in rules register through the same group. The hooks only register things; the engine
 itself calls each rule, so that it can select, configure and isolate them.
 """

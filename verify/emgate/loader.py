@@ -14,7 +14,8 @@ from __future__ import annotations
 import os
 import re
 import stat
-from collections.abc import Iterator
+from collections.abc import Iterator, Mapping
+from contextvars import ContextVar
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -139,7 +140,7 @@ class _Builder:
                 path,
             )
         tag = getattr(event, "tag", None)
-        implicit = getattr(event, "implicit", True)
+        implicit: Any = getattr(event, "implicit", True)
         explicit_tag = tag not in _PLAIN_TAGS and not (
             isinstance(event, yaml.ScalarEvent) and implicit[0]
         )
@@ -251,14 +252,18 @@ def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
     return 1, 1
 
 
-def read_text(path: Path) -> str:
-    """Read a file as UTF-8 text, refusing oversized, binary or wrongly encoded files."""
+#: Unsaved editor text by resolved path, read in place of the file (``emgate lsp``); the
+#: same checks apply to it as to a file's bytes.
+BUFFERS: ContextVar[Mapping[Path, str] | None] = ContextVar("emgate_buffers", default=None)
+
+
+def _read_bytes(path: Path) -> bytes:
+    buffers = BUFFERS.get()
+    if buffers and (text := buffers.get(path.resolve())) is not None:
+        return text.encode("utf-8", "surrogatepass")[: MAX_BYTES + 1]
     # Opened without blocking and checked on the open descriptor: a FIFO or a device would
     # otherwise hold the run forever (and a check before opening could be raced).
-    try:
-        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
-    except OSError as exc:
-        raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
+    fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
     try:
         if not stat.S_ISREG(os.fstat(fd).st_mode):
             raise InputError(
@@ -268,12 +273,18 @@ def read_text(path: Path) -> str:
             )
         with os.fdopen(fd, "rb") as handle:
             fd = -1
-            raw = handle.read(MAX_BYTES + 1)
-    except OSError as exc:
-        raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
+            return handle.read(MAX_BYTES + 1)
     finally:
         if fd >= 0:
             os.close(fd)
+
+
+def read_text(path: Path) -> str:
+    """Read a file as UTF-8 text, refusing oversized, binary or wrongly encoded files."""
+    try:
+        raw = _read_bytes(path)
+    except OSError as exc:
+        raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
     if len(raw) > MAX_BYTES:
         raise InputError(
             f"file larger than {MAX_BYTES // 1024} KiB; a design record is a few KiB",

@@ -5,7 +5,8 @@ Combinations of plausible values can still leave the kernel nothing finite to co
 surface that cannot shed the heat at any temperature, a magnetic circuit with no solution).
 Such a record is physically absurd input, not a rule crash and not a passed check: every
 quantity of the calculation sheet is computed once here, and one that raises or comes out
-non-finite is an input error (exit 2) at the record field that drives it.
+non-finite is an input error (exit 2) at the record field that drives it. (A steel table's
+bounds are checked with the table, in :mod:`emgate.materials`.)
 """
 
 from __future__ import annotations
@@ -16,6 +17,8 @@ from typing import TYPE_CHECKING
 from emgate.terms import RecordPath
 
 if TYPE_CHECKING:
+    from emgate.calc import Calculation
+    from emgate.loader import Document
     from emgate.materials import Catalogue
     from emgate.model import AnyDesign
 
@@ -78,15 +81,16 @@ def declared_problems(design: AnyDesign) -> list[tuple[RecordPath, str]]:
     return out
 
 
-def sheet_problems(design: AnyDesign, catalogue: Catalogue) -> list[tuple[RecordPath, str]]:
+def sheet_problems(calc: Calculation) -> list[tuple[RecordPath, str]]:
     """Sheet quantities the kernel cannot compute, or computes as non-finite, from the record.
 
     A winding that does not balance leaves some quantities undefined; the winding-balance
     rule reports that, so those errors are not input errors here (a non-finite value is).
+    The calculation keeps what it computed: the rules read the same values.
     """
-    from emgate.calc import SHEET, Calculation
+    from emgate.calc import SHEET
+    from emgate.calc.thermal import ThermalRunaway
 
-    calc = Calculation(design, catalogue)
     out: list[tuple[RecordPath, str]] = []
     seen: set[RecordPath] = set()
     for name in sorted(SHEET):
@@ -94,6 +98,8 @@ def sheet_problems(design: AnyDesign, catalogue: Catalogue) -> list[tuple[Record
             continue
         try:
             value = calc.value(name)
+        except ThermalRunaway:
+            continue  # an overheating design: the temperature-rise rule's finding
         except (ValueError, ArithmeticError) as exc:
             if _unbalanced(calc):
                 continue
@@ -118,49 +124,28 @@ def sheet_problems(design: AnyDesign, catalogue: Catalogue) -> list[tuple[Record
     return out
 
 
-def _unbalanced(calc: object) -> bool:
+def _unbalanced(calc: Calculation) -> bool:
+    from emgate.calc.winding import winding_problems
+
     try:
-        return bool(calc.winding_problems)  # type: ignore[attr-defined]
+        return bool(winding_problems(calc))
     except (ValueError, ArithmeticError):
         return True
 
 
-def record_problems(design: AnyDesign, catalogue: Catalogue) -> list[tuple[RecordPath, str]]:
+def record_problems(calc: Calculation) -> list[tuple[RecordPath, str]]:
     """Every cross-field plausibility problem of a validated record whose steels resolve."""
-    return declared_problems(design) or sheet_problems(design, catalogue)
+    return declared_problems(calc.d) or sheet_problems(calc)
 
 
-#: A steel table's plausible ends, after the columns' units: no iron carries more than
-#: 10 T (saturation polarisation near 2.1 T, the rest mu0 H), 1e8 A/m is beyond any pulsed
-#: magnetiser, and a steel's mass density lies between 1000 and 20000 kg/m^3 (common
-#: practice, no source).
-MAX_TABLE_B = 10.0
-MAX_TABLE_H = 1e8
-DENSITY_RANGE = (1000.0, 20000.0)
+def plausible_calculation(doc: Document, design: AnyDesign, catalogue: Catalogue) -> Calculation:
+    """The calculation of a validated record whose steels resolve, every sheet quantity
+    computed once; InputErrors at the driving fields when the record is implausible. The
+    rules read this calculation rather than compute the sheet again."""
+    from emgate.calc import Calculation
+    from emgate.errors import InputError, InputErrors
 
-
-def steel_table_problem(
-    b: list[float], h: list[float], density: float
-) -> tuple[RecordPath, str] | None:
-    """The first implausible entry of a B-H table in SI, as (path under the grade, message)."""
-    for row, (bi, hi) in enumerate(zip(b, h, strict=True)):
-        if not (math.isfinite(bi) and math.isfinite(hi)) or abs(bi) > MAX_TABLE_B:
-            return (
-                ("points", row),
-                f"point {row} has B = {bi:.4g} T: expected at most {MAX_TABLE_B:g} T"
-                " (check the columns' units)",
-            )
-        if abs(hi) > MAX_TABLE_H:
-            return (
-                ("points", row),
-                f"point {row} has H = {hi:.4g} A/m: expected at most {MAX_TABLE_H:g} A/m"
-                " (check the columns' units)",
-            )
-    low, high = DENSITY_RANGE
-    if density != 0.0 and not low <= density <= high:
-        return (
-            ("density",),
-            f"expected a steel's mass density between {low:g} and {high:g} kg/m^3,"
-            f" found {density:.4g} kg/m^3",
-        )
-    return None
+    calc = Calculation(design, catalogue)
+    if problems := record_problems(calc):
+        raise InputErrors([InputError(m, doc.locate(p)) for p, m in problems])
+    return calc

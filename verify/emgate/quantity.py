@@ -11,7 +11,7 @@ from typing import Annotated, Any
 
 from pydantic import AfterValidator, BeforeValidator, WithJsonSchema
 
-from emgate.units import DIMENSIONS, QuantityError, _si, convert
+from emgate.units import DIMENSIONS, QuantityError, convert, si_unit
 
 _NUMBER_PATTERN = (
     r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d{1,3})?(?![\d.eE])\s*([A-Za-zµΩ°%(]|1\s*/)"
@@ -69,7 +69,8 @@ PLAUSIBLE: dict[str, tuple[float, float, str]] = {
 
 def _plausible(dimension: str) -> Any:
     low, high, text = PLAUSIBLE.get(dimension, (0.0, 1e30, "a magnitude below 1e30 SI"))
-    unit = "" if dimension == "dimensionless" else " " + _si(DIMENSIONS[dimension][0])
+    example = DIMENSIONS[dimension][1]  # a figure with its unit, e.g. '0.45 mm'
+    unit = "" if dimension == "dimensionless" else " " + si_unit(example.split(" ", 1)[1])
 
     def check(value: float) -> float:
         if value != 0.0 and not low <= abs(value) <= high:

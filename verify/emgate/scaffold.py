@@ -19,7 +19,7 @@ LAYOUT = {
 
 def init(target: Path) -> int:
     from emgate.atomic import write_atomic
-    from emgate.cli import SCHEMA_KINDS, schema_text
+    from emgate.schemas import SCHEMA_KINDS, schema_text
 
     templates = files("emgate") / "templates"
     planned = {
@@ -33,7 +33,7 @@ def init(target: Path) -> int:
             continue
         write_atomic(target / rel, text, parents=True)
         print(f"wrote   {(target / rel).as_posix()}")
-    for rel in existing:
-        print(f"kept    {(target / rel).as_posix()} (exists; not overwritten)", file=sys.stderr)
+    for kept in existing:
+        print(f"kept    {(target / kept).as_posix()} (exists; not overwritten)", file=sys.stderr)
     print("next: edit designs/, then run `emgate check`")
     return 0

@@ -12,8 +12,27 @@ from emgate import __version__
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import DISCLAIMER
 from emgate.report.common import one_line
-from emgate.report.common import si_unit as _si_unit
 from emgate.terms import DESIGN_SCHEMA, EXIT_INPUT, EXIT_OK
+from emgate.units import si_unit
+
+
+def load_design(path: Path) -> tuple[Any, Any, Any]:
+    """One design record, validated, with the steel catalogue of its repository resolved:
+    (document, design, catalogue); InputError(s) when it cannot be read."""
+    from emgate.engine import discover_materials
+    from emgate.loader import load
+    from emgate.plausible import plausible_calculation
+    from emgate.validate import schema_of, validate_design
+
+    doc = load(path)
+    kind = schema_of(doc)
+    if kind != DESIGN_SCHEMA:
+        raise InputError(f"expected a design record, found a {kind} file", doc.locate(()))
+    design = validate_design(doc)
+    catalogue = discover_materials(path)
+    catalogue.resolve(doc, design)
+    plausible_calculation(doc, design, catalogue)  # show refuses what the gate refuses
+    return doc, design, catalogue
 
 
 def sheet_values(
@@ -25,17 +44,8 @@ def sheet_values(
     the steels it uses as (part, grade, origin of the curve).
     """
     from emgate.calc import SHEET, Calculation
-    from emgate.engine import discover_materials
-    from emgate.loader import load
-    from emgate.validate import schema_of, validate_design
 
-    doc = load(path)
-    kind = schema_of(doc)
-    if kind != DESIGN_SCHEMA:
-        raise InputError(f"expected a design record, found a {kind} file", doc.locate(()))
-    design = validate_design(doc)
-    catalogue = discover_materials(path)
-    catalogue.resolve(doc, design)
+    _, design, catalogue = load_design(path)
     calc = Calculation(design, catalogue)
     out: dict[str, tuple[float | None, str, str, str]] = {}
     for name, entry in SHEET.items():
@@ -75,7 +85,7 @@ def show(path: Path, fmt: str) -> int:
             "quantities": {
                 name: {
                     "value": v if v is not None and math.isfinite(v) else None,
-                    "unit": _si_unit(unit),
+                    "unit": si_unit(unit),
                     "method": method,
                     **({"error": err} if err else {}),
                 }
@@ -98,12 +108,12 @@ def show(path: Path, fmt: str) -> int:
     width = max(len(n) for n in values)
     group = ""
     for name in sorted(values):
-        value, unit, method, err = values[name]
+        value, unit, method, problem = values[name]
         head = name.split(".")[0]
         if head != group:
             say(f"[{head}]")
             group = head
-        shown = err if value is None else format_value(value, "" if unit == "1" else unit, 5)
+        shown = problem if value is None else format_value(value, "" if unit == "1" else unit, 5)
         say(f"  {name:<{width}}  {shown:>16}   {method}")
     say()
     say(DISCLAIMER)

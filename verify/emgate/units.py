@@ -22,7 +22,8 @@ from functools import lru_cache
 
 # SI base dimensions in this order: metre, kilogram, second, ampere, kelvin.
 Dims = tuple[int, int, int, int, int]
-_BASE = ("m", "kg", "s", "A", "K")
+#: The SI base units, in the order of a dimension vector.
+BASE_UNITS = ("m", "kg", "s", "A", "K")
 
 MAX_TEXT = 64
 MAX_NUMBER = 32
@@ -132,6 +133,7 @@ DIMENSIONS: dict[str, tuple[Dims, str]] = {
     "power": (_W, "7.5 kW"),
     "energy": (_J, "1 kJ"),
     "torque": (_J, "48 N*m"),
+    "pressure": ((-1, 1, -2, 0, 0), "20 kN/m^2"),
     "temperature": (_TH, "40 degC"),
     "temperature_difference": (_TH, "80 K"),
     "flux_density": (_TESLA, "0.8 T"),
@@ -178,7 +180,7 @@ def describe(dims: Dims) -> str:
 def _si(dims: Dims) -> str:
     if dims == _ONE:
         return "dimensionless"
-    parts = [b if e == 1 else f"{b}^{e}" for b, e in zip(_BASE, dims, strict=True) if e]
+    parts = [b if e == 1 else f"{b}^{e}" for b, e in zip(BASE_UNITS, dims, strict=True) if e]
     return "·".join(parts)
 
 
@@ -385,3 +387,34 @@ def format_value(value_si: float, unit: str, digits: int = 4) -> str:
     if unit == "degC":
         return f"{value_si - _DEGC_OFFSET:.{digits}g} degC"
     return f"{value_si / unit_factor(unit):.{digits}g} {unit}"
+
+
+#: Names of the SI units whose dimensions (m, kg, s, A, K) have one.
+_NAMED_SI = {
+    _TESLA: "T",
+    _I: "A",
+    _OHM: "ohm",
+    _W: "W",
+    _TH: "K",
+    _WB: "Wb",
+    _V: "V",
+    _HENRY: "H",
+    _J: "N*m",
+    (-1, 1, -2, 0, 0): "Pa",
+}
+
+
+def si_unit(unit: str) -> str:
+    """The SI unit of a display unit ('A/mm^2' -> 'A/m^2', 'kA/m' -> 'A/m', '%' -> '1'), in
+    which the JSON outputs give values."""
+    if unit in ("", "1"):
+        return "1"
+    if unit in CELSIUS:  # a display unit of absolute temperature: SI kelvin
+        return "K"
+    dims = parse_unit(unit)[1]
+    if dims in _NAMED_SI:
+        return _NAMED_SI[dims]
+    parts = [b if e == 1 else f"{b}^{e}" for b, e in zip(BASE_UNITS, dims, strict=True) if e > 0]
+    neg = [b if e == -1 else f"{b}^{-e}" for b, e in zip(BASE_UNITS, dims, strict=True) if e < 0]
+    text = "*".join(parts) or "1"
+    return f"{text}/{'/'.join(neg)}" if neg else text

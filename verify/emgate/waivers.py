@@ -17,7 +17,7 @@ from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import Finding, RecordResult
 from emgate.loader import Document
 from emgate.model import Waiver
-from emgate.terms import WAIVERS_SCHEMA, path_string
+from emgate.terms import WAIVERS_SCHEMA, Severity, path_string
 
 WAIVER_RULE = "waiver"
 
@@ -50,7 +50,7 @@ def load_waivers_file(path: Path) -> dict[str, list[WaiverEntry]]:
 
     from emgate.loader import load
     from emgate.model import WaiversFile
-    from emgate.validate import model_errors
+    from emgate.translate import model_errors
 
     doc = load(path)
     if not isinstance(doc.data, dict) or doc.data.get("schema") != WAIVERS_SCHEMA:
@@ -80,13 +80,13 @@ def apply_waivers(
         label = f"waiver of {w.rule!r} for {entry.record} owned by {w.owner}"
 
         def note(
-            message: str, severity: str, loc: Location = loc, record: str = entry.record
+            message: str, severity: Severity, loc: Location = loc, record: str = entry.record
         ) -> Finding:
             return Finding(
                 WAIVER_RULE,
                 severity,
                 display_path(loc.file),
-                loc.line,  # type: ignore[arg-type]
+                loc.line,
                 loc.column,
                 loc.record_path,
                 message,

@@ -1,26 +1,30 @@
-"""Invented demo pack: one company rule, registered like any third-party plugin."""
+"""Invented demo pack: one company rule, registered like any third-party plugin.
+
+A pack imports from ``emgate.api`` only: the rest of emgate is internal.
+"""
 
 from __future__ import annotations
 
 from collections.abc import Iterable
 
-from pydantic import Field
+from emgate.api import AnyDesign, Check, Context, Options, Problem, Ratio, Rule, hookimpl, limit
 
-from emgate.hookspecs import hookimpl
-from emgate.model import AnyDesign
-from emgate.rule import Check, Context, Options, Problem, Rule
+#: This (invented) company's tooling limits for its winding and stacking lines, not a
+#: physical law.
+TOOLING = "Brennfeld tooling range"
 
 
 class StackAspectOptions(Options):
-    minimum: float = Field(default=0.6, gt=0, description="smallest stack length / bore")
-    maximum: float = Field(default=1.6, gt=0, description="largest stack length / bore")
+    minimum: Ratio = limit(0.6, "1", TOOLING)  # smallest stack length / bore
+    maximum: Ratio = limit(1.6, "1", TOOLING)  # largest stack length / bore
 
 
-class StackAspect(Rule):
+class StackAspect(Rule[StackAspectOptions]):
     """Stack length over bore diameter within the range the shop's tooling handles.
 
-    lambda = l / D. The defaults 0.6 to 1.6 are this (invented) company's tooling limits for
-    its winding and stacking lines, not a physical law (common practice, no source).
+    lambda = l / D (the calculation sheet's `stator.aspect_ratio`). The defaults 0.6 to 1.6
+    are this (invented) company's tooling limits for its winding and stacking lines, not a
+    physical law (common practice, no source).
     """
 
     id = "brennfeld/stack-aspect"
@@ -28,26 +32,20 @@ class StackAspect(Rule):
     version = "1.2"
     tags = ("manufacturing",)
     severity = "warning"
-    options = StackAspectOptions
 
     def check(
-        self, design: AnyDesign, options: Options, context: Context
+        self, design: AnyDesign, options: StackAspectOptions, context: Context
     ) -> Iterable[Check | Problem]:
-        assert isinstance(options, StackAspectOptions)
-        ratio = design.stator.stack_length / design.stator.bore_diameter
-        for limit, bound in ((options.maximum, "max"), (options.minimum, "min")):
-            yield Check(
-                quantity="stator.aspect_ratio",
-                label="stack length / bore",
+        for field, bound in (("maximum", "max"), ("minimum", "min")):
+            yield context.check(
+                "stator.aspect_ratio",
+                options.limit_for(field),
+                bound,  # type: ignore[arg-type]
                 path=("stator", "stack_length"),
-                value=ratio,
-                limit=limit,
-                bound=bound,  # type: ignore[arg-type]
-                unit="",
-                basis="Brennfeld tooling range",
+                label="stack length / bore",
             )
 
 
 @hookimpl
-def emgate_rules() -> list[type[Rule]]:
+def emgate_rules() -> list[type[Rule[StackAspectOptions]]]:
     return [StackAspect]

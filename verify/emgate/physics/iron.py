@@ -216,7 +216,8 @@ def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHC
     def residual(b: float) -> float:
         return b + MU0 * sharing_factor * float(h_from_b(curve, b)) - b_app
 
-    b_real = solve_increasing(residual, 0.0, b_app, xtol=1e-13, rtol=1e-13)
+    # H >= 0 bounds the root by b_app; the clamp keeps the solver's last bit inside it.
+    b_real = min(solve_increasing(residual, 0.0, b_app, xtol=1e-13, rtol=1e-13), b_app)
     return float(np.copysign(b_real, b_apparent))
 
 

@@ -17,7 +17,8 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, fields, replace
+from typing import Any
 
 from emgate.physics.bh import BHCurve, h_from_b
 from emgate.physics.constants import MU0
@@ -210,10 +211,10 @@ class PolePath:
         Lamination stacking factor k_Fe in (0, 1] [-].
     effective_gap : float
         Carter-corrected gap in series with the iron [m]: kc g for cage and salient-pole
-        rotors. For surface magnets, the rest of the magnetic gap beside the magnet's own
-        l_m / mu_rec, which :func:`surface_pm_gap` adds itself: to apply Carter's
-        coefficient to the whole magnetic gap g' = g + sleeve + l_m / mu_rec, pass
-        ``kc g' - l_m / mu_rec`` (as emgate.calc does).
+        rotors. For surface magnets, the whole Carter-corrected magnetic gap kc g',
+        g' = g + sleeve + l_m / mu_rec (:func:`emgate.physics.airgap.magnetic_gap`), the
+        magnet's own l_m / mu_rec included: :func:`surface_pm_gap` counts that share on the
+        magnet's recoil line and the rest, ``kc g' - l_m / mu_rec``, as the gap.
     stator_teeth : Teeth
     stator_yoke : Yoke
     rotor_yoke : Yoke
@@ -330,6 +331,45 @@ def remanence_at(
     coefficients of magnet materials).
     """
     return remanence_ref * (1.0 + alpha * (temperature - reference_temperature))
+
+
+def magnet_field_under_current(
+    no_load_field: float, mmf: float, recoil_permeability: float, magnetic_gap: float
+) -> float:
+    """Magnet field strength with a stator MMF on the d-axis against the magnet.
+
+    Superposes on the no-load working point H_0 (iron included) the armature term of the
+    linear loop of magnet and gap, ``H = H_0 - F / (mu_rec g_m)``, ``g_m`` the whole
+    Carter-corrected magnetic gap ``kc (g + sleeve + l_m / mu_rec)``: the MMF ``F`` drops
+    over ``l_m + mu_rec (g_m - l_m / mu_rec) = mu_rec g_m`` of magnet length. An
+    approximation on the worst side when ``F`` is the peak of the MMF: the iron's
+    reluctance and the magnet's leakage are neglected in the armature term.
+
+    Parameters
+    ----------
+    no_load_field : float
+        Magnet field strength H_0 at no load [A/m] (negative: demagnetising).
+    mmf : float
+        Stator MMF taken wholly on the d-axis, demagnetising, F >= 0 [A] (ampere-turns per
+        pole across one gap).
+    recoil_permeability : float
+        Relative recoil permeability mu_rec [-], > 0.
+    magnetic_gap : float
+        Carter-corrected magnetic gap g_m, magnet included [m], > 0.
+
+    Returns
+    -------
+    float
+        H [A/m] (negative: demagnetising).
+
+    References
+    ----------
+    Hendershot and Miller, Design of Brushless Permanent-Magnet Machines (demagnetisation
+    by the armature reaction of a surface magnet; from memory).
+    """
+    if not (recoil_permeability > 0.0 and magnetic_gap > 0.0):
+        raise ValueError("recoil permeability and magnetic gap must be > 0")
+    return no_load_field - mmf / (recoil_permeability * magnetic_gap)
 
 
 # ---------------------------------------------------------------- results
@@ -527,7 +567,7 @@ def _pole_state(
     )
 
 
-def _state_args(result: GapResult) -> dict[str, object]:
+def _state_args(result: GapResult) -> dict[str, Any]:
     return {f.name: getattr(result, f.name) for f in fields(GapResult)}
 
 
@@ -542,18 +582,19 @@ def surface_pm_gap(
     Solves the loop of one pole ``H_m l_m + F_gap + F_iron = 0`` with the magnet on its
     recoil line ``B_m = Br + mu0 mu_rec H_m`` and ``B_m = k_leak B_g`` (magnet and gap
     areas taken equal). The gap flux is rectangular over the magnet arc (slot ripple and
-    fringing neglected). With ideal iron and no leakage this is
-    ``B_g = Br (l_m / mu_rec) / (l_m / mu_rec + g_e)``, ``g_e`` the path's
-    ``effective_gap``. With ``g_e = kc g' - l_m / mu_rec`` it is
-    ``B_g = Br (l_m / mu_rec) / (kc g')``, Carter's coefficient applied to the whole
-    magnetic gap ``g' = g + sleeve + l_m / mu_rec``; with ``g_e = kc g`` it is the textbook
-    ``B_g = Br l_m / (l_m + mu_rec kc g)``, Carter on the mechanical gap only.
+    fringing neglected). The path's ``effective_gap`` is the whole Carter-corrected
+    magnetic gap ``kc g'``, ``g' = g + sleeve + l_m / mu_rec``; the magnet's own
+    ``l_m / mu_rec`` of it is the recoil line's, so the gap in series with magnet and iron
+    is ``g_e = kc g' - l_m / mu_rec``. With ideal iron and no leakage this is
+    ``B_g = Br (l_m / mu_rec) / (l_m / mu_rec + g_e) = Br (l_m / mu_rec) / (kc g')``,
+    Carter's coefficient applied to the whole magnetic gap; with ``kc = 1`` it is the
+    textbook ``B_g = Br l_m / (l_m + mu_rec (g + sleeve))``.
 
     Parameters
     ----------
     path : PolePath
-        Flux path; ``effective_gap`` is ``g_e``, the magnetic gap in series with the magnet
-        and the iron, the magnet's own ``l_m / mu_rec`` excluded (see :class:`PolePath`).
+        Flux path; ``effective_gap`` is ``kc g'``, the magnet's ``l_m / mu_rec`` included
+        (see :class:`PolePath`); it must exceed ``l_m / mu_rec``.
     magnet : SurfaceMagnet
     stator_curve, rotor_curve : BHCurve
         Stator lamination and rotor back iron.
@@ -569,6 +610,13 @@ def surface_pm_gap(
     of a surface magnet); Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical
     Machines, ch. 3 (magnetic voltages of teeth and yokes).
     """
+    own = magnet.thickness / magnet.recoil_permeability
+    if not path.effective_gap > own:
+        raise ValueError(
+            "PolePath.effective_gap of a surface-magnet machine is the whole magnetic gap"
+            " kc g' and must exceed the magnet's own l_m / mu_rec"
+        )
+    path = replace(path, effective_gap=path.effective_gap - own)  # the gap beside the magnet
     k_leak = magnet.leakage_factor
     coercive_mmf = magnet.remanence * magnet.thickness / (MU0 * magnet.recoil_permeability)
 

@@ -27,9 +27,11 @@ __all__ = [
     "balance",
     "feasibility",
     "harmonic_phasors",
+    "phase_emf",
     "phase_name",
     "series_turns_per_phase",
     "star_of_slots",
+    "star_of_slots_layers",
     "winding_factor_closed_form",
     "winding_factors",
 ]
@@ -194,7 +196,7 @@ def feasibility(slots: int, pole_pairs: int, phases: int, layers: int) -> str | 
     return None
 
 
-def _belt_sides(slots: int, pole_pairs: int, phases: int) -> np.ndarray:
+def belt_sides(slots: int, pole_pairs: int, phases: int) -> np.ndarray:
     """One coil side per slot, phase and sign from the slot's sector of the star of slots.
 
     Slot s has the electrical angle 2 pi r / Q, r = p s mod Q. The star is cut into 2m belts
@@ -303,7 +305,7 @@ def star_of_slots(
     y = _count(coil_pitch, "coil pitch")
     if y >= slots:
         raise WindingError(f"coil pitch must be 1..{slots - 1} slots, got {y}")
-    sides = _belt_sides(slots, pole_pairs, phases)
+    sides = belt_sides(slots, pole_pairs, phases)
     pole_pitch = slots / (2 * pole_pairs)
     if layers == 1:
         if _pairs_with_pitch(sides, y):
@@ -324,6 +326,35 @@ def star_of_slots(
     raise WindingError(
         f"{problem}; pole pitch {pole_pitch:g} slots; usable pitches nearest it: {usable}"
     )
+
+
+def star_of_slots_layers(
+    slots: int, pole_pairs: int, phases: int, layers: int, coil_pitch: int
+) -> tuple[np.ndarray, np.ndarray | None]:
+    """The layers of :func:`star_of_slots`'s layout: (top, bottom), bottom None for one layer.
+
+    The top layer of slot s is the go side of the coil its belt names; the bottom layer the
+    return sides, y slots on. Their sum is :func:`star_of_slots`'s layout.
+
+    Parameters
+    ----------
+    slots, pole_pairs, phases, layers, coil_pitch : int
+        As for :func:`star_of_slots`.
+
+    Returns
+    -------
+    tuple
+        Top and bottom layouts, int64, shape (m, Q) each.
+
+    References
+    ----------
+    As :func:`star_of_slots`.
+    """
+    layout = star_of_slots(slots, pole_pairs, phases, layers, coil_pitch)
+    if layers == 1:
+        return layout, None
+    top = belt_sides(slots, pole_pairs, phases)
+    return top, _bottom_layer(top, coil_pitch)
 
 
 def parallel_path_counts(
@@ -351,7 +382,7 @@ def parallel_path_counts(
     Equal-EMF condition for parallel paths [mem: Pyrhonen, Jokinen, Hrabovcova, Design of
     Rotating Electrical Machines, ch. 2].
     """
-    sides = _belt_sides(slots, pole_pairs, phases)[0]
+    sides = belt_sides(slots, pole_pairs, phases)[0]
     if layers == 2:
         starts = [int(s) for s in np.flatnonzero(sides)]
     else:
@@ -449,8 +480,8 @@ def balance(layout: np.ndarray, pole_pairs: int) -> list[str]:
     m = lay.shape[0]
     problems: list[str] = []
     counts = np.abs(lay).sum(axis=1)
-    for k in np.flatnonzero(counts == 0):
-        problems.append(f"phase {phase_name(int(k))} has no coil sides")
+    for empty in np.flatnonzero(counts == 0):
+        problems.append(f"phase {phase_name(int(empty))} has no coil sides")
     if np.any(counts != counts[0]):
         listed = ", ".join(f"{phase_name(k)} {int(c)}" for k, c in enumerate(counts))
         problems.append(f"coil sides per phase differ: {listed}")
@@ -564,3 +595,46 @@ def winding_factor_closed_form(q: float, pitch_ratio: float, order: int, phases:
         kd = math.sin(half_belt) / den
     kp = math.sin(v * pitch_ratio * math.pi / 2)
     return kd * kp
+
+
+def phase_emf(
+    frequency: float,
+    series_turns: float,
+    winding_factor: float,
+    flux_density_fundamental: float,
+    pole_pitch: float,
+    stack_length: float,
+) -> float:
+    """Phase EMF, rms, induced by the fundamental of a rotating gap field.
+
+    ``E = sqrt(2) pi f N_ph kw1 Phi1`` with the fundamental flux per pole
+    ``Phi1 = (2/pi) B1 tau_p l``: the sinusoidal flux of one pole cut by the series turns at
+    the electrical frequency.
+
+    Parameters
+    ----------
+    frequency : float
+        Electrical frequency f [Hz].
+    series_turns : float
+        Series turns per phase N_ph [-].
+    winding_factor : float
+        Winding factor kw1 at the working order [-].
+    flux_density_fundamental : float
+        Amplitude B1 of the fundamental of the gap flux density wave [T].
+    pole_pitch : float
+        Pole pitch tau_p at the gap [m].
+    stack_length : float
+        Axial length l the flux density is referred to [m].
+
+    Returns
+    -------
+    float
+        E [V], rms; an array for array inputs.
+
+    References
+    ----------
+    A. E. Fitzgerald, C. Kingsley, *Electric Machinery* (the EMF of a distributed winding;
+    from memory).
+    """
+    phi1 = 2.0 / math.pi * flux_density_fundamental * pole_pitch * stack_length
+    return math.sqrt(2.0) * math.pi * frequency * series_turns * winding_factor * phi1

@@ -67,34 +67,6 @@ def summary_line(result: RunResult) -> str:
     )
 
 
-#: Names of the SI units whose dimensions (m, kg, s, A, K) have one.
-_NAMED_SI = {
-    (0, 1, -2, -1, 0): "T",
-    (0, 0, 0, 1, 0): "A",
-    (2, 1, -3, -2, 0): "ohm",
-    (2, 1, -3, 0, 0): "W",
-    (0, 0, 0, 0, 1): "K",
-    (2, 1, -2, -1, 0): "Wb",
-    (2, 1, -3, -1, 0): "V",
-}
-
-
-def si_unit(unit: str) -> str:
-    """The SI unit of a display unit ('A/mm^2' -> 'A/m^2', 'kA/m' -> 'A/m', '%' -> '1'), in
-    which the JSON outputs give values."""
-    from emgate.units import _BASE, parse_unit
-
-    if unit in ("", "1"):
-        return "1"
-    dims = parse_unit(unit)[1]
-    if dims in _NAMED_SI:
-        return _NAMED_SI[dims]
-    parts = [b if e == 1 else f"{b}^{e}" for b, e in zip(_BASE, dims, strict=True) if e > 0]
-    neg = [b if e == -1 else f"{b}^{-e}" for b, e in zip(_BASE, dims, strict=True) if e < 0]
-    text = "*".join(parts) or "1"
-    return f"{text}/{'/'.join(neg)}" if neg else text
-
-
 def check_display(c: Check) -> str:
     """A check's value against its limit in the display unit: '6.007 A/mm^2 <= 10 A/mm^2'."""
     from emgate.units import format_value

@@ -1,1 +1,0 @@
-../verify/emgate/templates/noxfile.py.txt

@@ -1,0 +1,92 @@
+"""The calculation takes its shared pieces from the kernel: the liner perimeter of the thermal
+path, the strand section of a field coil, the default opening clearance.
+"""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+from typing import Any
+
+import pytest
+
+from conftest import GENSET, MM, PUMP, calculation, variant
+from emgate.calc import conductors, thermal
+from emgate.physics import conductors as ck
+
+# --- one home for shared pieces -------------------------------------------------------------------
+
+
+def spy(monkeypatch: pytest.MonkeyPatch, name: str) -> list[tuple[Any, ...]]:
+    """Record the calls of a kernel function, letting them run.
+
+    The calculation calls the kernel through the re-export emgate.physics.conductors until it
+    moves to the split modules; patch the module it calls through.
+    """
+    calls: list[tuple[Any, ...]] = []
+    real = getattr(ck, name)
+
+    def recording(*args: Any, **kwargs: Any) -> Any:
+        calls.append(args)
+        return real(*args, **kwargs)
+
+    monkeypatch.setattr(ck, name, recording)
+    return calls
+
+
+@pytest.mark.parametrize(
+    ("base", "kernel", "perimeter"),
+    [
+        # [calc: trapezoid] b1 + b2 + 2 sqrt(h2^2 + ((b2 - b1)/2)^2), h2 = 20 - 0.8 - 1.5 mm.
+        (PUMP, "semi_closed_slot_perimeter", 6.4 + 9.6 + 2 * math.hypot(17.7, 1.6)),
+        # [calc: rectangle] 2 (b + h - h_w) = 2 (7 + 30 - 3) mm.
+        (GENSET, "open_slot_perimeter", 2 * (7.0 + 30.0 - 3.0)),
+    ],
+)
+def test_the_thermal_path_takes_the_liner_perimeter_from_the_kernel(
+    monkeypatch: pytest.MonkeyPatch, base: Path, kernel: str, perimeter: float
+) -> None:
+    calls = spy(monkeypatch, kernel)
+    calc = calculation(base)
+    thermal.thermal_estimate(calc)
+    assert calls, f"the thermal estimate did not use conductors.{kernel}"
+    assert conductors.slot_perimeter(calc) / MM == pytest.approx(perimeter, rel=1e-12)  # rounding
+
+
+def test_the_field_coil_uses_the_shared_strand_section(
+    repo: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    field = {
+        "shape": "rectangular",
+        "strands": 2,
+        "width": "4 mm",
+        "height": "1.5 mm",
+        "corner_radius": "0.5 mm",
+        "insulated_width": "4.2 mm",
+        "insulated_height": "1.7 mm",
+    }
+    calls = spy(monkeypatch, "field_coil_current_density")
+    calc = calculation(variant(repo, {"rotor.field.conductor": field}, base=GENSET))
+    # [mem: IEC 60317-0-2] w h - (4 - pi) r^2 per strand, two in hand, 9 A.
+    strand = (4.0 * 1.5 - (4 - math.pi) * 0.5**2) * MM**2
+    assert calc.value("rotor.field_current_density") == pytest.approx(
+        9.0 / (2 * strand), rel=1e-12
+    )  # rounding
+    assert calls, "the field coil did not use conductors.field_coil_current_density"
+
+
+def test_the_opening_clearance_is_the_kernels_and_its_limit_is_declared_once(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    from emgate_rules.slot_fill import SlotFillOptions
+
+    # The limit: one declaration on the option field, 0.2 mm with its source.
+    default = SlotFillOptions.model_fields["opening_clearance"].default
+    assert default == pytest.approx(0.2e-3, rel=1e-12)  # 0.2 mm, common practice, no source
+    assert SlotFillOptions.source_of("opening_clearance") == "common practice, no source"
+    # The quantity: the sheet's stator.opening_clearance is the kernel's function.
+    calls = spy(monkeypatch, "opening_clearance")
+    value = calculation(PUMP).value("stator.opening_clearance")
+    assert calls, "the sheet did not use conductors.opening_clearance"
+    # [calc] pump: opening 2.8 mm less the insulated strand 0.97 mm (rounding only)
+    assert value / MM == pytest.approx(2.8 - 0.97, rel=1e-12)

@@ -1,0 +1,315 @@
+"""The public rule API: one module for packs, generic rules, a read-only sheet, limits
+declared once, and every check naming a sheet quantity."""
+
+from __future__ import annotations
+
+import ast
+import json
+import math
+from pathlib import Path
+from typing import Any
+
+import pytest
+
+from conftest import DEMO, GENSET, PUMP, REPO, SERVO, run_cli, write_variant
+
+RULE_SOURCES = sorted((REPO / "rules" / "emgate_rules").glob("*.py")) + sorted(
+    (REPO / "examples" / "company-pack").rglob("*.py")
+)
+
+
+def _emgate_imports(path: Path) -> list[str]:
+    """Every module of emgate (or of emgate_rules) that a file imports, by its ast."""
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    out: list[str] = []
+    for node in ast.walk(tree):
+        if isinstance(node, ast.ImportFrom) and node.module:
+            out.append(node.module)
+        elif isinstance(node, ast.Import):
+            out += [alias.name for alias in node.names]
+    return [m for m in out if m.split(".")[0] in ("emgate", "emgate_rules")]
+
+
+@pytest.mark.parametrize("path", RULE_SOURCES, ids=lambda p: p.name)
+def test_rules_and_the_pack_import_emgate_only_through_its_api(path: Path) -> None:
+    for module in _emgate_imports(path):
+        if module.startswith("emgate_rules"):  # the built-in package's own modules
+            assert path.parent.name == "emgate_rules", (path, module)
+            continue
+        assert module == "emgate.api", (path, module)
+
+
+def test_the_api_exports_what_it_lists() -> None:
+    import emgate.api as api
+
+    assert len(set(api.__all__)) == len(api.__all__)
+    for name in api.__all__:
+        assert hasattr(api, name), name
+    for name in ("Rule", "Options", "Check", "Problem", "Context", "hookimpl", "limit"):
+        assert name in api.__all__
+
+
+def _builtin_rules() -> list[Any]:
+    from emgate_rules import emgate_rules
+
+    return list(emgate_rules())
+
+
+def test_each_rule_is_generic_over_its_options() -> None:
+    from typing import get_args
+
+    from emgate.api import Options, Rule
+
+    for rule in _builtin_rules():
+        (base,) = [b for b in rule.__orig_bases__ if getattr(b, "__origin__", None) is Rule]
+        (model,) = get_args(base)
+        assert rule.options is model and issubclass(model, Options), rule.id
+    for path in RULE_SOURCES:
+        assert "assert isinstance(options" not in path.read_text(encoding="utf-8"), path
+
+
+# --- the sheet is read-only -----------------------------------------------------------------
+
+
+def _servo_sheet() -> Any:
+    from emgate.calc import Calculation
+    from emgate.calc.view import Sheet
+    from emgate.engine import discover_materials
+    from emgate.loader import load
+    from emgate.validate import validate_design
+
+    doc = load(SERVO)
+    design = validate_design(doc)
+    catalogue = discover_materials(SERVO)
+    catalogue.resolve(doc, design)
+    return Sheet(Calculation(design, catalogue))
+
+
+def test_the_sheet_cannot_be_written() -> None:
+    from emgate.api import Context
+
+    sheet = _servo_sheet()
+    before = sheet["stator.current_density"]
+    with pytest.raises(TypeError):
+        sheet["stator.current_density"] = 0.0  # type: ignore[index]
+    with pytest.raises(AttributeError):
+        sheet._read = None
+    with pytest.raises(AttributeError):
+        sheet.calc  # noqa: B018 - the calculation is not reachable by an attribute
+    context = Context(sheet=sheet, file="x")
+    with pytest.raises(AttributeError):
+        context.sheet = {}  # type: ignore[misc]
+    assert sheet["stator.current_density"] == before
+    assert isinstance(sheet.winding_problems, tuple)
+    assert isinstance(sheet.thermal_steps, tuple)
+
+
+SILENCER = """
+    from emgate.api import Rule, Options, hookimpl
+
+    class Silencer(Rule[Options]):
+        id = "aaa/silencer"  # runs before every built-in rule (rules run by id)
+        summary = "tries to overwrite the shared calculation"
+
+        def check(self, design, options, context):
+            sheet = context.sheet
+            attempts = [
+                lambda: sheet.__setitem__("stator.current_density", 0.0),
+                lambda: setattr(sheet, "_read", lambda *a: 0.0),
+                lambda: setattr(context, "sheet", {{"stator.current_density": 0.0}}),
+                lambda: context.calc._cache.clear(),
+                lambda: setattr(design.winding.conductor, "strands", 1000),
+                # past pydantic's frozen models: the rule's own copy of the record only
+                lambda: object.__setattr__(design.winding.conductor, "strands", 1000),
+            ]
+            for attempt in attempts:
+                try:
+                    attempt()
+                except Exception:
+                    pass
+            return []
+
+    @hookimpl
+    def emgate_rules():
+        return [Silencer]
+"""
+
+
+def test_a_plugin_cannot_silence_another_rules_finding(plugin_host: Any, repo: Path) -> None:
+    # Issue 9, item 4: the servo breaks the current-density limit on purpose.
+    plugin_host.add("aaa", "aaa_silencer_pack", SILENCER.format())
+    result = run_cli("check", "--format", "json", write_variant(repo, {}, base=SERVO))
+    assert result.code == 1, result.out + result.err
+    doc = result.json()
+    assert any(f["rule"] == "current-density" for f in doc["findings"])
+    (silencer,) = [o for o in doc["records"][0]["outcomes"] if o["rule"] == "aaa/silencer"]
+    assert silencer["status"] == "pass"
+
+
+# --- one declaration of each limit ----------------------------------------------------------
+
+
+def _limit_fields() -> list[tuple[Any, str]]:
+    return [
+        (rule, name)
+        for rule in _builtin_rules()
+        for name in rule.options.model_fields
+        if rule.options.source_of(name) is not None
+    ]
+
+
+def test_every_default_limit_names_its_source_in_the_schema_and_explain() -> None:
+    fields = _limit_fields()
+    assert len(fields) >= 30  # every limit of the built-in rules but the rise table's
+    for rule, name in fields:
+        source = rule.options.source_of(name)
+        schema = rule.options.model_json_schema()["properties"][name]
+        assert schema["description"] == f"default from {source}", (rule.id, name)
+        shown = run_cli("explain", rule.id).out
+        assert f"default from {source}" in shown, (rule.id, name)
+
+
+def test_current_density_declares_its_sources_too() -> None:
+    from emgate_rules.current_density import CurrentDensityOptions
+
+    shown = run_cli("explain", "current-density").out
+    assert (
+        "\n  surface_pm_enclosed_fan = 10 A/mm^2  (default from Hendershot and Miller, fan-cooled"
+        in shown
+    )
+    assert (
+        "\n  induction_enclosed_fan = 8 A/mm^2  (default from Pyrhonen et al., Table 6.2" in shown
+    )
+    # 10 and 8 A/mm^2 in SI, the declared values and unit [calc]
+    assert CurrentDensityOptions().surface_pm_enclosed_fan == 10e6
+    assert CurrentDensityOptions().induction_enclosed_fan == 8e6
+    # a cooling method's own option is the team's, for every machine kind: none by default
+    assert CurrentDensityOptions().enclosed_fan is None
+
+
+def test_the_basis_is_the_source_or_the_teams_limit() -> None:
+    from emgate_rules.tooth_flux import ToothFluxOptions
+
+    source = ToothFluxOptions.source_of("stator_apparent")
+    assert ToothFluxOptions().limit_for("stator_apparent").basis == source
+    # the same limit written in another unit is still the default
+    assert ToothFluxOptions(stator_apparent="2100 mT").basis("stator_apparent") == source
+    team = ToothFluxOptions(stator_apparent="1.9 T").limit_for("stator_apparent")
+    assert (team.value, team.basis) == (1.9, "the team's limit (emgate.yaml)")
+
+
+def test_a_limit_in_a_unit_of_the_wrong_dimension_is_refused() -> None:
+    from emgate.api import FluxDensity, Options, limit
+
+    with pytest.raises(TypeError, match="wrong"):
+
+        class Wrong(Options):
+            wrong: FluxDensity = limit(2.0, "mm", "common practice, no source")
+
+
+# --- every check names a sheet quantity -----------------------------------------------------
+
+
+def _show(path: Path) -> dict[str, Any]:
+    result = run_cli("show", "--format", "json", path)
+    assert result.code == 0, result.err
+    return json.loads(result.out)["quantities"]
+
+
+def test_every_check_on_every_example_names_a_sheet_quantity() -> None:
+    from emgate.calc import SHEET
+    from emgate.units import si_unit
+
+    result = run_cli("check", "--format", "json", DEMO)
+    assert result.code == 1, result.err  # the servo breaks a limit on purpose
+    sheets = {p.stem.split("-")[0]: _show(p) for p in (PUMP, SERVO, GENSET)}
+    seen = 0
+    for record in result.json()["records"]:
+        sheet = sheets[record["record_id"].split("-")[0]]
+        for out in record["outcomes"]:
+            for check in out["checks"]:
+                name = check["quantity"]
+                assert name in SHEET, (out["rule"], name)
+                seen += 1
+                if out["rule"] == "declared-values":  # a relative difference of the name
+                    assert check["unit"] == "1"
+                    continue
+                assert check["unit"] == si_unit(SHEET[name].unit), (out["rule"], name)
+                value = sheet[name]["value"]
+                if out["rule"] in ("demagnetisation", "demagnetisation-fault"):  # magnitude
+                    value = abs(value)
+                # the sheet's own number, through the same JSON: exact up to rounding
+                assert check["value"] == pytest.approx(value, rel=1e-12), (out["rule"], name)
+    assert seen >= 45
+
+
+def test_the_new_sheet_names_are_shown_and_can_be_declared(repo: Path) -> None:
+    pump, genset = _show(PUMP), _show(GENSET)
+    # [calc] pump: 4 poles at 50 Hz, 1460 rpm; slip 1 - 1460 / 1500
+    assert pump["rating.slip"]["value"] == pytest.approx(1 - 1460 / 1500, rel=1e-12)
+    assert pump["stator.aspect_ratio"]["value"] == pytest.approx(140 / 136, rel=1e-12)
+    assert "stator.opening_clearance" in pump and "stator.slot_width_clearance" not in pump
+    assert "stator.slot_width_clearance" in genset and "stator.opening_clearance" not in genset
+    path = write_variant(repo, {"declared": {"rating.slip": "2.7 %", "stator.aspect_ratio": 1.03}})
+    result = run_cli("check", "--format", "json", path)
+    checks = {
+        c["quantity"]: c
+        for o in result.json()["records"][0]["outcomes"]
+        if o["rule"] == "declared-values"
+        for c in o["checks"]
+    }
+    assert set(checks) == {"rating.slip", "stator.aspect_ratio"}
+    assert all(c["passed"] for c in checks.values())
+    # [calc] |0.026667 - 0.027| / 0.027 = 1.2 %
+    assert checks["rating.slip"]["value"] == pytest.approx(
+        abs((1 - 1460 / 1500) - 0.027) / 0.027, rel=1e-9
+    )
+    assert math.isfinite(checks["stator.aspect_ratio"]["value"])
+
+
+# --- the contributor guide's example is a working pack --------------------------------------
+
+
+def _guide_example() -> str:
+    text = (REPO / "DEVELOPERS.md").read_text(encoding="utf-8")
+    section = text.split("## Adding a rule", 1)[1].split("\n## ", 1)[0]
+    return section.split("```python\n", 1)[1].split("```", 1)[0]
+
+
+def test_the_guides_example_rule_runs_as_a_pack(plugin_host: Any, repo: Path) -> None:
+    import shutil
+
+    from conftest import STEELS
+
+    plugin_host.add("acme", "acme_guide_example_pack", _guide_example())
+    (repo / "materials").mkdir()
+    shutil.copy(STEELS, repo / "materials" / STEELS.name)
+    path = write_variant(repo, {}, base=GENSET)
+    result = run_cli("check", "--format", "json", path)
+    assert result.code in (0, 1), result.err
+    (out,) = [o for o in result.json()["records"][0]["outcomes"] if o["rule"] == "acme/pole-body"]
+    (check,) = out["checks"]
+    assert check["quantity"] == "rotor.pole_body_flux_density"
+    assert check["limit"] == 1.9  # the declared default, in SI (tesla)
+    assert check["basis"] == "acme design manual, table 4"
+    sheet_value = _show(GENSET)["rotor.pole_body_flux_density"]["value"]
+    assert check["value"] == pytest.approx(sheet_value, rel=1e-12)  # the same number
+    # the team's limit, in its own unit, and the basis that says so
+    (repo / "emgate.yaml").write_text(
+        "schema: emgate/config@1\noptions:\n  acme/pole-body:\n    maximum: 1800 mT\n",
+        encoding="utf-8",
+    )
+    doc = run_cli("check", "--format", "json", path).json()
+    (out,) = [o for o in doc["records"][0]["outcomes"] if o["rule"] == "acme/pole-body"]
+    assert out["checks"][0]["basis"] == "the team's limit (emgate.yaml)"
+    assert out["checks"][0]["limit"] == pytest.approx(1.8, rel=1e-12)  # 1800 mT [calc]
+
+
+def test_a_declared_figure_the_record_has_no_value_for_is_an_error(repo: Path) -> None:
+    # The pump's round wire in semi-closed slots has no slot-width clearance.
+    path = write_variant(repo, {"declared": {"stator.slot_width_clearance": "1 mm"}})
+    result = run_cli("check", "--format", "json", path)
+    assert result.code == 1
+    (finding,) = [f for f in result.json()["findings"] if f["rule"] == "declared-values"]
+    assert finding["record_path"] == "$.declared['stator.slot_width_clearance']"
+    assert "rectangular strands in an open slot only" in finding["message"]

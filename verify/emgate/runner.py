@@ -1,0 +1,211 @@
+"""Running one rule on one record, isolated: what the engine does to plugin code.
+
+Whatever a rule does, the run goes on: an exception of any kind (SystemExit included;
+only the user's own Ctrl-C stops the run), anything yielded that is not a well-formed
+:class:`~emgate.rule.Check` or :class:`~emgate.rule.Problem`, or a run past its time
+budget is a crash of that rule, and the items it yielded before stand. A quantity the
+kernel cannot compute for an unbalanced winding ends the rule with a located finding.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+import signal
+import threading
+import time
+import traceback
+from collections.abc import Callable, Iterator
+from contextlib import contextmanager
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from emgate.plugins import describe_exception, users_interrupt, watching_interrupts
+from emgate.rule import Check, Context, Options, Problem, Rule, winding_path
+from emgate.terms import SEVERITIES
+
+if TYPE_CHECKING:
+    from emgate.model import AnyDesign
+
+
+@dataclass
+class RuleRun:
+    """What one rule gave on one record: its valid items, and why it crashed ('' if not)."""
+
+    items: list[Check | Problem] = field(default_factory=list)
+    crash: str = ""
+
+
+def run_rule(
+    rule: type[Rule],
+    design: AnyDesign,
+    options: Callable[[], Options],
+    context: Context,
+    budget: float,
+    builtin: bool = False,
+) -> RuleRun | None:
+    """Run ``rule`` on ``design`` within ``budget`` seconds (inside :func:`rule_guards`);
+    None when the rule does not apply to the record."""
+    from emgate.calc.view import UNBALANCED, NotComputed
+
+    ran = RuleRun()
+    items = ran.items
+    crash = ""
+    try:
+        with _plugin_code(budget) as clock:
+            # A pack's rule gets its own copy of the record (0.3 ms): the calculation and
+            # the other rules read the engine's, so writing past the frozen models changes
+            # nothing they see. emgate's own rules share it.
+            own = design if builtin else design.model_copy(deep=True)
+            if design.machine not in rule.machines or not rule.applies(own):
+                return None
+            if rule.needs_balanced_winding and context.sheet.winding_problems:
+                items.append(Problem(winding_path(design), f"not computed: {UNBALANCED}", "info"))
+            else:
+                for item in rule().check(own, options(), context):
+                    bad = _malformed(item)
+                    if bad:
+                        crash = f"it yielded {bad}"
+                        break
+                    items.append(_normal(item))
+                    clock.check()
+            clock.check()  # a rule that swallowed the alarm
+    except NotComputed as exc:
+        items.append(
+            Problem(
+                winding_path(design),
+                f"the record is not verified by this rule: {exc.reason}; {UNBALANCED}",
+            )
+        )
+    except BaseException as exc:  # a rule's SystemExit must not end the run (fail closed)
+        if users_interrupt(exc):
+            raise
+        crash = crash_text(exc)
+    ran.crash = crash
+    return ran
+
+
+def crash_text(exc: BaseException) -> str:
+    if isinstance(exc, _OutOfTime):
+        return str(exc)
+    frames = traceback.extract_tb(exc.__traceback__)
+    where = f" (at {Path(frames[-1].filename).name}:{frames[-1].lineno})" if frames else ""
+    return f"{describe_exception(exc)}{where}"
+
+
+def _malformed(item: object) -> str:
+    """Why a rule's output cannot be reported ('' if it can): the reporters rely on it."""
+    from emgate.units import QuantityError, parse_unit
+
+    def path_problem(path: object) -> str:
+        if not isinstance(path, tuple | list) or not all(
+            isinstance(p, str | int) and not isinstance(p, bool) for p in path
+        ):
+            return f"a record path {_short(path)} that is not a tuple of keys and indices"
+        return ""
+
+    if isinstance(item, Check):
+        for name in ("value", "limit"):
+            v = getattr(item, name)
+            if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+                what = f"a Check of {_short(item.quantity)} whose {name} is {_short(v)}"
+                return f"{what}, not a finite number"
+        for name in ("quantity", "label", "unit", "basis"):
+            if not isinstance(getattr(item, name), str):
+                return f"a Check whose {name} is {_short(getattr(item, name))}, not text"
+        if item.bound not in ("max", "min"):
+            return f"a Check whose bound is {_short(item.bound)}, not 'max' or 'min'"
+        if item.unit not in ("", "1", "degC"):
+            try:
+                parse_unit(item.unit)
+            except QuantityError:
+                return f"a Check whose unit {item.unit!r} emgate does not know"
+        return path_problem(item.path)
+    if isinstance(item, Problem):
+        if not isinstance(item.message, str):
+            return f"a Problem whose message is {_short(item.message)}, not text"
+        if item.severity is not None and item.severity not in SEVERITIES:
+            known = ", ".join(SEVERITIES)
+            return f"a Problem of unknown severity {_short(item.severity)} (not one of {known})"
+        return path_problem(item.path)
+    return f"{_short(item)}, which is neither a Check nor a Problem"
+
+
+def _short(value: object) -> str:
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def _normal(item: Check | Problem) -> Check | Problem:
+    """A valid item with its path as a tuple and its numbers as floats."""
+    if isinstance(item, Check):
+        if type(item.path) is tuple and type(item.value) is type(item.limit) is float:
+            return item
+        return dataclasses.replace(
+            item, path=tuple(item.path), value=float(item.value), limit=float(item.limit)
+        )
+    return item if type(item.path) is tuple else dataclasses.replace(item, path=tuple(item.path))
+
+
+class _OutOfTime(BaseException):
+    """Raised into a rule that overran its time budget (a BaseException, so that a rule's
+    ``except Exception`` does not swallow it)."""
+
+
+class _Clock:
+    #: Whether the run's alarm is installed, and the budget it was last armed with.
+    timer = False
+    armed = 0.0
+
+    def __init__(self, budget: float) -> None:
+        self.budget = budget
+        self.start = time.monotonic()
+
+    def check(self) -> None:
+        if time.monotonic() - self.start > self.budget:
+            raise _OutOfTime(f"it ran longer than its time budget of {self.budget:g} s")
+
+
+@contextmanager
+def rule_guards() -> Iterator[None]:
+    """For the whole run: the user's Ctrl-C told from a rule's own KeyboardInterrupt, and
+    the alarm that ends a rule past its time budget (installed once; each rule arms it)."""
+    timer = hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread()
+    previous = None
+    if timer:
+
+        def alarm(signum: int, frame: object) -> None:
+            raise _OutOfTime(f"it ran longer than its time budget of {_Clock.armed:g} s")
+
+        previous = signal.signal(signal.SIGALRM, alarm)
+    _Clock.timer = timer
+    try:
+        with watching_interrupts():
+            yield
+    finally:
+        if timer:
+            signal.setitimer(signal.ITIMER_REAL, 0.0)
+            signal.signal(signal.SIGALRM, previous)
+        _Clock.timer = False
+
+
+@contextmanager
+def _plugin_code(budget: float) -> Iterator[_Clock]:
+    """Run rule code within its time budget (inside :func:`_rule_guards`).
+
+    The budget is a SIGALRM interval timer on the main thread of a POSIX system: it
+    interrupts pure-Python code and sleeps, but a long call inside a C extension only
+    once it returns to the interpreter. Elsewhere (another thread, Windows) the budget is
+    only checked after each yielded item and at the end: a rule that never returns still
+    holds the run there."""
+    clock = _Clock(budget)
+    if _Clock.timer:
+        _Clock.armed = budget
+        # and again every second, for a rule that catches the first one
+        signal.setitimer(signal.ITIMER_REAL, budget, 1.0)
+    try:
+        yield clock
+    finally:
+        if _Clock.timer:
+            signal.setitimer(signal.ITIMER_REAL, 0.0)

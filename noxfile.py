@@ -1,4 +1,4 @@
-"""Sessions: tests, lint, demo, schema (regenerate the committed JSON Schemas), bench."""
+"""Sessions: tests, lint, demo, schema (regenerate the committed JSON Schemas), bench, fuzz."""
 
 from __future__ import annotations
 
@@ -121,3 +121,21 @@ def bench(session: nox.Session) -> None:
     session.install("-e", ".")
     session.install(PACK)
     session.run("python", "bench/bench.py", *session.posargs)
+
+
+@nox.session
+def fuzz(session: nox.Session) -> None:
+    """The fuzz test at length: 100,000 mutated records, or the count given
+    (``nox -s fuzz -- 20000``); random each run, it stops at the first escape."""
+    session.install("-e", ".[test]")
+    session.install(PACK)
+    count = session.posargs[0] if session.posargs else "100000"
+    session.run(
+        "pytest",
+        "-x",
+        "-q",
+        "tests/test_fuzz.py",
+        "-p",
+        "no:cacheprovider",
+        env={"EMGATE_FUZZ_EXAMPLES": count},
+    )

@@ -9,16 +9,17 @@ from __future__ import annotations
 
 import dataclasses
 import datetime as dt
+import math
 import re
 import time
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Literal
+from typing import TYPE_CHECKING, Literal
 
 from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy, RulePolicy
-from emgate.errors import InputError, InputErrors, display_path
+from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import (
     Finding,
     RecordResult,
@@ -46,10 +47,14 @@ from emgate.terms import (
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,
+    invalid_waivers,
     load_waivers_file,
     record_waivers,
     unknown_record_waivers,
 )
+
+if TYPE_CHECKING:
+    from emgate.calc import Calculation
 
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
 
@@ -86,8 +91,22 @@ class Run:
     remedies: bool = True
 
 
-def discover(paths: Iterable[Path], result: RunResult, verbose: bool = False) -> list[Source]:
-    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema."""
+def discover(
+    paths: Iterable[Path],
+    result: RunResult,
+    policy: Policy | None = None,
+    changes: ChangeSet | None = None,
+    verbose: bool = False,
+) -> list[Source]:
+    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema.
+
+    Fail closed: a file that is not a valid emgate file is an input error when it resembles
+    one (a near-miss ``schema:`` value or key, a list root holding a record, a record's keys
+    with no schema), and, in a configured repository, whenever the configuration's ``files``
+    globs select it or it is named on the command line, unless ``ignore_files`` lists it.
+    Otherwise it is skipped (with a note when named, or with ``verbose``). With a change
+    set, only the files the change touches are held to this.
+    """
     out: list[Source] = []
     seen: set[Path] = set()
     for root in paths:
@@ -104,13 +123,40 @@ def discover(paths: Iterable[Path], result: RunResult, verbose: bool = False) ->
             if key in seen:
                 continue
             seen.add(key)
+            if not explicit and not _within(path, root):
+                result.findings.append(
+                    _input_finding(
+                        InputError(
+                            f"a symbolic link leading outside {display_path(root)}: emgate"
+                            " reads nothing outside the folders it checks",
+                            Location(path, 1, 1, "$"),
+                        )
+                    )
+                )
+                continue
             try:
                 text = read_text(path)
             except InputError as exc:
                 result.findings.append(_input_finding(exc))
                 continue
             m = _DECLARES.search(text[:4096])
-            declared = m.group(1) if m else _declared_by_parsing(path, text)
+            declared = m.group(1) if m and m.group(1) in _KNOWN else None
+            if declared is None:
+                declared, problem, near_miss = _classify(path, text)
+                named = explicit or bool(changes and changes.named and key in changes.files)
+                strict = _strict(path, named, policy)
+                if problem is not None and not near_miss and _ignored(path, policy):
+                    problem = None  # the team says it is no record (a fixture, a draft)
+                if problem is None and strict is not None:
+                    problem = InputError(
+                        "not an emgate file (no 'schema: emgate/...' line at the top level):"
+                        f" {strict}; list it under ignore_files in {CONFIG_NAME} if it is no"
+                        " record",
+                        Location(path, 1, 1, "$"),
+                    )
+                if problem is not None and _touched(changes, key):
+                    result.findings.append(_input_finding(problem))
+                    continue
             if declared is None:
                 # a file named, or --verbose: say so, do not fail (pre-commit passes CI files)
                 if explicit or verbose:
@@ -133,6 +179,115 @@ def discover(paths: Iterable[Path], result: RunResult, verbose: bool = False) ->
     return out
 
 
+#: Top-level keys of emgate records: a file holding one of them is meant as a record.
+RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
+_KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
+
+
+def _within(path: Path, root: Path) -> bool:
+    try:
+        path.resolve().relative_to(root.resolve())
+    except (ValueError, OSError):
+        return False
+    return True
+
+
+def _touched(changes: ChangeSet | None, key: Path) -> bool:
+    """Whether a change (if any) touches a file: an untouched file's problems are its own."""
+    return changes is None or changes.everything or key in changes.files
+
+
+def _ignored(path: Path, policy: Policy | None) -> bool:
+    """Whether a configuration's ignore_files lists a file."""
+    return policy is not None and policy.source is not None and policy.ignored(path)
+
+
+def _strict(path: Path, named: bool, policy: Policy | None) -> str | None:
+    """Why a non-emgate file is an error here (None: it may be skipped)."""
+    if policy is None or policy.source is None or not policy.inside(path):
+        return None
+    if policy.ignored(path):
+        return None
+    if named:
+        return "it is named inside a configured repository"
+    if policy.selects(path):
+        return f"the files globs of {CONFIG_NAME} select it"
+    return None
+
+
+def _classify(path: Path, text: str) -> tuple[str | None, InputError | None, bool]:
+    """A file the schema-line scan misses: (the emgate schema it declares, or None; the
+    reason it is a broken emgate file, or None when it does not resemble one; whether the
+    reason is a near-miss schema key or value, an error even where ignore_files lists it)."""
+    import difflib
+
+    try:
+        doc = load_text(path, text)
+    except InputError as exc:
+        if "emgate" in text.lower() and exc.location is not None:
+            problem = InputError(f"not a valid emgate file: {exc.message}", exc.location)
+            return None, problem, False
+        return None, None, False
+    data = doc.data
+    if isinstance(data, list):
+        if any(isinstance(item, dict) and _resembles(item) for item in data):
+            problem = InputError(
+                "expected a mapping with a 'schema' key at the top level, found a list holding"
+                " a record: an emgate file holds one record, not a list",
+                doc.locate(()),
+            )
+            return None, problem, False
+        return None, None, False
+    if not isinstance(data, dict):
+        return None, None, False
+    for k in data:
+        if k != "schema" and k.strip().lower() == "schema":
+            problem = InputError(
+                f"key {k!r} is not 'schema': emgate reads the key in lower case, without"
+                " spaces; did you mean 'schema'?",
+                doc.locate_key((k,)),
+            )
+            return None, problem, True
+    if "schema" not in data:
+        if _resembles(data):
+            problem = InputError(
+                "a record's keys with no 'schema' key: expected 'schema: emgate/design@1'"
+                " (or another emgate schema) at the top level",
+                doc.locate(()),
+            )
+            return None, problem, False
+        return None, None, False
+    declared = data["schema"]
+    if isinstance(declared, str) and declared in _KNOWN:
+        return declared, None, False  # (flow style, JSON, CR line ends)
+    looks = isinstance(declared, str) and "emgate" in declared.lower()
+    if not looks and not _resembles(data):
+        return None, None, False
+    hint = ""
+    if isinstance(declared, str):
+        close = difflib.get_close_matches(declared.strip().lower(), _KNOWN, n=1, cutoff=0.6)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        if close and declared.strip().lower() != close[0]:
+            hint += " (emgate reads version 1 of each schema)"
+        hint += "; schema ids are lower case, without spaces"
+    shown = (
+        repr(declared)
+        if isinstance(declared, str) and len(declared) <= 40
+        else ("a list" if isinstance(declared, list) else type(declared).__name__)
+    )
+    problem = InputError(
+        f"expected one of {', '.join(repr(s) for s in _KNOWN)}, found {shown}{hint}",
+        doc.locate(("schema",)),
+    )
+    return None, problem, looks
+
+
+def _resembles(data: dict) -> bool:
+    return bool(RECORD_KEYS.intersection(data)) or (
+        isinstance(data.get("schema"), str) and "emgate" in data["schema"].lower()
+    )
+
+
 _RECORD_ID = re.compile(r"^id:\s*['\"]?([a-z0-9][a-z0-9._-]*)", re.MULTILINE)
 
 
@@ -144,18 +299,6 @@ def _repository_record_ids(root: Path) -> set[str]:
         if src.declared == DESIGN_SCHEMA:
             ids.update(_RECORD_ID.findall(src.text))
     return ids
-
-
-def _declared_by_parsing(path: Path, text: str) -> str | None:
-    """The schema of a record the line scan misses (flow style, JSON, CR line ends)."""
-    if "emgate/" not in text:
-        return None
-    try:
-        data = load_text(path, text).data
-    except InputError:
-        return None
-    declared = data.get("schema") if isinstance(data, dict) else None
-    return declared if isinstance(declared, str) and declared.startswith("emgate/") else None
 
 
 def repository_root(start: Path) -> Path | None:
@@ -248,6 +391,7 @@ def input_findings(exc: InputError | InputErrors) -> list[Finding]:
 def execute(run: Run) -> RunResult:
     """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
     from emgate.explain import explain_markdown
+    from emgate.plausible import plausible_calculation
     from emgate.validate import schema_of, validate_design, validate_materials
 
     result = RunResult()
@@ -268,7 +412,7 @@ def execute(run: Run) -> RunResult:
         )
         for rid, lr in sorted(run.plugins.rules.items())
     ]
-    sources = discover(run.paths, result, run.verbose)
+    sources = discover(run.paths, result, run.policy, run.changes, run.verbose)
     named = {src.path.resolve() for src in sources}
     roots = {r for p in run.paths if p.exists() and (r := repository_root(p)) is not None}
     for root in sorted(roots):
@@ -308,6 +452,7 @@ def execute(run: Run) -> RunResult:
             try:
                 design = validate_design(doc)
                 catalogue.resolve(doc, design)
+                calc = plausible_calculation(doc, design, catalogue)
                 if design.id in seen_ids:
                     raise InputError(
                         f"record id {design.id!r} is already used by {seen_ids[design.id]}",
@@ -327,7 +472,9 @@ def execute(run: Run) -> RunResult:
             try:
                 waivers = record_waivers(doc, design.id, list(design.waivers))
                 waivers += file_waivers.get(design.id, [])
-                _check_design(run, ld, catalogue, result, waivers)
+                waivers, bad = invalid_waivers(waivers, run.plugins.rules, doc)
+                result.findings.extend(_input_finding(e) for e in bad)
+                _check_design(run, ld, calc, result, waivers)
             except (InputError, InputErrors) as exc:
                 result.findings.extend(input_findings(exc))
             except Exception as exc:
@@ -369,18 +516,19 @@ def run_root(run: Run) -> Path:
 def _check_design(
     run: Run,
     ld: LoadedDesign,
-    catalogue: Catalogue,
+    calc: Calculation,
     result: RunResult,
     waivers: list[WaiverEntry],
 ) -> None:
-    from emgate.calc import Calculation
+    """Every selected rule on one record. ``calc`` is the record's calculation as the
+    plausibility pass filled it: the rules read those values, not a second computation."""
     from emgate.calc.view import Sheet
 
     design = ld.design
     policy = run.policy.for_file(ld.doc.path)
     record = RecordResult(ld.file, design.id, design.machine)
     result.records.append(record)
-    context = Context(sheet=Sheet(Calculation(design, catalogue)), file=ld.file)
+    context = Context(sheet=Sheet(calc), file=ld.file)
     produced: list[Finding] = []
     try:
         for _, loaded in sorted(run.plugins.rules.items()):
@@ -392,7 +540,7 @@ def _check_design(
         from emgate.remedies import attach_remedies
 
         budget = run.policy.rule_time_budget
-        attach_remedies(ld.doc, catalogue, policy, run.plugins, ld.file, budget, produced)
+        attach_remedies(ld.doc, calc.catalogue, policy, run.plugins, ld.file, budget, produced)
 
 
 def _check_rule(
@@ -471,7 +619,12 @@ def _describe(check: Check) -> str:
 
     word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
     basis = f" ({check.basis})" if check.basis else ""
+    margin = (  # a limit of zero has no relative margin: say by how much instead
+        f"margin {check.margin:+.1%}"
+        if math.isfinite(check.margin)
+        else f"off by {format_value(abs(check.value - check.limit), check.unit)}"
+    )
     return (
         f"{check.label} {format_value(check.value, check.unit)} {word}"
-        f" {format_value(check.limit, check.unit)}{basis}; margin {check.margin:+.1%}"
+        f" {format_value(check.limit, check.unit)}{basis}; {margin}"
     )

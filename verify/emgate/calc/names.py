@@ -229,6 +229,34 @@ ENTRIES: tuple[Entry, ...] = (
         " losses (output = input - losses)",
     ),
     Entry(
+        "rating.power_factor_estimate",
+        "1",
+        "cos phi at the rated point from the design, not from the rated current: active"
+        " current I_a = rating.input_power / (m U_ph), reactive current I_r from the reactive"
+        " power of the T equivalent circuit U I_r = E I_m + X_1 I_1^2 + X_2' I_2'^2 (E = 0.97"
+        " U_ph as in the magnetic circuit, I_m = winding.magnetising_current, X_1 = omega"
+        " times the slot, end and harmonic leakage, X_2' = X_1: the equal split of IEEE Std"
+        " 112, from memory); NaN where that has no root (at E = 0.97 U_ph the rated input"
+        " needs more current than the magnetising current and the leakage allow: past"
+        " pull-out, or a grossly saturated circuit)",
+        ("induction",),
+        only="motors",
+        drivers=(
+            "winding.turns_per_coil",
+            "air_gap",
+            "stator.stack_length",
+        ),
+    ),
+    Entry(
+        "rating.power_factor_nameplate",
+        "1",
+        "the rating's cos phi P2 / (m U_ph I_ph rating.efficiency) = rating.input_power / (m"
+        " U_ph I_ph); sqrt 3 U I for three phases",
+        ("induction",),
+        only="motors",
+        drivers=("rating.line_current",),
+    ),
+    Entry(
         "rating.slip",
         "%",
         "rated slip |1 - n / n_s|, n_s = f / p the synchronous speed (motor or generator)",

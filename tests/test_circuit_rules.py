@@ -363,3 +363,77 @@ def test_cold_magnet_flux_checks_the_cold_case(repo: Path) -> None:
     )
     (finding,) = findings(check_json(path), "cold-magnet-flux")
     assert "the team's limit" in finding["message"]
+
+
+# ------------------------------------------------------------------ the induction motor's cos phi
+
+
+def test_power_factor_estimate_of_the_pump_by_hand() -> None:
+    """The estimate from the pump's own sheet values by the closed form [calc: the reactive
+    power of the T circuit, U I_r = E I_m + X1 I1^2 + X2 I2^2 with X2 = X1, the quadratic's
+    smaller root], E = 0.97 U_ph as the magnetic circuit takes it; beside it the rating's
+    P2 / (m U I eta). A 7.5 kW four-pole 50 Hz enclosed motor has a rated power factor of
+    about 0.80 to 0.87 [mem: manufacturers' catalogues of IE2/IE3 motors]."""
+    q = sheet(PUMP)
+    u = q["winding.phase_voltage"]
+    e = 0.97 * u
+    i_m = q["winding.magnetising_current"]
+    leak = (
+        q["winding.slot_leakage_inductance"]
+        + q["winding.end_leakage_inductance"]
+        + q["winding.harmonic_leakage_coefficient"] * q["winding.magnetising_inductance"]
+    )
+    x = 2.0 * math.pi * 50.0 * leak  # the pump runs at 50 Hz
+    i_a = q["rating.input_power"] / (3.0 * u)
+    i_q = e * i_m / u
+    a, b, c = 2.0 * x, u + 2.0 * x * i_q, e * i_m + 2.0 * x * i_a**2 + x * i_q**2
+    i_r = (b - math.sqrt(b * b - 4.0 * a * c)) / (2.0 * a)
+    assert q["rating.power_factor_estimate"] == pytest.approx(i_a / math.hypot(i_a, i_r), rel=1e-9)
+    # the rating: P_in / (sqrt 3 U_L I_L), 400 V and 14.6 A as the record states (any connection)
+    plate = q["rating.input_power"] / (math.sqrt(3.0) * 400.0 * 14.6)
+    assert q["rating.power_factor_nameplate"] == pytest.approx(plate, rel=EXACT)
+    for pf in (q["rating.power_factor_estimate"], q["rating.power_factor_nameplate"]):
+        assert 0.78 < pf < 0.9  # the catalogue range, 0.02 either side for an estimate
+
+
+def test_a_rated_current_that_does_not_fit_the_design_is_a_nameplate_warning(
+    tmp_path: Path,
+) -> None:
+    # Not checked unless the team sets a tolerance (the sheet shows both values).
+    pf_checks = [
+        c
+        for c in outcome(check_json(PUMP), "nameplate")["checks"]
+        if c["quantity"] == "rating.power_factor_nameplate"
+    ]
+    assert pf_checks == []
+    write_config(tmp_path, "options:\n  nameplate: {power_factor_tolerance: 0.1}\n")
+    # As bundled the two agree within 0.1 (0.844 and 0.846): both bounds pass.
+    bundled = check_json(variant(tmp_path, {}))
+    est = sheet(PUMP)["rating.power_factor_estimate"]
+    for bound, sign in (("min", -1.0), ("max", 1.0)):
+        c = the_check(bundled, "nameplate", "rating.power_factor_nameplate", bound=bound)
+        assert c["passed"] and c["limit"] == pytest.approx(est + sign * 0.1, rel=EXACT)
+    # 19 A for 14.6 A: the rating's cos phi falls by 14.6 / 19 (0.84 to about 0.65), the
+    # design's barely moves (the same active current; only the copper loss grows): a warning
+    # at the rated current, on the lower bound.
+    (tmp_path / "high").mkdir()  # the policy above it applies
+    path = variant(tmp_path / "high", {"rating.line_current": "19 A"})
+    result = check_json(path)
+    low = the_check(result, "nameplate", "rating.power_factor_nameplate", bound="min")
+    assert not low["passed"] and low["record_path"] == "$.rating.line_current"
+    assert the_check(result, "nameplate", "rating.power_factor_nameplate", bound="max")["passed"]
+    warned = [f for f in findings(result, "nameplate") if f["check"]]
+    assert [f["severity"] for f in warned] == ["warning"]
+    assert "power factor" in warned[0]["message"]
+
+
+def test_a_design_without_an_operating_point_says_so(tmp_path: Path) -> None:
+    # The pump with five phases on 20 slots at 400 V per phase: a 2.3 T gap wants a
+    # magnetising current of hundreds of amperes, which no leakage drop lets through at
+    # E = 0.97 U: NaN on the sheet (not a failed calculation), a warning of the rule.
+    write_config(tmp_path, "options:\n  nameplate: {power_factor_tolerance: 0.1}\n")
+    five = {"winding.phases": 5, "stator.slots": 20, "winding.coil_pitch": 4}
+    path = variant(tmp_path, five)
+    assert math.isnan(sheet(path)["rating.power_factor_estimate"] or math.nan)
+    (f,) = [f for f in findings(check_json(path), "nameplate") if "estimate" in f["message"]]
+    assert f["severity"] == "warning" and f["record_path"] == "$.rating.power"

@@ -18,7 +18,7 @@ import pytest_lsp
 from lsprotocol import types
 from pytest_lsp import ClientServerConfig, LanguageClient
 
-from conftest import PUMP
+from conftest import DEMO, PUMP, SERVO
 
 ASYNC = pytest.mark.asyncio(loop_scope="module")
 
@@ -60,7 +60,9 @@ class Editor:
         self.text = path.read_text(encoding="utf-8")
 
     async def published(
-        self, until: Callable[[Sequence[types.Diagnostic]], bool] = lambda d: True
+        self,
+        until: Callable[[Sequence[types.Diagnostic]], bool] = lambda d: True,
+        timeout: float = 10,
     ) -> Sequence[types.Diagnostic]:
         """Wait (10 s at most: a subprocess on a loaded machine) for diagnostics of this
         document that satisfy ``until``."""
@@ -72,7 +74,7 @@ class Editor:
                     return found
                 await self.client.wait_for_notification(types.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS)
 
-        return await asyncio.wait_for(wait(), 10)
+        return await asyncio.wait_for(wait(), timeout)
 
     def forget(self) -> None:
         """Drop the diagnostics received so far, to wait for the next ones."""
@@ -266,6 +268,66 @@ async def test_the_waivers_file_is_checked_in_the_editor(
     assert "pump-drive-4p63s" in errors(found)[0].message
 
 
+def _apply(text: str, edits: Sequence[types.TextEdit]) -> str:
+    """``text`` with LSP edits applied (one line each; the servo record is ASCII, so UTF-16
+    units and code points agree)."""
+    lines = text.splitlines(keepends=True)
+    for te in sorted(edits, key=lambda t: (t.range.start.line, t.range.start.character))[::-1]:
+        start, end = te.range.start, te.range.end
+        assert start.line == end.line
+        row = lines[start.line]
+        lines[start.line] = row[: start.character] + te.new_text + row[end.character :]
+    return "".join(lines)
+
+
+@ASYNC
+async def test_a_remedy_is_a_quick_fix_that_clears_its_finding(
+    client: LanguageClient, tmp_path: Path
+) -> None:
+    repo = tmp_path / "demo"
+    shutil.copytree(DEMO, repo)
+    (repo / ".git").mkdir()
+    record = Editor(client, repo / "designs" / SERVO.name)
+    record.open()
+
+    def density_fails(d: Sequence[types.Diagnostic]) -> bool:
+        return any(x.code == "current-density" for x in errors(d))
+
+    # the servo's stator current density breaks its limit on purpose; opening computes
+    # remedies, some tens of milliseconds a failing check (a generous wait on a loaded host)
+    found = await record.published(density_fails, timeout=60)
+    (density,) = [d for d in found if d.code == "current-density"]
+    params = types.CodeActionParams(
+        text_document=types.TextDocumentIdentifier(uri=record.uri),
+        range=density.range,
+        context=types.CodeActionContext(diagnostics=[density]),
+    )
+    actions = await client.text_document_code_action_async(params)
+    fixes = [
+        a
+        for a in actions or []
+        if isinstance(a, types.CodeAction)
+        and [d.code for d in a.diagnostics or []] == [density.code]
+    ]
+    assert fixes and all(a.kind == types.CodeActionKind.QuickFix for a in fixes)
+    assert all(a.title.startswith("fix: ") for a in fixes)
+    # preferred exactly when the remedy breaks no other check (its title says what it breaks)
+    assert all(a.is_preferred == ("but breaks" not in a.title) for a in fixes)
+    (chosen,) = [a for a in fixes if a.is_preferred]
+    assert chosen.edit is not None and chosen.edit.changes is not None
+    edits = chosen.edit.changes[record.uri]
+    assert edits
+    fixed = _apply(record.text, edits)
+    assert fixed != record.text
+    record.edit(record.text, fixed)
+    # re-checked on the change: the finding clears (or the wait times out and fails)
+    after = await record.published(lambda d: not density_fails(d), timeout=30)
+    assert all(d.code != "current-density" for d in after)
+    # the edited text is not the one the remedies were computed on: no stale quick fix
+    stale = await client.text_document_code_action_async(params)
+    assert not stale
+
+
 def test_columns_are_utf16_units_as_lsp_counts_them() -> None:
     from emgate.lsp.server import _code_points, _utf16
 
@@ -276,3 +338,19 @@ def test_columns_are_utf16_units_as_lsp_counts_them() -> None:
     assert _utf16(line, 0, after_emoji) == after_emoji + 1
     assert _utf16(line, 0, 12) == 12  # before the emoji, code points and units agree
     assert _code_points(line, 0, _utf16(line, 0, after_emoji)) == after_emoji
+
+
+def test_a_keystrokes_check_skips_remedies_and_an_open_computes_them() -> None:
+    from emgate.lsp.gate import check_open
+    from emgate.plugins import load_plugins
+    from emgate.remedies import remedies_for
+
+    plugins = load_plugins()
+    path = SERVO.resolve()
+    quick = check_open(path, {}, plugins, remedies=False).result
+    full = check_open(path, {}, plugins).result
+    failing = [f for f in full.findings if f.check is not None and not f.check.passed]
+    assert failing and all(remedies_for(f) for f in failing)
+    assert all(remedies_for(f) == [] for f in quick.findings)
+    # the same findings either way: remedies add, they do not change the verdict
+    assert [(f.rule, f.line) for f in quick.findings] == [(f.rule, f.line) for f in full.findings]

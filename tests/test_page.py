@@ -165,6 +165,50 @@ def test_checks_fail_first_with_their_basis() -> None:
     assert all(c.basis for c in page.checks)
 
 
+def test_the_servos_page_lists_its_remedies_as_the_text_report_does() -> None:
+    """The judge is the text report of the same run: every remedy line it prints under a
+    finding appears, escaped, in the row under that failing check on the page, and no
+    other; a passing check has none."""
+    from html import unescape
+
+    report = run_cli("check", "--format", "text", SERVO)
+    assert report.code == 1, report.err
+    # text report: "<file>:<line>:<col>: <severity> <rule>: ..." then the remedy lines
+    expected: dict[str, list[str]] = {}
+    rule = ""
+    for line in report.out.splitlines():
+        if m := re.match(r"\s+\S+:\d+:\d+: \w+ ([\w/.-]+): ", line):
+            rule = m.group(1)
+        elif line.startswith("      ") and rule:
+            expected.setdefault(rule, []).append(line.strip())
+    assert sum(map(len, expected.values())) >= 3  # the servo fails on purpose
+    done = run_cli("show", SERVO, "--format", "html")
+    assert done.code == 0, done.err
+    table = done.out.split('id="checks-table"', 1)[1].split("<tbody>", 1)[1]
+    table = table.split("</tbody>", 1)[0]
+    rows = re.findall(r"<tr( class=\"[^\"]*\")?>(.*?)</tr>", table)
+    shown: dict[str, list[str]] = {}
+    for (cls, row), (_, below) in zip(rows, [*rows[1:], ("", "")], strict=True):
+        if cls == ' class="remedies"':
+            continue
+        rule_cell = re.search(r'<td class="name">([^<]*)</td>', row)
+        assert rule_cell is not None
+        items = re.findall(r"<li>(.*?)</li>", below) if 'colspan="6"' in below else []
+        if cls != ' class="fail"':
+            assert items == [], row  # a passing check has no remedy row
+            continue
+        # escaped: "->" and the unit's "^" come through as text, not markup
+        assert all("<" not in i and "->" not in i for i in items)
+        shown.setdefault(unescape(rule_cell.group(1)), []).extend(map(unescape, items))
+    assert {r: sorted(v) for r, v in shown.items() if v} == {
+        r: sorted(v) for r, v in expected.items()
+    }
+    page = _gather(SERVO)
+    density = next(c for c in page.checks if c.rule == "current-density")
+    assert density.remedies and density.remedies[0].old == "0.71 mm"
+    assert all(r.text.startswith(("fix: ", "no fix")) for r in density.remedies)
+
+
 def test_slot_drawing_places_every_strand_of_the_demo_records() -> None:
     """Every conductor of the demo records fits the drawing's simple packing, each strand
     inside the slot's winding zone net of the liner."""

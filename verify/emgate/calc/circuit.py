@@ -8,7 +8,7 @@ ambient, and the cold magnet's EMF at the top speed.
 from __future__ import annotations
 
 import math
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from emgate import geometry as geo
 from emgate.calc import conductors, magnetic, rotor, winding
@@ -373,6 +373,50 @@ def magnetising_current(c: Calculation) -> float:
             d.pole_pairs,
         )
     )
+
+
+#: Rotor leakage reactance X_2' over the stator's X_1 for the power-factor estimate: the
+#: equal split of the locked-rotor reactance of IEEE Std 112 for design A and D and wound
+#: rotors (from memory, as tabulated in Chapman, ch. "Induction motors"); design B puts
+#: 0.6 / 0.4 on the rotor.
+ROTOR_LEAKAGE_SHARE = 1.0
+
+
+def _motor(d: Any) -> bool:
+    return bool(d.rating.operation == "motor")
+
+
+@quantity("rating.power_factor_estimate", when=_motor)
+def power_factor_estimate(c: Calculation) -> float:
+    from emgate.calc import losses
+    from emgate.physics.inductance import power_factor_estimate as estimate
+    from emgate.physics.magnetic import InductionResult
+
+    d = c.d
+    voltage = winding.phase_voltage(c)
+    circuit = magnetic.magnetic(c)
+    assert isinstance(circuit, InductionResult)
+    x1 = 2.0 * math.pi * d.rating.frequency * leakage_inductance(c)
+    # NaN where the model has no operating point (its method says when): a number the
+    # sheet shows, as the efficiency class outside its standard, not a failed calculation
+    return float(
+        estimate(
+            losses.input_power(c) / (d.winding.phases * voltage),
+            magnetising_current(c),
+            circuit.emf,
+            voltage,
+            x1,
+            ROTOR_LEAKAGE_SHARE * x1,
+        )
+    )
+
+
+@quantity("rating.power_factor_nameplate", when=_motor)
+def power_factor_nameplate(c: Calculation) -> float:
+    from emgate.calc import losses
+
+    apparent = c.d.winding.phases * winding.phase_voltage(c) * winding.phase_current(c)
+    return float(losses.input_power(c) / apparent)
 
 
 # --- wound-field machines: the field on load -----------------------------------------------

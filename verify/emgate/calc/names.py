@@ -100,6 +100,10 @@ ENTRIES: tuple[Entry, ...] = (
         "losses.friction_windage of the record when declared (measured), else the estimate"
         " k D (l + 0.6 tau_p) v^2, v = pi D n, k = 15 W s^2/m^4 with a shaft fan and 10"
         " without (common practice, after Pyrhonen; from memory)",
+        drivers=(
+            "stator.bore_diameter",
+            "stator.stack_length",
+        ),
     ),
     Entry(
         "losses.rotor",
@@ -114,6 +118,11 @@ ENTRIES: tuple[Entry, ...] = (
         " bound from the travelling waves of the staircase MMF, B_n = mu0 F_n / g_m seen at"
         " |n/p -+ 1| omega by unsegmented magnets of unlimited length, resistance limited"
         " (rho 1.4 uOhm m); slot-permeance and inverter harmonics not included",
+        drivers=(
+            "rotor.field.current",
+            "rating.speed",
+            "air_gap",
+        ),
     ),
     Entry(
         "losses.stator_copper",
@@ -121,11 +130,23 @@ ENTRIES: tuple[Entry, ...] = (
         "m I^2 R at the reference temperature of the insulation class, the IEC 60034-2-1"
         " basis of the efficiency (the thermal estimate re-evaluates it at"
         " winding.operating_temperature)",
+        drivers=(
+            "winding.conductor.bare_diameter",
+            "winding.conductor.width",
+            "winding.conductor.strands",
+            "winding.turns_per_coil",
+        ),
     ),
     Entry(
         "losses.stator_iron",
         "W",
         "losses.stator_iron_teeth plus losses.stator_iron_yoke",
+        drivers=(
+            "stator.stack_length",
+            "stator.slot.height",
+            "winding.turns_per_coil",
+            "stator.outer_diameter",
+        ),
     ),
     Entry(
         "losses.stator_iron_teeth",
@@ -138,12 +159,22 @@ ENTRIES: tuple[Entry, ...] = (
         " (f B)^1.5 (15 % of the non-classical part) (Bertotti); no-load flux for magnet and"
         " field machines; valid while the sheet is thinner than the skin depth (above, it"
         " overstates)",
+        drivers=(
+            "stator.stack_length",
+            "stator.slot.height",
+            "winding.turns_per_coil",
+        ),
     ),
     Entry(
         "losses.stator_iron_yoke",
         "W",
         "as losses.stator_iron_teeth at stator.yoke_flux_density with the yoke mass and a"
         " build factor of 1.5",
+        drivers=(
+            "stator.outer_diameter",
+            "stator.stack_length",
+            "winding.turns_per_coil",
+        ),
     ),
     Entry(
         "losses.stray_load",
@@ -156,6 +187,13 @@ ENTRIES: tuple[Entry, ...] = (
         "losses.total",
         "W",
         "stator copper, stator iron, rotor, stray load, friction and windage",
+        drivers=(
+            "winding.conductor.bare_diameter",
+            "winding.conductor.width",
+            "winding.conductor.strands",
+            "winding.turns_per_coil",
+            "stator.stack_length",
+        ),
     ),
     Entry(
         "magnetic.total_mmf",
@@ -167,6 +205,13 @@ ENTRIES: tuple[Entry, ...] = (
         "1",
         "output over input, P2 / (P2 + losses.total), copper at the reference temperature of"
         " the insulation class (the IEC 60034-2-1 basis of IEC 60034-30-1)",
+        drivers=(
+            "winding.conductor.bare_diameter",
+            "winding.conductor.width",
+            "winding.conductor.strands",
+            "winding.turns_per_coil",
+            "stator.stack_length",
+        ),
     ),
     Entry(
         "rating.efficiency_class",
@@ -183,6 +228,34 @@ ENTRIES: tuple[Entry, ...] = (
         "kW",
         "motor: electrical input P2 + losses.total; generator: shaft input, output plus"
         " losses (output = input - losses)",
+    ),
+    Entry(
+        "rating.power_factor_estimate",
+        "1",
+        "cos phi at the rated point from the design, not from the rated current: active"
+        " current I_a = rating.input_power / (m U_ph), reactive current I_r from the reactive"
+        " power of the T equivalent circuit U I_r = E I_m + X_1 I_1^2 + X_2' I_2'^2 (E = 0.97"
+        " U_ph as in the magnetic circuit, I_m = winding.magnetising_current, X_1 = omega"
+        " times the slot, end and harmonic leakage, X_2' = X_1: the equal split of IEEE Std"
+        " 112, from memory); NaN where that has no root (at E = 0.97 U_ph the rated input"
+        " needs more current than the magnetising current and the leakage allow: past"
+        " pull-out, or a grossly saturated circuit)",
+        ("induction",),
+        only="motors",
+        drivers=(
+            "winding.turns_per_coil",
+            "air_gap",
+            "stator.stack_length",
+        ),
+    ),
+    Entry(
+        "rating.power_factor_nameplate",
+        "1",
+        "the rating's cos phi P2 / (m U_ph I_ph rating.efficiency) = rating.input_power / (m"
+        " U_ph I_ph); sqrt 3 U I for three phases",
+        ("induction",),
+        only="motors",
+        drivers=("rating.line_current",),
     ),
     Entry(
         "rating.slip",
@@ -301,6 +374,11 @@ ENTRIES: tuple[Entry, ...] = (
         " ambient: H_0 from Br there and, without a declared peak current, the"
         " short-circuit current of the cold magnet",
         ("surface_pm",),
+        drivers=(
+            "rotor.magnet.thickness",
+            "rating.peak_current",
+            "air_gap",
+        ),
     ),
     Entry(
         "rotor.magnet_field_strength_fault_hot",
@@ -309,6 +387,11 @@ ENTRIES: tuple[Entry, ...] = (
         " d-axis, magnet at its operating temperature: H_0 - (i / (sqrt 2 I_ph)) F_max /"
         " (h_m + mu_rec kc g), F_max = winding.mmf_peak at rated current",
         ("surface_pm",),
+        drivers=(
+            "rotor.magnet.thickness",
+            "rating.peak_current",
+            "air_gap",
+        ),
     ),
     Entry(
         "rotor.magnet_field_strength_worst",
@@ -356,6 +439,10 @@ ENTRIES: tuple[Entry, ...] = (
         "kN/m^2",
         "air-gap tangential stress T / (2 V_r), V_r = pi D_r^2 l / 4, D_r = D - 2 g the"
         " rotor's outer diameter, T = rating.torque",
+        drivers=(
+            "stator.stack_length",
+            "stator.bore_diameter",
+        ),
     ),
     Entry(
         "rotor.tooth_flux_density",
@@ -482,6 +569,11 @@ ENTRIES: tuple[Entry, ...] = (
         " `separator` option sets another), a liner t at the bottom and under the wedge, the"
         " wedge h_w",
         only="rectangular strands in an open slot",
+        drivers=(
+            "stator.slot.height",
+            "winding.conductor.insulated_height",
+            "winding.turns_per_coil",
+        ),
     ),
     Entry(
         "stator.slot_permeance",
@@ -551,6 +643,11 @@ ENTRIES: tuple[Entry, ...] = (
         "as stator.tooth_flux_density_apparent with the magnet at the lowest ambient"
         " (cooling.ambient_min, -15 degC when absent)",
         ("surface_pm",),
+        drivers=(
+            "stator.slot.top_width",
+            "stator.slot.width",
+            "rotor.magnet.thickness",
+        ),
     ),
     Entry(
         "stator.tooth_flux_density_cold",
@@ -580,6 +677,11 @@ ENTRIES: tuple[Entry, ...] = (
         "as stator.yoke_flux_density with the magnet at the lowest ambient"
         " (cooling.ambient_min, -15 degC when absent)",
         ("surface_pm",),
+        drivers=(
+            "stator.outer_diameter",
+            "stator.slot.height",
+            "rotor.magnet.thickness",
+        ),
     ),
     Entry(
         "stator.yoke_height",
@@ -605,6 +707,11 @@ ENTRIES: tuple[Entry, ...] = (
         " degC when absent) at the top speed (rating.max_speed, the rated speed when"
         " absent): as winding.back_emf, B1 from the cold circuit, f n_max / n",
         ("surface_pm",),
+        drivers=(
+            "winding.turns_per_coil",
+            "rotor.magnet.thickness",
+            "stator.stack_length",
+        ),
     ),
     Entry(
         "winding.copper_loss",
@@ -670,6 +777,7 @@ ENTRIES: tuple[Entry, ...] = (
         "1",
         "largest single MMF harmonic of order below p over the working harmonic (exact"
         " spectrum); 0 for p = 1 and for integral-slot windings",
+        drivers=("winding.coil_pitch",),
     ),
     Entry(
         "winding.mmf_peak",

@@ -30,10 +30,13 @@ class Checked:
     read_by_others: bool = False
 
 
-def check_open(path: Path, buffers: Mapping[Path, str], plugins: PluginSet) -> Checked:
+def check_open(
+    path: Path, buffers: Mapping[Path, str], plugins: PluginSet, *, remedies: bool = True
+) -> Checked:
     """The gate's result for the open document ``path`` (resolved), reading every file that
     ``buffers`` holds from there. A record is checked alone; ``emgate.yaml`` and the waivers
-    file are checked with every record the policy names, as they are read for those."""
+    file are checked with every record the policy names, as they are read for those.
+    ``remedies`` computes the remedies of failing checks (off on every keystroke)."""
     from emgate.config import find_config, load_policy
     from emgate.engine import Run, discover, execute, input_findings
     from emgate.errors import InputError, InputErrors
@@ -59,7 +62,13 @@ def check_open(path: Path, buffers: Mapping[Path, str], plugins: PluginSet) -> C
             upstream |= {policy.waivers_file.resolve()}
         whole = path in upstream  # the policy or the waivers file: read for every record
         paths = policy.configured_files() if whole else [path]
-        run = Run(paths=paths, policy=policy, plugins=plugins, today=dt.date.today())
+        run = Run(
+            paths=paths,
+            policy=policy,
+            plugins=plugins,
+            today=dt.date.today(),
+            remedies=remedies,
+        )
         return Checked(execute(run), upstream, shared)
     finally:
         BUFFERS.reset(token)

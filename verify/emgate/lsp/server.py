@@ -1,9 +1,12 @@
-"""The language server over stdio (pygls, lsprotocol): diagnostics and hover.
+"""The language server over stdio (pygls, lsprotocol): diagnostics, hover, quick fixes.
 
 Every open, change (full text) and save of a YAML document runs the gate on it
 (:func:`emgate.lsp.gate.check_open`) and publishes its findings; a change to anything but a
 design record (the policy, the waivers file, a materials file) re-checks every open
 document, since each of them reads it. Hover on a record key lists the checks it drives.
+Open and save also compute remedies (some tens of milliseconds a failing check, too slow
+for every keystroke); each remedy that fixes its check is a quick fix on the finding, offered
+while the text is the one the remedies were computed on (their edits locate its scalars).
 """
 
 from __future__ import annotations
@@ -23,8 +26,10 @@ from emgate.lsp.gate import (
     hover_markdown,
     key_at,
     marks,
+    names,
 )
 from emgate.plugins import PluginSet
+from emgate.remedies import remedies_for
 
 SEVERITY = {
     "error": types.DiagnosticSeverity.Error,
@@ -40,6 +45,8 @@ class GateServer(LanguageServer):
         )
         self.plugins = plugins
         self.checked: dict[str, Checked] = {}  # uri -> the last run for that document
+        # uri -> (the text, the last run with remedies on it): the quick fixes' source
+        self.remedied: dict[str, tuple[str, Checked]] = {}
 
     def buffers(self) -> dict[Path, str]:
         out = {}
@@ -49,20 +56,23 @@ class GateServer(LanguageServer):
                 out[path] = doc.source
         return out
 
-    def check(self, uri: str) -> None:
+    def check(self, uri: str, remedies: bool = True) -> None:
         path = _path(uri)
         if path is None or path.suffix not in (".yaml", ".yml"):
             return
         text = self.workspace.get_text_document(uri).source
         try:
-            checked = check_open(path, self.buffers(), self.plugins)
+            checked = check_open(path, self.buffers(), self.plugins, remedies=remedies)
             found = marks(checked, path, text)
         except Exception as exc:  # fail closed: say so on the document, keep serving
             self.checked.pop(uri, None)
+            self.remedied.pop(uri, None)
             message = f"emgate internal error, the file is not checked: {type(exc).__name__}: {exc}"
             found = [Mark(0, 0, max(len(text.split("\n", 1)[0]), 1), "error", "crash", message)]
         else:
             self.checked[uri] = checked
+            if remedies:
+                self.remedied[uri] = (text, checked)
         lines = text.splitlines() or [""]
         diagnostics = [
             types.Diagnostic(
@@ -85,13 +95,60 @@ class GateServer(LanguageServer):
             )
         )
 
-    def changed(self, uri: str) -> None:
-        self.check(uri)
+    def changed(self, uri: str, remedies: bool = True) -> None:
+        self.check(uri, remedies)
         checked = self.checked.get(uri)
         if checked is not None and checked.read_by_others:
             for other in list(self.workspace.text_documents):
                 if other != uri:
-                    self.check(other)
+                    self.check(other, remedies)
+
+    def quick_fixes(
+        self, uri: str, wanted: types.Range, diagnostics: list[types.Diagnostic]
+    ) -> list[types.CodeAction]:
+        """A quick fix for each remedy that fixes a finding of the document on a line of
+        ``wanted``: its edits as the text's UTF-16 ranges, preferred when it breaks nothing.
+        None while the text differs from the one the remedies were computed on."""
+        path = _path(uri)
+        text = self.workspace.get_text_document(uri).source
+        source = self.remedied.get(uri)
+        if path is None or source is None or source[0] != text:
+            return []
+        lines = text.splitlines() or [""]
+        actions = []
+        for f in source[1].result.findings:
+            line = f.line - 1
+            if not names(f.file, path) or not wanted.start.line <= line <= wanted.end.line:
+                continue
+            mine = [d for d in diagnostics if d.code == f.rule and d.range.start.line == line]
+            for r in remedies_for(f):
+                if r.status != "fix" or not r.edits:
+                    continue
+                edits = [
+                    types.TextEdit(
+                        range=types.Range(
+                            start=types.Position(
+                                line=e.line - 1, character=_utf16(lines, e.line - 1, e.column - 1)
+                            ),
+                            end=types.Position(
+                                line=e.end_line - 1,
+                                character=_utf16(lines, e.end_line - 1, e.end_column - 1),
+                            ),
+                        ),
+                        new_text=e.new,
+                    )
+                    for e in r.edits
+                ]
+                actions.append(
+                    types.CodeAction(
+                        title=r.describe(),
+                        kind=types.CodeActionKind.QuickFix,
+                        diagnostics=mine or None,
+                        is_preferred=not r.breaks,
+                        edit=types.WorkspaceEdit(changes={uri: edits}),
+                    )
+                )
+        return actions
 
 
 def _utf16(lines: list[str], line: int, column: int) -> int:
@@ -125,7 +182,7 @@ def build(plugins: PluginSet) -> GateServer:
 
     @server.feature(types.TEXT_DOCUMENT_DID_CHANGE)
     def did_change(ls: GateServer, params: types.DidChangeTextDocumentParams) -> None:
-        ls.changed(params.text_document.uri)
+        ls.changed(params.text_document.uri, remedies=False)  # every keystroke: no remedies
 
     @server.feature(types.TEXT_DOCUMENT_DID_SAVE)
     def did_save(ls: GateServer, params: types.DidSaveTextDocumentParams) -> None:
@@ -134,6 +191,7 @@ def build(plugins: PluginSet) -> GateServer:
     @server.feature(types.TEXT_DOCUMENT_DID_CLOSE)
     def did_close(ls: GateServer, params: types.DidCloseTextDocumentParams) -> None:
         ls.checked.pop(params.text_document.uri, None)
+        ls.remedied.pop(params.text_document.uri, None)
         ls.text_document_publish_diagnostics(
             types.PublishDiagnosticsParams(uri=params.text_document.uri, diagnostics=[])
         )
@@ -155,6 +213,20 @@ def build(plugins: PluginSet) -> GateServer:
             return None
         return types.Hover(
             contents=types.MarkupContent(kind=types.MarkupKind.Markdown, value=markdown)
+        )
+
+    @server.feature(
+        types.TEXT_DOCUMENT_CODE_ACTION,
+        types.CodeActionOptions(code_action_kinds=[types.CodeActionKind.QuickFix]),
+    )
+    def code_action(ls: GateServer, params: types.CodeActionParams) -> list[types.CodeAction]:
+        only = params.context.only
+        if only is not None and not any(
+            types.CodeActionKind.QuickFix.value.startswith(getattr(k, "value", k)) for k in only
+        ):
+            return []
+        return ls.quick_fixes(
+            params.text_document.uri, params.range, list(params.context.diagnostics)
         )
 
     return server

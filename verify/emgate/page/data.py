@@ -148,6 +148,21 @@ class Thermal:
 
 
 @dataclass(frozen=True)
+class RemedyRow:
+    """One remedy of a failing check (:class:`emgate.remedy.Remedy` as plain text): the
+    field, its value in the record and the suggested one, the check's margin there [1] and
+    the checks that would newly fail; ``text`` is the report's line."""
+
+    field: str
+    status: str
+    old: str
+    new: str
+    margin: float
+    breaks: tuple[str, ...]
+    text: str
+
+
+@dataclass(frozen=True)
 class CheckRow:
     rule: str
     quantity: str
@@ -163,6 +178,10 @@ class CheckRow:
     record_path: str
     severity: str = ""
     waived: bool = False
+    #: What would make a failing check pass, as the text report lists it under the finding.
+    remedies: tuple[RemedyRow, ...] = ()
+    #: The line for a check no single field can fix ('' otherwise).
+    remedy_summary: str = ""
 
 
 @dataclass(frozen=True)
@@ -552,6 +571,7 @@ def _thermal(page: PageData, d: Any, calc: Any) -> None:
 
 
 def _checks(page: PageData, result: RunResult, record: RecordResult | None) -> None:
+    from emgate.remedies import remedies_for_check, summary
     from emgate.report.common import check_display
     from emgate.terms import path_string
 
@@ -586,6 +606,7 @@ def _checks(page: PageData, result: RunResult, record: RecordResult | None) -> N
         )
         for c in o.checks:
             finding = next((f for f in mine if f.rule == o.rule and f.check == c), None)
+            remedies = remedies_for_check(result, c)
             page.checks.append(
                 CheckRow(
                     o.rule,
@@ -602,6 +623,19 @@ def _checks(page: PageData, result: RunResult, record: RecordResult | None) -> N
                     path_string(c.path),
                     finding.severity if finding else "",
                     bool(finding and finding.waived_by),
+                    tuple(
+                        RemedyRow(
+                            r.field_name,
+                            r.status,
+                            r.old,
+                            r.new,
+                            r.margin,
+                            r.breaks,
+                            r.describe(),
+                        )
+                        for r in remedies
+                    ),
+                    summary(remedies),
                 )
             )
     # Failing first, then the closest to its limit.

@@ -59,6 +59,8 @@ th{background:#f0f0f0}
 td.num{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
 td.name{font-family:ui-monospace,Menlo,Consolas,monospace;white-space:nowrap}
 tr.fail td{background:#fbe9df}
+tr.remedies td{background:#fdf5f0;border-bottom:1px solid var(--line)}
+ul.remedies{margin:2px 0 4px;padding-left:20px;overflow-wrap:anywhere}
 #slot-table td,#slot-table th{padding:2px 4px;text-align:center;white-space:nowrap}
 td.ph-A{background:#dcebf5}td.ph-B{background:#f8e1d3}td.ph-C{background:#d6efe7}
 .tag{font-weight:700}.tag.fail{color:var(--fail)}.tag.pass{color:var(--pass)}
@@ -169,7 +171,21 @@ def _margin(c: CheckRow) -> str:
     return "inside (limit 0)" if c.passed else "beyond (limit 0)"
 
 
+def remedy_cell(c: CheckRow, columns: int) -> str:
+    """A failing check's remedies as one cell across the table ('' when it has none): each
+    the text report's line, escaped."""
+    lines = [r.text for r in c.remedies] + ([c.remedy_summary] if c.remedy_summary else [])
+    if not lines:
+        return ""
+    items = "".join(f"<li>{e(line)}</li>" for line in lines)
+    return (
+        f'<td colspan="{columns}"><span class="meta">what would make it pass (one field'
+        f' alone, every rule re-run):</span><ul class="remedies">{items}</ul></td>'
+    )
+
+
 def check_rows(checks: list[CheckRow]) -> tuple[list[list[str]], list[str]]:
+    """The checks table's rows, each failing check followed by a row of its remedies."""
     rows, classes = [], []
     for c in checks:
         if c.passed:
@@ -188,6 +204,9 @@ def check_rows(checks: list[CheckRow]) -> tuple[list[list[str]], list[str]]:
             ]
         )
         classes.append("" if c.passed else "fail")
+        if cell := remedy_cell(c, len(rows[-1])):
+            rows.append([cell])
+            classes.append("remedies")
     return rows, classes
 
 

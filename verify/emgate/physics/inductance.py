@@ -30,6 +30,7 @@ __all__ = [
     "magnetising_current",
     "magnetising_inductance",
     "open_slot_permeance",
+    "power_factor_estimate",
     "salient_pole_axis_factors",
     "semi_closed_slot_permeance",
     "shaft_torque",
@@ -628,6 +629,66 @@ def magnetising_current(
     return _out(
         np.pi * pole_pairs * total_mmf / (np.sqrt(2.0) * phases * winding_factor * series_turns)
     )
+
+
+def power_factor_estimate(
+    active_current: Num,
+    magnetising_current: Num,
+    emf: Num,
+    phase_voltage: Num,
+    stator_leakage_reactance: Num,
+    rotor_leakage_reactance: Num,
+) -> Num:
+    """Power factor of an induction machine at a load, from its active current, its
+    magnetising current and its leakage reactances (no rated current needed).
+
+    The reactive power of one phase of the T equivalent circuit,
+    U I_r = E I_m + X_1 I_1^2 + X_2' I_2'^2, with I_1^2 = I_a^2 + I_r^2 and the rotor current
+    the stator current less the magnetising current, E taken in phase with U:
+    I_2'^2 = I_a^2 + (I_r - I_q)^2, I_q = E I_m / U. That is a quadratic in I_r,
+    a I_r^2 - b I_r + c = 0 with a = X_1 + X_2', b = U + 2 X_2' I_q and
+    c = E I_m + a I_a^2 + X_2' I_q^2, whose smaller root (the stable branch) is
+    I_r = 2 c / (b + sqrt(b^2 - 4 a c)); cos phi = I_a / sqrt(I_a^2 + I_r^2). The iron-loss
+    current, part of I_a, is carried through the rotor branch (a small overstatement of
+    I_2'). Without a real root (b^2 < 4 a c) the active current is more than the leakage
+    lets the machine carry (past pull-out): NaN.
+
+    Parameters
+    ----------
+    active_current : float or numpy.ndarray
+        I_a = P_e / (m U), P_e the electrical power (a motor's input) [A], rms.
+    magnetising_current : float or numpy.ndarray
+        I_m at the EMF E [A], rms.
+    emf : float or numpy.ndarray
+        Air-gap EMF E behind the stator impedance [V], rms.
+    phase_voltage : float or numpy.ndarray
+        Terminal phase voltage U [V], rms.
+    stator_leakage_reactance, rotor_leakage_reactance : float or numpy.ndarray
+        X_1 and X_2' (referred to the stator) [ohm], >= 0.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        cos phi [-], lagging.
+
+    References
+    ----------
+    The T equivalent circuit of the induction machine and its reactive power: S. J. Chapman,
+    *Electric Machinery Fundamentals*, McGraw-Hill, ch. "Induction motors", the equivalent
+    circuit and its power flow (from memory); the quadratic is derived here.
+    """
+    _positive("power-factor inputs", active_current, magnetising_current, emf, phase_voltage)
+    _non_negative("leakage reactances", stator_leakage_reactance, rotor_leakage_reactance)
+    ia = np.asarray(active_current, dtype=float)
+    iq = np.asarray(emf, dtype=float) * magnetising_current / phase_voltage
+    x2 = np.asarray(rotor_leakage_reactance, dtype=float)
+    a = stator_leakage_reactance + x2
+    b = phase_voltage + 2.0 * x2 * iq
+    c = np.asarray(emf, dtype=float) * magnetising_current + a * ia**2 + x2 * iq**2
+    disc = b**2 - 4.0 * a * c
+    with np.errstate(invalid="ignore"):
+        reactive = np.where(disc >= 0.0, 2.0 * c / (b + np.sqrt(np.maximum(disc, 0.0))), np.nan)
+    return _out(ia / np.hypot(ia, reactive))
 
 
 # --- wound-field generators --------------------------------------------------------------

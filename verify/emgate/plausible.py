@@ -107,7 +107,7 @@ def sheet_problems(calc: Calculation) -> list[tuple[RecordPath, str]]:
         except Exception:  # emgate's own bug, not the input's: the rule
             continue  # that needs the quantity reports it as its crash (exit 3)
         else:
-            if math.isfinite(value):
+            if math.isfinite(value) or (math.isnan(value) and SHEET[name].nan_is_answer):
                 continue
             reason = f"it comes out as {value}"
         at = driving_field(name)

@@ -56,7 +56,9 @@ def sheet_values(
             error = ""
         except (ValueError, ArithmeticError) as exc:
             value, error = None, f"not computed: {exc}"
-        if value is not None and not math.isfinite(value):  # never a silent null
+        if value is not None and math.isnan(value) and entry.nan_is_answer:
+            pass  # the model's own answer: no such operating point (the method says when)
+        elif value is not None and not math.isfinite(value):  # never a silent null
             value, error = None, f"not computed: the value is not finite ({value})"
         out[name] = (value, entry.unit, entry.method, error)
     grades = [("stator", design.stator.steel)]
@@ -113,7 +115,12 @@ def show(path: Path, fmt: str) -> int:
         if head != group:
             say(f"[{head}]")
             group = head
-        shown = problem if value is None else format_value(value, "" if unit == "1" else unit, 5)
+        if value is None:
+            shown = problem
+        elif math.isnan(value):  # an entry whose NaN is an answer
+            shown = "none (see method)"
+        else:
+            shown = format_value(value, "" if unit == "1" else unit, 5)
         say(f"  {name:<{width}}  {shown:>16}   {method}")
     say()
     say(DISCLAIMER)

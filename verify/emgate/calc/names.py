@@ -27,6 +27,9 @@ class Entry:
     #: as dotted record paths; fields the record does not have are skipped (a round wire
     #: has no width). Remedies (``emgate.remedies``) try the first three a record has.
     drivers: tuple[str, ...] = ()
+    #: NaN is an answer, not a failed calculation: the model has no such operating point
+    #: for this design (its method says when), which its rule reports as a finding.
+    nan_is_answer: bool = False
 
     @property
     def scope(self) -> str:
@@ -242,6 +245,7 @@ ENTRIES: tuple[Entry, ...] = (
         " pull-out, or a grossly saturated circuit)",
         ("induction",),
         only="motors",
+        nan_is_answer=True,
         drivers=(
             "winding.turns_per_coil",
             "air_gap",

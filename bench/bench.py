@@ -71,7 +71,9 @@ def child(cmd: list[str], cwd: Path | None = None) -> tuple[float, float, int]:
     return usage.ru_utime + usage.ru_stime, wall, usage.ru_maxrss
 
 
-def interleave(commands: dict[str, tuple[list[str], Path | None]], rounds: int) -> dict[str, Sample]:
+def interleave(
+    commands: dict[str, tuple[list[str], Path | None]], rounds: int
+) -> dict[str, Sample]:
     """Run every command once per round, in turn; one warm-up round is discarded."""
     samples = {name: Sample() for name in commands}
     for r in range(rounds + 1):
@@ -195,7 +197,9 @@ def main() -> None:
     line(f"emgate check, {n} records", s["big"], one, "one")
     slope = (s["big"].median_cpu() - s["small"].median_cpu()) / (n - quarter)
     beyond = (s["big"].median_cpu() - one.median_cpu()) / n
-    print(f"  CPU per record, slope {quarter} -> {n}:            {slope * 1e3:6.2f} ms (target <= 2)")
+    print(
+        f"  CPU per record, slope {quarter} -> {n}:            {slope * 1e3:6.2f} ms (target <= 2)"
+    )
     print(f"  CPU per record beyond one check, {n} records:  {beyond * 1e3:6.2f} ms")
     grow = (s["big"].median_rss() - s["small"].median_rss()) / (n - quarter)
     print(f"  peak memory per extra record:                  {grow:6.2f} KiB")

@@ -32,6 +32,14 @@ def _date(text: str) -> dt.date:
         raise argparse.ArgumentTypeError(f"expected a date YYYY-MM-DD, found {text!r}") from None
 
 
+def _jobs(text: str) -> int:
+    if not text.isdigit() or int(text) < 1:
+        raise argparse.ArgumentTypeError(
+            f"expected a whole number of processes >= 1, found {text!r}"
+        )
+    return int(text)
+
+
 def _parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="emgate",
@@ -65,6 +73,13 @@ def _parser() -> argparse.ArgumentParser:
         " that changed materials or configuration affect",
     )
     c.add_argument("--today", type=_date, help="judge waiver expiry as of this date")
+    c.add_argument(
+        "--jobs",
+        type=_jobs,
+        metavar="N",
+        help="worker processes for the records (default: the available cores); the report"
+        " is the same as with --jobs 1",
+    )
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path)
     s.add_argument("--format", default="text", choices=["text", "json"])
@@ -281,6 +296,9 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
         return result.exit_code
     if args.today:
         run.today = args.today
+    from emgate.parallel import available_cores
+
+    run.jobs = args.jobs or available_cores()
     result = execute(run)
     return max(result.exit_code, _emit(result, outputs))
 

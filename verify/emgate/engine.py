@@ -17,7 +17,7 @@ from typing import Literal
 
 from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy, RulePolicy
-from emgate.errors import InputError, InputErrors, display_path
+from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
@@ -71,6 +71,8 @@ class Run:
     #: With --changed-since, only the records the change touches are checked (and a waiver
     #: for a record outside the run is not reported as unknown).
     changes: ChangeSet | None = None
+    #: Worker processes for the records (1: this process); the report is the same.
+    jobs: int = 1
 
 
 def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
@@ -240,7 +242,7 @@ def input_findings(exc: InputError | InputErrors) -> list[Finding]:
 
 def execute(run: Run) -> RunResult:
     """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
-    from emgate.validate import schema_of, validate_design, validate_materials
+    from emgate.validate import schema_of, validate_materials
 
     result = RunResult()
     for error in run.plugins.errors:
@@ -258,14 +260,26 @@ def execute(run: Run) -> RunResult:
         sources += [m for m in materials_sources(root) if m.path.resolve() not in named]
         named |= {m.path.resolve() for m in sources}
     result.files_read = len(sources)
+    # Materials (and any file not declared a design) first: the catalogue is complete
+    # before the first record is checked. Design files then stream through one at a time
+    # (parsed, checked, dropped), in this process or in --jobs worker processes.
     docs: list[tuple[Source, Document, str]] = []
+    designs: list[Source] = []
     for src in sources:
+        if src.declared == DESIGN_SCHEMA:
+            designs.append(src)
+            continue
         try:
             doc = load_text(src.path, src.text)
-            docs.append((src, doc, schema_of(doc)))
+            kind = schema_of(doc)
+            if kind == DESIGN_SCHEMA:  # its first schema line and its parsed key disagree
+                raise InputError(
+                    f"expected one schema: the first 'schema:' line says {src.declared!r},"
+                    f" the parsed document {kind!r}",
+                    doc.locate(("schema",)),
+                )
+            docs.append((src, doc, kind))
         except (InputError, InputErrors) as exc:
-            if _untouched_record(run, src):
-                continue  # a broken record the change does not touch is its author's to fix
             result.findings.extend(input_findings(exc))
     file_waivers: dict[str, list[WaiverEntry]] = {}
     if run.policy.waivers_file is not None:
@@ -281,40 +295,31 @@ def execute(run: Run) -> RunResult:
             except (InputError, InputErrors) as exc:
                 catalogue.failed.append(display_path(doc.path))
                 result.findings.extend(input_findings(exc))
+    del docs  # nothing below reads the materials documents again
     seen_ids: dict[str, str] = {}
     with rule_guards():
-        for _, doc, kind in docs:
-            if kind != DESIGN_SCHEMA:
-                continue
-            if run.changes is not None and not run.changes.touches(doc.path, doc.data):
-                continue
-            try:
-                design = validate_design(doc)
-                catalogue.resolve(doc, design)
-                if design.id in seen_ids:
-                    raise InputError(
-                        f"record id {design.id!r} is already used by {seen_ids[design.id]}",
-                        doc.locate(("id",)),
+        from emgate.parallel import ordered_map
+
+        def one(src: Source) -> RecordDone:
+            return check_source(run, src, catalogue, file_waivers)
+
+        for done in ordered_map(one, designs, run.jobs):
+            if done.record_id is not None and done.record_id in seen_ids:
+                # the same verdict as a serial run: a record whose id is taken is not checked
+                result.findings.append(
+                    _input_finding(
+                        InputError(
+                            f"record id {done.record_id!r} is already used by"
+                            f" {seen_ids[done.record_id]}",
+                            done.id_location,
+                        )
                     )
-            except (InputError, InputErrors) as exc:
-                result.findings.extend(input_findings(exc))
+                )
                 continue
-            except (ValueError, ArithmeticError) as exc:  # absurd numbers validation let through
-                result.findings.append(_record_failure(doc, "input", exc))
-                continue
-            except Exception as exc:  # emgate's own bug: this record only, the others go on
-                result.findings.append(_record_failure(doc, "crash", exc))
-                continue
-            seen_ids[design.id] = display_path(doc.path)
-            ld = LoadedDesign(doc, design, display_path(doc.path))
-            try:
-                waivers = record_waivers(doc, design.id, list(design.waivers))
-                waivers += file_waivers.get(design.id, [])
-                _check_design(run, ld, catalogue, result, waivers)
-            except (InputError, InputErrors) as exc:
-                result.findings.extend(input_findings(exc))
-            except Exception as exc:
-                result.findings.append(_record_failure(doc, "crash", exc, design.id))
+            if done.record_id is not None:
+                seen_ids[done.record_id] = done.file
+            result.findings.extend(done.findings)
+            result.records.extend(done.records)
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | _repository_record_ids(run.policy.root)
         result.findings.extend(
@@ -337,6 +342,76 @@ def execute(run: Run) -> RunResult:
             )
     result.sort()
     return result
+
+
+@dataclass
+class RecordDone:
+    """What checking one design file gave, for the run to collect in order: its findings
+    and record result, and the id it claims (None when it did not validate)."""
+
+    file: str
+    findings: list[Finding] = field(default_factory=list)
+    records: list[RecordResult] = field(default_factory=list)
+    record_id: str | None = None
+    id_location: Location | None = None
+
+
+def check_source(
+    run: Run, src: Source, catalogue: Catalogue, file_waivers: dict[str, list[WaiverEntry]]
+) -> RecordDone:
+    """Load, validate and check one design file; never raises for the record's own faults.
+    The id it claims is compared with the other records' by the caller, in file order."""
+    from emgate.validate import schema_of, validate_design
+
+    done = RecordDone(display_path(src.path))
+    if _untouched_record(run, src) and not run.changes.grades:  # type: ignore[union-attr]
+        return done  # outside the change by its path alone: not even parsed
+    try:
+        doc = load_text(src.path, src.text)
+        kind = schema_of(doc)
+    except (InputError, InputErrors) as exc:
+        if not _untouched_record(run, src):  # a broken record outside a change is its author's
+            done.findings.extend(input_findings(exc))
+        return done
+    if kind != DESIGN_SCHEMA:  # its first schema line and its parsed key disagree
+        done.findings.append(
+            _input_finding(
+                InputError(
+                    f"expected one schema: the first 'schema:' line says {DESIGN_SCHEMA!r},"
+                    f" the parsed document {kind!r}",
+                    doc.locate(("schema",)),
+                )
+            )
+        )
+        return done
+    if run.changes is not None and not run.changes.touches(doc.path, doc.data):
+        return done
+    partial = RunResult()
+    try:
+        design = validate_design(doc)
+        catalogue.resolve(doc, design)
+    except (InputError, InputErrors) as exc:
+        done.findings.extend(input_findings(exc))
+        return done
+    except (ValueError, ArithmeticError) as exc:  # absurd numbers validation let through
+        done.findings.append(_record_failure(doc, "input", exc))
+        return done
+    except Exception as exc:  # emgate's own bug: this record only, the others go on
+        done.findings.append(_record_failure(doc, "crash", exc))
+        return done
+    done.record_id, done.id_location = design.id, doc.locate(("id",))
+    ld = LoadedDesign(doc, design, done.file)
+    try:
+        waivers = record_waivers(doc, design.id, list(design.waivers))
+        waivers += file_waivers.get(design.id, [])
+        _check_design(run, ld, catalogue, partial, waivers)
+    except (InputError, InputErrors) as exc:
+        partial.findings.extend(input_findings(exc))
+    except Exception as exc:
+        partial.findings.append(_record_failure(doc, "crash", exc, design.id))
+    done.findings.extend(partial.findings)
+    done.records = partial.records
+    return done
 
 
 def _check_design(

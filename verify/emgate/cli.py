@@ -84,6 +84,20 @@ def _parser() -> argparse.ArgumentParser:
     s.add_argument("file", type=Path)
     s.add_argument("--format", default="text", choices=["text", "json"])
     s.add_argument("--config", type=Path)
+    w = sub.add_parser(
+        "sweep", help="check variants of a record over a grid or random sample of its fields"
+    )
+    w.add_argument("record", type=Path)
+    w.add_argument("spec", type=Path, help="the sweep: fields and their ranges or values")
+    w.add_argument("--out", type=Path, help="table of variants: FILE.csv or FILE.parquet")
+    w.add_argument(
+        "--scheduler",
+        default="local",
+        help="local (default: a Dask cluster on this machine's cores), tcp://HOST:PORT"
+        " (a running Dask scheduler), or none (this process)",
+    )
+    w.add_argument("--chunk", type=_jobs, default=256, help="variants per task (default 256)")
+    w.add_argument("--config", type=Path)
     r = sub.add_parser("rules", help="list every installed rule")
     r.add_argument("--format", default="text", choices=["text", "json"])
     e = sub.add_parser("explain", help="print a rule's method, formulas and sources")
@@ -151,6 +165,8 @@ def _dispatch(args: argparse.Namespace) -> int:
         from emgate.scaffold import init
 
         return init(args.dir)
+    if args.command == "sweep":
+        return _sweep(args)
     if args.command == "show":
         from emgate.sheet import show
 
@@ -301,6 +317,21 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
     run.jobs = args.jobs or available_cores()
     result = execute(run)
     return max(result.exit_code, _emit(result, outputs))
+
+
+def _sweep(args: argparse.Namespace) -> int:
+    from emgate.errors import InputError, InputErrors
+    from emgate.sweep import SweepRun, sweep
+
+    try:
+        return sweep(
+            SweepRun(args.record, args.spec, args.out, args.scheduler, args.chunk, args.config)
+        )
+    except (InputError, InputErrors) as exc:
+        for err in exc.errors if isinstance(exc, InputErrors) else [exc]:
+            where = f"{err.location}: " if err.location else ""
+            print(f"emgate sweep: {where}{err.message}", file=sys.stderr)
+        return EXIT_INPUT
 
 
 def _inside(path: Path, root: Path) -> bool:

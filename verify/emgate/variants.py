@@ -1,0 +1,196 @@
+"""Variants of one record: fields changed in its raw data, each variant through validation,
+the calculation and every selected rule, as for a record of its own.
+
+One piece of code for the sweeps (``emgate sweep``) and the tolerance corners (the rule
+``tolerance-corners``): a variant is the record's raw data with some fields set, so that the
+model validates it (a variant the model refuses is reported, not computed), and the rules
+see it exactly as they would see a record with those values.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+from emgate.errors import InputError, InputErrors
+from emgate.loader import Document
+
+if TYPE_CHECKING:
+    from emgate.config import RulePolicy
+    from emgate.materials import Catalogue
+    from emgate.plugins import PluginSet
+
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+
+
+def split_quantity(value: Any) -> tuple[float, str] | None:
+    """A record value as (number, unit text): '0.45 mm' -> (0.45, 'mm'), 21 -> (21.0, '');
+    None for text that is not a number with a unit (a steel grade, a connection)."""
+    if isinstance(value, bool):
+        return None
+    if isinstance(value, int | float):
+        return float(value), ""
+    if isinstance(value, str):
+        m = _NUMBER_UNIT.match(value)
+        if m:
+            return float(m.group(1)), m.group(2)
+    return None
+
+
+def record_value(number: float, unit: str, like: Any) -> Any:
+    """A number in the form the record writes it: text with its unit, or a bare number (an
+    int where the record's value is an int and the number is whole)."""
+    if unit:
+        return f"{number!r} {unit}"
+    if isinstance(like, int) and not isinstance(like, bool) and float(number).is_integer():
+        return int(number)
+    return number
+
+
+def dotted_path(dotted: str) -> tuple[str | int, ...]:
+    return tuple(int(p) if p.isdigit() else p for p in dotted.split("."))
+
+
+def get_field(data: Any, path: Sequence[str | int]) -> Any:
+    node = data
+    for part in path:
+        node = node[part]  # KeyError / IndexError / TypeError: the caller locates it
+    return node
+
+
+def _copy(node: Any) -> Any:
+    """A copy of plain loaded data (dicts, lists, scalars): deepcopy's work, a tenth the time."""
+    if isinstance(node, dict):
+        return {k: _copy(v) for k, v in node.items()}
+    if isinstance(node, list):
+        return [_copy(v) for v in node]
+    return node
+
+
+def with_fields(data: Any, changes: Mapping[tuple[str | int, ...], Any]) -> Any:
+    """A copy of ``data`` with the value at each path set (mappings on the way created)."""
+    out = _copy(data)
+    for path, value in changes.items():
+        node = out
+        for part in path[:-1]:
+            if isinstance(node, dict) and part not in node:
+                node[part] = {}
+            node = node[part]
+        node[path[-1]] = value
+    return out
+
+
+@dataclass
+class RuleVerdict:
+    """One rule on one variant: its status, and the margin of its closest check (relative:
+    positive inside the limit; None when it yielded no check)."""
+
+    status: str  # pass, fail, crash, not_applicable
+    margin: float | None = None
+    quantity: str = ""  # the sheet name of its closest check
+    message: str = ""
+
+
+@dataclass
+class VariantResult:
+    """A variant: why it is not valid ('' when it is), its sheet, and each rule's verdict."""
+
+    invalid: str = ""
+    sheet: dict[str, float] = field(default_factory=dict)
+    rules: dict[str, RuleVerdict] = field(default_factory=dict)
+
+    @property
+    def feasible(self) -> bool:
+        return not self.invalid and all(
+            v.status in ("pass", "not_applicable") for v in self.rules.values()
+        )
+
+    def binding(self) -> tuple[str, float] | None:
+        """The rule whose closest check is closest to (or furthest past) its limit."""
+        scored = [(v.margin, rid) for rid, v in self.rules.items() if v.margin is not None]
+        if not scored:
+            return None
+        margin, rid = min(scored)
+        return rid, margin
+
+
+@dataclass
+class Evaluator:
+    """Evaluates variants of one loaded record under one run's plugins, policy and steels."""
+
+    doc: Document
+    catalogue: Catalogue
+    plugins: PluginSet
+    policy: RulePolicy
+    budget: float = 60.0
+    #: rules not run on the variants (the tolerance rule itself)
+    skip: frozenset[str] = frozenset()
+
+    def evaluate(
+        self, changes: Mapping[tuple[str | int, ...], Any], *, sheet: bool = True
+    ) -> VariantResult:
+        from emgate.calc import Calculation
+        from emgate.calc.view import Sheet
+        from emgate.engine import _describe
+        from emgate.rule import Check, Context
+        from emgate.runner import run_rule
+        from emgate.validate import validate_design
+
+        out = VariantResult()
+        data = with_fields(self.doc.data, changes) if changes else self.doc.data
+        doc = Document(
+            self.doc.path, data, self.doc.marks, self.doc.key_marks, self.doc.collections
+        )
+        try:
+            design = validate_design(doc)
+            self.catalogue.resolve(doc, design)
+        except (InputError, InputErrors) as exc:
+            errors = exc.errors if isinstance(exc, InputErrors) else [exc]
+            first = errors[0]
+            where = first.location.record_path if first.location else "$"
+            out.invalid = f"{where}: {first.message}"
+            return out
+        calc = Calculation(design, self.catalogue)
+        context = Context(sheet=Sheet(calc), file=str(self.doc.path))
+        for rid, loaded in sorted(self.plugins.rules.items()):
+            rule = loaded.rule
+            if rid in self.skip or not self.policy.selected(rule):
+                continue
+            builtin = loaded.pack.distribution == "emgate"
+            ran = run_rule(
+                rule,
+                design,
+                lambda r=rule: self.policy.options_for(r),
+                context,
+                self.budget,
+                builtin,
+            )
+            if ran is None:
+                out.rules[rid] = RuleVerdict("not_applicable")
+                continue
+            severity = self.policy.severity_for(rule)
+            verdict = RuleVerdict("pass")
+            closest: Check | None = None
+            for item in ran.items:
+                if isinstance(item, Check):
+                    if closest is None or item.margin < closest.margin:
+                        closest = item
+                    if not item.passed and severity == "error":
+                        verdict.status, verdict.message = "fail", _describe(item)
+                elif (item.severity or severity) == "error":
+                    verdict.status, verdict.message = "fail", item.message
+            if closest is not None:
+                verdict.margin, verdict.quantity = closest.margin, closest.quantity
+            if ran.crash:
+                verdict.status, verdict.message = "crash", ran.crash
+            out.rules[rid] = verdict
+        if sheet:
+            for name in context.sheet:
+                try:
+                    out.sheet[name] = context.sheet[name]
+                except (ValueError, ArithmeticError):
+                    out.sheet[name] = math.nan
+        return out

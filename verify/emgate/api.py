@@ -26,7 +26,8 @@ that ``emgate show`` prints; they never see the mutable calculation.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
+from collections.abc import Iterator
+from typing import TYPE_CHECKING, Any
 
 from emgate.calc.names import Entry
 from emgate.calc.view import NotComputed, Sheet
@@ -110,6 +111,7 @@ __all__ = [
     "quantity",
     "ratio",
     "temperature_rise_limit",
+    "tolerance_findings",
     "winding_path",
 ]
 
@@ -120,6 +122,14 @@ def temperature_rise_limit(insulation_class: str) -> float:
     from emgate.physics.conductors import temperature_rise_limit as lookup
 
     return lookup(insulation_class)
+
+
+def tolerance_findings(design: AnyDesign, context: Context, **how: Any) -> Iterator[Any]:
+    """(record path, message) of every rule failing across the record's tolerances
+    (``emgate.tolerances``: worst corner or Monte Carlo, ``how`` its options)."""
+    from emgate.tolerances import tolerance_findings as judge
+
+    return judge(design, context, **how)
 
 
 _PERCENT = r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d{1,3})?\s*%\s*$"

@@ -19,6 +19,7 @@ from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy, RulePolicy
 from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.findings import describe_check as _describe
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
 from emgate.model import AnyDesign
@@ -33,6 +34,7 @@ from emgate.terms import (
     RecordPath,
     Severity,
 )
+from emgate.variants import Evaluator
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,
@@ -42,6 +44,9 @@ from emgate.waivers import (
 )
 
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
+#: Rules not run on variants of a record (sweeps, tolerance corners): the one that re-runs
+#: the others on variants, and the designer's declared figures, which are the nominal's.
+TOLERANCE_RULES = frozenset({"tolerance-corners", "declared-values"})
 SKIP_DIRS = {".git", ".hg", ".svn", ".nox", ".tox", ".venv", "venv", "node_modules", "__pycache__"}
 
 
@@ -428,7 +433,10 @@ def _check_design(
     policy = run.policy.for_file(ld.doc.path)
     record = RecordResult(ld.file, design.id, design.machine)
     result.records.append(record)
-    context = Context(sheet=Sheet(Calculation(design, catalogue)), file=ld.file)
+    variants = Evaluator(
+        ld.doc, catalogue, run.plugins, policy, run.policy.rule_time_budget, TOLERANCE_RULES
+    )
+    context = Context(Sheet(Calculation(design, catalogue)), ld.file, variants)
     produced: list[Finding] = []
     try:
         for _, loaded in sorted(run.plugins.rules.items()):
@@ -504,15 +512,4 @@ def _finding(
         record_id=ld.design.id,
         kind=kind,
         check=check,
-    )
-
-
-def _describe(check: Check) -> str:
-    from emgate.units import format_value
-
-    word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
-    basis = f" ({check.basis})" if check.basis else ""
-    return (
-        f"{check.label} {format_value(check.value, check.unit)} {word}"
-        f" {format_value(check.limit, check.unit)}{basis}; margin {check.margin:+.1%}"
     )

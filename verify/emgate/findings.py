@@ -107,3 +107,15 @@ class RunResult:
 
 def relative_file(path: Path) -> str:
     return display_path(path)
+
+
+def describe_check(check: Check) -> str:
+    """The words of a failed check: value, limit, basis and margin."""
+    from emgate.units import format_value
+
+    word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
+    basis = f" ({check.basis})" if check.basis else ""
+    return (
+        f"{check.label} {format_value(check.value, check.unit)} {word}"
+        f" {format_value(check.limit, check.unit)}{basis}; margin {check.margin:+.1%}"
+    )

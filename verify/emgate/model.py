@@ -10,7 +10,14 @@ from __future__ import annotations
 import datetime as dt
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, StringConstraints
+from pydantic import (
+    AfterValidator,
+    BaseModel,
+    BeforeValidator,
+    ConfigDict,
+    Field,
+    StringConstraints,
+)
 
 from emgate.quantity import (
     Current,
@@ -312,6 +319,13 @@ class SalientRotor(Strict):
 # --- designs ----------------------------------------------------------------------------
 
 
+def _tolerance_text(text: str) -> str:
+    from emgate.tolerances import parse_tolerance
+
+    parse_tolerance(text)  # a ToleranceError is a ValueError: pydantic reports it located
+    return text
+
+
 class DesignBase(Strict):
     schema_: Literal["emgate/design@1"] = Field(alias="schema")
     id: Slug
@@ -330,6 +344,11 @@ class DesignBase(Strict):
         " declared-values rule",
     )
     waivers: list[Waiver] = Field(default_factory=list)
+    tolerances: dict[str, Annotated[str, AfterValidator(_tolerance_text)]] = Field(
+        default_factory=dict,
+        description="manufacturing tolerances by dotted record path, for the"
+        " tolerance-corners rule: '+-0.05 mm', '+0.02 mm -0.05 mm', '+-3 %', 'normal 0.02 mm'",
+    )
 
     @property
     def pole_pairs(self) -> int:

@@ -42,15 +42,9 @@ from pathlib import Path
 from typing import Any, TextIO
 
 from emgate.errors import InputError, InputErrors
+from emgate.fields import dotted_path, get_field, record_value, split_quantity
 from emgate.loader import Document
-from emgate.variants import (
-    Evaluator,
-    VariantResult,
-    dotted_path,
-    get_field,
-    record_value,
-    split_quantity,
-)
+from emgate.variants import Evaluator, VariantResult
 
 SWEEP_SCHEMA = "emgate/sweep@1"
 #: Variants in one task: enough to amortise a task's round trip (some ms), few enough that
@@ -500,7 +494,7 @@ def prepare(run: SweepRun) -> tuple[Evaluator, Spec, Columns]:
     """Load record, spec, policy, plugins and steels (InputError(s), located, when bad)."""
     from emgate.calc import SHEET
     from emgate.config import find_config, load_policy
-    from emgate.engine import discover_materials
+    from emgate.engine import TOLERANCE_RULES, discover_materials
     from emgate.loader import load
     from emgate.plugins import load_plugins
     from emgate.validate import schema_of, validate_design
@@ -525,7 +519,7 @@ def prepare(run: SweepRun) -> tuple[Evaluator, Spec, Columns]:
         plugins,
         rule_policy,
         policy.rule_time_budget,
-        frozenset({"tolerance-corners"}),
+        TOLERANCE_RULES,
     )
     selected = [
         rid

@@ -28,7 +28,7 @@ def record_value(number: float, unit: str, like: Any) -> Any:
     """A number in the form the record writes it: text with its unit, or a bare number (an
     int where the record's value is an int and the number is whole)."""
     if unit:
-        return f"{number!r} {unit}"
+        return f"{float(number)!r} {unit}"
     if isinstance(like, int) and not isinstance(like, bool) and float(number).is_integer():
         return int(number)
     return number

@@ -259,9 +259,15 @@ def execute(run: Run) -> RunResult:
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     sources = discover(run.paths, result)
-    named = {src.path.resolve() for src in sources}
-    roots = {r for p in run.paths if p.exists() and (r := repository_root(p)) is not None}
+    where = {id(src): src.path.resolve() for src in sources}  # each path resolved once
+    named = set(where.values())
+    # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
+    folders = {p if p.is_dir() else p.parent for p in run.paths if p.exists()}
+    roots = {r for f in folders if (r := repository_root(f)) is not None}
+    searched = {p.resolve() for p in run.paths if p.is_dir()}
     for root in sorted(roots):
+        if root in searched:
+            continue  # its materials files are among the sources already
         sources += [m for m in materials_sources(root) if m.path.resolve() not in named]
         named |= {m.path.resolve() for m in sources}
     result.files_read = len(sources)
@@ -272,6 +278,14 @@ def execute(run: Run) -> RunResult:
     designs: list[Source] = []
     for src in sources:
         if src.declared == DESIGN_SCHEMA:
+            changes = run.changes
+            if (
+                changes is not None
+                and not changes.everything
+                and not changes.grades
+                and where.get(id(src), src.path.resolve()) not in changes.files
+            ):
+                continue  # outside the change by its path alone: not even parsed
             designs.append(src)
             continue
         try:
@@ -369,8 +383,6 @@ def check_source(
     from emgate.validate import schema_of, validate_design
 
     done = RecordDone(display_path(src.path))
-    if _untouched_record(run, src) and not run.changes.grades:  # type: ignore[union-attr]
-        return done  # outside the change by its path alone: not even parsed
     try:
         doc = load_text(src.path, src.text)
         kind = schema_of(doc)

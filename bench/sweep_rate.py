@@ -32,7 +32,7 @@ def main() -> None:
     with tempfile.TemporaryDirectory() as tmp:
         spec = Path(tmp) / "spec.yaml"
         spec.write_text(
-            "schema: emgate/sweep@1\nsample: random\n"
+            "sample: random\n"
             f"count: {full}\nseed: 1\nfields:\n"
             "  air_gap: {from: 0.35 mm, to: 0.65 mm}\n"
             "  winding.turns_per_coil: {from: 17, to: 25}\n"

@@ -14,7 +14,6 @@ from conftest import DEMO, PUMP, run_cli, show_json, write_variant
 from emgate.sweep import SweepRun, prepare, run_chunk
 
 SPEC = """\
-schema: emgate/sweep@1
 sample: grid
 fields:
   air_gap: {from: 0.35 mm, to: 0.55 mm, steps: 3}
@@ -71,7 +70,7 @@ def test_each_variant_equals_the_record_written_with_its_values(tmp_path: Path) 
 def test_a_random_sample_does_not_depend_on_how_it_is_chunked(tmp_path: Path) -> None:
     spec = write_spec(
         tmp_path,
-        "schema: emgate/sweep@1\nsample: random\ncount: 12\nseed: 3\nfields:\n"
+        "sample: random\ncount: 12\nseed: 3\nfields:\n"
         "  air_gap: {from: 0.35 mm, to: 0.55 mm}\n  stator.steel: [M400-50A, M270-35A]\n",
     )
     evaluator, sp, cols = prepare(SweepRun(PUMP, spec, scheduler="none"))
@@ -86,7 +85,7 @@ def test_a_random_sample_does_not_depend_on_how_it_is_chunked(tmp_path: Path) ->
 def test_a_variant_the_model_refuses_is_reported_not_computed(tmp_path: Path) -> None:
     spec = write_spec(
         tmp_path,
-        "schema: emgate/sweep@1\nfields:\n  winding.turns_per_coil: [21, 0]\n",
+        "fields:\n  winding.turns_per_coil: [21, 0]\n",
     )
     out = tmp_path / "s.csv"
     assert run_cli("sweep", PUMP, spec, "--scheduler", "none", "--out", out).code == 0
@@ -98,13 +97,14 @@ def test_a_variant_the_model_refuses_is_reported_not_computed(tmp_path: Path) ->
 @pytest.mark.parametrize(
     ("text", "expected"),
     [
-        ("schema: emgate/sweep@1\nfields:\n  air_gaps: [1 mm]\n", "no field 'air_gaps'"),
+        ("fields:\n  air_gaps: [1 mm]\n", "no field 'air_gaps'"),
+        ("schema: emgate/sweep@1\nfields:\n  air_gap: [1 mm]\n", "unknown key 'schema'"),
         (
-            "schema: emgate/sweep@1\nfields:\n  air_gap: {from: 1 mm, to: 0.5 mm, steps: 2}\n",
+            "fields:\n  air_gap: {from: 1 mm, to: 0.5 mm, steps: 2}\n",
             "from <= to",
         ),
-        ("schema: emgate/sweep@1\nfields:\n  air_gap: {from: 0.3 mm, to: 0.5 mm}\n", "steps"),
-        ("schema: emgate/sweep@1\nsample: lattice\nfields:\n  air_gap: [1 mm]\n", "grid"),
+        ("fields:\n  air_gap: {from: 0.3 mm, to: 0.5 mm}\n", "steps"),
+        ("sample: lattice\nfields:\n  air_gap: [1 mm]\n", "grid"),
     ],
 )
 def test_a_bad_spec_is_a_located_input_error(tmp_path: Path, text: str, expected: str) -> None:

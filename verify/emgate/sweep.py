@@ -3,7 +3,6 @@ variant through validation, the calculation and all selected rules.
 
 The spec (YAML)::
 
-    schema: emgate/sweep@1
     sample: grid            # or random (then: count, seed)
     fields:
       air_gap: {from: 0.35 mm, to: 0.65 mm, steps: 7}      # evenly spaced, ends included
@@ -46,7 +45,6 @@ from emgate.fields import dotted_path, get_field, record_value, split_quantity
 from emgate.loader import Document
 from emgate.variants import Evaluator, VariantResult
 
-SWEEP_SCHEMA = "emgate/sweep@1"
 #: Variants in one task: enough to amortise a task's round trip (some ms), few enough that
 #: the chunks in flight stay small [common practice, no source].
 DEFAULT_CHUNK = 256
@@ -117,14 +115,13 @@ def parse_spec(spec_doc: Document, record: Document) -> Spec:
     errors: list[InputError] = []
     if not isinstance(data, dict):
         raise InputErrors([_spec_error(spec_doc, (), "expected a mapping with 'fields'")])
-    known = {"schema", "sample", "count", "seed", "fields"}
+    # no `schema:` key: a spec kept in a design repository is no record for `emgate check`
+    known = {"sample", "count", "seed", "fields"}
     for key in data:
         if key not in known:
             errors.append(
                 _spec_error(spec_doc, (key,), f"unknown key {key!r}; expected {sorted(known)}")
             )
-    if data.get("schema", SWEEP_SCHEMA) != SWEEP_SCHEMA:
-        errors.append(_spec_error(spec_doc, ("schema",), f"expected {SWEEP_SCHEMA!r}"))
     sample = data.get("sample", "grid")
     if sample not in ("grid", "random"):
         errors.append(_spec_error(spec_doc, ("sample",), "expected 'grid' or 'random'"))
@@ -602,7 +599,7 @@ def bench_rates(
     with tempfile.TemporaryDirectory() as tmp:
         spec = Path(tmp) / "spec.yaml"
         spec.write_text(
-            "schema: emgate/sweep@1\nsample: random\ncount: 64\nseed: 1\nfields:\n"
+            "sample: random\ncount: 64\nseed: 1\nfields:\n"
             "  air_gap: {from: 0.35 mm, to: 0.65 mm}\n"
             "  winding.turns_per_coil: {from: 18, to: 24}\n"
         )

@@ -57,15 +57,6 @@ def _real_tooth_b(b_app: np.ndarray, ks: np.ndarray, curve: BHCurve) -> np.ndarr
     return np.minimum(root, b_app)
 
 
-def _yoke_voltage(b_peak: np.ndarray, path_length: float, curve: BHCurve) -> np.ndarray:
-    """The sinusoidal yoke integral of :func:`emgate.physics.iron.yoke_magnetic_voltage`
-    for every variant at once (the same nodes and weights)."""
-    from emgate.physics.iron import _NODES, _WEIGHTS
-
-    h = h_from_b(curve, np.multiply.outer(b_peak, np.sin(0.5 * np.pi * _NODES)))
-    return np.asarray(path_length * (np.asarray(h) @ _WEIGHTS))
-
-
 @dataclass
 class Nominal:
     """What the variants share, taken from the nominal record's scalar calculation."""
@@ -87,7 +78,11 @@ def evaluate(
     """Sheet quantities [SI] of N variants (arrays of equal length; turns whole numbers)."""
     from emgate.calc import Calculation, conductors, magnetic, winding
     from emgate.physics.conductors import phase_current
-    from emgate.physics.iron import apparent_tooth_flux_density, slot_flux_sharing_factor
+    from emgate.physics.iron import (
+        apparent_tooth_flux_density,
+        slot_flux_sharing_factor,
+        yoke_magnetic_voltage,
+    )
 
     c = nominal.calc
     d = c.d
@@ -140,8 +135,8 @@ def evaluate(
     ry_path = gap_array(lambda p: p.rotor_yoke.path_length)
     sy_b = flux_pole / (2.0 * path.stacking_factor * path.iron_length * path.stator_yoke.height)
     ry_b = flux_pole / (2.0 * path.stacking_factor * path.iron_length * ry_height)
-    sy_mmf = _yoke_voltage(sy_b, 0.5 * path.stator_yoke.path_length, stator_curve)
-    ry_mmf = _yoke_voltage(ry_b, 0.5 * ry_path, rotor_curve)
+    sy_mmf = yoke_magnetic_voltage(sy_b, 0.5 * path.stator_yoke.path_length, stator_curve)
+    ry_mmf = yoke_magnetic_voltage(ry_b, 0.5 * ry_path, rotor_curve)  # type: ignore[arg-type]
     gap_mmf_ = b_peak * eff_gap / MU0
     out["air_gap.carter_coefficient"] = kc
     out["air_gap.effective_length"] = eff_gap

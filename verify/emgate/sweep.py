@@ -99,7 +99,7 @@ class Spec:
             if not axis.is_range:
                 out[axis.path] = axis.values[int(rng.integers(len(axis.values)))]
             elif axis.whole:
-                out[axis.path] = axis.record(float(rng.integers(axis.low, axis.high + 1)))
+                out[axis.path] = axis.record(float(rng.integers(int(axis.low), int(axis.high) + 1)))
             else:
                 out[axis.path] = axis.record(float(rng.uniform(axis.low, axis.high)))
         return out
@@ -438,8 +438,8 @@ class CsvWriter:
 
 class ParquetWriter:
     def __init__(self, path: Path, cols: Columns, spec: Spec) -> None:
-        import pyarrow as pa
-        import pyarrow.parquet as pq
+        import pyarrow as pa  # type: ignore[import-untyped]
+        import pyarrow.parquet as pq  # type: ignore[import-untyped]
 
         types: list[Any] = [pa.int64()]
         for axis in spec.axes:
@@ -458,11 +458,12 @@ class ParquetWriter:
         columns = list(zip(*rows, strict=True))
         arrays = []
         for values, fld in zip(columns, self.schema, strict=True):
+            typed: list[Any] = list(values)
             if self.pa.types.is_floating(fld.type):
-                values = [float(v) for v in values]
+                typed = [float(v) for v in values]
             elif self.pa.types.is_string(fld.type):
-                values = [str(v) for v in values]
-            arrays.append(self.pa.array(values, type=fld.type))
+                typed = [str(v) for v in values]
+            arrays.append(self.pa.array(typed, type=fld.type))
         self.writer.write_table(self.pa.Table.from_arrays(arrays, schema=self.schema))
 
     def close(self) -> None:

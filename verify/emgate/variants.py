@@ -9,6 +9,7 @@ see it exactly as they would see a record with those values.
 
 from __future__ import annotations
 
+import functools
 import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
@@ -111,7 +112,7 @@ class Evaluator:
             ran = run_rule(
                 rule,
                 design,
-                lambda r=rule: self.policy.options_for(r),
+                functools.partial(self.policy.options_for, rule),
                 context,
                 self.budget,
                 builtin,

@@ -102,7 +102,7 @@ def evaluate(
     eff_gap = kc * g
     # winding: N_ph is linear in the turns per coil (coils per phase over paths, a scalar)
     n_ph = winding.series_turns(c) / nominal.turns * t
-    i_ph = np.asarray(phase_current(i_line, d.rating.connection, d.winding.phases))
+    i_ph = np.asarray(phase_current(i_line, d.rating.connection, d.winding.phases))  # type: ignore[arg-type]
     kw = winding.winding_factor(c)
     path = paths[0]  # for what the gap leaves alone: pole pitch, stack, stator
     stator_curve, rotor_curve = magnetic.stator_steel(c), magnetic.rotor_steel(c)
@@ -118,10 +118,10 @@ def evaluate(
         pitch: Any, width: Any, height: Any, curve: BHCurve
     ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         geometry = (pitch, width, path.stack_length, path.iron_length, path.stacking_factor)
-        b_app = apparent_tooth_flux_density(b_peak, *geometry)
+        b_app = np.asarray(apparent_tooth_flux_density(b_peak, *geometry))
         ks = np.broadcast_to(slot_flux_sharing_factor(*geometry), b_app.shape)
         b_real = np.copysign(_real_tooth_b(np.abs(b_app), ks, curve), b_app)
-        return b_app, b_real, h_from_b(curve, b_real) * height
+        return b_app, b_real, np.asarray(h_from_b(curve, b_real)) * height
 
     sth = path.stator_teeth
     st_app, st_b, st_mmf = teeth(sth.slot_pitch, sth.width, sth.height, stator_curve)

@@ -322,7 +322,7 @@ def yoke_magnetic_voltage(
     if ramp_fraction is None:
         if np.ndim(b_peak):  # variants of a sweep (b_peak and path_length arrays): one product
             rows = h_from_b(curve, np.multiply.outer(b_peak, np.sin(0.5 * np.pi * _NODES)))
-            return path_length * (np.asarray(rows) @ _WEIGHTS)  # type: ignore[no-any-return]
+            return path_length * (np.asarray(rows) @ _WEIGHTS)  # type: ignore[return-value]
         mean_h = float(_WEIGHTS @ h_from_b(curve, b_peak * np.sin(0.5 * np.pi * _NODES)))
         return path_length * mean_h
     if not 0.0 <= ramp_fraction <= 1.0:

@@ -2,6 +2,11 @@
 
 from __future__ import annotations
 
+import os
+import shutil
+import tempfile
+from pathlib import Path
+
 import nox
 
 nox.options.default_venv_backend = "venv"
@@ -16,7 +21,27 @@ def tests(session: nox.Session) -> None:
     """Install emgate, its test dependencies and the sample company pack; run pytest."""
     session.install("-e", ".[test]")  # the test extra includes emgate[sweep]'s Dask
     session.install(PACK)  # after emgate, which it depends on
+    _browser(session)
     session.run("pytest", *session.posargs)
+
+
+def _browser(session: nox.Session) -> None:
+    """Debian's chromium and its driver for the HTML page's browser tests: installed when
+    missing and we are root; in CI (CI=true) a missing browser fails the session, elsewhere
+    the browser tests skip and say why."""
+    if shutil.which("chromium") and shutil.which("chromedriver"):
+        return
+    if hasattr(os, "geteuid") and os.geteuid() == 0 and shutil.which("apt-get"):
+        session.run("apt-get", "update", "-qq", external=True)
+        session.run("apt-get", "install", "-y", "-qq", "chromium", "chromium-driver", external=True)
+        return
+    message = (
+        "the browser tests need Debian's chromium and chromium-driver:"
+        " sudo apt-get install chromium chromium-driver"
+    )
+    if os.environ.get("CI") == "true":
+        session.error(message)
+    session.warn(message + " (the browser tests will be skipped)")
 
 
 @nox.session
@@ -32,12 +57,55 @@ def lint(session: nox.Session) -> None:
 def demo(session: nox.Session) -> None:
     """Run the gate on the bundled design repository (one design breaks a limit on purpose,
     so this session ends with emgate's exit code 1)."""
-    session.install("-e", ".")
+    session.install("-e", ".[html]")
     session.install(PACK)
     session.run("emgate", "rules")
     session.run("emgate", "show", "examples/design-repo/designs/pump-drive-4p36s.yaml")
+    out = Path("build/demo").resolve()
+    _demo_diff(session, out)
+    session.log(f"The calculation sheets and the diff are in {out}.")
     session.log("The demo holds one design that breaks a limit on purpose: expect exit code 1.")
-    session.run("emgate", "check", "examples/design-repo")
+    session.run(
+        "emgate",
+        "check",
+        "examples/design-repo",
+        "--format",
+        "text",
+        "--format",
+        f"html:{out / 'sheets' / 'index.html'}",
+    )
+
+
+def _demo_diff(session: nox.Session, out: Path) -> None:
+    """The physics diff of a change to a demo design: a throwaway git repository made from
+    the example, one commit with the record as shipped and one with a narrower slot and a
+    turn more per coil."""
+    with tempfile.TemporaryDirectory(prefix="emgate-demo-") as tmp:
+        repo = Path(tmp) / "design-repo"
+        shutil.copytree("examples/design-repo", repo)
+        git = ("git", "-c", "user.name=demo", "-c", "user.email=demo@example.invalid")
+        with session.chdir(repo):
+            session.run(*git, "init", "-q", "-b", "main", external=True)
+            session.run(*git, "add", "-A", external=True)
+            session.run(*git, "commit", "-qm", "as shipped", external=True)
+            record = repo / "designs" / "pump-drive-4p36s.yaml"
+            text = record.read_text(encoding="utf-8")
+            text = text.replace("bottom_width: 9.6 mm", "bottom_width: 9.2 mm")
+            text = text.replace("turns_per_coil: 21", "turns_per_coil: 22")
+            record.write_text(text, encoding="utf-8")
+            session.run(*git, "commit", "-qam", "narrower slot, one more turn", external=True)
+            session.run(
+                "emgate",
+                "diff",
+                "HEAD~1",
+                "HEAD",
+                "--format",
+                "text",
+                "--format",
+                f"markdown:{out / 'diff.md'}",
+                "--format",
+                f"html:{out / 'diff.html'}",
+            )
 
 
 @nox.session

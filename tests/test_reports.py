@@ -17,7 +17,7 @@ import subprocess
 import sys
 import xml.dom.minidom
 from pathlib import Path
-from typing import Any, Literal
+from typing import Any
 from urllib.parse import unquote
 
 import jsonschema
@@ -27,165 +27,28 @@ import pytest
 from conftest import DEMO, PUMP, check_json, run_cli, the_check, variant
 from emgate import __version__
 from emgate.calc import SHEET
-from emgate.findings import DISCLAIMER, Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.findings import DISCLAIMER, Finding, RunResult
 from emgate.report import FORMATS, reporter
 from emgate.report.annotations import escape_data, escape_property
 from emgate.report.common import printable
-from emgate.rule import Check
+from report_samples import (
+    CRASH,
+    FILE_A,
+    FILE_B,
+    FILE_BAD,
+    FILE_CI,
+    HOSTILE,
+    PLUGIN_ERROR,
+    SKIPPED,
+    WAIVER,
+    clean_result,
+    hand_result,
+)
 
 UREG = pint.UnitRegistry()
 SQRT3 = math.sqrt(3.0)
 REPO = Path(__file__).resolve().parents[1]
 SARIF_SCHEMA = REPO / "tests" / "data" / "sarif" / "sarif-schema-2.1.0.json"
-
-# Hostile text: table pipes, code and emphasis marks, a second workflow command after a line
-# break, a terminal escape, HTML, a mention, a link, percent signs that look like escapes.
-HOSTILE = (
-    "density | `x` 50%25 a:b,c\nsecond ::warning::line\r\n\x1b[31m<b>&amp;</b>"
-    " @team [x](y) *em* _u_ ~s~ \\ end"
-)
-FILE_A = "designs/motor,a:b%c.yaml"
-FILE_B = "designs/two\nlines%0A.yaml"
-FILE_BAD = "designs/broken.yaml"
-FILE_CI = "ci/pipeline.yaml"  # named on the command line, not an emgate file
-SKIPPED = "skipped: not an emgate file (no 'schema: emgate/...' line)"
-WAIVER = "waiver of 'acme/aspect' owned by Ada, until 2099-01-01: tooling trial, see note"
-CRASH = (
-    "rule crashed: ZeroDivisionError: division by zero (at balance.py:7); the record is not"
-    " verified by this rule"
-)
-PLUGIN_ERROR = "plugin 'acme' failed to load: ImportError: no module named acme_rules"
-
-
-# Demo numbers; the margins follow from Check.margin = (limit - value) / |limit| for a max
-# bound and its negative for a min bound [calc] closed form, the definition in emgate.rule.
-def _density(value: float, limit: float, quantity: str = "stator.current_density") -> Check:
-    """A current-density check, value and limit in A/mm^2 (SI inside: 1 A/mm^2 = 1e6 A/m^2)."""
-    return Check(
-        quantity, quantity, ("winding", "conductor"), value * 1e6, limit * 1e6, "max", "A/mm^2"
-    )
-
-
-def _aspect(value: float, limit: float, bound: Literal["max", "min"]) -> Check:
-    return Check(
-        "stator.aspect_ratio",
-        "stack length / bore",
-        ("stator", "stack_length"),
-        value,
-        limit,
-        bound,
-        "",
-    )
-
-
-J_FAIL = _density(8.8, 8)  # margin (8 - 8.8) / 8 = -10 %
-J_FIELD = _density(4, 5, "rotor.field_current_density")  # margin (5 - 4) / 5 = +20 %
-J_WIDE = _density(4, 8)  # margin (8 - 4) / 8 = +50 %
-J_CLOSE = _density(7.6, 8)  # margin (8 - 7.6) / 8 = +5 %: the worst of record B
-ASPECT_LOW = _aspect(0.54, 0.6, "min")  # margin -(0.6 - 0.54) / 0.6 = -10 %
-ASPECT_OK = _aspect(1.2, 1.6, "max")  # margin (1.6 - 1.2) / 1.6 = +25 %
-
-
-def hand_result() -> RunResult:
-    """Two records, a waived finding, a crash, a warning, a note, two input errors, and a
-    file skipped as not an emgate file."""
-    rules = [
-        RuleInfo("acme/aspect", "2.3", "stack aspect | within `tooling`", "acme-pack", "2.3.0"),
-        RuleInfo("current-density", "1", "current density within the limit", "emgate", "0.1.0"),
-        RuleInfo("gap-flux", "1", "air-gap flux density within the limit", "emgate", "0.1.0"),
-        RuleInfo("winding-balance", "1", "the winding is balanced", "emgate", "0.1.0"),
-    ]
-    rec_a = RecordResult(
-        FILE_A,
-        "m-1",
-        "pmsm",
-        [
-            RuleOutcome("acme/aspect", "waived", [ASPECT_LOW]),
-            RuleOutcome("current-density", "fail", [J_FIELD, J_FAIL]),
-            RuleOutcome("gap-flux", "not_applicable"),
-            RuleOutcome("winding-balance", "crash", [], CRASH),
-        ],
-    )
-    rec_b = RecordResult(
-        FILE_B,
-        "m-2",
-        "pmsm",
-        [
-            RuleOutcome("acme/aspect", "fail", [ASPECT_OK]),
-            RuleOutcome("current-density", "pass", [J_WIDE, J_CLOSE]),
-            RuleOutcome("gap-flux", "not_applicable"),
-            RuleOutcome("winding-balance", "fail", []),
-        ],
-    )
-    findings = [
-        Finding(
-            "current-density",
-            "error",
-            FILE_A,
-            12,
-            5,
-            "$.winding.conductor",
-            HOSTILE,
-            "m-1",
-            check=J_FAIL,
-        ),
-        Finding(
-            "acme/aspect",
-            "error",
-            FILE_A,
-            20,
-            3,
-            "$.stator.stack_length",
-            "stack length / bore 0.54 is below the minimum 0.6",
-            "m-1",
-            check=ASPECT_LOW,
-            waived_by=WAIVER,
-        ),
-        Finding("winding-balance", "error", FILE_A, 1, 1, "$", CRASH, "m-1", kind="crash"),
-        Finding(
-            "winding-balance",
-            "warning",
-            FILE_B,
-            30,
-            9,
-            "$.winding.layout",
-            "coil groups differ by one turn between phases",
-            "m-2",
-        ),
-        Finding(
-            "acme/aspect",
-            "info",
-            FILE_B,
-            8,
-            3,
-            "$.stator.stack_length",
-            "aspect ratio within 30 % of the tooling limit",
-            "m-2",
-        ),
-        Finding(
-            "input",
-            "error",
-            FILE_BAD,
-            3,
-            7,
-            "$.stator.slots",
-            "expected an integer, found 'many'",
-            kind="input",
-        ),
-        Finding("input", "error", "", 0, 0, "$", PLUGIN_ERROR, kind="input"),
-        Finding("input", "info", FILE_CI, 1, 1, "$", SKIPPED, kind="note"),
-    ]
-    result = RunResult([rec_a, rec_b], findings, rules, files_read=3)
-    result.sort()
-    return result
-
-
-def clean_result() -> RunResult:
-    rules = [RuleInfo("current-density", "1", "current density", "emgate", "0.1.0")]
-    rec = RecordResult(
-        "designs/ok.yaml", "ok", "pmsm", [RuleOutcome("current-density", "pass", [J_WIDE])]
-    )
-    return RunResult([rec], [], rules, files_read=1)
 
 
 @pytest.fixture(scope="module")
@@ -348,11 +211,18 @@ def test_sarif_file_outside_the_working_folder_is_an_absolute_uri(sarif_validato
 
 @pytest.mark.parametrize(
     ("keep", "code", "success"),
-    [(("current-density",), 1, True), (("input",), 2, False), ((), 0, True)],
+    [
+        (lambda f: f.rule == "current-density", 1, True),
+        (lambda f: f.file == FILE_BAD, 2, True),  # an invalid record: the tool worked
+        (lambda f: f.message == PLUGIN_ERROR, 2, False),  # a plugin did not load
+        (lambda f: f.kind == "crash", 3, False),  # a rule crashed
+        (lambda f: False, 0, True),
+    ],
+    ids=["findings", "invalid-record", "plugin-failed", "crash", "clean"],
 )
-def test_sarif_execution_success_follows_the_exit_code(keep, code, success) -> None:  # type: ignore[no-untyped-def]
+def test_sarif_execution_fails_only_when_the_tool_failed(keep, code, success) -> None:  # type: ignore[no-untyped-def]
     result = hand_result()
-    result.findings = [f for f in result.findings if f.rule in keep]
+    result.findings = [f for f in result.findings if keep(f)]
     assert result.exit_code == code
     run = json.loads(reporter("sarif")(result))["runs"][0]
     assert run["invocations"][0]["executionSuccessful"] is success
@@ -432,13 +302,26 @@ def test_junit_structure_and_counts() -> None:
     assert not _children(inputs[FILE_CI], "error")
     assert SKIPPED in _children(inputs[FILE_CI], "system-out")[0].firstChild.data
 
-    props = {
-        p.getAttribute("name"): p.getAttribute("value")
-        for p in suites["m-1"].getElementsByTagName("property")
-    }
-    assert props["disclaimer"] == DISCLAIMER
-    assert props["rule.acme/aspect"] == "2.3"
-    assert "rule.gap-flux" not in props
+    def props(node: Any) -> dict[str, str]:
+        (block,) = _children(node, "properties")
+        return {
+            p.getAttribute("name"): p.getAttribute("value") for p in _children(block, "property")
+        }
+
+    # the run's properties once, on the first suite; the rest on each testcase
+    run = props(suites["m-1"])
+    assert run["disclaimer"] == DISCLAIMER
+    assert run["emgate.verdict"] == "RULE CRASHED"
+    assert "acme/aspect v2.3" in run["emgate.rules"] and "gap-flux" not in run["emgate.rules"]
+    assert not _children(suites["m-2"], "properties")
+    aspect = props(cases["acme/aspect"])
+    assert (aspect["rule.version"], aspect["rule.origin"]) == ("2.3", "acme-pack 2.3.0")
+    assert aspect["emgate.waived"] == "1"
+    # the closest check of current-density on m-1 is J_FAIL, 8.8 against 8 A/mm^2: -10 %
+    assert props(cases["current-density"])["emgate.closest"] == (
+        "stator.current_density: 8.8 A/mm^2 <= 8 A/mm^2 (-10.0 %)"
+    )
+    assert props(m2["winding-balance"])["emgate.warnings"] == "1"
 
 
 def test_junit_demo_counts(demo: RunResult) -> None:
@@ -528,17 +411,32 @@ def test_annotations_demo(demo: RunResult) -> None:
 def test_codequality_items() -> None:
     result = hand_result()
     items = json.loads(reporter("codequality")(result))
-    live = [f for f in result.findings if f.waived_by is None]
-    assert isinstance(items, list) and len(items) == len(live)  # the waived one is left out
-    for f, item in zip(live, items, strict=True):
-        assert set(item) == {"description", "check_name", "fingerprint", "severity", "location"}
+    assert isinstance(items, list) and len(items) == len(result.findings)  # waived ones too
+    for f, item in zip(result.findings, items, strict=True):
+        assert set(item) == {
+            "type",
+            "description",
+            "check_name",
+            "categories",
+            "fingerprint",
+            "severity",
+            "location",
+        }
+        assert item["type"] == "issue"  # [mem: Code Climate analyzer spec, issue type]
         assert item["check_name"] == f.rule
         assert item["location"]["path"] == (f.file or ".")
         begin = item["location"]["lines"]["begin"]
         assert isinstance(begin, int) and begin >= 1
         assert f.message in item["description"]
-        assert item["fingerprint"] == f.fingerprint  # no two findings here share one
-    severities = {(f.rule, f.severity): i["severity"] for f, i in zip(live, items, strict=True)}
+        if f.waived_by:  # shown as info, naming the waiver, as a new issue in the widget
+            assert item["severity"] == "info"
+            assert item["description"].startswith("waived error: ")
+            assert f.waived_by in item["description"]
+            assert item["fingerprint"] != f.fingerprint
+        else:
+            assert item["fingerprint"] == f.fingerprint  # no two findings here share one
+    live = [(f, i) for f, i in zip(result.findings, items, strict=True) if not f.waived_by]
+    severities = {(f.rule, f.severity): i["severity"] for f, i in live}
     assert severities == {
         ("current-density", "error"): "critical",
         ("winding-balance", "error"): "blocker",  # the crash
@@ -566,7 +464,7 @@ def test_codequality_fingerprints_unique_when_problems_share_a_path() -> None:
 
 def test_codequality_demo(demo: RunResult) -> None:
     items = json.loads(reporter("codequality")(demo))
-    assert len(items) == sum(1 for f in demo.findings if f.waived_by is None)
+    assert len(items) == len(demo.findings)
     assert len({i["fingerprint"] for i in items}) == len(items)
 
 
@@ -660,7 +558,8 @@ def test_markdown_demo(demo: RunResult) -> None:
     assert len(rows) == sum(
         1 for r in demo.records for o in r.outcomes if o.status != "not_applicable"
     )
-    failing = {(f.record_id, f.rule) for f in demo.active("error")}
+    # a failed check is a finding at its rule's severity: errors and warnings both
+    failing = {(f.record_id, f.rule) for s in ("error", "warning") for f in demo.active(s)}
     assert {(r[0], r[1]) for r in rows if r[2] == "fail"} == failing
     assert all(r[6].startswith("-") for r in rows if (r[0], r[1]) in failing)
 

@@ -173,9 +173,18 @@ def test_current_density_declares_its_sources_too() -> None:
     from emgate_rules.current_density import CurrentDensityOptions
 
     shown = run_cli("explain", "current-density").out
-    assert "enclosed_fan = 10 A/mm^2  (default from Hendershot and Miller, fan-cooled" in shown
-    # 10 A/mm^2 in SI, the declared value and unit [calc]
-    assert CurrentDensityOptions().enclosed_fan == 10e6
+    assert (
+        "\n  surface_pm_enclosed_fan = 10 A/mm^2  (default from Hendershot and Miller, fan-cooled"
+        in shown
+    )
+    assert (
+        "\n  induction_enclosed_fan = 8 A/mm^2  (default from Pyrhonen et al., Table 6.2" in shown
+    )
+    # 10 and 8 A/mm^2 in SI, the declared values and unit [calc]
+    assert CurrentDensityOptions().surface_pm_enclosed_fan == 10e6
+    assert CurrentDensityOptions().induction_enclosed_fan == 8e6
+    # a cooling method's own option is the team's, for every machine kind: none by default
+    assert CurrentDensityOptions().enclosed_fan is None
 
 
 def test_the_basis_is_the_source_or_the_teams_limit() -> None:
@@ -227,7 +236,7 @@ def test_every_check_on_every_example_names_a_sheet_quantity() -> None:
                     continue
                 assert check["unit"] == si_unit(SHEET[name].unit), (out["rule"], name)
                 value = sheet[name]["value"]
-                if out["rule"] == "demagnetisation":  # its magnitude, at the rated current
+                if out["rule"] in ("demagnetisation", "demagnetisation-fault"):  # magnitude
                     value = abs(value)
                 # the sheet's own number, through the same JSON: exact up to rounding
                 assert check["value"] == pytest.approx(value, rel=1e-12), (out["rule"], name)

@@ -19,7 +19,7 @@ from conftest import assert_located, check_json, run_cli, the_check, variant, wr
     [
         ("slot-fill", "opening_clearance", "0.2 mm", 0.2e-3, "stator.opening_clearance"),
         ("slot-fill", "random_wound", "45 %", 0.45, "stator.slot_fill"),
-        ("mmf-thd", "induction", "20 %", 0.2, "winding.mmf_thd"),
+        ("mmf-thd", "distributed", "20 %", 0.2, "winding.mmf_thd"),
         ("declared-values", "tolerance", "5 %", 0.05, "stator.current_density"),
     ],
 )

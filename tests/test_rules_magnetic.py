@@ -216,7 +216,7 @@ def test_saturation_factor_of_the_demo_records_is_at_least_one(base: Path) -> No
         ("gap-flux", "induction", "0.8 T", 0.8, "air_gap.flux_density_peak"),
         ("tooth-flux", "stator_apparent", "1.7 T", 1.7, "stator.tooth_flux_density_apparent"),
         ("yoke-flux", "stator_induction", "1.25 T", 1.25, "stator.yoke_flux_density"),
-        ("mmf-thd", "induction", "0.1", 0.1, "winding.mmf_thd"),
+        ("mmf-thd", "distributed", "0.1", 0.1, "winding.mmf_thd"),
     ],
 )
 def test_a_team_limit_flips_a_pass_into_a_fail(

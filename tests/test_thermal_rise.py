@@ -14,7 +14,6 @@ import pytest
 
 from conftest import (
     GENSET,
-    PUMP,
     SERVO,
     assert_located,
     calculation,
@@ -78,7 +77,7 @@ def thermal_check(path: Path) -> dict[str, Any]:
     [
         # [calc] the record's documented defaults written out: 4 (fins), 3 (core area),
         # 1.5 stack lengths of frame (common practice, no source, per the record's schema).
-        (PUMP, {"cooling.fin_area_factor": 4.0, "cooling.frame_length": "210 mm"}),  # 1.5 x 140
+        (SERVO, {"cooling.fin_area_factor": 4.0, "cooling.frame_length": "90 mm"}),  # 1.5 x 60
         (GENSET, {"cooling.core_area_factor": 3.0}),
     ],
 )
@@ -110,12 +109,14 @@ def test_open_machine_core_surface_scales_with_its_area_factor(repo: Path) -> No
     def core_step(factor: float) -> float:
         calc = calculation(variant(repo, {"cooling.core_area_factor": factor}, base=GENSET))
         (step,) = [s for s in thermal.thermal_estimate(calc).steps if s.name == "core surface"]
-        return step.rise
+        return step.resistance
 
     # Forced convection: h is set by the air velocity and flow length, not the area [mem:
-    # Bergman et al., flat plate], so twice the area halves the surface rise; 3 % allowed for
-    # the air properties, taken at a film temperature that falls with the rise.
-    assert core_step(3.0) / core_step(6.0) == pytest.approx(2.0, rel=0.03)
+    # Bergman et al., flat plate], so twice the area halves the surface resistance (the
+    # heat differs a little: copper at its own temperature); 5 % allowed for the air
+    # properties, taken at a film temperature that falls with the rise (all losses now, so
+    # the two rises differ by some 50 K).
+    assert core_step(3.0) / core_step(6.0) == pytest.approx(2.0, rel=0.05)
 
 
 def test_the_rule_no_longer_takes_the_cooling_factors(repo: Path) -> None:

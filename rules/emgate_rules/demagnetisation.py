@@ -74,7 +74,7 @@ class Demagnetisation(Rule[DemagnetisationOptions]):
         magnet = design.rotor.magnet
         factor = options.current_factor
         at = "rated current" if math.isclose(factor, 1.0) else f"{factor:g} x rated current"
-        hot, cold = magnet.operating_temperature, design.cooling.ambient
+        hot, cold = sheet["rotor.magnet_temperature"], design.cooling.ambient
         cases = [("hot", hot, False)]
         if magnet.material.coercivity_temperature_coefficient > 0.0 and cold < hot:
             cases.append(("cold", cold, True))

@@ -6,14 +6,17 @@ from collections.abc import Iterable
 
 from emgate.api import AnyDesign, Check, Context, FluxDensity, Options, Problem, Rule, limit
 
+#: The apparent stator tooth limit (value, unit, source); cold-magnet-flux's too.
+STATOR_APPARENT = (
+    2.1,
+    "T",
+    "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1, apparent"
+    " stator tooth flux density 1.4-2.1 T (from memory)",
+)
+
 
 class ToothFluxOptions(Options):
-    stator_apparent: FluxDensity = limit(
-        2.1,
-        "T",
-        "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1, apparent"
-        " stator tooth flux density 1.4-2.1 T (from memory)",
-    )
+    stator_apparent: FluxDensity = limit(*STATOR_APPARENT)
     rotor_apparent: FluxDensity = limit(
         2.2, "T", "Pyrhonen et al., Table 6.1, rotor tooth of induction machines (from memory)"
     )

@@ -9,15 +9,20 @@ from emgate.api import AnyDesign, Check, Context, FluxDensity, Options, Problem,
 PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1"
 
 
+#: The stator yoke limit of synchronous machines (value, unit, source); cold-magnet-flux's
+#: too.
+STATOR_SYNCHRONOUS = (
+    1.5,
+    "T",
+    "Pyrhonen et al., Table 6.1, stator yoke of synchronous machines 1.0-1.5 T (from memory)",
+)
+
+
 class YokeFluxOptions(Options):
     stator_induction: FluxDensity = limit(
         1.7, "T", f"{PYRHONEN}, stator yoke of induction machines 1.4-1.7 T (from memory)"
     )
-    stator_synchronous: FluxDensity = limit(
-        1.5,
-        "T",
-        "Pyrhonen et al., Table 6.1, stator yoke of synchronous machines 1.0-1.5 T (from memory)",
-    )
+    stator_synchronous: FluxDensity = limit(*STATOR_SYNCHRONOUS)
     rotor: FluxDensity = limit(1.7, "T", "common practice, no source")
     pole_body: FluxDensity = limit(
         1.8, "T", "Pyrhonen et al., Table 6.1, pole core of salient-pole machines (from memory)"

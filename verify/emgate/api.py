@@ -105,11 +105,15 @@ __all__ = [
     "Temperature",
     "TemperatureDifference",
     "Voltage",
+    "efficiency_scope",
     "format_value",
     "hookimpl",
     "limit",
+    "loss_reference_temperature",
+    "nominal_efficiency",
     "quantity",
     "ratio",
+    "rise_limit_allowance",
     "temperature_rise_limit",
     "tolerance_findings",
     "winding_path",
@@ -130,6 +134,39 @@ def tolerance_findings(design: AnyDesign, context: Context, **how: Any) -> Itera
     from emgate.tolerances import tolerance_findings as judge
 
     return judge(design, context, **how)
+
+
+def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool) -> float:
+    """Increase of the IEC 60034-1 rise limit [K] for machines below 600 W and totally
+    enclosed fanless ones (5 K; from memory)."""
+    from emgate.physics.thermal import rise_limit_allowance as allowance
+
+    return allowance(rated_output, totally_enclosed_fanless=totally_enclosed_fanless)
+
+
+def loss_reference_temperature(insulation_class: str) -> float:
+    """Reference winding temperature [K] of a thermal class for losses and efficiency (IEC
+    60034-2-1); ValueError where not held."""
+    from emgate.physics.conductors import reference_temperature
+
+    return reference_temperature(insulation_class)
+
+
+def nominal_efficiency(
+    efficiency_class: str, rated_power: float, poles: int, frequency: float
+) -> float:
+    """IEC 60034-30-1 nominal efficiency [-] of a class at a rated power [W] (table from
+    memory); ValueError outside the standard's scope."""
+    from emgate.physics.efficiency_classes import nominal_efficiency as lookup
+
+    return lookup(efficiency_class, rated_power, poles, frequency)
+
+
+def efficiency_scope(rated_power: float, poles: int, frequency: float) -> str | None:
+    """Why IEC 60034-30-1 does not cover a motor of this rating, or None."""
+    from emgate.physics.efficiency_classes import out_of_scope
+
+    return out_of_scope(rated_power, poles, frequency)
 
 
 _PERCENT = r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d{1,3})?\s*%\s*$"

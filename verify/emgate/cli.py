@@ -1,4 +1,4 @@
-"""Command line: ``emgate check|show|rules|explain|plugins|schema``.
+"""Command line: ``emgate check|show|diff|rules|explain|plugins|schema``.
 
 Exit codes: 0 clean; 1 a rule found an error; 2 input, configuration or usage error; 3 a rule,
 a plugin or emgate itself crashed (fail closed: a crash never passes a merge).
@@ -40,6 +40,12 @@ def _jobs(text: str) -> int:
     return int(text)
 
 
+def _show_format(text: str) -> str:
+    if text in ("text", "json", "html") or text.startswith("html:"):
+        return text
+    raise argparse.ArgumentTypeError(f"expected text, json or html[:FILE], found {text!r}")
+
+
 def _parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="emgate",
@@ -48,8 +54,17 @@ def _parser() -> argparse.ArgumentParser:
         " codes.",
     )
     p.add_argument("--version", action="version", version=f"emgate {__version__}")
-    sub = p.add_subparsers(dest="command", required=True, metavar="COMMAND")
-    c = sub.add_parser("check", help="check design records against the rules")
+    sub = p.add_subparsers(
+        dest="command", required=True, metavar="COMMAND", help="what to do (COMMAND -h: its help)"
+    )
+    c = sub.add_parser(
+        "check",
+        help="check design records against the rules",
+        description="Check design records against the installed rules and the policy of the"
+        " nearest emgate.yaml.",
+        epilog=EXIT_CODES,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
     c.add_argument(
         "paths",
         nargs="*",
@@ -63,7 +78,8 @@ def _parser() -> argparse.ArgumentParser:
         metavar="NAME[:FILE]",
         dest="formats",
         help=f"output format, one of {', '.join(FORMATS)}; with :FILE, written to"
-        " FILE atomically instead of standard output; repeatable",
+        " FILE atomically instead of standard output; repeatable; html:FILE writes an index"
+        " and every record's calculation sheet beside it",
     )
     c.add_argument("--config", type=Path, help="project config (default: nearest emgate.yaml)")
     c.add_argument(
@@ -72,7 +88,32 @@ def _parser() -> argparse.ArgumentParser:
         help="check only the records changed against git revision REV, and those"
         " that changed materials or configuration affect",
     )
-    c.add_argument("--today", type=_date, help="judge waiver expiry as of this date")
+    c.add_argument(
+        "--today", type=_date, metavar="YYYY-MM-DD", help="judge waiver expiry as of this date"
+    )
+    for flag, what in (("--select", "run only the rules"), ("--ignore", "do not run the rules")):
+        c.add_argument(
+            flag,
+            action="append",
+            default=[],
+            metavar="SELECTOR[,...]",
+            help=f"{what} matched, on top of the policy: 'all', a rule id, a pack prefix"
+            " ('acme/') or a tag ('tag:thermal'), as in emgate.yaml; repeatable",
+        )
+    c.add_argument(
+        "-q",
+        "--quiet",
+        action="store_true",
+        help="text output: the findings only (no margins, summary or rules line); no"
+        " summary on standard error",
+    )
+    c.add_argument(
+        "--remedies",
+        choices=["on", "off"],
+        default="on",
+        help="for each failing check, the value of a record field that would fix it (default"
+        " on; off is faster)",
+    )
     c.add_argument(
         "--jobs",
         type=_jobs,
@@ -81,14 +122,47 @@ def _parser() -> argparse.ArgumentParser:
         " is the same as with --jobs 1",
     )
     s = sub.add_parser("show", help="print the calculation sheet of a design")
-    s.add_argument("file", type=Path)
-    s.add_argument("--format", default="text", choices=["text", "json"])
-    s.add_argument("--config", type=Path)
+    s.add_argument("file", type=Path, metavar="FILE", help="a design record")
+    s.add_argument(
+        "--format",
+        default="text",
+        type=_show_format,
+        metavar="{text,json,html[:FILE]}",
+        help="html: the sheet as one self-contained page with plots (to FILE, or stdout)",
+    )
+    s.add_argument(
+        "--config", type=Path, help="accepted and not used: the sheet does not depend on policy"
+    )
+    d = sub.add_parser(
+        "diff", help="the physics of a change: records, quantities and margins between revisions"
+    )
+    d.add_argument(
+        "refs",
+        nargs="+",
+        metavar="BASE [HEAD] [PATHS...]",
+        help="git revisions to compare (HEAD omitted: the working tree) and paths to limit it"
+        " to; or two record files",
+    )
+    d.add_argument(
+        "--format",
+        action="append",
+        metavar="NAME[:FILE]",
+        dest="formats",
+        help="text, json, markdown or html; with :FILE, written to FILE; repeatable",
+    )
+    d.add_argument(
+        "--threshold",
+        default="0.1",
+        metavar="PERCENT",
+        help="report a quantity that moved by more than this, relative (default 0.1 %%)",
+    )
     w = sub.add_parser(
         "sweep", help="check variants of a record over a grid or random sample of its fields"
     )
-    w.add_argument("record", type=Path)
-    w.add_argument("spec", type=Path, help="the sweep: fields and their ranges or values")
+    w.add_argument("record", type=Path, metavar="RECORD", help="the design record to vary")
+    w.add_argument(
+        "spec", type=Path, metavar="SPEC", help="the sweep: fields and their ranges or values"
+    )
     w.add_argument("--out", type=Path, help="table of variants: FILE.csv or FILE.parquet")
     w.add_argument(
         "--scheduler",
@@ -97,16 +171,33 @@ def _parser() -> argparse.ArgumentParser:
         " (a running Dask scheduler), or none (this process)",
     )
     w.add_argument("--chunk", type=_jobs, default=256, help="variants per task (default 256)")
-    w.add_argument("--config", type=Path)
+    w.add_argument(
+        "--config", type=Path, help="project config (default: nearest emgate.yaml of the record)"
+    )
     r = sub.add_parser("rules", help="list every installed rule")
-    r.add_argument("--format", default="text", choices=["text", "json"])
+    r.add_argument(
+        "--format", default="text", choices=["text", "json"], help="output (default: text)"
+    )
     e = sub.add_parser("explain", help="print a rule's method, formulas and sources")
-    e.add_argument("rule")
+    e.add_argument("rule", metavar="RULE", help="a rule id, as 'emgate rules' lists them")
     sub.add_parser("plugins", help="list installed plugin packs")
     i = sub.add_parser("init", help="write a starter design repository (never overwrites)")
-    i.add_argument("dir", nargs="?", type=Path, default=Path("."))
+    i.add_argument(
+        "dir", nargs="?", type=Path, default=Path("."), help="folder to write into (default: .)"
+    )
+    sub.add_parser(
+        "lsp",
+        help="run the language server on standard input and output (for an editor; needs"
+        " the extra emgate[lsp])",
+    )
     sc = sub.add_parser("schema", help="print a JSON Schema")
-    sc.add_argument("kind", nargs="?", default="design", choices=list(SCHEMA_KINDS))
+    sc.add_argument(
+        "kind",
+        nargs="?",
+        default="design",
+        choices=list(SCHEMA_KINDS),
+        help="which schema (default: design)",
+    )
     sc.add_argument(
         "--write",
         type=Path,
@@ -114,6 +205,13 @@ def _parser() -> argparse.ArgumentParser:
         help="write every schema as DIR/KIND.schema.json instead",
     )
     return p
+
+
+EXIT_CODES = """exit codes:
+  0  clean: no error finding (warnings and waived findings allowed)
+  1  a rule found an error
+  2  input, configuration, plugin or usage could not be read or validated
+  3  a rule, a plugin or emgate itself crashed (fail closed)"""
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -167,10 +265,23 @@ def _dispatch(args: argparse.Namespace) -> int:
         return init(args.dir)
     if args.command == "sweep":
         return _sweep(args)
+    if args.command == "lsp":
+        from emgate.lsp import main as lsp
+
+        return lsp(plugins)
     if args.command == "show":
+        if args.format.startswith("html"):
+            from emgate.page import show_html
+
+            out = args.format.partition(":")[2]
+            return show_html(args.file, Path(out) if out else None, args.config, plugins)
         from emgate.sheet import show
 
         return show(args.file, args.format)
+    if args.command == "diff":
+        from emgate.diff import main as diff_main
+
+        return diff_main(args, plugins)
     return _check(args, plugins)
 
 
@@ -218,52 +329,22 @@ def _explain(plugins, rid: str) -> int:  # type: ignore[no-untyped-def]
         hint = f"; did you mean {close[0]!r}?" if close else ""
         print(f"emgate: no installed rule has the id {rid!r}{hint}", file=sys.stderr)
         return EXIT_INPUT
-    lr = plugins.rules[rid]
-    rule = lr.rule
-    print(f"{rid} v{rule.version} ({lr.pack.distribution} {lr.pack.version})")
-    print(f"{rule.summary}")
-    print(f"applies to: {', '.join(rule.machines)}; default severity: {rule.severity}\n")
-    print(rule.explain())
-    fields = rule.options.model_fields
-    if fields:
-        print("\noptions (emgate.yaml: options: {" + rid + ": {NAME: VALUE}}), with defaults:")
-        for name, info in fields.items():
-            desc = f"  ({info.description})" if info.description else ""
-            print(f"  {name} = {_default_text(info)}{desc}")
+    from emgate.explain import explain_text
+
+    sys.stdout.write(explain_text(rid, plugins.rules[rid]))
     return EXIT_OK
-
-
-def _default_text(info) -> str:  # type: ignore[no-untyped-def]
-    """An option's default in the unit its examples use ('5 A/mm^2', not 5000000.0), also
-    for an optional quantity (``FluxDensity | None``), whose unit sits inside the union."""
-    from typing import Annotated, get_args, get_origin
-
-    from emgate.units import format_value
-
-    metadata = list(info.metadata)
-    pending = [info.annotation]
-    while pending:  # the Annotated members of unions (Optional) carry their own metadata
-        hint = pending.pop()
-        if get_origin(hint) is Annotated:
-            metadata.extend(hint.__metadata__)
-        else:
-            pending.extend(get_args(hint))
-    default = info.get_default(call_default_factory=True)
-    for meta in metadata:
-        examples = getattr(meta, "json_schema", None) or {}
-        example = (examples.get("examples") or [None])[0]
-        if isinstance(example, str) and isinstance(default, float):
-            unit = example.split(None, 1)[1] if " " in example else ""
-            return format_value(default, unit)
-    return repr(default)
 
 
 def _outputs(specs: list[str] | None) -> list[tuple[str, Path | None]]:
     out: list[tuple[str, Path | None]] = []
     for spec in specs or ["text"]:
         name, _, file = spec.partition(":")
-        if name not in FORMATS:
-            raise _UsageError(f"unknown format {name!r}; expected one of {', '.join(FORMATS)}")
+        if name == "html" and not file:  # an index and a sheet per record: files only
+            raise _UsageError("html needs a FILE (html:reports/index.html)")
+        if name not in (*FORMATS, "html"):
+            raise _UsageError(
+                f"unknown format {name!r}; expected one of {', '.join(FORMATS)}, html:FILE"
+            )
         out.append((name, Path(file) if file else None))
     if sum(1 for _, f in out if f is None) > 1:
         raise _UsageError("only one --format may go to standard output; give the others a FILE")
@@ -282,6 +363,7 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
 
     try:
         outputs = _outputs(args.formats)
+        dropped = _deselected(plugins, args.select, args.ignore)
     except _UsageError as exc:
         print(f"emgate check: {exc}", file=sys.stderr)
         return EXIT_INPUT
@@ -291,8 +373,9 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
     try:
         rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
         policy = load_policy(config, rules, Path.cwd(), installed)
+        _narrow(policy, dropped)
         paths = list(args.paths) or (policy.configured_files() if policy.source else [Path(".")])
-        run = Run(paths=paths, policy=policy, plugins=plugins)
+        run = Run(paths=paths, policy=policy, plugins=plugins, remedies=args.remedies == "on")
         if args.changed_since:
             from emgate.changes import changed_since
 
@@ -307,8 +390,11 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
             run.changes = named_files(paths, policy.root, policy.source, policy.waivers_file)
             run.paths = [policy.root]
     except (InputError, InputErrors) as exc:
+        from emgate.findings import anchor, source_root
+
         result = RunResult(findings=input_findings(exc))
-        _emit(result, outputs)
+        anchor(result, source_root(config.parent if config else Path.cwd()))
+        _emit(result, outputs, args.quiet)
         return result.exit_code
     if args.today:
         run.today = args.today
@@ -316,7 +402,44 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
 
     run.jobs = args.jobs or available_cores()
     result = execute(run)
-    return max(result.exit_code, _emit(result, outputs))
+    return max(result.exit_code, _emit(result, outputs, args.quiet))
+
+
+def _narrow(policy, dropped: tuple[str, ...]) -> None:  # type: ignore[no-untyped-def]
+    """Add the rules the command line leaves out to the ignores of every part of the policy."""
+    from dataclasses import replace
+
+    if dropped:
+        policy.base = replace(policy.base, ignore=(*policy.base.ignore, *dropped))
+        policy.overrides = [
+            (globs, replace(rp, ignore=(*rp.ignore, *dropped))) for globs, rp in policy.overrides
+        ]
+
+
+def _deselected(plugins, select: list[str], ignore: list[str]) -> tuple[str, ...]:  # type: ignore[no-untyped-def]
+    """Ids of the installed rules that --select/--ignore leave out (none without them);
+    a selector that matches no installed rule is a usage error, as in emgate.yaml."""
+    import difflib
+
+    from emgate.config import RulePolicy
+
+    def split(values: list[str]) -> tuple[str, ...]:
+        return tuple(v.strip() for value in values for v in value.split(",") if v.strip())
+
+    chosen = RulePolicy(split(select) or ("all",), split(ignore), {}, {})
+    rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
+    groups = {f"tag:{t}" for r in rules.values() for t in r.tags}
+    groups |= {rid.split("/")[0] + "/" for rid in rules if "/" in rid}
+    for flag, selectors in (("--select", chosen.select), ("--ignore", chosen.ignore)):
+        for selector in selectors:
+            if selector == "all" or any(
+                RulePolicy((selector,), (), {}, {}).selected(r) for r in rules.values()
+            ):
+                continue
+            close = difflib.get_close_matches(selector, [*rules, *sorted(groups)], n=1)
+            hint = f"; did you mean {close[0]!r}?" if close else ""
+            raise _UsageError(f"{flag} {selector!r} matches no installed rule{hint}")
+    return tuple(rid for rid, rule in sorted(rules.items()) if not chosen.selected(rule))
 
 
 def _sweep(args: argparse.Namespace) -> int:
@@ -342,21 +465,52 @@ def _inside(path: Path, root: Path) -> bool:
     return path.is_file()
 
 
-def _emit(result, outputs: list[tuple[str, Path | None]]) -> int:  # type: ignore[no-untyped-def]
+def _colour(stream) -> bool:  # type: ignore[no-untyped-def]
+    """Colour on a terminal; NO_COLOR turns it off and FORCE_COLOR on, checked in that order
+    (no-color.org, force-color.org: set and not empty)."""
+    if os.environ.get("NO_COLOR"):
+        return False
+    if os.environ.get("FORCE_COLOR"):
+        return True
+    return stream.isatty() and os.environ.get("TERM") != "dumb"
+
+
+def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -> int:  # type: ignore[no-untyped-def]
     from emgate.atomic import write_atomic
     from emgate.report import reporter
 
-    status = EXIT_OK
+    status, written = EXIT_OK, []
     for name, file in outputs:
-        text = reporter(name)(result)
+        if name == "html" and file is not None:
+            from emgate.page import write_run
+
+            try:
+                write_run(result, file)
+            except OSError as exc:
+                why = exc.strerror or str(exc)
+                print(f"emgate: cannot write html to {file}: {why}", file=sys.stderr)
+                status = EXIT_INPUT
+            continue
+        if name == "text":
+            from emgate.report.text import render
+
+            text = render(result, quiet=quiet, colour=file is None and _colour(sys.stdout))
+        else:
+            text = reporter(name)(result)
         if file is None:
             sys.stdout.write(text)
             continue
         try:
             write_atomic(file, text)
+            written.append(f"{name} to {file}")
         except OSError as exc:
             print(f"emgate: cannot write {name} report to {file}: {exc.strerror}", file=sys.stderr)
             status = EXIT_INPUT
+    if not quiet and all(file is not None for _, file in outputs):  # nothing on the terminal
+        from emgate.report.common import summary_line
+
+        wrote = f"; wrote {', '.join(written)}" if written else ""
+        print(f"emgate: {summary_line(result)}{wrote}", file=sys.stderr)
     return status
 
 

@@ -171,7 +171,7 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             attempt((*at, "corner_radius"), partial(conductor_strand_area, c))
     if w.slot_liner:
         attempt(("winding", "slot_liner"), partial(slot_winding_area, st.slot, w.slot_liner))
-    if d.machine == "surface_pm":
+    if d.machine == "surface_pm" and d.rotor.magnet.operating_temperature is not None:
         m = d.rotor.magnet
         hot, t0 = m.operating_temperature, m.material.reference_temperature
         # The kernel's reversible law on a unit value: the share of Br0 and H_cJ0 left.
@@ -181,7 +181,7 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             out.append(
                 (
                     ("rotor", "magnet", "operating_temperature"),
-                    f"at {m.operating_temperature - 273.15:g} degC the temperature"
+                    f"at {hot - 273.15:g} degC the temperature"
                     " coefficients leave the magnet no remanence or coercivity",
                 )
             )
@@ -269,6 +269,30 @@ def _rating_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             (
                 ("cooling", "ambient"),
                 f"coolant at {d.cooling.ambient - 273.15:g} degC is outside -60 to 120 degC",
+            )
+        )
+    low = d.cooling.ambient_min
+    if low is not None and not 213.15 <= low <= d.cooling.ambient:
+        out.append(
+            (
+                ("cooling", "ambient_min"),
+                f"the lowest coolant temperature {low - 273.15:g} degC must lie between"
+                f" -60 degC and the rated ambient {d.cooling.ambient - 273.15:g} degC",
+            )
+        )
+    if r.max_speed is not None and r.max_speed < n:
+        out.append(
+            (
+                ("rating", "max_speed"),
+                f"the top speed {r.max_speed * 60:g} rpm is below the rated {n * 60:g} rpm",
+            )
+        )
+    if r.peak_current is not None and r.peak_current < r.line_current:
+        out.append(
+            (
+                ("rating", "peak_current"),
+                f"a drive limit of {r.peak_current:g} A peak is below the rated"
+                f" {r.line_current:g} A rms line current",
             )
         )
     code = _short_ic(d.cooling.code)

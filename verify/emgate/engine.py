@@ -10,6 +10,7 @@ from __future__ import annotations
 import dataclasses
 import datetime as dt
 import re
+import time
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -18,7 +19,15 @@ from typing import Literal
 from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy, RulePolicy
 from emgate.errors import InputError, InputErrors, Location, display_path
-from emgate.findings import Finding, RecordResult, RuleInfo, RuleOutcome, RunResult
+from emgate.findings import (
+    Finding,
+    RecordResult,
+    RuleInfo,
+    RuleOutcome,
+    RunResult,
+    anchor,
+    source_root,
+)
 from emgate.findings import describe_check as _describe
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
@@ -78,6 +87,8 @@ class Run:
     changes: ChangeSet | None = None
     #: Worker processes for the records (1: this process); the report is the same.
     jobs: int = 1
+    #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
+    remedies: bool = True
 
 
 def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
@@ -247,6 +258,7 @@ def input_findings(exc: InputError | InputErrors) -> list[Finding]:
 
 def execute(run: Run) -> RunResult:
     """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
+    from emgate.explain import explain_markdown
     from emgate.validate import schema_of, validate_materials
 
     result = RunResult()
@@ -255,7 +267,16 @@ def execute(run: Run) -> RunResult:
     for error in run.plugins.crashes:
         result.findings.append(dataclasses.replace(_input_finding(error), kind="crash"))
     result.rules = [
-        RuleInfo(rid, lr.rule.version, lr.rule.summary, lr.pack.distribution, lr.pack.version)
+        RuleInfo(
+            rid,
+            lr.rule.version,
+            lr.rule.summary,
+            lr.pack.distribution,
+            lr.pack.version,
+            lr.rule.severity,
+            lr.rule.explain(),
+            explain_markdown(rid, lr),
+        )
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     sources = discover(run.paths, result)
@@ -359,6 +380,7 @@ def execute(run: Run) -> RunResult:
                     )
                 )
             )
+    anchor(result, run_root(run))
     result.sort()
     return result
 
@@ -431,6 +453,15 @@ def check_source(
     return done
 
 
+def run_root(run: Run) -> Path:
+    """What a run's files are named from in SARIF and fingerprints: the git work tree of the
+    policy's folder, else of the first path, else the working folder."""
+    if run.policy.source is not None:
+        return source_root(run.policy.root)
+    first = next((p for p in run.paths if p.exists()), Path.cwd())
+    return source_root(first if first.is_dir() else first.parent)
+
+
 def _check_design(
     run: Run,
     ld: LoadedDesign,
@@ -456,6 +487,11 @@ def _check_design(
             _check_rule(run, ld, policy, loaded.rule, context, record, produced, builtin)
     finally:  # an error of emgate's own keeps what the rules before it found
         result.findings.extend(apply_waivers(waivers, produced, record, run.today))
+    if run.remedies:
+        from emgate.remedies import attach_remedies
+
+        budget = run.policy.rule_time_budget
+        attach_remedies(ld.doc, catalogue, policy, run.plugins, ld.file, budget, produced)
 
 
 def _check_rule(
@@ -474,6 +510,7 @@ def _check_rule(
     rid = rule.id
     if not policy.selected(rule):
         return
+    started = time.perf_counter()
     ran = run_rule(
         rule,
         ld.design,
@@ -487,6 +524,7 @@ def _check_rule(
         return
     severity = policy.severity_for(rule)
     outcome = RuleOutcome(rid, "pass")
+    outcome.seconds = time.perf_counter() - started
     for item in ran.items:
         if isinstance(item, Check):
             outcome.checks.append(item)

@@ -5,11 +5,14 @@ from __future__ import annotations
 import hashlib
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Literal
+from typing import TYPE_CHECKING, Literal
 
 from emgate.errors import display_path
 from emgate.rule import Check
 from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK, Severity
+
+if TYPE_CHECKING:
+    from emgate.remedy import Remedy
 
 Status = Literal["pass", "fail", "waived", "crash", "not_applicable"]
 DISCLAIMER = (
@@ -37,17 +40,24 @@ class Finding:
     kind: Literal["violation", "crash", "input", "waiver", "note"] = "violation"
     check: Check | None = None
     waived_by: str | None = None
+    #: The file relative to the repository's root (:func:`anchor`), whatever the working
+    #: folder; None where nobody anchored the finding (then :attr:`file` stands for it).
+    repo_file: str | None = None
+    #: For a failing check, what would fix it (``emgate.remedies``; empty with --remedies off).
+    remedies: list[Remedy] = field(default_factory=list)
 
     @property
     def fingerprint(self) -> str:
-        """Rule, file, record and record path, and the quantity of a check: two checks of
-        one rule on one path (a minimum and a maximum) stay distinct; no line number."""
+        """Rule, file (from the repository root), record and record path, and the quantity
+        of a check: two checks of one rule on one path (a minimum and a maximum) stay
+        distinct; no line number, and the same from any working folder."""
         where = (
             self.record_path
             if self.check is None
             else (f"{self.record_path}#{self.check.quantity}:{self.check.bound}")
         )
-        return fingerprint(self.rule, self.file, self.record_id, where)
+        file = self.file if self.repo_file is None else self.repo_file
+        return fingerprint(self.rule, file, self.record_id, where)
 
     def sort_key(self) -> tuple[str, int, int, str, str]:
         return (self.file, self.line, self.column, self.rule, self.message)
@@ -59,6 +69,9 @@ class RuleOutcome:
     status: Status
     checks: list[Check] = field(default_factory=list)
     message: str = ""
+    #: Wall time of the rule's check, the shared calculation's quantities it was the first
+    #: to ask for included (JUnit's time).
+    seconds: float = 0.0
 
 
 @dataclass
@@ -76,6 +89,11 @@ class RuleInfo:
     summary: str
     distribution: str
     distribution_version: str
+    severity: Severity = "error"  # the rule's default, before the policy
+    #: The rule's method statement (its docstring), and ``emgate explain`` as Markdown
+    #: (method, sources, options), for the outputs that show a rule's help.
+    description: str = ""
+    help: str = ""
 
 
 @dataclass
@@ -119,3 +137,27 @@ def describe_check(check: Check) -> str:
         f"{check.label} {format_value(check.value, check.unit)} {word}"
         f" {format_value(check.limit, check.unit)}{basis}; margin {check.margin:+.1%}"
     )
+
+
+def source_root(start: Path) -> Path:
+    """The root the files of a run are named from, away from this machine: the top of the
+    git work tree holding ``start`` (what a CI service checks out), else ``start``."""
+    here = start.resolve()
+    for folder in (here, *here.parents):
+        if (folder / ".git").exists():
+            return folder
+    return here
+
+
+def anchor(result: RunResult, root: Path) -> None:
+    """Name each finding's file relative to ``root`` too (an absolute path for a file
+    outside it), so that SARIF locations and fingerprints do not depend on the folder
+    emgate ran in."""
+    top = root.resolve()
+    for f in result.findings:
+        if f.file:
+            path = Path(f.file).resolve()
+            try:
+                f.repo_file = path.relative_to(top).as_posix()
+            except ValueError:
+                f.repo_file = path.as_posix()

@@ -12,7 +12,8 @@ schema, restricted: null, true/false, decimal integers and floats; everything el
 from __future__ import annotations
 
 import re
-from collections.abc import Iterator
+from collections.abc import Iterator, Mapping
+from contextvars import ContextVar
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -249,11 +250,23 @@ def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
     return 1, 1
 
 
+#: Unsaved editor text by resolved path, read in place of the file (``emgate lsp``); the
+#: same checks apply to it as to a file's bytes.
+BUFFERS: ContextVar[Mapping[Path, str] | None] = ContextVar("emgate_buffers", default=None)
+
+
+def _read_bytes(path: Path) -> bytes:
+    buffers = BUFFERS.get()
+    if buffers and (text := buffers.get(path.resolve())) is not None:
+        return text.encode("utf-8", "surrogatepass")[: MAX_BYTES + 1]
+    with path.open("rb") as handle:
+        return handle.read(MAX_BYTES + 1)
+
+
 def read_text(path: Path) -> str:
     """Read a file as UTF-8 text, refusing oversized, binary or wrongly encoded files."""
     try:
-        with path.open("rb") as handle:
-            raw = handle.read(MAX_BYTES + 1)
+        raw = _read_bytes(path)
     except OSError as exc:
         raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
     if len(raw) > MAX_BYTES:

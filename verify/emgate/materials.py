@@ -8,8 +8,9 @@ import numpy as np
 
 from emgate.errors import InputError, InputErrors
 from emgate.loader import Document
-from emgate.model import AnyDesign, MaterialsFile
+from emgate.model import AnyDesign, LossCurveTable, MaterialsFile
 from emgate.physics.bh import BHCurve
+from emgate.physics.iron_loss import LossCurve
 from emgate.units import QuantityError, convert, parse_unit
 
 #: No soft-magnetic steel has a relative permeability above this (grain-oriented sheet peaks
@@ -44,12 +45,32 @@ def _implausible(curve: BHCurve) -> str | None:
     )
 
 
+def _loss_curves(columns: list[str], curves: list[LossCurveTable]) -> tuple[LossCurve, ...]:
+    """Loss curves in SI from a materials file's table (QuantityError, ValueError)."""
+    fb, db = parse_unit(columns[0])
+    fp, dp = parse_unit(columns[1])
+    if db != (0, 1, -2, -1, 0) or dp != (2, 0, -3, 0, 0):
+        raise ValueError(
+            "expected columns of flux density and specific loss, such as ['T', 'W/kg'],"
+            f" found {list(columns)}"
+        )
+    out = []
+    for entry in curves:
+        pts = np.asarray(entry.points, dtype=float)
+        out.append(LossCurve(entry.frequency, pts[:, 0] * fb, pts[:, 1] * fp))
+    if len({c.frequency for c in out}) != len(out):
+        raise ValueError("two curves of the loss table share a frequency")
+    return tuple(out)
+
+
 class Catalogue:
     """Steel grades by designation; repository tables shadow nothing (a clash is an error)."""
 
     def __init__(self) -> None:
         self.local: dict[str, tuple[BHCurve, str]] = {}
         self.failed: list[str] = []  # materials files that did not validate
+        #: Measured loss tables by grade: the curves and their source.
+        self.loss_tables: dict[str, tuple[tuple[LossCurve, ...], str]] = {}
 
     def add_file(self, doc: Document, materials: MaterialsFile) -> None:
         from emgate import steels
@@ -97,9 +118,22 @@ class Catalogue:
             if problem:
                 errors.append(InputError(problem, doc.locate((*at, "points", problem_row(curve)))))
                 continue
+            if table.losses is not None:
+                try:
+                    self.loss_tables[name] = (
+                        _loss_curves(table.losses.columns, table.losses.curves),
+                        table.losses.source,
+                    )
+                except (QuantityError, ValueError) as exc:
+                    errors.append(InputError(str(exc), doc.locate((*at, "losses"))))
+                    continue
             self.local[name] = (curve, str(doc.locate_key(at)))
         if errors:
             raise InputErrors(errors)
+
+    def loss_table(self, name: str) -> tuple[tuple[LossCurve, ...], str] | None:
+        """The measured loss curves of a repository grade and their source, if given."""
+        return self.loss_tables.get(name)
 
     def get(self, name: str) -> BHCurve | None:
         from emgate import steels

@@ -66,6 +66,27 @@ class Rating(Strict):
         description="what the rating describes: a motor (power is shaft"
         " output) or a generator (power is electrical output, W or VA)",
     )
+    power_factor: Fraction | None = Field(
+        default=None,
+        description="rated power factor, lagging (a generator's field current on load is"
+        " computed at it; 0.8 when absent, the usual rating of synchronous generators)",
+    )
+    max_speed: Speed | None = Field(
+        default=None,
+        description="highest speed in service (field weakening, overspeed, a load that"
+        " drives the machine); the rated speed when absent",
+    )
+    peak_current: Current | None = Field(
+        default=None,
+        description="highest phase current the drive can deliver, peak (its current limit);"
+        " the fault demagnetisation check uses it instead of the short-circuit current",
+    )
+    converter_max_phase_voltage: Voltage | None = Field(
+        default=None,
+        description="highest phase voltage, rms, the converter withstands at its terminals"
+        " (a three-phase bridge on a DC link U_dc: U_dc / sqrt 6); the cold magnets' EMF at"
+        " the top speed must stay below it",
+    )
 
 
 class SemiClosedSlot(Strict):
@@ -189,6 +210,11 @@ class Cooling(Strict):
         | None
     ) = Field(default=None, description="IEC 60034-6 cooling code, e.g. IC411")
     ambient: Temperature = Field(description="coolant (ambient air or inlet liquid) temperature")
+    ambient_min: Temperature | None = Field(
+        default=None,
+        description="lowest coolant temperature in service (a cold start); -15 degC when"
+        " absent, the lower end of the ambient range of IEC 60034-1",
+    )
     fin_area_factor: float = Field(
         default=4.0,
         ge=1.0,
@@ -208,6 +234,24 @@ class Cooling(Strict):
         le=20.0,
         description="open machines: air-washed core area (bore, back, ends, ducts) over the"
         " core back (default 3; common practice, no source)",
+    )
+
+
+class MeasuredLosses(Strict):
+    """Losses the team has measured (or otherwise established) that replace emgate's
+    estimate of the same loss."""
+
+    stray_load: Power | None = Field(
+        default=None,
+        description="additional load losses measured by IEC 60034-2-1 (otherwise its assigned"
+        " allowance)",
+    )
+    friction_windage: Power | None = Field(
+        default=None, description="friction and windage, measured (otherwise an estimate)"
+    )
+    magnet_eddy: Power | None = Field(
+        default=None,
+        description="surface-magnet eddy loss (otherwise an estimate from the MMF harmonics)",
     )
 
 
@@ -286,7 +330,11 @@ class Magnet(Strict):
     thickness: Length
     pole_arc: Fraction = Field(description="magnet arc as a fraction of the pole pitch")
     material: MagnetMaterial
-    operating_temperature: Temperature
+    operating_temperature: Temperature | None = Field(
+        default=None,
+        description="magnet temperature the magnet checks use; when absent, emgate's"
+        " estimated rotor temperature (rotor.temperature)",
+    )
 
 
 class SurfacePMRotor(Strict):
@@ -307,6 +355,11 @@ class FieldCoil(Strict):
     turns_per_pole: int = Field(ge=1, le=100000)
     current: Current
     conductor: Conductor
+    brushes: Literal["none", "carbon", "metal_carbon"] = Field(
+        default="none",
+        description="field fed through slip rings and two brushes of this kind (their drop"
+        " counts as rotor loss), or 'none' for a brushless exciter",
+    )
 
 
 class SalientRotor(Strict):
@@ -338,6 +391,11 @@ class DesignBase(Strict):
     )
     winding: Winding
     cooling: Cooling
+    losses: MeasuredLosses | None = Field(
+        default=None,
+        description="measured losses that replace emgate's estimates (stray load, friction"
+        " and windage, magnet eddy loss)",
+    )
     declared: dict[str, str | float] = Field(
         default_factory=dict,
         description="the designer's own figures, by emgate quantity name, for the"
@@ -383,6 +441,29 @@ UNION_TAGS = frozenset({*MACHINE_KINDS, "semi_closed", "open", "round", "rectang
 # --- materials file ---------------------------------------------------------------------
 
 
+class LossCurveTable(Strict):
+    """Specific loss against peak flux density at one frequency."""
+
+    frequency: Frequency
+    points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
+        min_length=2, max_length=200, description="(B, loss) pairs, B increasing"
+    )
+
+
+class LossTable(Strict):
+    """Measured specific iron loss of a steel (sinusoidal flux, Epstein or single sheet)."""
+
+    source: Annotated[str, StringConstraints(min_length=3)] = Field(
+        description="where the losses come from (supplier datasheet, measurement report)"
+    )
+    columns: Annotated[list[str], Field(min_length=2, max_length=2)] = Field(
+        description="units of the two columns, e.g. ['T', 'W/kg']"
+    )
+    curves: list[LossCurveTable] = Field(
+        min_length=1, max_length=20, description="one curve per frequency"
+    )
+
+
 class SteelTable(Strict):
     """A steel grade given as a B-H table."""
 
@@ -395,6 +476,11 @@ class SteelTable(Strict):
     )
     points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
         min_length=3, max_length=500, description="(B, H) pairs from (0, 0), increasing"
+    )
+    losses: LossTable | None = Field(
+        default=None,
+        description="specific loss against B at one or more frequencies; when given it wins"
+        " over the scaling from a grade designation",
     )
 
 

@@ -15,15 +15,9 @@ from emgate.terms import DESIGN_SCHEMA, EXIT_INPUT, EXIT_OK
 from emgate.units import si_unit
 
 
-def sheet_values(
-    path: Path,
-) -> tuple[Any, dict[str, tuple[float | None, str, str, str]], list[tuple[str, str, str]]]:
-    """Load one design (with the materials files of its repository) and compute its sheet.
-
-    Returns the design; per quantity name (SI value or None, unit, method, error text); and
-    the steels it uses as (part, grade, origin of the curve).
-    """
-    from emgate.calc import SHEET, Calculation
+def load_design(path: Path) -> tuple[Any, Any, Any]:
+    """One design record, validated, with the steel catalogue of its repository resolved:
+    (document, design, catalogue); InputError(s) when it cannot be read."""
     from emgate.engine import discover_materials
     from emgate.loader import load
     from emgate.validate import schema_of, validate_design
@@ -35,6 +29,20 @@ def sheet_values(
     design = validate_design(doc)
     catalogue = discover_materials(path)
     catalogue.resolve(doc, design)
+    return doc, design, catalogue
+
+
+def sheet_values(
+    path: Path,
+) -> tuple[Any, dict[str, tuple[float | None, str, str, str]], list[tuple[str, str, str]]]:
+    """Load one design (with the materials files of its repository) and compute its sheet.
+
+    Returns the design; per quantity name (SI value or None, unit, method, error text); and
+    the steels it uses as (part, grade, origin of the curve).
+    """
+    from emgate.calc import SHEET, Calculation
+
+    _, design, catalogue = load_design(path)
     calc = Calculation(design, catalogue)
     out: dict[str, tuple[float | None, str, str, str]] = {}
     for name, entry in SHEET.items():

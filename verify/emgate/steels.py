@@ -37,8 +37,10 @@ __all__ = [
     "MAX_SPECIFIC_LOSS",
     "MIN_POLARIZATION",
     "MIN_POLARIZATION_FIELDS",
+    "LossData",
     "builtin_grades",
     "lookup",
+    "loss_data",
 ]
 
 #: Field strengths [A/m] at which IEC 60404-8-4 sets minimum polarizations.
@@ -103,19 +105,69 @@ class _Grade:
     density: float  # [kg/m^3], as recalled
     loss: float  # [W/kg] maximum at 1.5 T, 50 Hz: the designation's number / 100
     min_j: tuple[float, float, float] | None  # [T] at MIN_POLARIZATION_FIELDS; None: fit only
+    thickness: float  # [m] nominal: the designation's second number / 100 mm
+    resistivity: float  # [ohm m], typical of the grade's silicon content (from memory)
 
 
+# Resistivities: typical figures of producers' datasheets for these grades (from memory;
+# the lower of a grade's usual range, which overstates the eddy loss at high frequency).
 _GRADES: tuple[_Grade, ...] = (
-    _Grade("M270-35A", _M350_50A_FIT, 7650.0, 2.70, (1.49, 1.60, 1.70)),
-    _Grade("M330-50A", _M350_50A_FIT, 7650.0, 3.30, (1.49, 1.60, 1.70)),
-    _Grade("M350-50A", _M350_50A_FIT, 7650.0, 3.50, None),
-    _Grade("M400-50A", _M350_50A_FIT, 7700.0, 4.00, (1.53, 1.63, 1.73)),
-    _Grade("M530-50A", _M530_50A_FIT, 7700.0, 5.30, None),
-    _Grade("M800-65A", _M530_50A_FIT, 7800.0, 8.00, (1.60, 1.70, 1.78)),
+    _Grade("M270-35A", _M350_50A_FIT, 7650.0, 2.70, (1.49, 1.60, 1.70), 0.35e-3, 0.52e-6),
+    _Grade("M330-50A", _M350_50A_FIT, 7650.0, 3.30, (1.49, 1.60, 1.70), 0.50e-3, 0.52e-6),
+    _Grade("M350-50A", _M350_50A_FIT, 7650.0, 3.50, None, 0.50e-3, 0.50e-6),
+    _Grade("M400-50A", _M350_50A_FIT, 7700.0, 4.00, (1.53, 1.63, 1.73), 0.50e-3, 0.42e-6),
+    _Grade("M530-50A", _M530_50A_FIT, 7700.0, 5.30, None, 0.50e-3, 0.36e-6),
+    _Grade("M800-65A", _M530_50A_FIT, 7800.0, 8.00, (1.60, 1.70, 1.78), 0.65e-3, 0.24e-6),
 )
 
 #: Maximum specific total loss [W/kg] at 1.5 T, 50 Hz, as the grade designation encodes it.
 MAX_SPECIFIC_LOSS: Mapping[str, float] = MappingProxyType({g.name: g.loss for g in _GRADES})
+
+
+@dataclass(frozen=True)
+class LossData:
+    """What the iron-loss scaling needs of a built-in grade (SI).
+
+    Parameters
+    ----------
+    specific_loss : float
+        Maximum at 1.5 T, 50 Hz [W/kg] (the designation).
+    thickness : float
+        [m] (the designation).
+    density : float
+        [kg/m^3], as recalled from IEC 60404-8-4.
+    resistivity : float
+        [ohm m], typical (from memory).
+    """
+
+    specific_loss: float
+    thickness: float
+    density: float
+    resistivity: float
+
+
+def loss_data(name: str) -> LossData | None:
+    """Loss figures of a built-in grade, or None when the grade is not built in.
+
+    Parameters
+    ----------
+    name : str
+        Designation; case and surrounding blanks are ignored.
+
+    Returns
+    -------
+    LossData or None
+
+    References
+    ----------
+    IEC 60404-8-4 (designation: loss at 1.5 T 50 Hz and thickness; conventional density)
+    [from memory]; resistivity from producers' datasheets [from memory].
+    """
+    g = _BY_NAME.get(name.strip().upper())
+    if g is None:
+        return None
+    return LossData(g.loss, g.thickness, g.density, g.resistivity)
+
 
 #: Minimum polarizations [T] at :data:`MIN_POLARIZATION_FIELDS`, as recalled from
 #: IEC 60404-8-4 (verify against the standard).

@@ -133,6 +133,7 @@ DIMENSIONS: dict[str, tuple[Dims, str]] = {
     "power": (_W, "7.5 kW"),
     "energy": (_J, "1 kJ"),
     "torque": (_J, "48 N*m"),
+    "pressure": ((-1, 1, -2, 0, 0), "20 kN/m^2"),
     "temperature": (_TH, "40 degC"),
     "temperature_difference": (_TH, "80 K"),
     "flux_density": (_TESLA, "0.8 T"),
@@ -389,7 +390,18 @@ def format_value(value_si: float, unit: str, digits: int = 4) -> str:
 
 
 #: Names of the SI units whose dimensions (m, kg, s, A, K) have one.
-_NAMED_SI = {_TESLA: "T", _I: "A", _OHM: "ohm", _W: "W", _TH: "K", _WB: "Wb", _V: "V"}
+_NAMED_SI = {
+    _TESLA: "T",
+    _I: "A",
+    _OHM: "ohm",
+    _W: "W",
+    _TH: "K",
+    _WB: "Wb",
+    _V: "V",
+    _HENRY: "H",
+    _J: "N*m",
+    (-1, 1, -2, 0, 0): "Pa",
+}
 
 
 def si_unit(unit: str) -> str:
@@ -397,6 +409,8 @@ def si_unit(unit: str) -> str:
     which the JSON outputs give values."""
     if unit in ("", "1"):
         return "1"
+    if unit in CELSIUS:  # a display unit of absolute temperature: SI kelvin
+        return "K"
     dims = parse_unit(unit)[1]
     if dims in _NAMED_SI:
         return _NAMED_SI[dims]

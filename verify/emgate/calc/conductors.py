@@ -9,7 +9,13 @@ from emgate.calc import winding
 from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
-    from emgate.model import OpenSlot, RectangularConductor, RoundConductor, SemiClosedSlot
+    from emgate.model import (
+        AnyDesign,
+        OpenSlot,
+        RectangularConductor,
+        RoundConductor,
+        SemiClosedSlot,
+    )
     from emgate.physics.conductors import ConductorMaterial
 
 #: Slot liner when the record gives none: 0.25 mm of insulating paper is usual for
@@ -94,6 +100,48 @@ def slot_width_clearance(c: Calculation) -> float:
         c.d.winding.conductor.insulated_width,
         liner(c),
     )
+
+
+def _rectangular_in_open_slot(d: AnyDesign) -> bool:
+    return d.winding.conductor.shape == "rectangular" and d.stator.slot.shape == "open"
+
+
+@quantity("stator.strands_across", when=_rectangular_in_open_slot)
+def strands_across(c: Calculation) -> float:
+    from emgate.physics.slots import strands_across
+
+    cond, slot = c.d.winding.conductor, c.d.stator.slot
+    assert cond.shape == "rectangular" and slot.shape == "open"
+    return strands_across(slot.width, cond.insulated_width, liner(c))
+
+
+def slot_height_clearance_with(c: Calculation, separator: float) -> float:
+    """``stator.slot_height_clearance`` with ``separator`` between the layers [m]."""
+    import math
+
+    from emgate.physics.slots import slot_height_clearance
+
+    d = c.d
+    w, slot = d.winding, d.stator.slot
+    cond = w.conductor
+    assert cond.shape == "rectangular" and slot.shape == "open"
+    return slot_height_clearance(
+        slot.height,
+        slot.wedge_height,
+        cond.insulated_height,
+        math.ceil(cond.strands / strands_across(c)),
+        w.layers * w.turns_per_coil,
+        w.layers,
+        liner(c),
+        separator,
+    )
+
+
+@quantity("stator.slot_height_clearance", when=_rectangular_in_open_slot)
+def slot_height_clearance(c: Calculation) -> float:
+    from emgate.physics.slots import LAYER_SEPARATOR
+
+    return slot_height_clearance_with(c, LAYER_SEPARATOR)
 
 
 @quantity("stator.conductors_per_slot")

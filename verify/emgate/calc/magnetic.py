@@ -120,7 +120,16 @@ def magnetic(c: Calculation) -> GapResult:
             winding_factor=winding.winding_factor(c),
         )
     if d.machine == "surface_pm":
-        return _surface_pm_circuit(c, d.rotor.magnet.operating_temperature)
+        return _surface_pm_circuit(c, c.value("rotor.magnet_temperature"))  # calc.thermal
+    return salient_circuit(c, d.rotor.field.turns_per_pole * d.rotor.field.current)
+
+
+def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
+    """The salient-pole circuit at no load with the field ampere-turns per pole ``field_mmf``."""
+    from emgate.physics import magnetic as mk
+
+    d = c.d
+    assert d.machine == "salient_field"
     pole = d.rotor.pole
     # The kernel's pole height runs from the gap to the rim, shoe included; the record's
     # body_height stops at the shoe. The body's flux density is carried over the shoe
@@ -136,7 +145,7 @@ def magnetic(c: Calculation) -> GapResult:
         salient,
         stator_steel(c),
         rotor_steel(c),
-        field_mmf=d.rotor.field.turns_per_pole * d.rotor.field.current,
+        field_mmf=field_mmf,
     )
 
 

@@ -127,7 +127,7 @@ def magnet_coercivity_at(c: Calculation, temperature: float) -> float:
 
 @quantity("rotor.magnet_coercivity_hot")
 def magnet_coercivity_hot(c: Calculation) -> float:
-    return magnet_coercivity_at(c, c.d.rotor.magnet.operating_temperature)
+    return magnet_coercivity_at(c, c.value("rotor.magnet_temperature"))  # calc.thermal
 
 
 @quantity("rotor.magnet_coercivity_cold")

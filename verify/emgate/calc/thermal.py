@@ -1,15 +1,16 @@
-"""The lumped thermal estimate of the stator winding."""
+"""The lumped thermal estimate: every loss where it arises, at a self-consistent winding
+temperature."""
 
 from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
 from emgate import geometry as geo
-from emgate.calc import conductors
+from emgate.calc import conductors, losses, winding
 from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
-    from emgate.physics.thermal import ThermalEstimate
+    from emgate.physics.thermal import HeatSources, OperatingPoint, ThermalEstimate
 
 #: Cooled frame length over the stack length when the record gives no cooling.frame_length:
 #: the frame with its end shields (the record's documented default; common practice, no
@@ -18,13 +19,21 @@ FRAME_PER_STACK = 1.5
 
 
 def thermal_estimate(c: Calculation) -> ThermalEstimate:
-    """The lumped winding-temperature estimate, with the record's cooling-surface factors
-    (``cooling.fin_area_factor``, ``frame_length``, ``core_area_factor``)."""
-    return _thermal_estimate(c)
+    """The lumped estimate at the operating (fixed-point) winding temperature, with the
+    record's cooling-surface factors (``cooling.fin_area_factor``, ``frame_length``,
+    ``core_area_factor``). Raises ValueError on a thermal run-away."""
+    op = operating_point(c)
+    if op.runaway or op.estimate is None:
+        raise ValueError(
+            "thermal run-away: the copper loss grows with temperature faster than the cooling"
+            f" sheds it (no steady winding temperature; last iterate {op.temperature - 273.15:.0f}"
+            " degC)"
+        )
+    return op.estimate
 
 
 @memo
-def _thermal_estimate(c: Calculation) -> ThermalEstimate:
+def _network(c: Calculation):  # type: ignore[no-untyped-def]
     from emgate.physics import thermal as tk
 
     d = c.d
@@ -49,15 +58,99 @@ def _thermal_estimate(c: Calculation) -> ThermalEstimate:
     params = tk.ThermalParameters(
         fin_area_factor=cooling.fin_area_factor, core_area_factor=cooling.core_area_factor
     )
-    return tk.winding_temperature_rise(
-        conductors.copper_loss(c),
-        geometry,
-        cooling.method,
-        coolant_temperature=cooling.ambient,
-        parameters=params,
+    gap = tk.RotorGap(d.air_gap, geo.rotor_outer_diameter(d), d.rating.speed)
+    return geometry, params, gap
+
+
+@memo
+def heat_sources(c: Calculation) -> HeatSources:
+    """The losses by where they arise, copper at 20 degC (the fixed point rescales it)."""
+    from emgate.physics.conductors import copper_loss
+    from emgate.physics.thermal import HeatSources
+
+    slot_share = min(1.0, 2.0 * c.d.stator.stack_length / conductors.mean_turn_length(c))
+    cu20 = copper_loss(
+        c.d.winding.phases, winding.phase_current(c), conductors.phase_resistance_20c(c)
+    )
+    # Open machines: the through-flow air washes the rotor and carries its loss and the
+    # friction and windage away; they do not reach the stator path (the rotor temperature
+    # is then not estimated from the gap alone).
+    open_air = c.d.cooling.method == "open_ventilated"
+    return HeatSources(
+        copper_slot=cu20 * slot_share,
+        copper_end=cu20 * (1.0 - slot_share),
+        # the additional load losses arise at the gap surfaces of the teeth: with the tooth
+        # iron, which joins at the bore side as the rotor's does
+        iron_teeth=losses.stator_iron_teeth(c) + losses.stray_load(c),
+        iron_yoke=losses.stator_iron_yoke(c),
+        rotor=0.0 if open_air else losses.rotor(c),
+        friction=0.0 if open_air else losses.friction_windage(c),
+    )
+
+
+@memo
+def operating_point(c: Calculation) -> OperatingPoint:
+    """The fixed point T = T_c + rise(P_cu(T)) (``emgate.physics.thermal``)."""
+    from emgate.physics import thermal as tk
+
+    geometry, params, gap = _network(c)
+    sources = heat_sources(c)
+    d = c.d
+
+    def estimate(copper: float) -> ThermalEstimate:
+        return tk.machine_temperature_rise(
+            sources.with_copper(copper),
+            geometry,
+            d.cooling.method,
+            coolant_temperature=d.cooling.ambient,
+            parameters=params,
+            rotor_gap=None if d.cooling.method == "open_ventilated" else gap,
+        )
+
+    return tk.operating_temperature(
+        sources.copper, conductors.conductor_material(c).alpha20, estimate, d.cooling.ambient
     )
 
 
 @quantity("winding.temperature_rise")
 def temperature_rise(c: Calculation) -> float:
     return thermal_estimate(c).winding_rise
+
+
+@quantity("winding.operating_temperature")
+def operating_temperature(c: Calculation) -> float:
+    return thermal_estimate(c).winding_temperature
+
+
+@quantity("winding.phase_resistance_operating")
+def phase_resistance_operating(c: Calculation) -> float:
+    return conductors._phase_resistance(c, operating_temperature(c))
+
+
+@quantity("rotor.temperature")
+def rotor_temperature(c: Calculation) -> float:
+    t = thermal_estimate(c).rotor_temperature
+    return float("nan") if t is None else t
+
+
+@quantity("rotor.magnet_temperature")
+def magnet_temperature(c: Calculation) -> float:
+    """The magnet temperature of the magnet checks [K]: the record's, or else the estimated
+    rotor temperature. The estimate comes from one pass of the thermal network of the same
+    record with the magnet provisionally at the reference temperature of the insulation
+    class (the losses hardly depend on it); where the network gives no rotor temperature
+    (open or direct-liquid cooling), that reference temperature itself."""
+    import math
+
+    declared = c.d.rotor.magnet.operating_temperature
+    if declared is not None:
+        return declared
+    provisional = conductors.class_reference_temperature(c)
+    rotor = c.d.rotor.model_copy(
+        update={
+            "magnet": c.d.rotor.magnet.model_copy(update={"operating_temperature": provisional})
+        }
+    )
+    first = Calculation(c.d.model_copy(update={"rotor": rotor}), c.catalogue)
+    estimate = rotor_temperature(first)
+    return provisional if math.isnan(estimate) else estimate

@@ -99,6 +99,37 @@ class Sheet(Mapping[str, float]):
         the rated current instead of at the rated current [A/m]."""
         return float(self._read("magnet_field", current_factor, cold))
 
+    @property
+    def winding_family(self) -> str:
+        """'distributed', 'tooth_coil_double_layer' or 'tooth_coil_single_layer' (a coil
+        pitch of one slot is a tooth coil)."""
+        return str(self._read("winding_family"))
+
+    @property
+    def lowest_ambient(self) -> float:
+        """The lowest coolant temperature of the worst cases [K]: cooling.ambient_min, or
+        -15 degC when absent, never above cooling.ambient."""
+        return float(self._read("lowest_ambient"))
+
+    @property
+    def top_speed(self) -> float:
+        """rating.max_speed, or the rated speed when absent [1/s]."""
+        return float(self._read("top_speed"))
+
+    def fault_current(self, *, cold: bool = False) -> float:
+        """The worst credible phase current, peak [A]: ``winding.fault_current_peak``, or
+        with ``cold`` that of the magnet at the lowest ambient."""
+        return float(self._read("fault_current", cold))
+
+    def magnet_field_at_fault(self, current_factor: float, *, cold: bool = False) -> float:
+        """``rotor.magnet_field_strength_fault_hot`` (``_cold``) at ``current_factor`` times
+        the worst credible current [A/m]."""
+        return float(self._read("magnet_field_at_fault", current_factor, cold))
+
+    def slot_height_clearance(self, separator: float) -> float:
+        """``stator.slot_height_clearance`` with ``separator`` [m] between the layers [m]."""
+        return float(self._read("slot_height_clearance", separator))
+
 
 def _value(c: Calculation, name: str) -> float:
     from emgate.calc import winding
@@ -124,6 +155,61 @@ def _magnet_field(c: Calculation, factor: float, cold: bool) -> float:
     return rotor.magnet_h_with_current(c, factor, cold=cold)
 
 
+def _guarded(c: Calculation, name: str, compute: Callable[[], float]) -> float:
+    """A variant of the sheet quantity ``name``: applicable where it is, and on an
+    unbalanced winding not computed, as the name itself."""
+    from emgate.calc import winding
+
+    _value(c, name)
+    try:
+        return compute()
+    except (ValueError, ArithmeticError) as exc:
+        if isinstance(exc, NotComputed) or not winding.winding_problems(c):
+            raise
+        raise NotComputed(name, str(exc)) from exc
+
+
+def _fault_current(c: Calculation, cold: bool) -> float:
+    from emgate.calc import circuit
+
+    return _guarded(c, "winding.fault_current_peak", lambda: circuit.fault_current(c, cold=cold))
+
+
+def _magnet_field_at_fault(c: Calculation, factor: float, cold: bool) -> float:
+    from emgate.calc import circuit
+
+    name = "rotor.magnet_field_strength_fault_" + ("cold" if cold else "hot")
+    return _guarded(c, name, lambda: circuit.magnet_field_at_fault(c, cold=cold, factor=factor))
+
+
+def _slot_height_clearance(c: Calculation, separator: float) -> float:
+    from emgate.calc import conductors
+
+    return _guarded(
+        c,
+        "stator.slot_height_clearance",
+        lambda: conductors.slot_height_clearance_with(c, separator),
+    )
+
+
+def _winding_family(c: Calculation) -> str:
+    from emgate.calc import circuit
+
+    return circuit.family(c)
+
+
+def _lowest_ambient(c: Calculation) -> float:
+    from emgate.calc import circuit
+
+    return circuit.lowest_ambient(c)
+
+
+def _top_speed(c: Calculation) -> float:
+    from emgate.calc import circuit
+
+    return circuit.top_speed(c)
+
+
 def _thermal_steps(c: Calculation) -> tuple[ThermalStep, ...]:
     from emgate.calc import thermal
 
@@ -142,4 +228,10 @@ _OPS: dict[str, Callable[..., Any]] = {
     "winding_problems": _winding_problems,
     "thermal_steps": _thermal_steps,
     "magnet_field": _magnet_field,
+    "winding_family": _winding_family,
+    "lowest_ambient": _lowest_ambient,
+    "top_speed": _top_speed,
+    "fault_current": _fault_current,
+    "magnet_field_at_fault": _magnet_field_at_fault,
+    "slot_height_clearance": _slot_height_clearance,
 }

@@ -10,18 +10,23 @@ the current of one conductor is the phase current over the number of paths.
 from __future__ import annotations
 
 import math
+from typing import Literal, NamedTuple
 
 import numpy as np
 
 from emgate.physics.winding import WindingError, as_layout, harmonic_phasors
 
 __all__ = [
+    "WINDING_FAMILIES",
+    "HarmonicRatios",
     "balanced_currents",
+    "harmonic_ratios",
     "mmf_fundamental_peak",
     "mmf_spectrum",
     "mmf_staircase",
     "mmf_thd",
     "slot_ampere_conductors",
+    "winding_family",
 ]
 
 #: Net current through the bore allowed, relative to the sum of |ampere-conductors|: rounding
@@ -308,3 +313,121 @@ def mmf_peak(layout: np.ndarray, turns_per_coil: float, current_rms: float) -> f
         layout, turns_per_coil, balanced_currents(m, current_rms, math.pi / 2.0), 1
     )
     return float(np.max(np.hypot(at_zero, at_quarter)))
+
+
+#: Winding families whose MMF harmonic content differs by nature: distributed (coils
+#: spanning several teeth, THD near 0.1 to 0.3), and tooth coils (each coil round one
+#: tooth) in two layers (THD near 1) or one (near 1.5 and above).
+WINDING_FAMILIES = ("distributed", "tooth_coil_double_layer", "tooth_coil_single_layer")
+WindingFamily = Literal["distributed", "tooth_coil_double_layer", "tooth_coil_single_layer"]
+
+
+def winding_family(slots: int, poles: int, layers: int, coil_pitch: int) -> WindingFamily:
+    """The family of a winding: distributed, or tooth coils in one or two layers.
+
+    A coil spanning one slot pitch is wound round one tooth (a tooth coil, also called a
+    non-overlapping or concentrated winding), whatever its slots per pole and phase; a
+    coil spanning more is distributed (its end connections overlap its neighbours').
+
+    Parameters
+    ----------
+    slots : int
+        Number of slots Q >= 2.
+    poles : int
+        Number of poles 2p >= 2, even.
+    layers : int
+        1 or 2.
+    coil_pitch : int
+        Coil span y in slot pitches, 1 <= y < Q.
+
+    Returns
+    -------
+    str
+        ``"distributed"``, ``"tooth_coil_double_layer"`` or ``"tooth_coil_single_layer"``.
+
+    References
+    ----------
+    A. M. El-Refaie, "Fractional-slot concentrated-windings synchronous permanent magnet
+    machines: opportunities and challenges", IEEE Trans. Ind. Electron. 57(1), 2010 (tooth
+    coils in single and double layer; from memory).
+    """
+    for value, name, low in ((slots, "slots", 2), (poles, "poles", 2), (coil_pitch, "pitch", 1)):
+        if int(value) != value or value < low:
+            raise WindingError(f"{name} must be a whole number >= {low}, got {value!r}")
+    if poles % 2:
+        raise WindingError(f"poles must be even, got {poles}")
+    if layers not in (1, 2):
+        raise WindingError(f"layers must be 1 or 2, got {layers!r}")
+    if coil_pitch >= slots:
+        raise WindingError(f"coil pitch must be 1..{slots - 1} slots, got {coil_pitch}")
+    if coil_pitch > 1:
+        return "distributed"
+    return "tooth_coil_double_layer" if layers == 2 else "tooth_coil_single_layer"
+
+
+class HarmonicRatios(NamedTuple):
+    """The largest single sub-harmonic and slot harmonic of the MMF, over the working one."""
+
+    subharmonic: float
+    subharmonic_order: int
+    slot_harmonic: float
+    slot_harmonic_order: int
+
+
+def harmonic_ratios(layout: np.ndarray, pole_pairs: int, instant: float = 0.0) -> HarmonicRatios:
+    """The largest sub-harmonic and the largest slot harmonic of the staircase MMF.
+
+    From the exact spectrum (:func:`mmf_spectrum`, balanced currents): the largest A_n / A_p
+    over the sub-harmonic orders 1 <= n < p, and over the slot-harmonic orders
+    n = |k Q +- p|, k = 1, 2, 3, n != p (those whose winding factor equals the working one,
+    so A_n / A_p = p / n for them in an integral-slot winding; the largest is k = 1). A
+    slot-harmonic order below p counts in both. Sub-harmonics drive rotor eddy losses in
+    magnets and sleeves; slot harmonics noise and losses.
+
+    Parameters
+    ----------
+    layout : numpy.ndarray
+        Layout, shape (m, Q).
+    pole_pairs : int
+        Number of pole pairs p (the working order).
+    instant : float, optional
+        Electrical angle of the currents [rad] (default 0; a balanced symmetric winding's
+        ratios do not depend on it).
+
+    Returns
+    -------
+    HarmonicRatios
+        Ratios [-] with their mechanical orders; ratio 0 and order 0 when p = 1 (no
+        sub-harmonic order exists).
+
+    Raises
+    ------
+    ValueError
+        When the working order carries no MMF at that instant.
+
+    References
+    ----------
+    A. E. Fitzgerald, C. Kingsley, *Electric Machinery*, McGraw-Hill (MMF harmonics and
+    slot harmonics of order k Q +- p; from memory); A. M. El-Refaie, IEEE Trans. Ind.
+    Electron. 57(1), 2010 (sub-harmonics of tooth-coil windings; from memory).
+    """
+    lay = as_layout(layout)
+    p = int(pole_pairs)
+    if p != pole_pairs or p < 1:
+        raise WindingError(f"pole pairs must be a whole number >= 1, got {pole_pairs!r}")
+    slots = lay.shape[1]
+    top = 3 * slots + p
+    spectrum = mmf_spectrum(lay, 1.0, balanced_currents(lay.shape[0], 1.0, instant), top)
+    working = spectrum[p]
+    if working <= 1e-12 * spectrum.max():
+        raise ValueError(f"the layout has no MMF of the working order {p} at this instant")
+    ratio = spectrum / working
+    sub_order = int(np.argmax(ratio[1:p])) + 1 if p > 1 else 0
+    orders = {abs(k * slots + s * p) for k in (1, 2, 3) for s in (1, -1)} - {0, p}
+    slot_order = max(sorted(orders), key=lambda n: ratio[n])
+    return HarmonicRatios(
+        float(ratio[sub_order]) if sub_order else 0.0,
+        sub_order,
+        float(ratio[slot_order]),
+        slot_order,
+    )

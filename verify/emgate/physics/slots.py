@@ -336,3 +336,81 @@ def slot_width_clearance(slot_width: float, insulated_width: float, liner: float
     Geometric condition [calc], strands stacked radially, one across the slot.
     """
     return slot_width - (insulated_width + 2.0 * liner)
+
+
+#: Radial room between the coil sides of a two-layer form-wound slot, per separator [m]
+#: (common practice, no source).
+LAYER_SEPARATOR: float = 0.5e-3
+
+
+def strands_across(slot_width: float, insulated_width: float, liner: float) -> int:
+    """Insulated rectangular strands side by side across an open slot.
+
+    Parameters
+    ----------
+    slot_width : float
+        Width ``b`` of the open slot [m].
+    insulated_width : float
+        Strand width over its insulation [m], > 0.
+    liner : float
+        Slot-liner thickness on each wall [m].
+
+    Returns
+    -------
+    int
+        As many as the width net of two liners takes, ``floor((b - 2 t) / w_ins)``, at
+        least one (a strand that does not fit is the width clearance's finding).
+
+    References
+    ----------
+    Geometric condition [calc].
+    """
+    check_positive(insulated_width=insulated_width)
+    return max(1, int((slot_width - 2.0 * liner) // insulated_width))
+
+
+def slot_height_clearance(
+    slot_height: float,
+    wedge_height: float,
+    insulated_height: float,
+    rows_per_conductor: int,
+    conductors: int,
+    layers: int,
+    liner: float,
+    separator: float = LAYER_SEPARATOR,
+) -> float:
+    """Depth left in an open slot by the radial stack of a form-wound coil.
+
+    Parameters
+    ----------
+    slot_height : float
+        Total slot depth ``h`` from the bore [m].
+    wedge_height : float
+        Wedge height ``h_w`` at the bore side [m].
+    insulated_height : float
+        Strand height over its insulation ``h_ins`` [m].
+    rows_per_conductor : int
+        Strand rows of one conductor, ``n_r = ceil(strands / across)``.
+    conductors : int
+        Conductors a slot ``z`` (layers times turns per coil).
+    layers : int
+        Coil sides a slot; a separator lies between two.
+    liner : float
+        Slot-liner thickness ``t``, at the bottom and under the wedge [m].
+    separator : float, optional
+        Radial room between the layers ``s`` [m]; default 0.5 mm (common practice, no
+        source).
+
+    Returns
+    -------
+    float
+        ``h - (n_r z h_ins + (layers - 1) s + 2 t + h_w)`` [m]; negative when the coil does
+        not fit.
+
+    References
+    ----------
+    Geometric condition [calc]; separator [cp].
+    """
+    stack = rows_per_conductor * conductors * insulated_height
+    stack += (layers - 1) * separator + 2.0 * liner + wedge_height
+    return slot_height - stack

@@ -8,16 +8,24 @@ wall -> frame surface (convection + radiation) -> coolant (mean rise of the cool
 when its heat-capacity rate is given).
 
 Which links exist depends on the cooling method (:data:`COOLING_METHODS`); the surface film
-coefficients come from :mod:`emgate.physics.convection`. Stated
+coefficients come from :mod:`emgate.physics.convection`. Each loss joins the path where it
+arises (:class:`HeatSources`, :func:`machine_temperature_rise`). Stated
 simplifications, all of them conservative or neutral for a limit check:
 
-* all copper loss, end windings included, is taken to leave through the slot liner (heat from
-  the end windings to the end-space air is neglected);
-* other losses (iron, and rotor loss crossing the gap) join the path at the teeth-yoke
-  boundary;
-* the frame ends, the feet and the shaft carry no heat;
+* all copper loss, end windings included, is taken to leave through the slot liner (the end
+  windings' loss conducts along the copper into the slots; their own cooling to the
+  end-space air is neglected);
+* tooth iron loss and the rotor loss crossing the gap join at the top of the teeth (the
+  bore side), so the whole tooth carries them; yoke iron loss joins at the teeth-yoke
+  boundary; friction and windage join at the frame (bearings and fan), so only the frame
+  surface carries it;
+* the frame ends, the feet and the shaft carry no heat; the rotor's loss leaves only across
+  the gap;
 * the coolant temperature is the mean coolant temperature at the boundary (inlet air, or the
   mean liquid temperature), unless a heat-capacity rate adds the coolant's own mean rise.
+
+The copper loss depends on the winding temperature it produces: :func:`operating_temperature`
+iterates the two to a fixed point and reports a thermal run-away as a result, never a hang.
 """
 
 from __future__ import annotations
@@ -164,6 +172,136 @@ class ThermalParameters:
 
 
 @dataclass(frozen=True)
+class HeatSources:
+    """Losses [W] by where they arise in the machine.
+
+    Parameters
+    ----------
+    copper_slot, copper_end : float
+        Stator copper loss in the slot parts and in the end windings.
+    iron_teeth, iron_yoke : float
+        Stator iron loss.
+    rotor : float
+        All rotor loss (cage or field copper, rotor iron, magnet eddy currents, the rotor
+        share of stray load), leaving across the gap.
+    friction : float
+        Friction and windage, at the frame.
+    """
+
+    copper_slot: float = 0.0
+    copper_end: float = 0.0
+    iron_teeth: float = 0.0
+    iron_yoke: float = 0.0
+    rotor: float = 0.0
+    friction: float = 0.0
+
+    @property
+    def copper(self) -> float:
+        """[W]."""
+        return self.copper_slot + self.copper_end
+
+    @property
+    def total(self) -> float:
+        """[W]."""
+        return self.copper + self.iron_teeth + self.iron_yoke + self.rotor + self.friction
+
+    def with_copper(self, copper: float) -> HeatSources:
+        """The same sources with the copper loss rescaled to ``copper`` [W], its slot and
+        end shares kept (both shares at one mean winding temperature)."""
+        total = self.copper
+        slot_share = self.copper_slot / total if total > 0.0 else 1.0
+        return HeatSources(
+            copper * slot_share,
+            copper * (1.0 - slot_share),
+            self.iron_teeth,
+            self.iron_yoke,
+            self.rotor,
+            self.friction,
+        )
+
+
+@dataclass(frozen=True)
+class RotorGap:
+    """What the gap crossing needs (SI).
+
+    Parameters
+    ----------
+    air_gap : float
+        Radial gap [m].
+    rotor_diameter : float
+        [m].
+    speed : float
+        [1/s].
+    """
+
+    air_gap: float
+    rotor_diameter: float
+    speed: float
+
+
+def gap_nusselt(taylor: float) -> float:
+    """Nusselt number of the air gap between a rotating cylinder and a still one.
+
+    Parameters
+    ----------
+    taylor : float
+        Modified Taylor number ``Ta_m = Omega^2 r_m g^3 / nu^2`` (geometric factor taken as
+        1, a narrow gap) [-].
+
+    Returns
+    -------
+    float
+        ``Nu = h 2 g / k``: 2 (conduction) below 1700; ``0.128 Ta_m^0.367`` up to 1e4;
+        ``0.409 Ta_m^0.241`` up to 1e7 (and beyond, as an extrapolation) [-]. The two
+        correlations meet the conduction value near Ta_m = 1700 and each other near 1e4.
+
+    References
+    ----------
+    Becker, K. M. and Kaye, J., "Measurements of diabatic flow in an annulus with an inner
+    rotating cylinder", J. Heat Transfer 84 (1962) 97-105 [from memory, as quoted in
+    Boglietti et al., IEEE Trans. Ind. Electron. 56(3), 2009].
+    """
+    if taylor < 0.0:
+        raise ValueError("Taylor number must be >= 0")
+    if taylor < 1700.0:
+        return 2.0
+    if taylor < 1e4:
+        return max(2.0, 0.128 * taylor**0.367)
+    return 0.409 * taylor**0.241
+
+
+def gap_resistance(gap: RotorGap, stack_length: float, air_temperature: float) -> float:
+    """Thermal resistance across the air gap, rotor surface to bore [K/W].
+
+    Parameters
+    ----------
+    gap : RotorGap
+    stack_length : float
+        [m].
+    air_temperature : float
+        Gap air temperature for its properties [K].
+
+    Returns
+    -------
+    float
+        ``1 / (h pi D l)``, ``h = Nu k / (2 g)`` by :func:`gap_nusselt`; both surfaces of
+        the gap share the one coefficient (a lumped estimate).
+
+    References
+    ----------
+    As :func:`gap_nusselt`.
+    """
+    if not (gap.air_gap > 0.0 and gap.rotor_diameter > 0.0 and stack_length > 0.0):
+        raise ValueError("gap, rotor diameter and length must be > 0")
+    air = air_properties(air_temperature)
+    omega = 2.0 * math.pi * gap.speed
+    r_m = 0.5 * gap.rotor_diameter + 0.5 * gap.air_gap
+    taylor = omega**2 * r_m * gap.air_gap**3 / air.kinematic_viscosity**2
+    h = gap_nusselt(taylor) * air.conductivity / (2.0 * gap.air_gap)
+    return 1.0 / (h * math.pi * gap.rotor_diameter * stack_length)
+
+
+@dataclass(frozen=True)
 class ThermalStep:
     """One link of the heat path.
 
@@ -204,6 +342,11 @@ class ThermalEstimate:
         At the cooled boundary [W/(m^2 K)].
     radiation_coefficient : float
         At the frame surface, 0 where not counted [W/(m^2 K)].
+    rotor_temperature : float or None
+        Mean rotor surface temperature [K]: the bore temperature plus the rotor loss across
+        the gap (:func:`gap_resistance`); None where not estimated.
+    sources : HeatSources or None
+        The losses the estimate was fed.
     """
 
     method: str
@@ -213,6 +356,8 @@ class ThermalEstimate:
     steps: tuple[ThermalStep, ...]
     convection_coefficient: float
     radiation_coefficient: float
+    rotor_temperature: float | None = None
+    sources: HeatSources | None = None
 
     @property
     def resistances(self) -> dict[str, float]:
@@ -287,23 +432,17 @@ def winding_temperature_rise(
 ) -> ThermalEstimate:
     """Lumped steady-state rise of the mean winding temperature over the coolant.
 
+    The copper loss and one lump of other losses at the teeth-yoke boundary: the same as
+    :func:`machine_temperature_rise` with ``HeatSources(copper_slot=copper_loss,
+    iron_yoke=other_losses)``.
+
     Parameters
     ----------
     copper_loss : float
         Stator copper loss [W], at the temperature it is to be checked at.
     geometry : StatorThermalGeometry
     cooling : str
-        One of :data:`COOLING_METHODS`:
-
-        * ``enclosed_natural``: free convection (Churchill-Chu) and radiation from the
-          frame, a horizontal cylinder in still air;
-        * ``enclosed_fan``: fan air along the frame (turbulent flat plate, fin area factor
-          and efficiency), plus radiation;
-        * ``open_ventilated``: through-flow air over the core back (times a core area
-          factor), no frame; end windings and ducts are not credited unless through that
-          factor;
-        * ``liquid_jacket``: liquid in a frame jacket, a given coefficient;
-        * ``direct_liquid``: liquid in contact with the winding; the iron path is neglected.
+        One of :data:`COOLING_METHODS` (see :func:`machine_temperature_rise`).
     other_losses : float, optional
         Iron and other losses joining the path at the teeth-yoke boundary [W].
     coolant_temperature : float, optional
@@ -316,6 +455,62 @@ def winding_temperature_rise(
 
     References
     ----------
+    As :func:`machine_temperature_rise`.
+    """
+    if copper_loss < 0.0 or other_losses < 0.0:
+        raise ValueError("losses must be >= 0")
+    return machine_temperature_rise(
+        HeatSources(copper_slot=copper_loss, iron_yoke=other_losses),
+        geometry,
+        cooling,
+        coolant_temperature=coolant_temperature,
+        parameters=parameters,
+    )
+
+
+def machine_temperature_rise(
+    sources: HeatSources,
+    geometry: StatorThermalGeometry,
+    cooling: CoolingMethod,
+    *,
+    coolant_temperature: float = 313.15,
+    parameters: ThermalParameters | None = None,
+    rotor_gap: RotorGap | None = None,
+) -> ThermalEstimate:
+    """Lumped steady-state rise of the mean winding temperature, every loss where it arises.
+
+    Parameters
+    ----------
+    sources : HeatSources
+        The losses [W] (module notes: where each joins the path).
+    geometry : StatorThermalGeometry
+    cooling : str
+        One of :data:`COOLING_METHODS`:
+
+        * ``enclosed_natural``: free convection (Churchill-Chu) and radiation from the
+          frame, a horizontal cylinder in still air;
+        * ``enclosed_fan``: fan air along the frame (turbulent flat plate, fin area factor
+          and efficiency), plus radiation;
+        * ``open_ventilated``: through-flow air over the core back (times a core area
+          factor), no frame; end windings and ducts are not credited unless through that
+          factor;
+        * ``liquid_jacket``: liquid in a frame jacket, a given coefficient;
+        * ``direct_liquid``: liquid in contact with the winding; the iron path is neglected
+          (iron, rotor and friction losses are taken to leave by it without warming the
+          winding).
+    coolant_temperature : float, optional
+        [K]; default 40 degC, the IEC 60034-1 reference coolant.
+    parameters : ThermalParameters, optional
+    rotor_gap : RotorGap, optional
+        With it, the rotor temperature is estimated (:func:`gap_resistance`).
+
+    Returns
+    -------
+    ThermalEstimate
+        The steps name the heat each link carries.
+
+    References
+    ----------
     Lumped-parameter thermal networks [mem: Boglietti, Cavagnino, Staton, Shanel, Mueller,
     Mejuto, "Evolution and modern approaches for thermal analysis of electrical machines",
     IEEE Trans. Ind. Electron. 56(3), 2009]; mean temperature of a slab with uniform
@@ -324,7 +519,10 @@ def winding_temperature_rise(
     """
     if cooling not in COOLING_METHODS:
         raise ValueError(f"cooling must be one of {COOLING_METHODS}, got {cooling!r}")
-    if copper_loss < 0.0 or other_losses < 0.0:
+    src = sources
+    if min(src.copper_slot, src.copper_end, src.iron_teeth, src.iron_yoke, src.rotor) < 0.0:
+        raise ValueError("losses must be >= 0")
+    if src.friction < 0.0:
         raise ValueError("losses must be >= 0")
     par = parameters or ThermalParameters()
     g = geometry
@@ -339,41 +537,44 @@ def winding_temperature_rise(
     r_core = 0.5 * g.outer_diameter
     frame_length = g.frame_length or length
     d_frame = g.frame_outer_diameter or g.outer_diameter + 2.0 * par.frame_wall
+    copper = src.copper
+    teeth_heat = copper + src.iron_teeth + src.rotor
+    core_heat = teeth_heat + src.iron_yoke
+    total = src.total
 
     links: list[tuple[str, float, float]] = []  # name, resistance, heat
     # Both long sides of the slot cool the bundle: mean rise q w^2 / (12 k) of a slab.
     bundle = width / (12.0 * par.bundle_conductivity * g.winding_height * length * q)
-    links.append(("winding bundle", bundle, copper_loss))
+    links.append(("winding bundle", bundle, copper))
     h_conv = 0.0
     h_rad = 0.0
+    iron_share = 1.0 - q * width / (2.0 * math.pi * r_mid)  # tooth share of the circle
 
     if cooling == "direct_liquid":
         wetted = par.direct_wetted_area or liner_area
         h_conv = par.direct_coefficient
-        links.append(("liquid film", 1.0 / (h_conv * wetted), copper_loss))
-        to_coolant = copper_loss
+        links.append(("liquid film", 1.0 / (h_conv * wetted), copper))
+        to_coolant = copper
     else:
-        total = copper_loss + other_losses
         links.append(
-            ("slot liner", g.liner_thickness / (par.liner_conductivity * liner_area), copper_loss)
+            ("slot liner", g.liner_thickness / (par.liner_conductivity * liner_area), copper)
         )
-        iron_share = 1.0 - q * width / (2.0 * math.pi * r_mid)  # tooth share of the circle
         if not iron_share > 0.0:
             raise ValueError("the slots leave no tooth iron at mid-slot")
         teeth = _cylinder_resistance(
             r_mid, r_bottom, par.iron_conductivity * iron_share, iron_length
         )
-        links.append(("stator teeth", teeth, copper_loss))
+        links.append(("stator teeth", teeth, teeth_heat))
         yoke = _cylinder_resistance(r_bottom, r_core, par.iron_conductivity, iron_length)
-        links.append(("stator yoke", yoke, total))
+        links.append(("stator yoke", yoke, core_heat))
         env_area = math.pi * d_frame * frame_length
         conv_area = env_area * (1.0 + (par.fin_area_factor - 1.0) * par.fin_efficiency)
         if cooling != "open_ventilated":
             k_gap = air_properties(coolant_temperature, par.pressure).conductivity
             interface = par.interface_gap / (k_gap * math.pi * g.outer_diameter * length)
-            links.append(("core-frame interface", interface, total))
+            links.append(("core-frame interface", interface, core_heat))
             wall = _cylinder_resistance(r_core, 0.5 * d_frame, par.frame_conductivity, length)
-            links.append(("frame wall", wall, total))
+            links.append(("frame wall", wall, core_heat))
         if cooling == "liquid_jacket":
             h_conv = par.jacket_coefficient
             links.append(
@@ -400,6 +601,14 @@ def winding_temperature_rise(
 
     steps = tuple(ThermalStep(n, r, p, r * p) for n, r, p in links)
     rise_total = sum(s.rise for s in steps)
+    rotor_temperature = None
+    if rotor_gap is not None and cooling != "direct_liquid":
+        # Bore temperature: the teeth node at mid-slot (below the winding's bundle and liner
+        # steps) plus the rotor heat through the tooth from the bore to mid-slot.
+        teeth_node = coolant_temperature + sum(s.rise for s in steps[2:])
+        tip = _cylinder_resistance(r_bore, r_mid, par.iron_conductivity * iron_share, length)
+        bore = teeth_node + tip * src.rotor
+        rotor_temperature = bore + src.rotor * gap_resistance(rotor_gap, length, bore)
     return ThermalEstimate(
         method=cooling,
         winding_rise=rise_total,
@@ -408,4 +617,166 @@ def winding_temperature_rise(
         steps=steps,
         convection_coefficient=h_conv,
         radiation_coefficient=h_rad,
+        rotor_temperature=rotor_temperature,
+        sources=src,
     )
+
+
+# --- the self-consistent winding temperature -------------------------------------------------
+
+#: Fixed-point tolerance on the winding temperature [K], and the iteration cap.
+FIXED_POINT_TOLERANCE: float = 0.01
+FIXED_POINT_MAX_ITERATIONS: int = 200
+#: A winding estimated above this [K] (1000 degC) is a run-away, whatever the iteration does.
+RUNAWAY_TEMPERATURE: float = 1273.15
+
+
+@dataclass(frozen=True)
+class OperatingPoint:
+    """Result of :func:`operating_temperature`.
+
+    Parameters
+    ----------
+    temperature : float
+        Mean winding temperature at the fixed point [K] (the last iterate if not converged).
+    copper_loss : float
+        Copper loss at that temperature [W].
+    estimate : ThermalEstimate or None
+        The thermal estimate at the fixed point; None when the network failed (run-away).
+    iterations : int
+    converged : bool
+        Within the tolerance.
+    runaway : bool
+        No fixed point: the copper loss grows with temperature faster than the cooling
+        sheds it (the contraction ratio reached 1, the temperature passed
+        :data:`RUNAWAY_TEMPERATURE`, or the surface could shed the heat at no plausible
+        temperature).
+    error_bound : float
+        A-posteriori bound on the temperature error [K]: step q / (1 - q), q the observed
+        contraction ratio.
+    """
+
+    temperature: float
+    copper_loss: float
+    estimate: ThermalEstimate | None
+    iterations: int
+    converged: bool
+    runaway: bool
+    error_bound: float
+
+
+def operating_temperature(
+    copper_loss_20: float,
+    alpha20: float,
+    estimate: Callable[[float], ThermalEstimate],
+    coolant_temperature: float,
+    *,
+    tolerance: float = FIXED_POINT_TOLERANCE,
+    max_iterations: int = FIXED_POINT_MAX_ITERATIONS,
+) -> OperatingPoint:
+    """Winding temperature at which the copper loss and the rise it causes agree.
+
+    Solves ``T = T_c + rise(P_cu(T))`` with ``P_cu(T) = P_cu20 (1 + alpha20 (T - 20 degC))``
+    (IEC 60028 linear resistance law) by fixed-point iteration from the coolant temperature.
+    The map is increasing, so the iterates rise monotonically to the lowest fixed point;
+    convergence is declared when the a-posteriori error bound ``dT q / (1 - q)`` (q the
+    observed ratio of successive steps) is below ``tolerance``. A ratio of 1 or more, a
+    temperature above :data:`RUNAWAY_TEMPERATURE` or a network that cannot shed the heat
+    is a thermal run-away, reported in the result.
+
+    Parameters
+    ----------
+    copper_loss_20 : float
+        Copper loss with the winding at 20 degC [W].
+    alpha20 : float
+        Temperature coefficient of resistance at 20 degC [1/K] (copper 0.00393).
+    estimate : callable
+        ``estimate(copper_loss)`` returns the :class:`ThermalEstimate` with that copper
+        loss (other losses fixed).
+    coolant_temperature : float
+        [K], the start.
+    tolerance : float, optional
+        [K], default 0.01 K.
+    max_iterations : int, optional
+
+    Returns
+    -------
+    OperatingPoint
+
+    References
+    ----------
+    IEC 60028 (R(T) = R20 (1 + alpha20 (T - 20 degC)), alpha20 = 0.00393 /K for annealed
+    copper); Banach's fixed-point theorem for the contraction and its a-posteriori error
+    bound [calc].
+    """
+    if copper_loss_20 < 0.0 or not tolerance > 0.0 or max_iterations < 1:
+        raise ValueError("copper loss must be >= 0, tolerance > 0, iterations >= 1")
+
+    def loss_at(t: float) -> float:
+        return copper_loss_20 * (1.0 + alpha20 * (t - 293.15))
+
+    t = coolant_temperature
+    last_step = math.inf
+    q = 0.0
+    est: ThermalEstimate | None = None
+    for k in range(1, max_iterations + 1):
+        try:
+            est = estimate(loss_at(t))
+        except ValueError:
+            return OperatingPoint(t, loss_at(t), None, k, False, True, math.inf)
+        t_new = est.winding_temperature
+        step = abs(t_new - t)
+        t = t_new
+        if t > RUNAWAY_TEMPERATURE:
+            return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
+        if step == 0.0:
+            return OperatingPoint(t, loss_at(t), est, k, True, False, 0.0)
+        if math.isfinite(last_step):
+            q = step / last_step
+            if q >= 1.0:
+                return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
+            bound = step * q / (1.0 - q)
+            if bound < tolerance:
+                # One more evaluation so the estimate and the loss belong to t itself.
+                est = estimate(loss_at(t))
+                return OperatingPoint(t, loss_at(t), est, k, True, False, bound)
+        last_step = step
+    bound = last_step * q / (1.0 - q) if q < 1.0 else math.inf
+    return OperatingPoint(t, loss_at(t), est, max_iterations, False, False, bound)
+
+
+# --- IEC 60034-1 adjustments of the rise limit -------------------------------------------------
+
+#: Extra rise allowed [K] for small and fanless machines (module function below).
+SMALL_OR_FANLESS_ALLOWANCE: float = 5.0
+#: Rated output below which a machine counts as small for that allowance [W].
+SMALL_MACHINE_OUTPUT: float = 600.0
+
+
+def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool) -> float:
+    """Increase of the winding rise limit [K] that IEC 60034-1 grants some machines.
+
+    Parameters
+    ----------
+    rated_output : float
+        [W].
+    totally_enclosed_fanless : bool
+        Self-cooled, totally enclosed without a fan (IC410).
+
+    Returns
+    -------
+    float
+        5 K for machines rated below 600 W and for totally enclosed fanless ones (limits by
+        resistance, e.g. class B 85 K, F 110 K, H 130 K instead of 80, 105, 125); 0
+        otherwise [K].
+
+    References
+    ----------
+    IEC 60034-1, limits of temperature rise of windings with indirect air cooling, the rows
+    for a.c. machines below 600 W and for totally enclosed fanless (IC410) machines [from
+    memory, verify against the standard].
+    """
+    if rated_output < 0.0:
+        raise ValueError("rated output must be >= 0")
+    small = rated_output < SMALL_MACHINE_OUTPUT
+    return SMALL_OR_FANLESS_ALLOWANCE if small or totally_enclosed_fanless else 0.0

@@ -31,6 +31,7 @@ __all__ = [
     "phase_name",
     "series_turns_per_phase",
     "star_of_slots",
+    "star_of_slots_layers",
     "winding_factor_closed_form",
     "winding_factors",
 ]
@@ -195,7 +196,7 @@ def feasibility(slots: int, pole_pairs: int, phases: int, layers: int) -> str | 
     return None
 
 
-def _belt_sides(slots: int, pole_pairs: int, phases: int) -> np.ndarray:
+def belt_sides(slots: int, pole_pairs: int, phases: int) -> np.ndarray:
     """One coil side per slot, phase and sign from the slot's sector of the star of slots.
 
     Slot s has the electrical angle 2 pi r / Q, r = p s mod Q. The star is cut into 2m belts
@@ -304,7 +305,7 @@ def star_of_slots(
     y = _count(coil_pitch, "coil pitch")
     if y >= slots:
         raise WindingError(f"coil pitch must be 1..{slots - 1} slots, got {y}")
-    sides = _belt_sides(slots, pole_pairs, phases)
+    sides = belt_sides(slots, pole_pairs, phases)
     pole_pitch = slots / (2 * pole_pairs)
     if layers == 1:
         if _pairs_with_pitch(sides, y):
@@ -325,6 +326,35 @@ def star_of_slots(
     raise WindingError(
         f"{problem}; pole pitch {pole_pitch:g} slots; usable pitches nearest it: {usable}"
     )
+
+
+def star_of_slots_layers(
+    slots: int, pole_pairs: int, phases: int, layers: int, coil_pitch: int
+) -> tuple[np.ndarray, np.ndarray | None]:
+    """The layers of :func:`star_of_slots`'s layout: (top, bottom), bottom None for one layer.
+
+    The top layer of slot s is the go side of the coil its belt names; the bottom layer the
+    return sides, y slots on. Their sum is :func:`star_of_slots`'s layout.
+
+    Parameters
+    ----------
+    slots, pole_pairs, phases, layers, coil_pitch : int
+        As for :func:`star_of_slots`.
+
+    Returns
+    -------
+    tuple
+        Top and bottom layouts, int64, shape (m, Q) each.
+
+    References
+    ----------
+    As :func:`star_of_slots`.
+    """
+    layout = star_of_slots(slots, pole_pairs, phases, layers, coil_pitch)
+    if layers == 1:
+        return layout, None
+    top = belt_sides(slots, pole_pairs, phases)
+    return top, _bottom_layer(top, coil_pitch)
 
 
 def parallel_path_counts(
@@ -352,7 +382,7 @@ def parallel_path_counts(
     Equal-EMF condition for parallel paths [mem: Pyrhonen, Jokinen, Hrabovcova, Design of
     Rotating Electrical Machines, ch. 2].
     """
-    sides = _belt_sides(slots, pole_pairs, phases)[0]
+    sides = belt_sides(slots, pole_pairs, phases)[0]
     if layers == 2:
         starts = [int(s) for s in np.flatnonzero(sides)]
     else:

@@ -1,11 +1,13 @@
 """CI annotation lines in the workflow-command format: ``::error file=F,line=L,col=C,title=T::M``.
 
 One line per finding: ``error``, ``warning``, or ``notice`` for info; a waived finding is a
-notice that says it is waived and by which waiver. The last line is a notice with the verdict,
-the rules that ran with their versions, and the disclaimer. Escaping follows the format: in the
-message ``%``, CR and LF become ``%25``, ``%0D``, ``%0A``; in property values ``:`` and ``,``
-also become ``%3A`` and ``%2C``, so no text can end a property or start a second command.
-Other control characters are shown as escapes (``\\x1b``) so that none reaches the log raw.
+notice that says it is waived and by which waiver. ``file`` is relative to the repository's
+root (the runner places annotations from there), whatever folder emgate ran in. The last
+line is a notice with the verdict, the rules that ran with their versions, and the
+disclaimer. Escaping follows the format: in the message ``%``, CR and LF become ``%25``,
+``%0D``, ``%0A``; in property values ``:`` and ``,`` also become ``%3A`` and ``%2C``, so no
+text can end a property or start a second command. Other control characters are shown as
+escapes (``\\x1b``) so that none reaches the log raw.
 """
 
 from __future__ import annotations
@@ -41,7 +43,8 @@ def annotation(f: Finding) -> str:
         name, title = COMMANDS[f.severity], f"emgate {f.rule}"
     line = f.line if f.file else 0
     col = f.column if line else 0
-    return command(name, message, file=f.file, line=line, col=col, title=title)
+    file = f.file if f.repo_file is None else f.repo_file  # the runner wants it from the root
+    return command(name, message, file=file, line=line, col=col, title=title)
 
 
 def render(result: RunResult) -> str:

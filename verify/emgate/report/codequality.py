@@ -1,14 +1,18 @@
-"""Code-quality JSON array for merge-request widgets.
+"""Code-quality JSON array for merge-request widgets (the Code Climate issue format).
 
-Each item: ``description``, ``check_name`` (the rule id), ``fingerprint``, ``severity``
-(``blocker`` for a crash, ``critical`` for an error or an input error, ``minor`` for a warning,
-``info`` for info) and ``location`` (``path``, repo-relative, and ``lines.begin``). A finding
-with no file (a plugin that fails to load) has the path ``.``.
+Each item: ``type`` (``issue``), ``check_name`` (the rule id), ``description``,
+``categories`` (``Bug Risk``: a broken limit is a defect of the design), ``fingerprint``,
+``severity`` (``blocker`` for a crash, ``critical`` for an error or an input error, ``minor``
+for a warning, ``info`` for info and for a waived finding) and ``location`` (``path``,
+relative to the repository's root whatever folder emgate ran in, and ``lines.begin``). A
+finding with no file (a plugin that fails to load) has the path ``.``.
 
-Waived findings are left out: the widget lists open issues, and a reviewed, dated waiver is not
-one; every other output keeps them, marked waived. The format has no place for the rules that
-ran, their versions or the disclaimer, so this output cannot carry them: pair it with another
-format (text, Markdown, SARIF) that does.
+Waived findings are kept, as every output keeps them: as ``info``, their description
+starting with "waived" and naming the waiver. A waived finding's fingerprint differs from the
+one it had unwaived, so that the widget shows the error resolved and the waived note new, and
+a reviewer sees the waiver land. The format has no place for the rules that ran, their
+versions or the disclaimer, so this output cannot carry them: pair it with another format
+(text, Markdown, SARIF) that does.
 
 Fingerprints must be unique within a report. A finding's own fingerprint (rule, file, record,
 record path) is used where it is unique; where two findings share it (two checks of one rule on
@@ -51,15 +55,24 @@ def fingerprints(findings: list[Finding]) -> list[str]:
 def render(result: RunResult) -> str:
     # fingerprints over every finding, so that waiving one does not rename another
     pairs = zip(result.findings, fingerprints(result.findings), strict=True)
-    items: list[dict[str, Any]] = [
-        {
-            "description": f.message + (f" [{f.record_path}]" if f.record_path != "$" else ""),
-            "check_name": f.rule,
-            "fingerprint": fp,
-            "severity": severity(f),
-            "location": {"path": f.file or ".", "lines": {"begin": max(f.line, 1)}},
-        }
-        for f, fp in pairs
-        if f.waived_by is None
-    ]
+    items: list[dict[str, Any]] = []
+    for f, fp in pairs:
+        description = f.message + (f" [{f.record_path}]" if f.record_path != "$" else "")
+        level = severity(f)
+        if f.waived_by:
+            description = f"waived {f.severity}: {description}; waived by {f.waived_by}"
+            level = "info"
+            fp = hashlib.sha256(f"{fp}\x1fwaived".encode()).hexdigest()[:32]
+        file = f.file if f.repo_file is None else f.repo_file
+        items.append(
+            {
+                "type": "issue",
+                "check_name": f.rule,
+                "description": description,
+                "categories": ["Bug Risk"],
+                "fingerprint": fp,
+                "severity": level,
+                "location": {"path": file or ".", "lines": {"begin": max(f.line, 1)}},
+            }
+        )
     return json.dumps(items, indent=2) + "\n"

@@ -55,6 +55,7 @@ def finding_dict(f: Finding) -> dict[str, Any]:
         "waived": f.waived_by is not None,
         "waiver": f.waived_by,
         "check": check_dict(f.check) if f.check else None,
+        "remedies": [r.as_dict() for r in f.remedies],
     }
 
 
@@ -62,7 +63,10 @@ def render(result: RunResult) -> str:
     doc = {
         "tool": {"name": "emgate", "version": __version__},
         "exit_code": result.exit_code,
-        "rules": [r.__dict__ for r in result.rules],
+        "rules": [  # (the help texts are for people: emgate explain RULE prints them)
+            {k: v for k, v in r.__dict__.items() if k not in ("description", "help")}
+            for r in result.rules
+        ],
         "summary": {
             "records": len(result.records),
             "errors": len(result.active("error")),

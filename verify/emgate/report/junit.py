@@ -1,4 +1,4 @@
-"""JUnit XML for CI test tabs: one testsuite per record file, one testcase per record and rule.
+"""JUnit XML for CI test tabs: one testsuite per record, one testcase per record and rule.
 
 A testcase passes (empty, or with its warnings and notes in ``system-out``, since only errors
 fail the gate), fails (``failure``: a live error finding), is ``skipped`` (every finding of the
@@ -6,9 +6,17 @@ rule waived; the waiver is the message) or is an ``error`` (the rule crashed). A
 not apply to the record's machine kind did not run and has no testcase, like a rule the policy
 deselects: "skipped" then means waived and nothing else. Input errors are testcases of a suite
 ``emgate.input``, one per file, beside the notes on files read (a file named that is not an
-emgate file passes, its note in ``system-out``). Each testsuite carries the emgate version, the
-rules that ran with their versions, the verdict and the disclaimer as ``properties``. Text
-passes through :func:`printable` first: control characters are not allowed in XML 1.0.
+emgate file passes, its note in ``system-out``).
+
+A warning stays a passing testcase, its text in ``system-out`` (which the test tabs of CI
+services show with a test's details) and counted in the testcase's ``emgate.warnings``
+property: a JUnit failure would have the tab count a failed test in a run that the gate
+passes. Each testcase carries its own properties (the rule's version and origin, the check
+closest to its limit); the run's (emgate version, verdict, disclaimer) are given once, on the
+first testsuite, as readers that merge suites refuse a property name given twice. Suite names
+are unique (a record id, then its file where two suites would share it). ``time`` is the
+wall time of each rule's check, in seconds. Text passes through :func:`printable` first:
+control characters are not allowed in XML 1.0.
 """
 
 from __future__ import annotations
@@ -16,8 +24,16 @@ from __future__ import annotations
 import xml.etree.ElementTree as ET
 
 from emgate import __version__
-from emgate.findings import DISCLAIMER, Finding, RuleOutcome, RunResult
-from emgate.report.common import VERDICTS, printable, rules_run, where
+from emgate.findings import DISCLAIMER, Finding, RuleInfo, RuleOutcome, RunResult
+from emgate.report.common import (
+    VERDICTS,
+    check_display,
+    closest_check,
+    margin_text,
+    printable,
+    rules_run,
+    where,
+)
 
 INPUT, INPUT_SUITE = "input", "emgate.input"
 _COUNTED = ("failure", "error", "skipped")
@@ -46,9 +62,25 @@ def _testcase(
     file: str,
     findings: list[Finding],
     outcome: RuleOutcome | None,
+    info: RuleInfo | None,
 ) -> None:
+    seconds = outcome.seconds if outcome is not None else 0.0
     case = _sub(suite, "testcase", classname=classname, name=name, file=file)
+    case.set("time", f"{seconds:.6f}")
     live = [f for f in findings if f.waived_by is None]
+    props: dict[str, str] = {}
+    if info is not None:
+        props["rule.version"] = info.version
+        props["rule.origin"] = f"{info.distribution} {info.distribution_version}".strip()
+    if closest := closest_check((name, c) for c in (outcome.checks if outcome else [])):
+        c = closest[1]
+        props["emgate.closest"] = f"{c.quantity}: {check_display(c)} ({margin_text(c)})"
+    for key, severity in (("emgate.warnings", "warning"), ("emgate.notes", "info")):
+        if n := sum(1 for f in live if f.severity == severity):
+            props[key] = str(n)
+    if n := len(findings) - len(live):
+        props["emgate.waived"] = str(n)
+    _properties(case, props)
     details = "\n".join(_describe(f) for f in findings)
     broken = [f for f in live if f.kind in ("crash", "input")]
     errors = [f for f in live if f.severity == "error"]
@@ -65,24 +97,49 @@ def _testcase(
         _sub(case, "system-out", details)
 
 
-def _suite(parent: ET.Element, name: str, file: str, properties: dict[str, str]) -> ET.Element:
-    suite = _sub(parent, "testsuite", name=name, file=file)
-    props = _sub(suite, "properties")
-    for key, value in properties.items():
-        _sub(props, "property", name=key, value=value)
-    return suite
+def _properties(parent: ET.Element, properties: dict[str, str]) -> None:
+    if properties:
+        props = _sub(parent, "properties")
+        for key, value in properties.items():
+            _sub(props, "property", name=key, value=value)
+
+
+class _Suites:
+    """The testsuites, named uniquely: a record id, else with its file, else numbered."""
+
+    def __init__(self, root: ET.Element, run_properties: dict[str, str]) -> None:
+        self.root, self.names, self.pending = root, set[str](), run_properties
+
+    def add(self, label: str, file: str) -> ET.Element:
+        name = label
+        if name in self.names:
+            name = f"{label} ({file})" if file else label
+        n = 1
+        while name in self.names:
+            n += 1
+            name = f"{label} ({file}) #{n}" if file else f"{label} #{n}"
+        self.names.add(name)
+        suite = _sub(self.root, "testsuite", name=name, file=file)
+        _properties(suite, self.pending)
+        self.pending = {}  # the run's properties once, on the first suite
+        return suite
 
 
 def _count(el: ET.Element, cases: list[ET.Element]) -> None:
     el.set("tests", str(len(cases)))
     for tag, attr in zip(_COUNTED, ("failures", "errors", "skipped"), strict=True):
         el.set(attr, str(sum(1 for c in cases if c.find(tag) is not None)))
+    el.set("time", f"{sum(float(c.get('time') or 0) for c in cases):.6f}")
 
 
 def render(result: RunResult) -> str:
-    properties = {"emgate.version": __version__, "emgate.verdict": VERDICTS[result.exit_code]}
-    properties |= {f"rule.{r.id}": r.version for r in rules_run(result)}
-    properties["disclaimer"] = DISCLAIMER
+    run_properties = {
+        "emgate.version": __version__,
+        "emgate.verdict": VERDICTS[result.exit_code],
+        "emgate.rules": ", ".join(f"{r.id} v{r.version}" for r in rules_run(result)),
+        "disclaimer": DISCLAIMER,
+    }
+    known = {r.id: r for r in result.rules}
     # (file, record id) -> rule -> outcome; findings on no outcome (waivers) add rules
     groups: dict[tuple[str, str], dict[str, RuleOutcome | None]] = {}
     for r in result.records:
@@ -92,24 +149,27 @@ def render(result: RunResult) -> str:
         if f.rule != INPUT:
             groups.setdefault((f.file, f.record_id), {}).setdefault(f.rule, None)
     root = ET.Element("testsuites", name="emgate")
+    suites = _Suites(root, run_properties)
     for (file, record_id), rules in groups.items():
         label = record_id or file or "(configuration)"
-        suite = _suite(root, label, file, properties)
+        suite = suites.add(label, file)
         for rule, outcome in rules.items():
             mine = [
                 f
                 for f in result.findings
                 if (f.file, f.record_id, f.rule) == (file, record_id, rule)
             ]
-            _testcase(suite, label, rule, file, mine, outcome)
+            _testcase(suite, label, rule, file, mine, outcome, known.get(rule))
     inputs: dict[str, list[Finding]] = {}
     for f in result.findings:
         if f.rule == INPUT:
             inputs.setdefault(f.file, []).append(f)
     if inputs:
-        suite = _suite(root, INPUT_SUITE, "", properties)
+        suite = suites.add(INPUT_SUITE, "")
         for file, found in inputs.items():
-            _testcase(suite, INPUT_SUITE, file or "(configuration)", file, found, None)
+            _testcase(suite, INPUT_SUITE, file or "(configuration)", file, found, None, None)
+    if not len(root):  # nothing checked: the run's properties still go somewhere
+        suites.add("emgate", "")
     for suite in root:
         _count(suite, suite.findall("testcase"))
     _count(root, root.findall("testsuite/testcase"))

@@ -15,6 +15,7 @@ import re
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RuleOutcome, RunResult
+from emgate.remedies import report_lines
 from emgate.report.common import VERDICTS, printable, rules_run, summary_line
 from emgate.rule import Check
 
@@ -62,6 +63,8 @@ def _finding_cells(f: Finding) -> list[str]:
     message = f.message + (f" [{f.record_path}]" if f.record_path != "$" else "")
     if f.waived_by:
         message += f"\nwaived: {f.waived_by}"
+    for remedy in report_lines(f):
+        message += f"\n{remedy}"
     return [location, severity, f.rule, message]
 
 

@@ -1,11 +1,21 @@
 """SARIF 2.1.0 for code-scanning services: one run, every rule that ran, every finding.
 
-Waived findings stay, with an external, accepted suppression carrying the waiver. Input errors
-are results of the pseudo-rule ``input`` (those with no file, such as a plugin that fails to
-load, are tool execution notifications instead); a crash is a result of the crashing rule.
-Artifact URIs are relative to ``%SRCROOT%`` (the folder emgate ran in) and percent-encoded, as
-a URI must be. No ``$schema`` or ``informationUri``: the output names no host. No timestamps,
-so the same input gives the same bytes.
+Each rule descriptor carries the rule's summary (``shortDescription``), the first paragraph of
+its method (``fullDescription``), ``emgate explain`` as ``help`` (text and Markdown) and its
+default severity (``defaultConfiguration.level``; each result still carries the level the
+policy gave it). Waived findings stay, with an external, accepted suppression carrying the
+waiver. Input errors are results of the pseudo-rule ``input`` (those with no file, such as a
+plugin that fails to load, are tool execution notifications instead); a crash is a result of
+the crashing rule.
+
+Artifact URIs are relative to ``%SRCROOT%``, the root of the repository checked (the top of
+its git work tree, what a CI service checks out), whatever folder emgate ran in, and
+percent-encoded, as a URI must be; only a file outside that root is an absolute ``file:``
+URI. Fingerprints are taken from the same root-relative names. ``executionSuccessful`` is
+false only when the tool failed: a rule crashed or a plugin did not load (an invalid record
+or configuration is a result, found by a tool that worked). No ``$schema``,
+``informationUri`` or root URI: the output names no host and no machine path. No
+timestamps, so the same input gives the same bytes.
 """
 
 from __future__ import annotations
@@ -16,7 +26,8 @@ from typing import Any
 from urllib.parse import quote
 
 from emgate import __version__
-from emgate.findings import DISCLAIMER, Finding, RunResult
+from emgate.findings import DISCLAIMER, Finding, RuleInfo, RunResult
+from emgate.remedies import sarif_fixes
 from emgate.report.common import VERDICTS, rules_run
 from emgate.report.jsonfmt import check_dict
 
@@ -24,25 +35,50 @@ SRCROOT = "%SRCROOT%"
 LEVELS = {"error": "error", "warning": "warning", "info": "note"}
 # pseudo-rules of emgate itself, named in results beside the plugins' rules
 BUILTIN = {
-    "input": "the records and the configuration can be read and validated",
-    "waiver": "every waiver is current and suppresses a finding",
+    "input": RuleInfo(
+        "input",
+        __version__,
+        "the records and the configuration can be read and validated",
+        "emgate",
+        __version__,
+        "error",
+        "Every record, materials file, emgate.yaml and waivers file is read as YAML and"
+        " validated against its schema, units and physical consistency; each problem is"
+        " reported at its file, line and column (exit code 2).",
+    ),
+    "waiver": RuleInfo(
+        "waiver",
+        __version__,
+        "every waiver is current and suppresses a finding",
+        "emgate",
+        __version__,
+        "warning",
+        "A waiver past its expiry date stops applying and is reported; a waiver that"
+        " suppresses no finding is reported, so that stale exceptions do not pile up.",
+    ),
 }
 
 
-def _descriptor(rid: str, summary: str, version: str, dist: str, dist_version: str) -> dict:
+def _descriptor(r: RuleInfo) -> dict[str, Any]:
+    method = r.description or r.summary or r.id
+    first = re.split(r"\n\s*\n", method.strip(), maxsplit=1)[0]
     return {
-        "id": rid,
-        "shortDescription": {"text": summary or rid},
+        "id": r.id,
+        "shortDescription": {"text": r.summary or r.id},
+        "fullDescription": {"text": " ".join(first.split())},
+        "help": {"text": method, "markdown": r.help or method},
+        "defaultConfiguration": {"level": LEVELS[r.severity]},
         "properties": {
-            "version": version,
-            "distribution": dist,
-            "distributionVersion": dist_version,
+            "version": r.version,
+            "distribution": r.distribution,
+            "distributionVersion": r.distribution_version,
         },
     }
 
 
-def _artifact(file: str) -> dict[str, str]:
-    if re.match(r"/|[A-Za-z]:/", file):  # outside the folder emgate ran in
+def _artifact(f: Finding) -> dict[str, str]:
+    file = f.file if f.repo_file is None else f.repo_file
+    if re.match(r"/|[A-Za-z]:/", file):  # outside the repository's root
         return {"uri": "file:///" + quote(file.lstrip("/"), safe="/:")}
     return {"uri": quote(file, safe="/"), "uriBaseId": SRCROOT}
 
@@ -56,7 +92,7 @@ def _result(f: Finding, index: int) -> dict[str, Any]:
     }
     location: dict[str, Any] = {"logicalLocations": [{"fullyQualifiedName": f.record_path}]}
     if f.file:
-        physical: dict[str, Any] = {"artifactLocation": _artifact(f.file)}
+        physical: dict[str, Any] = {"artifactLocation": _artifact(f)}
         if f.line > 0:
             physical["region"] = {"startLine": f.line, "startColumn": max(f.column, 1)}
         location["physicalLocation"] = physical
@@ -66,6 +102,9 @@ def _result(f: Finding, index: int) -> dict[str, Any]:
         out["suppressions"] = [
             {"kind": "external", "status": "accepted", "justification": f.waived_by}
         ]
+    fixes = sarif_fixes(f, _artifact(f)) if f.file else []
+    if fixes:
+        out["fixes"] = fixes
     props: dict[str, Any] = {"kind": f.kind, "recordId": f.record_id}
     if f.check:
         props["check"] = check_dict(f.check)
@@ -83,9 +122,7 @@ def _notification(f: Finding) -> dict[str, Any]:
 
 def render(result: RunResult) -> str:
     ran = rules_run(result)
-    rules = [
-        _descriptor(r.id, r.summary, r.version, r.distribution, r.distribution_version) for r in ran
-    ]
+    rules = [_descriptor(r) for r in ran]
     index = {r.id: i for i, r in enumerate(ran)}
     results: list[dict[str, Any]] = []
     notifications: list[dict[str, Any]] = []
@@ -95,13 +132,13 @@ def render(result: RunResult) -> str:
             continue
         if f.rule not in index:
             index[f.rule] = len(rules)
-            summary = BUILTIN.get(f.rule, f.rule)
-            rules.append(_descriptor(f.rule, summary, __version__, "emgate", __version__))
+            known = BUILTIN.get(f.rule) or RuleInfo(f.rule, "?", f.rule, "", "")
+            rules.append(_descriptor(known))
         results.append(_result(f, index[f.rule]))
-    invocation: dict[str, Any] = {
-        "executionSuccessful": result.exit_code not in (2, 3),
-        "exitCode": result.exit_code,
-    }
+    failed = any(f.kind == "crash" for f in result.findings) or any(
+        n["level"] == "error" for n in notifications
+    )
+    invocation: dict[str, Any] = {"executionSuccessful": not failed, "exitCode": result.exit_code}
     if notifications:
         invocation["toolExecutionNotifications"] = notifications
     run = {
@@ -114,7 +151,9 @@ def render(result: RunResult) -> str:
             }
         },
         "invocations": [invocation],
-        "originalUriBaseIds": {SRCROOT: {"description": {"text": "the folder emgate ran in"}}},
+        "originalUriBaseIds": {
+            SRCROOT: {"description": {"text": "the root of the repository checked"}}
+        },
         "columnKind": "unicodeCodePoints",
         "results": results,
         "properties": {

@@ -7,29 +7,52 @@ from __future__ import annotations
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
+from emgate.remedies import report_lines
 from emgate.report.common import margins_line, rules_line, summary_line, where
 
 
-def _line(f: Finding) -> str:
+def _line(f: Finding, remedies: bool = True) -> str:
     sev = "waived" if f.waived_by else f.severity
     text = f"  {where(f)}: {sev} {f.rule}: {f.message}"
     if f.record_path != "$":
         text += f" [{f.record_path}]"
     if f.waived_by:
         text += f"\n      waived: {f.waived_by}"
+    for remedy in report_lines(f) if remedies else ():
+        text += f"\n      {remedy}"
     return text
 
 
-def render(result: RunResult) -> str:
+#: SGR codes: bold red, yellow, cyan; dim for a waived finding; green for a pass
+_SGR = {"error": "1;31", "warning": "33", "info": "36", "waived": "2", "PASS": "1;32"}
+
+
+def _paint(text: str, key: str, colour: bool) -> str:
+    """``text`` in the colour of ``key``, line by line (a pager resets colour at a line end)."""
+    code = _SGR.get(key)
+    if not colour or code is None:
+        return text
+    return "\n".join(f"\x1b[{code}m{line}\x1b[0m" for line in text.split("\n"))
+
+
+def render(result: RunResult, *, quiet: bool = False, colour: bool = False) -> str:
+    """The report; ``quiet``: the findings (without remedies) and the caution alone
+    (nothing when clean); ``colour``: ANSI colours by severity."""
     out: list[str] = []
     for file, group in groupby(result.findings, key=lambda f: f.file):
         out.append(file or "(run)")
-        out.extend(_line(f) for f in group)
+        out.extend(
+            _paint(_line(f, not quiet), "waived" if f.waived_by else f.severity, colour)
+            for f in group
+        )
         out.append("")
+    if quiet:  # every report carries the caution, a quiet one too
+        return "\n".join([*out, DISCLAIMER]) + "\n" if out else ""
     if result.records:
         out.extend(margins_line(r) for r in result.records)
         out.append("")
-    out.append(summary_line(result))
+    verdict = "PASS" if result.exit_code == 0 else "error"
+    out.append(_paint(summary_line(result), verdict, colour))
     out.append(rules_line(result))
     out.append(DISCLAIMER)
     return "\n".join(out) + "\n"

@@ -1,0 +1,92 @@
+"""The calculation sheet of a record as one self-contained HTML page, with plots.
+
+Three modules, one job each: :mod:`emgate.page.data` gathers what a page shows from a design,
+its calculation and the run's checks into plain dataclasses (the only module that reads the
+calculation or the kernel); :mod:`emgate.page.plots` draws them as SVG with matplotlib,
+imported only on this path; :mod:`emgate.page.html` writes the page, escaping everything
+that comes from the record. :mod:`emgate.page.shapes` holds the plane geometry of the
+drawings (slot outlines, conductors as placed for the fill).
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from emgate.findings import RunResult
+    from emgate.page.data import PageData
+
+
+MISSING_PLOTS = "the html format draws with matplotlib: pip install 'emgate[html]'"
+
+
+def plots_available() -> bool:
+    """Whether matplotlib, which the plots need, is installed (an optional extra)."""
+    from importlib.util import find_spec
+
+    return find_spec("matplotlib") is not None
+
+
+def page_html(page: PageData) -> str:
+    """The self-contained HTML sheet of one gathered record."""
+    from emgate.page.html import render_page
+    from emgate.page.plots import page_plots
+
+    return render_page(page, page_plots(page))
+
+
+def sheet_file_name(record_id: str) -> str:
+    """File name of a record's sheet beside the run's index (ids are slugs: safe names)."""
+    return f"sheet-{record_id}.html"
+
+
+def write_run(result: RunResult, out: Path) -> None:
+    """Write a run's index to ``out`` (``out/index.html`` when ``out`` is a folder or does
+    not end in .html) and each record's sheet beside it, atomically file by file."""
+    from emgate.atomic import write_atomic
+    from emgate.page.data import gather_result
+    from emgate.page.html import render_index
+
+    if not plots_available():
+        raise OSError(MISSING_PLOTS)
+    index = (
+        out if out.suffix.lower() in (".html", ".htm") and not out.is_dir() else out / "index.html"
+    )
+    pages = gather_result(result)
+    for page in pages:
+        write_atomic(index.parent / sheet_file_name(page.record_id), page_html(page))
+    write_atomic(index, render_index(result, pages, sheet_file_name))
+
+
+def show_html(file: Path, out: Path | None, config: Path | None, plugins: object) -> int:
+    """``emgate show FILE --format html[:OUT]``: the record checked by the gate and its sheet
+    written to OUT (or standard output). Exit 0, or 2 when the record cannot be read or a
+    quantity could not be computed (as ``emgate show``)."""
+    import sys
+
+    from emgate.atomic import write_atomic
+    from emgate.errors import InputError, InputErrors
+    from emgate.page.data import gather, run_gate
+    from emgate.terms import EXIT_INPUT, EXIT_OK
+
+    if not plots_available():
+        print(f"emgate: {MISSING_PLOTS}", file=sys.stderr)
+        return EXIT_INPUT
+    result = run_gate([file], plugins, config)  # type: ignore[arg-type]
+    try:
+        page = gather(file, result)
+    except (InputError, InputErrors) as exc:
+        for err in exc.errors if isinstance(exc, InputErrors) else [exc]:
+            print(str(err), file=sys.stderr)
+        return EXIT_INPUT
+    text = page_html(page)
+    if out is None:
+        sys.stdout.write(text)
+    else:
+        try:
+            write_atomic(out, text)
+        except OSError as exc:
+            print(f"emgate: cannot write html to {out}: {exc.strerror}", file=sys.stderr)
+            return EXIT_INPUT
+    return EXIT_INPUT if any(q.error for q in page.quantities) else EXIT_OK

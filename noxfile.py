@@ -1,4 +1,5 @@
-"""Sessions: tests, lint, demo, schema (regenerate the committed JSON Schemas), bench, sweep."""
+"""Sessions: tests, lint, demo, schema (regenerate the committed JSON Schemas), bench, sweep,
+fuzz."""
 
 from __future__ import annotations
 
@@ -130,3 +131,21 @@ def sweep(session: nox.Session) -> None:
     session.install("-e", ".[sweep]")
     session.install(PACK)
     session.run("python", "bench/sweep_rate.py", *session.posargs)
+
+
+@nox.session
+def fuzz(session: nox.Session) -> None:
+    """The fuzz test at length: 100,000 mutated records, or the count given
+    (``nox -s fuzz -- 20000``); random each run, it stops at the first escape."""
+    session.install("-e", ".[test]")
+    session.install(PACK)
+    count = session.posargs[0] if session.posargs else "100000"
+    session.run(
+        "pytest",
+        "-x",
+        "-q",
+        "tests/test_fuzz.py",
+        "-p",
+        "no:cacheprovider",
+        env={"EMGATE_FUZZ_EXAMPLES": count},
+    )

@@ -90,6 +90,39 @@ def test_a_pack_raising_system_exit_on_import_is_a_crash(plugin_host: Any, repo:
     assert _outcome(doc, "slot-fill")["status"] == "pass"
 
 
+EXPLAINING = """
+from emgate.api import Options, Rule, hookimpl
+
+class Loud(Rule[Options]):
+    id = "acme/loud"
+    summary = "raises where the reports read its method"
+
+    @classmethod
+    def explain(cls):
+        raise SystemExit(0)
+
+    def check(self, design, options, context):
+        return []
+
+@hookimpl
+def emgate_rules():
+    return [Loud]
+"""
+
+
+def test_a_rule_whose_explanation_raises_system_exit_is_a_crash(
+    plugin_host: Any, repo: Path
+) -> None:
+    # Every report reads each rule's explain(): before, its SystemExit ended emgate with
+    # exit 0 and no output, past the runner's guard around check() and applies().
+    plugin_host.add("acme", "acme_loud_pack", EXPLAINING)
+    code, doc = _check(repo)
+    assert code == 3
+    (crash,) = [f for f in doc["findings"] if "acme/loud" in f["message"]]
+    assert crash["kind"] == "crash" and "SystemExit: 0" in crash["message"]
+    assert _outcome(doc, "slot-fill")["status"] == "pass"
+
+
 def test_the_users_ctrl_c_still_stops_the_run(plugin_host: Any, repo: Path) -> None:
     # A real SIGINT during a rule is the user's: the run stops (exit 3, "interrupted").
     _pack(plugin_host, "os.kill(os.getpid(), signal.SIGINT); time.sleep(5)")

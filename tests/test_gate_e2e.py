@@ -56,6 +56,7 @@ def template_gate_command() -> list[str]:
 def gate(repo: Path, *extra: str) -> subprocess.CompletedProcess[str]:
     cmd = template_gate_command()
     assert cmd[0] == "emgate"
+    (repo / "reports").mkdir(exist_ok=True)  # the template's "Make the reports folder" step
     return subprocess.run(
         [EMGATE, *cmd[1:], *extra],
         cwd=repo,

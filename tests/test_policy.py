@@ -316,7 +316,7 @@ COVERAGE = [
     ("$", True),
     ("$.winding", True),
     ("$.winding.conductor", True),
-    ("$.winding.cond", False),  # a name prefix is not an ancestor
+    # (a name prefix such as '$.winding.cond' names no node: an error, tests/test_fail_closed.py)
     ("$.winding.conductor.bare_diameter", False),  # below the finding does not cover it
     ("$.stator", False),
 ]
@@ -532,6 +532,8 @@ def test_deleting_the_waivers_or_config_file_rechecks_everything(
 def test_several_formats_in_one_run_write_files_and_folders(repo: Path) -> None:
     record = write_variant(repo)
     out = repo / "reports" / "deep"
+    out.mkdir(parents=True)  # a missing folder is an error (tests/test_fail_closed.py)
+    (repo / "junit").mkdir()
     result = run_cli(
         "check",
         "--format", f"json:{out / 'r.json'}",
@@ -577,6 +579,7 @@ def test_write_atomic_replaces_and_honours_the_umask(tmp_path: Path) -> None:
     from emgate.atomic import write_atomic
 
     target = tmp_path / "new" / "report.txt"
+    target.parent.mkdir()
     write_atomic(target, "first\n")
     write_atomic(target, "second\n")
     assert target.read_text(encoding="utf-8") == "second\n"

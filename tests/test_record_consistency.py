@@ -65,7 +65,7 @@ def test_a_winding_or_part_that_cannot_be_built_is_located(
         ({"rating.speed": "1500 rpm"}, PUMP, "slip of 0.0%"),
         # 10 poles at 125 Hz: a synchronous machine turns at 1500 rpm [calc: 60 f / p].
         ({"rating.speed": "1450 rpm"}, SERVO, "turns at 1500 rpm"),
-        ({"cooling.ambient": "3000 degC"}, PUMP, "outside -60 to 120 degC"),
+        ({"cooling.ambient": "150 degC"}, PUMP, "outside -60 to 120 degC"),
     ],
 )
 def test_rating_and_coolant_must_be_plausible(
@@ -211,7 +211,7 @@ def test_show_says_when_a_quantity_could_not_be_computed(repo: Path, monkeypatch
     monkeypatch.setitem(calc.PROVIDERS, "winding.copper_loss", broken)
     result = run_cli("show", "--format", "json", write_variant(repo))
     assert result.code == 2
-    assert "a stand-in kernel failure" in result.out
+    assert "a stand-in kernel failure" in result.out + result.err
 
 
 @pytest.mark.parametrize(

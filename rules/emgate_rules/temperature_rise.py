@@ -127,10 +127,10 @@ class TemperatureRise(Rule[TemperatureRiseOptions]):
             f" {rise + design.cooling.ambient - 273.15:.0f} degC (largest step: {worst.name},"
             f" {worst.rise:.0f} K; an estimate to be confirmed by test)",
         )
-        if design.machine == "surface_pm":
-            rotor = sheet["rotor.temperature"]
+        if design.machine == "surface_pm" and "rotor.temperature" in sheet:
+            rotor = sheet["rotor.temperature"]  # (not estimated for some cooling methods)
             declared = design.rotor.magnet.operating_temperature
-            # NaN (not estimated) compares False; an undeclared one is the estimate
+            # an undeclared one is the estimate
             if declared is not None and declared < rotor:
                 yield Problem(
                     ("rotor", "magnet", "operating_temperature"),

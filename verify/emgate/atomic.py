@@ -1,24 +1,117 @@
-"""Atomic file writes: a reader sees the old file or the new one, never half of one."""
+"""Report writes: a reader sees the old file or the new one, never half of one.
+
+Only a regular file (or a new one) is replaced atomically, through a temporary file beside it.
+Anything else the path names is written in place and never replaced: a character device (the
+null device), a FIFO, or a symbolic link (its target is written, the link kept). A temporary is
+named ``.NAME.PID.emgate-tmp...``: it is removed when the write fails or the run is stopped by
+SIGTERM, and a later write of the same report removes one whose process is gone (SIGKILL).
+A report path in a folder that does not exist is an error; nothing creates folders unasked.
+"""
 
 from __future__ import annotations
 
+import contextlib
 import os
+import signal
+import stat
 import tempfile
+import threading
+from collections.abc import Iterator
 from pathlib import Path
 
+TEMP_MARK = ".emgate-tmp"
 
-def write_atomic(path: Path, text: str) -> None:
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+
+def write_atomic(path: Path, text: str, *, parents: bool = False) -> None:
+    """Write ``text`` to ``path`` (UTF-8, LF line ends).
+
+    Parameters
+    ----------
+    path : Path
+        The file to write; its folder must exist unless ``parents``.
+    text : str
+    parents : bool
+        Create missing folders (for ``emgate schema --write DIR``, which names a folder).
+
+    Raises
+    ------
+    OSError
+        FileNotFoundError when the folder does not exist; any error of the write itself.
+    """
+    if parents:
+        path.parent.mkdir(parents=True, exist_ok=True)
+    elif not path.parent.is_dir():
+        raise FileNotFoundError(2, "the folder does not exist (emgate creates no folders)")
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+        mode = os.lstat(path).st_mode
+    except FileNotFoundError:
+        mode = None
+    if mode is not None and not stat.S_ISREG(mode):
+        # A device, FIFO or link: write through it, never replace the node itself.
+        with open(path, "w", encoding="utf-8", newline="\n") as handle:
             handle.write(text)
-            handle.flush()
-            os.fsync(handle.fileno())
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(tmp, 0o666 & ~umask)
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+        return
+    remove_stale(path)
+    fd, tmp = tempfile.mkstemp(
+        prefix=f".{path.name}.{os.getpid()}.", suffix=TEMP_MARK, dir=path.parent
+    )
+    with _removed_on_sigterm(Path(tmp)):
+        try:
+            with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+                handle.write(text)
+                handle.flush()
+                os.fsync(handle.fileno())
+            umask = os.umask(0)
+            os.umask(umask)
+            os.chmod(tmp, 0o666 & ~umask)
+            os.replace(tmp, path)
+        except BaseException:
+            Path(tmp).unlink(missing_ok=True)
+            raise
+
+
+def remove_stale(path: Path) -> list[Path]:
+    """Remove temporaries of ``path`` left by runs whose process no longer exists."""
+    removed = []
+    head = f".{path.name}."
+    for name in os.listdir(path.parent):  # (not a glob: the report's name may hold '[')
+        if not (name.startswith(head) and name.endswith(TEMP_MARK)):
+            continue
+        tmp = path.parent / name
+        pid_text = name[len(head) :].split(".", 1)[0]
+        if not pid_text.isdigit() or int(pid_text) == os.getpid() or _alive(int(pid_text)):
+            continue
+        with contextlib.suppress(OSError):
+            tmp.unlink()
+            removed.append(tmp)
+    return removed
+
+
+def _alive(pid: int) -> bool:
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except (PermissionError, OverflowError):
+        return True  # another user's process: leave its file alone
+    return True
+
+
+@contextlib.contextmanager
+def _removed_on_sigterm(tmp: Path) -> Iterator[None]:
+    """While writing, SIGTERM removes the temporary and then ends the run as SIGTERM would."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = signal.getsignal(signal.SIGTERM)
+
+    def stop(signum: int, frame: object) -> None:
+        tmp.unlink(missing_ok=True)
+        signal.signal(signal.SIGTERM, previous)
+        raise SystemExit(128 + signum)
+
+    signal.signal(signal.SIGTERM, stop)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, previous)

@@ -21,6 +21,8 @@ class ChangeSet:
     files: set[Path] = field(default_factory=set)
     everything: bool = False
     grades: set[str] = field(default_factory=set)
+    #: The files were named on the command line (each must then be an emgate file).
+    named: bool = False
 
     def touches(self, path: Path, data: Any) -> bool:
         """Whether a design file (with its raw, unvalidated data) is affected."""
@@ -84,7 +86,7 @@ def named_files(
     """Files named on the command line (as pre-commit passes the staged ones), read as a change
     to the repository at ``root``: a named materials file re-checks the records using its
     grades, a named config or waivers file re-checks every record."""
-    out = ChangeSet(files={p.resolve() for p in paths})
+    out = ChangeSet(files={p.resolve() for p in paths}, named=True)
     specials = {p.resolve() for p in (config, waivers) if p is not None}
     out.everything = bool(out.files & specials) or any(
         p.name in (CONFIG_NAME, WAIVERS_NAME) for p in out.files
@@ -97,9 +99,14 @@ def named_files(
 
 def _grades_defined(path: Path, root: Path, rev: str | None) -> set[str]:
     """Steel names a materials file defines now or defined at ``rev``."""
+    from emgate.loader import read_text
+
     texts = []
-    if path.is_file():
-        texts.append(path.read_text(encoding="utf-8", errors="replace"))
+    try:  # a regular file inside the repository only (a link out is not followed)
+        path.resolve().relative_to(root.resolve())
+        texts.append(read_text(path))
+    except (ValueError, OSError, InputError):
+        pass  # deleted, not a regular file, or outside: the file's own check reports it
     if rev is not None:
         old = _git(["show", f"{rev}:{path.relative_to(root).as_posix()}"], root)
         if old.returncode == 0:

@@ -226,9 +226,11 @@ def main(argv: list[str] | None = None) -> int:
     except Exception as exc:  # fail closed, without a traceback for the user
         if os.environ.get("EMGATE_DEBUG"):
             raise
+        from emgate.report.common import one_line
+
         print(
-            f"emgate: internal error: {type(exc).__name__}: {exc}\n"
-            "Set EMGATE_DEBUG=1 for the traceback; please report it.",
+            one_line(f"emgate: internal error: {type(exc).__name__}: {exc}")
+            + "\nSet EMGATE_DEBUG=1 for the traceback; please report it.",
             file=sys.stderr,
         )
         return EXIT_CRASH
@@ -242,7 +244,7 @@ def _dispatch(args: argparse.Namespace) -> int:
             from emgate.atomic import write_atomic
 
             for kind in SCHEMA_KINDS:
-                write_atomic(args.write / f"{kind}.schema.json", schema_text(kind))
+                write_atomic(args.write / f"{kind}.schema.json", schema_text(kind), parents=True)
             return EXIT_OK
         sys.stdout.write(schema_text(args.kind))
         return EXIT_OK
@@ -286,8 +288,10 @@ def _dispatch(args: argparse.Namespace) -> int:
 
 
 def _plugin_errors(plugins) -> int:  # type: ignore[no-untyped-def]
+    from emgate.report.common import one_line
+
     for err in [*plugins.errors, *plugins.crashes]:
-        print(f"emgate: {err}", file=sys.stderr)
+        print(one_line(f"emgate: {err}"), file=sys.stderr)
     if plugins.crashes:
         return EXIT_CRASH
     return EXIT_INPUT if plugins.errors else EXIT_OK
@@ -365,7 +369,9 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
         outputs = _outputs(args.formats)
         dropped = _deselected(plugins, args.select, args.ignore)
     except _UsageError as exc:
-        print(f"emgate check: {exc}", file=sys.stderr)
+        from emgate.report.common import one_line
+
+        print(one_line(f"emgate check: {exc}"), file=sys.stderr)
         return EXIT_INPUT
     start = args.paths[0] if args.paths else Path.cwd()
     config = args.config or find_config(start if start.is_dir() else start.parent)
@@ -478,6 +484,7 @@ def _colour(stream) -> bool:  # type: ignore[no-untyped-def]
 def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -> int:  # type: ignore[no-untyped-def]
     from emgate.atomic import write_atomic
     from emgate.report import reporter
+    from emgate.report.common import one_line
 
     status, written = EXIT_OK, []
     for name, file in outputs:
@@ -488,7 +495,7 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
                 write_run(result, file)
             except OSError as exc:
                 why = exc.strerror or str(exc)
-                print(f"emgate: cannot write html to {file}: {why}", file=sys.stderr)
+                print(one_line(f"emgate: cannot write html to {file}: {why}"), file=sys.stderr)
                 status = EXIT_INPUT
             continue
         if name == "text":
@@ -504,13 +511,14 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
             write_atomic(file, text)
             written.append(f"{name} to {file}")
         except OSError as exc:
-            print(f"emgate: cannot write {name} report to {file}: {exc.strerror}", file=sys.stderr)
+            message = f"emgate: cannot write {name} report to {file}: {exc.strerror}"
+            print(one_line(message), file=sys.stderr)
             status = EXIT_INPUT
     if not quiet and all(file is not None for _, file in outputs):  # nothing on the terminal
         from emgate.report.common import summary_line
 
         wrote = f"; wrote {', '.join(written)}" if written else ""
-        print(f"emgate: {summary_line(result)}{wrote}", file=sys.stderr)
+        print(one_line(f"emgate: {summary_line(result)}{wrote}"), file=sys.stderr)
     return status
 
 

@@ -8,6 +8,7 @@ validated against that rule's own options model, with located errors.
 from __future__ import annotations
 
 import fnmatch
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 from functools import cache
 from pathlib import Path
@@ -66,6 +67,18 @@ def _relative_glob(pattern: str) -> str:
 
 RelativeGlobs = list[Annotated[str, AfterValidator(_relative_glob)]]
 
+#: Files that need not be emgate files unless the policy says otherwise: hidden files and
+#: folders (.github/, .gitlab-ci.yml, .pre-commit-config.yaml). '*' matches across folders.
+DEFAULT_IGNORE = (".*", "*/.*")
+
+
+def glob_match(rel: str, globs: Iterable[str]) -> bool:
+    """Whether a path relative to the repository matches one of ``globs`` ('*' also
+    matches across folders, and '**/' matches no folder too)."""
+    return any(
+        fnmatch.fnmatchcase(rel, g) or fnmatch.fnmatchcase(rel, g.replace("**/", "")) for g in globs
+    )
+
 
 class Override(_Strict):
     files: RelativeGlobs = Field(
@@ -97,7 +110,15 @@ class ConfigFile(_Strict):
     )
     waivers: str = Field(
         default=WAIVERS_NAME,
-        description="the reviewed waivers file, relative to this file (ignored when absent)",
+        description="the reviewed waivers file, relative to this file, inside the repository"
+        " (ignored when absent)",
+    )
+    ignore_files: RelativeGlobs = Field(
+        default_factory=lambda: list(DEFAULT_IGNORE),
+        description="glob patterns, relative to this file, of YAML files that are not emgate"
+        " files and may stay so (hidden files and folders by default, where CI configuration"
+        " lives); every other file the files globs select, or named on the command line, must"
+        " be a valid emgate file. A valid emgate record is checked even when listed here",
     )
     rule_time_budget: RuleTimeBudget = Field(
         default=RULE_TIME_BUDGET,
@@ -137,27 +158,44 @@ class Policy:
     overrides: list[tuple[tuple[str, ...], RulePolicy]] = field(default_factory=list)
     source: Path | None = None
     waivers_file: Path | None = None
+    ignore_files: list[str] = field(default_factory=lambda: list(DEFAULT_IGNORE))
     #: Longest time one rule may take on one record [s].
     rule_time_budget: float = 60.0
 
+    def relative(self, path: Path) -> str | None:
+        """``path`` relative to the repository root, or None outside it."""
+        try:
+            return path.resolve().relative_to(self.root.resolve()).as_posix()
+        except (ValueError, OSError):
+            return None
+
+    def inside(self, path: Path) -> bool:
+        return self.relative(path) is not None
+
+    def selects(self, path: Path) -> bool:
+        """Whether the ``files`` globs select a file."""
+        rel = self.relative(path)
+        return rel is not None and glob_match(rel, self.files)
+
+    def ignored(self, path: Path) -> bool:
+        """Whether ``ignore_files`` lets a file be no emgate file."""
+        rel = self.relative(path)
+        return rel is not None and glob_match(rel, self.ignore_files)
+
     def for_file(self, path: Path) -> RulePolicy:
         """The policy for one record: the last matching override wins, else the base."""
-        try:
-            rel = path.resolve().relative_to(self.root.resolve()).as_posix()
-        except ValueError:
+        rel = self.relative(path)
+        if rel is None:
             return self.base
         for globs, rule_policy in reversed(self.overrides):
-            if any(
-                fnmatch.fnmatchcase(rel, g) or fnmatch.fnmatchcase(rel, g.replace("**/", ""))
-                for g in globs
-            ):
+            if glob_match(rel, globs):
                 return rule_policy
         return self.base
 
     def configured_files(self) -> list[Path]:
         out: set[Path] = set()
-        for pattern in self.files:
-            out.update(p for p in self.root.glob(pattern) if p.is_file())
+        for pattern in self.files:  # (a link leading out of the repository is not followed)
+            out.update(p for p in self.root.glob(pattern) if p.is_file() and self.inside(p))
         return sorted(out)
 
 
@@ -285,9 +323,28 @@ def load_policy(
             (tuple(ov.files), RulePolicy(sel[0], sel[1], levels, {**base.options, **opts}))
         )
     _check_required(cfg.required_plugins, installed or {}, ld)
+    policies = [(("rules",), base)]
+    policies += [(("overrides", i, "rules"), p) for i, (_, p) in enumerate(overrides)]
+    for at, rule_policy in policies:
+        if not ld.errors and not any(rule_policy.selected(r) for r in rules.values()):
+            ld.errors.append(
+                InputError(
+                    "this selection runs no rule: a gate that checks nothing must not pass"
+                    f" (installed: {', '.join(sorted(rules)) or 'none'})",
+                    doc.locate(at),
+                )
+            )
+    waivers = path.parent / cfg.waivers
+    if not _within(waivers, path.parent):
+        ld.errors.append(
+            InputError(
+                f"waivers file {cfg.waivers!r} lies outside the repository: every path the"
+                " configuration names stays inside the folder of emgate.yaml",
+                doc.locate(("waivers",)),
+            )
+        )
     if ld.errors:
         raise InputErrors(ld.errors)
-    waivers = path.parent / cfg.waivers
     return Policy(
         root=path.parent,
         base=base,
@@ -295,8 +352,18 @@ def load_policy(
         overrides=overrides,
         source=path,
         waivers_file=waivers if waivers.is_file() else None,
+        ignore_files=list(cfg.ignore_files),
         rule_time_budget=cfg.rule_time_budget,
     )
+
+
+def _within(path: Path, root: Path) -> bool:
+    """Whether ``path``, symbolic links resolved, lies inside ``root``."""
+    try:
+        path.resolve().relative_to(root.resolve())
+    except (ValueError, OSError):
+        return False
+    return True
 
 
 def _check_required(required: list[str], installed: dict[str, str], ld: _Loader) -> None:

@@ -478,6 +478,7 @@ def _status_word(rd: RecordDiff) -> str:
 
 def render_text(res: DiffResult) -> str:
     from emgate.findings import DISCLAIMER
+    from emgate.report.common import one_line
 
     out = [
         f"emgate diff {res.base} -> {res.head} (quantities moved beyond {100 * res.threshold:g} %)"
@@ -508,7 +509,8 @@ def render_text(res: DiffResult) -> str:
                 f" {_margin_text(m.after)}"
             )
     out += ["", f"head revision gate exit code: {res.head_exit}", DISCLAIMER]
-    return "\n".join(out) + "\n"
+    # every line escaped: a record's text cannot start a line or drive a terminal
+    return "\n".join(one_line(line) for line in out) + "\n"
 
 
 def render_json(res: DiffResult) -> str:
@@ -687,6 +689,7 @@ def _threshold(text: str) -> float:
 def main(args: Any, plugins: PluginSet) -> int:
     """``emgate diff``, from the parsed command line (see ``emgate.cli``)."""
     from emgate.atomic import write_atomic
+    from emgate.report.common import one_line
 
     try:
         outputs = []
@@ -719,7 +722,7 @@ def main(args: Any, plugins: PluginSet) -> int:
                     raise DiffError(f"{p}: neither a revision nor a path in {base}")
             result = diff_revisions(base, head, [Path(p) for p in rest], plugins, threshold)
     except DiffError as exc:
-        print(f"emgate diff: {exc}", file=sys.stderr)
+        print(one_line(f"emgate diff: {exc}"), file=sys.stderr)
         return EXIT_INPUT
     status = result.head_exit
     for name, file in outputs:
@@ -730,6 +733,7 @@ def main(args: Any, plugins: PluginSet) -> int:
         try:
             write_atomic(file, text)
         except OSError as exc:
-            print(f"emgate diff: cannot write {name} to {file}: {exc.strerror}", file=sys.stderr)
+            message = f"emgate diff: cannot write {name} to {file}: {exc.strerror}"
+            print(one_line(message), file=sys.stderr)
             status = max(status, EXIT_INPUT)
     return status

@@ -14,7 +14,7 @@ import time
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Literal
+from typing import TYPE_CHECKING, Literal
 
 from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy, RulePolicy
@@ -47,10 +47,14 @@ from emgate.variants import Evaluator
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,
+    invalid_waivers,
     load_waivers_file,
     record_waivers,
     unknown_record_waivers,
 )
+
+if TYPE_CHECKING:
+    from emgate.calc import Calculation
 
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
 #: Rules not run on variants of a record (sweeps, tolerance corners): the one that re-runs
@@ -91,8 +95,21 @@ class Run:
     remedies: bool = True
 
 
-def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
-    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema."""
+def discover(
+    paths: Iterable[Path],
+    result: RunResult,
+    policy: Policy | None = None,
+    changes: ChangeSet | None = None,
+) -> list[Source]:
+    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema.
+
+    Fail closed: a file that is not a valid emgate file is an input error when it resembles
+    one (a near-miss ``schema:`` value or key, a list root holding a record, a record's keys
+    with no schema), and, in a configured repository, whenever the configuration's ``files``
+    globs select it or it is named on the command line, unless ``ignore_files`` lists it.
+    Otherwise it is skipped (with a note when named). With a change set, only the files the
+    change touches are held to this.
+    """
     out: list[Source] = []
     seen: set[Path] = set()
     for root in paths:
@@ -116,13 +133,40 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
             if key in seen:
                 continue
             seen.add(key)
+            if not explicit and not _within(path, root):
+                result.findings.append(
+                    _input_finding(
+                        InputError(
+                            f"a symbolic link leading outside {display_path(root)}: emgate"
+                            " reads nothing outside the folders it checks",
+                            Location(path, 1, 1, "$"),
+                        )
+                    )
+                )
+                continue
             try:
                 text = read_text(path)
             except InputError as exc:
                 result.findings.append(_input_finding(exc))
                 continue
             m = _DECLARES.search(text[:4096])
-            declared = m.group(1) if m else _declared_by_parsing(path, text)
+            declared = m.group(1) if m and m.group(1) in _KNOWN else None
+            if declared is None:
+                declared, problem, near_miss = _classify(path, text)
+                named = explicit or bool(changes and changes.named and key in changes.files)
+                strict = _strict(path, named, policy)
+                if problem is not None and not near_miss and _ignored(path, policy):
+                    problem = None  # the team says it is no record (a fixture, a draft)
+                if problem is None and strict is not None:
+                    problem = InputError(
+                        "not an emgate file (no 'schema: emgate/...' line at the top level):"
+                        f" {strict}; list it under ignore_files in {CONFIG_NAME} if it is no"
+                        " record",
+                        Location(path, 1, 1, "$"),
+                    )
+                if problem is not None and _touched(changes, key):
+                    result.findings.append(_input_finding(problem))
+                    continue
             if declared is None:
                 if explicit:  # e.g. a CI file that pre-commit passes along: say, don't fail
                     result.findings.append(
@@ -144,6 +188,115 @@ def discover(paths: Iterable[Path], result: RunResult) -> list[Source]:
     return out
 
 
+#: Top-level keys of emgate records: a file holding one of them is meant as a record.
+RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
+_KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
+
+
+def _within(path: Path, root: Path) -> bool:
+    try:
+        path.resolve().relative_to(root.resolve())
+    except (ValueError, OSError):
+        return False
+    return True
+
+
+def _touched(changes: ChangeSet | None, key: Path) -> bool:
+    """Whether a change (if any) touches a file: an untouched file's problems are its own."""
+    return changes is None or changes.everything or key in changes.files
+
+
+def _ignored(path: Path, policy: Policy | None) -> bool:
+    """Whether a configuration's ignore_files lists a file."""
+    return policy is not None and policy.source is not None and policy.ignored(path)
+
+
+def _strict(path: Path, named: bool, policy: Policy | None) -> str | None:
+    """Why a non-emgate file is an error here (None: it may be skipped)."""
+    if policy is None or policy.source is None or not policy.inside(path):
+        return None
+    if policy.ignored(path):
+        return None
+    if named:
+        return "it is named inside a configured repository"
+    if policy.selects(path):
+        return f"the files globs of {CONFIG_NAME} select it"
+    return None
+
+
+def _classify(path: Path, text: str) -> tuple[str | None, InputError | None, bool]:
+    """A file the schema-line scan misses: (the emgate schema it declares, or None; the
+    reason it is a broken emgate file, or None when it does not resemble one; whether the
+    reason is a near-miss schema key or value, an error even where ignore_files lists it)."""
+    import difflib
+
+    try:
+        doc = load_text(path, text)
+    except InputError as exc:
+        if "emgate" in text.lower() and exc.location is not None:
+            problem = InputError(f"not a valid emgate file: {exc.message}", exc.location)
+            return None, problem, False
+        return None, None, False
+    data = doc.data
+    if isinstance(data, list):
+        if any(isinstance(item, dict) and _resembles(item) for item in data):
+            problem = InputError(
+                "expected a mapping with a 'schema' key at the top level, found a list holding"
+                " a record: an emgate file holds one record, not a list",
+                doc.locate(()),
+            )
+            return None, problem, False
+        return None, None, False
+    if not isinstance(data, dict):
+        return None, None, False
+    for k in data:
+        if k != "schema" and k.strip().lower() == "schema":
+            problem = InputError(
+                f"key {k!r} is not 'schema': emgate reads the key in lower case, without"
+                " spaces; did you mean 'schema'?",
+                doc.locate_key((k,)),
+            )
+            return None, problem, True
+    if "schema" not in data:
+        if _resembles(data):
+            problem = InputError(
+                "a record's keys with no 'schema' key: expected 'schema: emgate/design@1'"
+                " (or another emgate schema) at the top level",
+                doc.locate(()),
+            )
+            return None, problem, False
+        return None, None, False
+    declared = data["schema"]
+    if isinstance(declared, str) and declared in _KNOWN:
+        return declared, None, False  # (flow style, JSON, CR line ends)
+    looks = isinstance(declared, str) and "emgate" in declared.lower()
+    if not looks and not _resembles(data):
+        return None, None, False
+    hint = ""
+    if isinstance(declared, str):
+        close = difflib.get_close_matches(declared.strip().lower(), _KNOWN, n=1, cutoff=0.6)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        if close and declared.strip().lower() != close[0]:
+            hint += " (emgate reads version 1 of each schema)"
+        hint += "; schema ids are lower case, without spaces"
+    shown = (
+        repr(declared)
+        if isinstance(declared, str) and len(declared) <= 40
+        else ("a list" if isinstance(declared, list) else type(declared).__name__)
+    )
+    problem = InputError(
+        f"expected one of {', '.join(repr(s) for s in _KNOWN)}, found {shown}{hint}",
+        doc.locate(("schema",)),
+    )
+    return None, problem, looks
+
+
+def _resembles(data: dict) -> bool:
+    return bool(RECORD_KEYS.intersection(data)) or (
+        isinstance(data.get("schema"), str) and "emgate" in data["schema"].lower()
+    )
+
+
 _RECORD_ID = re.compile(r"^id:\s*['\"]?([a-z0-9][a-z0-9._-]*)", re.MULTILINE)
 
 
@@ -155,18 +308,6 @@ def _repository_record_ids(root: Path) -> set[str]:
         if src.declared == DESIGN_SCHEMA:
             ids.update(_RECORD_ID.findall(src.text))
     return ids
-
-
-def _declared_by_parsing(path: Path, text: str) -> str | None:
-    """The schema of a record the line scan misses (flow style, JSON, CR line ends)."""
-    if "emgate/" not in text:
-        return None
-    try:
-        data = load_text(path, text).data
-    except InputError:
-        return None
-    declared = data.get("schema") if isinstance(data, dict) else None
-    return declared if isinstance(declared, str) and declared.startswith("emgate/") else None
 
 
 def repository_root(start: Path) -> Path | None:
@@ -279,7 +420,7 @@ def execute(run: Run) -> RunResult:
         )
         for rid, lr in sorted(run.plugins.rules.items())
     ]
-    sources = discover(run.paths, result)
+    sources = discover(run.paths, result, run.policy, run.changes)
     where = {id(src): src.path.resolve() for src in sources}  # each path resolved once
     named = set(where.values())
     # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
@@ -402,6 +543,7 @@ def check_source(
 ) -> RecordDone:
     """Load, validate and check one design file; never raises for the record's own faults.
     The id it claims is compared with the other records' by the caller, in file order."""
+    from emgate.plausible import plausible_calculation
     from emgate.validate import schema_of, validate_design
 
     done = RecordDone(display_path(src.path))
@@ -429,6 +571,7 @@ def check_source(
     try:
         design = validate_design(doc)
         catalogue.resolve(doc, design)
+        calc = plausible_calculation(doc, design, catalogue)
     except (InputError, InputErrors) as exc:
         done.findings.extend(input_findings(exc))
         return done
@@ -443,7 +586,9 @@ def check_source(
     try:
         waivers = record_waivers(doc, design.id, list(design.waivers))
         waivers += file_waivers.get(design.id, [])
-        _check_design(run, ld, catalogue, partial, waivers)
+        waivers, bad = invalid_waivers(waivers, run.plugins.rules, doc)
+        partial.findings.extend(_input_finding(e) for e in bad)
+        _check_design(run, ld, calc, partial, waivers)
     except (InputError, InputErrors) as exc:
         partial.findings.extend(input_findings(exc))
     except Exception as exc:
@@ -465,11 +610,12 @@ def run_root(run: Run) -> Path:
 def _check_design(
     run: Run,
     ld: LoadedDesign,
-    catalogue: Catalogue,
+    calc: Calculation,
     result: RunResult,
     waivers: list[WaiverEntry],
 ) -> None:
-    from emgate.calc import Calculation
+    """Every selected rule on one record. ``calc`` is the record's calculation as the
+    plausibility pass filled it: the rules read those values, not a second computation."""
     from emgate.calc.view import Sheet
 
     design = ld.design
@@ -477,9 +623,9 @@ def _check_design(
     record = RecordResult(ld.file, design.id, design.machine)
     result.records.append(record)
     variants = Evaluator(
-        ld.doc, catalogue, run.plugins, policy, run.policy.rule_time_budget, TOLERANCE_RULES
+        ld.doc, calc.catalogue, run.plugins, policy, run.policy.rule_time_budget, TOLERANCE_RULES
     )
-    context = Context(Sheet(Calculation(design, catalogue)), ld.file, variants)
+    context = Context(Sheet(calc), ld.file, variants)
     produced: list[Finding] = []
     try:
         for _, loaded in sorted(run.plugins.rules.items()):
@@ -491,7 +637,7 @@ def _check_design(
         from emgate.remedies import attach_remedies
 
         budget = run.policy.rule_time_budget
-        attach_remedies(ld.doc, catalogue, policy, run.plugins, ld.file, budget, produced)
+        attach_remedies(ld.doc, calc.catalogue, policy, run.plugins, ld.file, budget, produced)
 
 
 def _check_rule(

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import hashlib
+import math
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, Literal
@@ -133,9 +134,14 @@ def describe_check(check: Check) -> str:
 
     word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
     basis = f" ({check.basis})" if check.basis else ""
+    margin = (  # a limit of zero has no relative margin: say by how much instead
+        f"margin {check.margin:+.1%}"
+        if math.isfinite(check.margin)
+        else f"off by {format_value(abs(check.value - check.limit), check.unit)}"
+    )
     return (
         f"{check.label} {format_value(check.value, check.unit)} {word}"
-        f" {format_value(check.limit, check.unit)}{basis}; margin {check.margin:+.1%}"
+        f" {format_value(check.limit, check.unit)}{basis}; {margin}"
     )
 
 

@@ -11,7 +11,9 @@ schema, restricted: null, true/false, decimal integers and floats; everything el
 
 from __future__ import annotations
 
+import os
 import re
+import stat
 from collections.abc import Iterator, Mapping
 from contextvars import ContextVar
 from dataclasses import dataclass, field
@@ -259,8 +261,22 @@ def _read_bytes(path: Path) -> bytes:
     buffers = BUFFERS.get()
     if buffers and (text := buffers.get(path.resolve())) is not None:
         return text.encode("utf-8", "surrogatepass")[: MAX_BYTES + 1]
-    with path.open("rb") as handle:
-        return handle.read(MAX_BYTES + 1)
+    # Opened without blocking and checked on the open descriptor: a FIFO or a device would
+    # otherwise hold the run forever (and a check before opening could be raced).
+    fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    try:
+        if not stat.S_ISREG(os.fstat(fd).st_mode):
+            raise InputError(
+                "not a regular file (a pipe, device, socket or folder): emgate reads only"
+                " regular files",
+                Location(path, 1, 1, "$"),
+            )
+        with os.fdopen(fd, "rb") as handle:
+            fd = -1
+            return handle.read(MAX_BYTES + 1)
+    finally:
+        if fd >= 0:
+            os.close(fd)
 
 
 def read_text(path: Path) -> str:

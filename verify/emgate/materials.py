@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import difflib
+import math
 
 import numpy as np
 
@@ -11,11 +12,48 @@ from emgate.loader import Document
 from emgate.model import AnyDesign, LossCurveTable, MaterialsFile
 from emgate.physics.bh import BHCurve
 from emgate.physics.iron_loss import LossCurve
+from emgate.terms import RecordPath
 from emgate.units import QuantityError, convert, parse_unit
 
 #: No soft-magnetic steel has a relative permeability above this (grain-oriented sheet peaks
 #: near 1e5; common practice, no source): a larger one is a unit slip in the table.
 MAX_RELATIVE_PERMEABILITY = 1e6
+
+
+#: A steel table's plausible ends, after the columns' units: no iron carries more than
+#: 10 T (saturation polarisation near 2.1 T, the rest mu0 H), 1e8 A/m is beyond any pulsed
+#: magnetiser, and a steel's mass density lies between 1000 and 20000 kg/m^3 (common
+#: practice, no source).
+MAX_TABLE_B = 10.0
+MAX_TABLE_H = 1e8
+DENSITY_RANGE = (1000.0, 20000.0)
+
+
+def steel_table_problem(
+    b: list[float], h: list[float], density: float
+) -> tuple[RecordPath, str] | None:
+    """The first implausible entry of a B-H table in SI, as (path under the grade, message)."""
+    for row, (bi, hi) in enumerate(zip(b, h, strict=True)):
+        if not (math.isfinite(bi) and math.isfinite(hi)) or abs(bi) > MAX_TABLE_B:
+            return (
+                ("points", row),
+                f"point {row} has B = {bi:.4g} T: expected at most {MAX_TABLE_B:g} T"
+                " (check the columns' units)",
+            )
+        if abs(hi) > MAX_TABLE_H:
+            return (
+                ("points", row),
+                f"point {row} has H = {hi:.4g} A/m: expected at most {MAX_TABLE_H:g} A/m"
+                " (check the columns' units)",
+            )
+    low, high = DENSITY_RANGE
+    if density != 0.0 and not low <= density <= high:
+        return (
+            ("density",),
+            f"expected a steel's mass density between {low:g} and {high:g} kg/m^3,"
+            f" found {density:.4g} kg/m^3",
+        )
+    return None
 
 
 def _permeabilities(curve: BHCurve) -> np.ndarray:
@@ -109,6 +147,10 @@ class Catalogue:
                 errors.append(InputError(str(exc), doc.locate((*at, "density"))))
                 continue
             pts = np.asarray(table.points, dtype=float)
+            implausible = steel_table_problem(list(pts[:, 0] * fb), list(pts[:, 1] * fh), density)
+            if implausible:
+                errors.append(InputError(implausible[1], doc.locate((*at, *implausible[0]))))
+                continue
             try:
                 curve = BHCurve(name, pts[:, 0] * fb, pts[:, 1] * fh, table.source, density)
             except ValueError as exc:
@@ -148,7 +190,8 @@ class Catalogue:
         return sorted({*steels.builtin_grades(), *self.local})
 
     def resolve(self, doc: Document, design: AnyDesign) -> None:
-        """Check that every steel the design names exists (InputErrors otherwise)."""
+        """Check that every steel the design names exists; InputErrors otherwise (then
+        :func:`emgate.plausible.plausible_calculation` checks the record with them)."""
         refs = [(("stator", "steel"), design.stator.steel)]
         if design.rotor.steel is not None:
             refs.append((("rotor", "steel"), design.rotor.steel))

@@ -34,7 +34,9 @@ from emgate.quantity import (
 )
 
 Slug = Annotated[str, StringConstraints(pattern=r"^[a-z0-9][a-z0-9._-]{0,63}$")]
-Fraction = Annotated[float, Field(gt=0.0, le=1.0)]
+#: A share of a pitch or a length: below 1 % no machine is built, and a share that small only
+#: divides the kernel by nearly zero (common practice, no source).
+Fraction = Annotated[float, Field(ge=0.01, le=1.0)]
 
 
 class Strict(BaseModel):
@@ -123,7 +125,12 @@ class Stator(Strict):
     outer_diameter: Length
     bore_diameter: Length
     stack_length: Length
-    stacking_factor: Fraction = Field(description="iron fraction of the stack length, e.g. 0.97")
+    stacking_factor: float = Field(
+        ge=0.5,
+        le=1.0,
+        description="iron fraction of the stack length, e.g. 0.97 (0.5 to 1; laminated cores"
+        " lie between 0.9 and 0.98, common practice, no source)",
+    )
     steel: str = Field(
         description="steel grade: a built-in one such as 'M400-50A', or one"
         " defined in the design repository's materials files"
@@ -475,7 +482,10 @@ class SteelTable(Strict):
         description="units of the two columns, e.g. ['T', 'A/m']"
     )
     points: list[Annotated[list[float], Field(min_length=2, max_length=2)]] = Field(
-        min_length=3, max_length=500, description="(B, H) pairs from (0, 0), increasing"
+        min_length=3,
+        max_length=500,
+        description="(B, H) pairs from (0, 0), increasing; B at most 10 T and H at most"
+        " 1e8 A/m in the columns' units converted to SI",
     )
     losses: LossTable | None = Field(
         default=None,

@@ -169,6 +169,17 @@ def _load_one(ep: EntryPoint, pm: pluggy.PluginManager, out: PluginSet) -> None:
         if problem:
             out.errors.append(InputError(f"{where}: {problem}"))
             continue
+        try:  # the engine and every report read it: a raise there would end the run
+            text = rule.explain()
+        except BaseException as exc:
+            if users_interrupt(exc):
+                raise
+            crash = f"{where}: rule {rule.id!r}: explain() raised {describe_exception(exc)}"
+            out.crashes.append(InputError(f"{crash} (a crash of the pack)"))
+            continue
+        if not isinstance(text, str):
+            out.errors.append(InputError(f"{where}: rule {rule.id!r}: explain() is not text"))
+            continue
         if rule.id in out.rules:
             other = out.rules[rule.id].pack
             out.errors.append(

@@ -11,7 +11,7 @@ from typing import Annotated, Any
 
 from pydantic import AfterValidator, BeforeValidator, WithJsonSchema
 
-from emgate.units import DIMENSIONS, QuantityError, convert
+from emgate.units import DIMENSIONS, QuantityError, convert, si_unit
 
 _NUMBER_PATTERN = (
     r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d{1,3})?(?![\d.eE])\s*([A-Za-zµΩ°%(]|1\s*/)"
@@ -42,6 +42,47 @@ def _non_negative(value: float) -> float:
     return value
 
 
+#: Physically plausible magnitudes per dimension, in SI, with the text a message and the
+#: schema show: far wider than any machine (a winding wire to a hydro-generator's stator, a
+#: milliwatt to a gigawatt), narrow enough that no input overflows or underflows the kernel
+#: (a stack of 1e308 m, a frequency of 5e-324 Hz). A value outside is a unit slip or an
+#: attack, never a design (common practice, no source). Zero, where a field allows it, is
+#: exempt from the lower end.
+PLAUSIBLE: dict[str, tuple[float, float, str]] = {
+    "length": (1e-6, 100.0, "0.001 mm to 100 m"),
+    "area": (1e-12, 100.0, "1e-6 mm^2 to 100 m^2"),
+    "frequency": (0.01, 1e5, "0.01 Hz to 100 kHz"),
+    "speed": (0.01 / 60.0, 1e6 / 60.0, "0.01 rpm to 1e6 rpm"),
+    "current": (1e-3, 1e6, "1 mA to 1000 kA"),
+    "voltage": (1e-3, 1e6, "1 mV to 1000 kV"),
+    "power": (1e-3, 1e10, "1 mW to 10 GW"),
+    "temperature": (1.0, 1273.15, "1 K to 1000 degC"),
+    "temperature_difference": (1e-3, 1000.0, "0.001 K to 1000 K"),
+    "flux_density": (1e-6, 10.0, "1 uT to 10 T"),
+    "field_strength": (1e-3, 1e8, "0.001 A/m to 1e5 kA/m"),
+    "per_temperature": (0.0, 0.05, "-5 %/K to 5 %/K"),
+    "current_density": (1e3, 1e9, "0.001 A/mm^2 to 1000 A/mm^2"),
+    "thermal_load": (1e9, 1e19, "1e-6 A^2/mm^3 to 1e4 A^2/mm^3"),
+    "dimensionless": (0.0, 1e3, "-1000 to 1000"),
+}
+
+
+def _plausible(dimension: str) -> Any:
+    low, high, text = PLAUSIBLE.get(dimension, (0.0, 1e30, "a magnitude below 1e30 SI"))
+    example = DIMENSIONS[dimension][1]  # a figure with its unit, e.g. '0.45 mm'
+    unit = "" if dimension == "dimensionless" else " " + si_unit(example.split(" ", 1)[1])
+
+    def check(value: float) -> float:
+        if value != 0.0 and not low <= abs(value) <= high:
+            raise ValueError(
+                f"expected a {dimension.replace('_', ' ')} within the physically plausible"
+                f" range {text}, found {value:.4g}{unit}"
+            )
+        return value
+
+    return AfterValidator(check)
+
+
 def quantity(dimension: str, *, sign: str = "positive") -> Any:
     """An annotated float field holding a quantity of ``dimension`` in SI units.
 
@@ -53,25 +94,35 @@ def quantity(dimension: str, *, sign: str = "positive") -> Any:
     """
     _, example = DIMENSIONS[dimension]
     label = dimension.replace("_", " ")
+    # The range goes in the description and, since a field's own description replaces that
+    # one, in the standard $comment keyword too.
+    plausible = f"plausible range {PLAUSIBLE.get(dimension, (0, 0, 'below 1e30 SI'))[2]}"
     schema: dict[str, Any]
     if dimension == "dimensionless":  # 0.45, or text with a ratio unit: "45 %"
         schema = {
             "anyOf": [{"type": "number"}, {"type": "string", "pattern": _NUMBER_PATTERN}],
-            "description": label,
+            "description": f"{label}; {plausible}",
         }
     else:
         schema = {
             "type": "string",
             "pattern": _NUMBER_PATTERN,
-            "description": f"{label} with its unit, e.g. '{example}'",
+            "description": f"{label} with its unit, e.g. '{example}'; {plausible}",
             "examples": [example],
         }
+    schema["$comment"] = plausible
     checks = {
         "positive": [AfterValidator(_positive)],
         "non_negative": [AfterValidator(_non_negative)],
         "any": [],
     }[sign]
-    return Annotated[float, BeforeValidator(_converter(dimension)), *checks, WithJsonSchema(schema)]
+    return Annotated[
+        float,
+        BeforeValidator(_converter(dimension)),
+        *checks,
+        _plausible(dimension),
+        WithJsonSchema(schema),
+    ]
 
 
 Length = quantity("length")

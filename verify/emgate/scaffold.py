@@ -31,7 +31,7 @@ def init(target: Path) -> int:
     for rel, text in sorted(planned.items()):
         if (target / rel).exists():
             continue
-        write_atomic(target / rel, text)
+        write_atomic(target / rel, text, parents=True)
         print(f"wrote   {(target / rel).as_posix()}")
     for kept in existing:
         print(f"kept    {(target / kept).as_posix()} (exists; not overwritten)", file=sys.stderr)

@@ -11,6 +11,7 @@ from typing import Any
 from emgate import __version__
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import DISCLAIMER
+from emgate.report.common import one_line
 from emgate.terms import DESIGN_SCHEMA, EXIT_INPUT, EXIT_OK
 from emgate.units import si_unit
 
@@ -20,6 +21,7 @@ def load_design(path: Path) -> tuple[Any, Any, Any]:
     (document, design, catalogue); InputError(s) when it cannot be read."""
     from emgate.engine import discover_materials
     from emgate.loader import load
+    from emgate.plausible import plausible_calculation
     from emgate.validate import schema_of, validate_design
 
     doc = load(path)
@@ -29,6 +31,7 @@ def load_design(path: Path) -> tuple[Any, Any, Any]:
     design = validate_design(doc)
     catalogue = discover_materials(path)
     catalogue.resolve(doc, design)
+    plausible_calculation(doc, design, catalogue)  # show refuses what the gate refuses
     return doc, design, catalogue
 
 
@@ -53,6 +56,8 @@ def sheet_values(
             error = ""
         except (ValueError, ArithmeticError) as exc:
             value, error = None, f"not computed: {exc}"
+        if value is not None and not math.isfinite(value):  # never a silent null
+            value, error = None, f"not computed: the value is not finite ({value})"
         out[name] = (value, entry.unit, entry.method, error)
     grades = [("stator", design.stator.steel)]
     if design.rotor.steel and design.rotor.steel != design.stator.steel:
@@ -67,7 +72,7 @@ def show(path: Path, fmt: str) -> int:
     except (InputError, InputErrors) as exc:
         errors = exc.errors if isinstance(exc, InputErrors) else [exc]
         for err in errors:
-            print(str(err), file=sys.stderr)
+            print(one_line(str(err)), file=sys.stderr)
         return EXIT_INPUT
     status = EXIT_INPUT if any(err for *_, err in values.values()) else EXIT_OK
     if fmt == "json":
@@ -92,20 +97,24 @@ def show(path: Path, fmt: str) -> int:
         return status
     from emgate.units import format_value
 
-    print(f"{design.id}: {design.title} ({design.machine}, {design.poles} poles)")
-    print(f"file: {display_path(path)}")
+    def say(line: str = "") -> None:  # every line escaped: a title cannot drive a terminal
+        sys.stdout.write(one_line(line) + "\n")
+
+    say(f"{design.id}: {design.title} ({design.machine}, {design.poles} poles)")
+    say(f"file: {display_path(path)}")
     for part, name, source in steels:
-        print(f"{part} steel {name}: {source}")
-    print()
+        say(f"{part} steel {name}: {source}")
+    say()
     width = max(len(n) for n in values)
     group = ""
     for name in sorted(values):
         value, unit, method, problem = values[name]
         head = name.split(".")[0]
         if head != group:
-            print(f"[{head}]")
+            say(f"[{head}]")
             group = head
         shown = problem if value is None else format_value(value, "" if unit == "1" else unit, 5)
-        print(f"  {name:<{width}}  {shown:>16}   {method}")
-    print(f"\n{DISCLAIMER}")
+        say(f"  {name:<{width}}  {shown:>16}   {method}")
+    say()
+    say(DISCLAIMER)
     return status

@@ -9,6 +9,7 @@ marked waived.
 from __future__ import annotations
 
 import datetime as dt
+from collections.abc import Iterable
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -16,7 +17,7 @@ from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import Finding, RecordResult
 from emgate.loader import Document
 from emgate.model import Waiver
-from emgate.terms import Severity
+from emgate.terms import WAIVERS_SCHEMA, Severity, path_string
 
 WAIVER_RULE = "waiver"
 
@@ -52,6 +53,13 @@ def load_waivers_file(path: Path) -> dict[str, list[WaiverEntry]]:
     from emgate.translate import model_errors
 
     doc = load(path)
+    if not isinstance(doc.data, dict) or doc.data.get("schema") != WAIVERS_SCHEMA:
+        # (a path naming some other file must not echo that file's content)
+        raise InputError(
+            f"not an emgate waivers file: expected 'schema: {WAIVERS_SCHEMA}' at the top"
+            " level (the file's content is not shown)",
+            Location(path, 1, 1, "$"),
+        )
     try:
         parsed = WaiversFile.model_validate(doc.data)
     except ValidationError as exc:
@@ -127,3 +135,45 @@ def unknown_record_waivers(
         if rid not in known
         for e in entries
     ]
+
+
+def invalid_waivers(
+    entries: list[WaiverEntry], rules: Iterable[str], doc: Document
+) -> tuple[list[WaiverEntry], list[InputError]]:
+    """Split waivers into the valid ones and located errors for the rest.
+
+    A waiver names one installed rule by its exact id (not 'all', a wildcard, a pack prefix
+    or a tag: a waiver is a reviewed exception, not a switch) and, with a path, a node that
+    exists in the record: a typo must not look like a reviewed exception.
+    """
+    import difflib
+
+    known = sorted(rules)
+    paths = {path_string(p) for p in doc.marks} | {"$"}
+    valid: list[WaiverEntry] = []
+    errors: list[InputError] = []
+    for entry in entries:
+        rule, where = entry.waiver.rule, entry.waiver.path
+        if rule not in known:
+            if rule == "all" or any(c in rule for c in "*?[]") or rule.startswith("tag:"):
+                why = "a waiver names one rule by its id; 'all', wildcards and tags are refused"
+            elif rule.endswith("/"):
+                why = "a waiver names one rule by its id, not a pack prefix"
+            else:
+                close = difflib.get_close_matches(rule, known, n=1, cutoff=0.6)
+                why = "no installed rule has this id" + (
+                    f"; did you mean {close[0]!r}?" if close else ""
+                )
+            errors.append(InputError(f"waiver for rule {rule!r}: {why}", entry.location))
+            continue
+        if where is not None and where not in paths:
+            errors.append(
+                InputError(
+                    f"waiver path {where!r} names no node of record {entry.record!r}"
+                    " (a JSON path such as '$.winding.conductor')",
+                    entry.location,
+                )
+            )
+            continue
+        valid.append(entry)
+    return valid, errors

@@ -17,6 +17,7 @@ from emgate.calc.conductors import conductor_strand_area
 from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
+    from emgate.model import AnyDesign
     from emgate.physics.iron_loss import LossCurve, LossSplit
 
 #: Density taken for a repository steel that states none [kg/m^3]: the heaviest built-in
@@ -264,21 +265,18 @@ def efficiency(c: Calculation) -> float:
     return float(balance(c).efficiency)
 
 
-def class_scope(c: Calculation) -> str | None:
-    """Why IEC 60034-30-1 does not cover the record, or None."""
+def _classed(d: AnyDesign) -> bool:
+    """Whether IEC 60034-30-1 covers the record: a line-fed induction motor in its scope."""
     from emgate.physics.efficiency_classes import out_of_scope
 
-    d = c.d
     if d.machine != "induction" or d.rating.operation != "motor":
-        return "the classes cover line-fed induction motors"
-    return out_of_scope(d.rating.power, d.poles, d.rating.frequency)
+        return False
+    return out_of_scope(d.rating.power, d.poles, d.rating.frequency) is None
 
 
-@quantity("rating.efficiency_class")
+@quantity("rating.efficiency_class", when=_classed)
 def efficiency_class(c: Calculation) -> float:
     from emgate.physics.efficiency_classes import efficiency_class
 
-    if class_scope(c) is not None:
-        return math.nan
     d = c.d
     return float(efficiency_class(efficiency(c), d.rating.power, d.poles, d.rating.frequency).index)

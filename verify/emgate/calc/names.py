@@ -172,10 +172,11 @@ ENTRIES: tuple[Entry, ...] = (
         "rating.efficiency_class",
         "1",
         "IEC 60034-30-1 class reached by rating.efficiency at the rated power, poles and"
-        " frequency: 1 to 4 for IE1 to IE4, 0 below IE1, NaN outside the standard (a"
-        " generator, not 50/60 Hz, not 2-8 poles, outside 0.12-1000 kW); table from memory,"
-        " linear in log10 P between rated powers",
+        " frequency: 1 to 4 for IE1 to IE4, 0 below IE1; not computed outside the standard"
+        " (a generator, not 50/60 Hz, not 2-8 poles, outside 0.12-1000 kW); table from"
+        " memory, linear in log10 P between rated powers",
         ("induction",),
+        only="a motor within the scope of IEC 60034-30-1",
     ),
     Entry(
         "rating.input_power",
@@ -386,8 +387,9 @@ ENTRIES: tuple[Entry, ...] = (
         "degC",
         "estimated rotor surface temperature: the bore temperature of the thermal network"
         " plus losses.rotor across the gap (Becker and Kaye gap Nusselt number, from"
-        " memory); NaN for direct liquid and open ventilated cooling (the through air"
-        " carries the rotor loss)",
+        " memory); not estimated for direct liquid and open ventilated cooling (the"
+        " through air carries the rotor loss)",
+        only="cooling other than direct liquid and open ventilated",
     ),
     Entry(
         "stator.aspect_ratio",

@@ -10,6 +10,7 @@ from emgate.calc import conductors, losses, winding
 from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
+    from emgate.model import AnyDesign
     from emgate.physics.thermal import HeatSources, OperatingPoint, ThermalEstimate
 
 #: Cooled frame length over the stack length when the record gives no cooling.frame_length:
@@ -18,13 +19,18 @@ if TYPE_CHECKING:
 FRAME_PER_STACK = 1.5
 
 
+class ThermalRunaway(ValueError):
+    """No steady winding temperature: a design that overheats, which the temperature-rise
+    rule reports as its finding (not an input error: every input can be plausible)."""
+
+
 def thermal_estimate(c: Calculation) -> ThermalEstimate:
     """The lumped estimate at the operating (fixed-point) winding temperature, with the
     record's cooling-surface factors (``cooling.fin_area_factor``, ``frame_length``,
     ``core_area_factor``). Raises ValueError on a thermal run-away."""
     op = operating_point(c)
     if op.runaway or op.estimate is None:
-        raise ValueError(
+        raise ThermalRunaway(
             "thermal run-away: the copper loss grows with temperature faster than the cooling"
             f" sheds it (no steady winding temperature; last iterate {op.temperature - 273.15:.0f}"
             " degC)"
@@ -127,10 +133,20 @@ def phase_resistance_operating(c: Calculation) -> float:
     return conductors._phase_resistance(c, operating_temperature(c))
 
 
-@quantity("rotor.temperature")
-def rotor_temperature(c: Calculation) -> float:
+def _rotor_estimated(d: AnyDesign) -> bool:
+    """Whether the thermal network estimates the rotor (the through air of open ventilation
+    and a direct liquid carry the rotor loss away)."""
+    return d.cooling.method not in ("open_ventilated", "direct_liquid")
+
+
+def _estimated_rotor_temperature(c: Calculation) -> float:
     t = thermal_estimate(c).rotor_temperature
     return float("nan") if t is None else t
+
+
+@quantity("rotor.temperature", when=_rotor_estimated)
+def rotor_temperature(c: Calculation) -> float:
+    return _estimated_rotor_temperature(c)
 
 
 @quantity("rotor.magnet_temperature")
@@ -152,5 +168,5 @@ def magnet_temperature(c: Calculation) -> float:
         }
     )
     first = Calculation(c.d.model_copy(update={"rotor": rotor}), c.catalogue)
-    estimate = rotor_temperature(first)
+    estimate = _estimated_rotor_temperature(first)
     return provisional if math.isnan(estimate) else estimate

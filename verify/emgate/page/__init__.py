@@ -43,7 +43,8 @@ def sheet_file_name(record_id: str) -> str:
 
 def write_run(result: RunResult, out: Path) -> None:
     """Write a run's index to ``out`` (``out/index.html`` when ``out`` is a folder or does
-    not end in .html) and each record's sheet beside it, atomically file by file."""
+    not end in .html) and each record's sheet beside it, atomically file by file. A folder
+    ``out`` is made when missing, its parent never (a typo in a path is an error)."""
     from emgate.atomic import write_atomic
     from emgate.page.data import gather_result
     from emgate.page.html import render_index
@@ -53,6 +54,8 @@ def write_run(result: RunResult, out: Path) -> None:
     index = (
         out if out.suffix.lower() in (".html", ".htm") and not out.is_dir() else out / "index.html"
     )
+    if index.parent == out:
+        out.mkdir(exist_ok=True)  # FileNotFoundError (an OSError) when the parent is missing
     pages = gather_result(result)
     for page in pages:
         write_atomic(index.parent / sheet_file_name(page.record_id), page_html(page))
@@ -68,6 +71,7 @@ def show_html(file: Path, out: Path | None, config: Path | None, plugins: object
     from emgate.atomic import write_atomic
     from emgate.errors import InputError, InputErrors
     from emgate.page.data import gather, run_gate
+    from emgate.report.common import one_line
     from emgate.terms import EXIT_INPUT, EXIT_OK
 
     if not plots_available():
@@ -78,7 +82,7 @@ def show_html(file: Path, out: Path | None, config: Path | None, plugins: object
         page = gather(file, result)
     except (InputError, InputErrors) as exc:
         for err in exc.errors if isinstance(exc, InputErrors) else [exc]:
-            print(str(err), file=sys.stderr)
+            print(one_line(str(err)), file=sys.stderr)
         return EXIT_INPUT
     text = page_html(page)
     if out is None:
@@ -87,6 +91,6 @@ def show_html(file: Path, out: Path | None, config: Path | None, plugins: object
         try:
             write_atomic(out, text)
         except OSError as exc:
-            print(f"emgate: cannot write html to {out}: {exc.strerror}", file=sys.stderr)
+            print(one_line(f"emgate: cannot write html to {out}: {exc.strerror}"), file=sys.stderr)
             return EXIT_INPUT
     return EXIT_INPUT if any(q.error for q in page.quantities) else EXIT_OK

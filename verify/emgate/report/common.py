@@ -12,12 +12,26 @@ from emgate.rule import Check
 VERDICTS = {0: "PASS", 1: "FAIL", 2: "INVALID INPUT", 3: "RULE CRASHED"}
 # C0 controls except tab and line ends, DEL, C1, surrogates and the XML non-characters
 _CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f\ud800-\udfff\ufffe\uffff]")
+# the same, line ends and the Unicode line and paragraph separators included
+_CONTROL_LINES = re.compile("[\x00-\x08\x0a-\x1f\x7f-\x9f\u2028\u2029\ud800-\udfff\ufffe\uffff]")
 
 
-def printable(text: str) -> str:
+def printable(text: str, *, keep_lines: bool = True) -> str:
     """``text`` with control characters shown as escapes (``\\x1b``): they are invalid in XML
-    and can rewrite a CI log; tab and line ends are kept for each format to encode."""
-    return _CONTROL.sub(lambda m: ascii(m.group())[1:-1], text)
+    and can rewrite a terminal or a CI log. The one escaping function of every output.
+
+    With ``keep_lines`` (the default) tab and line ends are kept for a format that encodes
+    them itself (annotations, Markdown); without it they are escaped too (``\\n``), so that
+    text from a record, a file name or a waiver cannot start a line of its own (a forged
+    ``PASS:`` or ``::error`` line) in the text, ``show`` or JUnit outputs.
+    """
+    pattern = _CONTROL if keep_lines else _CONTROL_LINES
+    return pattern.sub(lambda m: ascii(m.group())[1:-1], text)
+
+
+def one_line(text: str) -> str:
+    """:func:`printable` without line ends: what a line of plain text output may hold."""
+    return printable(text, keep_lines=False)
 
 
 def where(f: Finding) -> str:

@@ -30,6 +30,7 @@ from emgate.report.common import (
     check_display,
     closest_check,
     margin_text,
+    one_line,
     printable,
     rules_run,
     where,
@@ -40,15 +41,17 @@ _COUNTED = ("failure", "error", "skipped")
 
 
 def _describe(f: Finding) -> str:
+    """One line per finding (line ends escaped: a message cannot forge a line of its own)."""
     text = f"{where(f)}: {f.severity}: {f.message}"
     if f.record_path != "$":
         text += f" [{f.record_path}]"
     if f.waived_by:
         text += f" (waived: {f.waived_by})"
-    return text
+    return one_line(text)
 
 
 def _sub(parent: ET.Element, tag: str, text: str | None = None, **attrs: str) -> ET.Element:
+    # attributes keep line ends: XML encodes them (&#10;), so a path survives exactly
     el = ET.SubElement(parent, tag, {k: printable(v) for k, v in attrs.items() if v})
     if text is not None:
         el.text = printable(text)
@@ -87,7 +90,7 @@ def _testcase(
     if broken:
         _sub(case, "error", details, message=broken[0].message, type=broken[0].kind)
     elif outcome is not None and outcome.status == "crash":
-        _sub(case, "error", outcome.message, message=outcome.message, type="crash")
+        _sub(case, "error", one_line(outcome.message), message=outcome.message, type="crash")
     elif errors:
         _sub(case, "failure", details, message=errors[0].message, type="error")
     elif findings and not live:

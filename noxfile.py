@@ -1,4 +1,5 @@
-"""Sessions: tests, lint, demo, schema (regenerate the committed JSON Schemas), bench, fuzz."""
+"""Sessions: tests, lint, demo, schema (regenerate the committed JSON Schemas), bench, sweep,
+fuzz."""
 
 from __future__ import annotations
 
@@ -19,7 +20,7 @@ PACK = "./examples/company-pack"
 @nox.session
 def tests(session: nox.Session) -> None:
     """Install emgate, its test dependencies and the sample company pack; run pytest."""
-    session.install("-e", ".[test]")
+    session.install("-e", ".[test]")  # the test extra includes emgate[sweep]'s Dask
     session.install(PACK)  # after emgate, which it depends on
     _browser(session)
     session.run("pytest", *session.posargs)
@@ -121,6 +122,15 @@ def bench(session: nox.Session) -> None:
     session.install("-e", ".")
     session.install(PACK)
     session.run("python", "bench/bench.py", *session.posargs)
+
+
+@nox.session
+def sweep(session: nox.Session) -> None:
+    """Sweep rates: the full path on a Dask LocalCluster, the vectorised path on a million
+    variants (`nox -s sweep -- FULL VECTOR` for other sizes); prints, asserts nothing."""
+    session.install("-e", ".[sweep]")
+    session.install(PACK)
+    session.run("python", "bench/sweep_rate.py", *session.posargs)
 
 
 @nox.session

@@ -1,90 +1,220 @@
-"""Start-up and rule timings, printed as ratios measured in this one run.
+"""Start-up, many-record, --changed-since, --jobs and sweep figures, measured in one run.
 
-Not a test: this machine is noisy, so nothing here asserts a time. Run with `nox -s bench`.
+Not a test: this machine is noisy, so nothing here asserts a time. Run with `nox -s bench`
+(`nox -s bench -- --rounds 9 --records 1000`).
 
-1. Wall time of `emgate check` on one record and on the bundled examples, each as a ratio to
-   a bare `python -c "import yaml"` measured in the same run (medians of repeated runs).
-2. In-process: all built-in rules on one design, and on every bundled example, against merely
-   loading the same YAML files with the guarded loader.
+How it measures: every command runs as a child process and its CPU time (user + system, the
+child's own and its reaped children's: ``os.wait4``) is taken, with its wall time and peak
+memory. The commands alternate in rounds (floor, one, many, ..., floor, one, many, ...), so
+that a slow phase of the machine hits them alike; the figures are medians over the rounds and
+the ratios are taken between medians of the same run.
+
+Sections:
+
+1. Start-up: the library-import floor ``python -c "import yaml, numpy, pydantic, pluggy"``
+   against ``emgate check`` of one bundled record.
+2. Many records: a generated repository of N records (the bundled examples varied: id and stack
+   length), checked at N/4 and N records; the CPU per record beyond start-up is the slope
+   between the two; peak memory at both sizes says whether memory grows with the count.
+3. ``--changed-since HEAD`` with one record of N changed (a temporary git repository),
+   against the single check of section 1.
+4. ``--jobs 1`` against ``--jobs`` the available cores, N records (wall and CPU).
+5. In process: the sweep rate of the scalar path (validation + all rules, one variant at a
+   time) against the vectorised magnetic and electrical path on arrays of variants.
 """
 
 from __future__ import annotations
 
+import argparse
+import os
+import re
 import shutil
 import statistics
 import subprocess
 import sys
+import tempfile
 import time
+from collections.abc import Callable
+from dataclasses import dataclass, field
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = ROOT / "examples" / "design-repo"
 ONE = EXAMPLES / "designs" / "pump-drive-4p36s.yaml"
+FLOOR = "import yaml, numpy, pydantic, pluggy"
 
 
-def wall(cmd: list[str], repeat: int) -> float:
-    times = []
-    for _ in range(repeat):
-        start = time.perf_counter()
-        subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=False)
-        times.append(time.perf_counter() - start)
-    return statistics.median(times)
+@dataclass
+class Sample:
+    cpu: list[float] = field(default_factory=list)
+    wall: list[float] = field(default_factory=list)
+    rss: list[int] = field(default_factory=list)  # KiB, peak of the child
+
+    def median_cpu(self) -> float:
+        return statistics.median(self.cpu)
+
+    def median_wall(self) -> float:
+        return statistics.median(self.wall)
+
+    def median_rss(self) -> float:
+        return statistics.median(self.rss)
 
 
-def per_call(fn, repeat: int) -> float:  # type: ignore[no-untyped-def]
-    fn()  # warm: imports, caches of the first call
-    times = []
-    for _ in range(repeat):
-        start = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - start)
-    return statistics.median(times)
+def child(cmd: list[str], cwd: Path | None = None) -> tuple[float, float, int]:
+    """CPU seconds (user + system, the child's and its reaped children's), wall seconds and
+    peak resident KiB of one run of ``cmd``."""
+    start = time.perf_counter()
+    proc = subprocess.Popen(cmd, cwd=cwd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    _, _, usage = os.wait4(proc.pid, 0)
+    proc.returncode = 0  # reaped here, not by Popen
+    wall = time.perf_counter() - start
+    return usage.ru_utime + usage.ru_stime, wall, usage.ru_maxrss
+
+
+def interleave(
+    commands: dict[str, tuple[list[str], Path | None]], rounds: int
+) -> dict[str, Sample]:
+    """Run every command once per round, in turn; one warm-up round is discarded."""
+    samples = {name: Sample() for name in commands}
+    for r in range(rounds + 1):
+        for name, (cmd, cwd) in commands.items():
+            cpu, wall, rss = child(cmd, cwd)
+            if r:
+                samples[name].cpu.append(cpu)
+                samples[name].wall.append(wall)
+                samples[name].rss.append(rss)
+    return samples
+
+
+def make_repository(where: Path, n: int) -> list[Path]:
+    """A design repository of ``n`` records: the bundled examples in turn, each with its own
+    id and a stack length varied by up to +-2 %, plus the bundled materials and config."""
+    shutil.copytree(EXAMPLES / "materials", where / "materials")
+    shutil.copy(EXAMPLES / "emgate.yaml", where / "emgate.yaml")
+    (where / "designs").mkdir()
+    bases = [(p.stem, p.read_text()) for p in sorted((EXAMPLES / "designs").glob("*.yaml"))]
+    out = []
+    for i in range(n):
+        stem, text = bases[i % len(bases)]
+        rid = f"{stem}-v{i:05d}"
+        text = re.sub(r"^id: .*$", f"id: {rid}", text, count=1, flags=re.MULTILINE)
+
+        def vary(m: re.Match[str], i: int = i) -> str:
+            return f"stack_length: {float(m.group(1)) * (1 + ((i % 41) - 20) / 1000):.3f} mm"
+
+        text = re.sub(r"stack_length: ([0-9.]+) mm", vary, text, count=1)
+        path = where / "designs" / f"{rid}.yaml"
+        path.write_text(text)
+        out.append(path)
+    return out
+
+
+def git(where: Path, *args: str) -> None:
+    subprocess.run(
+        ["git", "-c", "user.name=bench", "-c", "user.email=bench@localhost", *args],
+        cwd=where,
+        check=True,
+        stdout=subprocess.DEVNULL,
+        stderr=subprocess.DEVNULL,
+    )
+
+
+def has_option(exe: str, option: str) -> bool:
+    out = subprocess.run([exe, "check", "--help"], capture_output=True, text=True, check=False)
+    return option in out.stdout
+
+
+def line(label: str, s: Sample, ref: Sample | None = None, ref_name: str = "") -> None:
+    ratio = f"{s.median_cpu() / ref.median_cpu():6.2f} x {ref_name}" if ref else ""
+    print(
+        f"  {label:<44} cpu {s.median_cpu() * 1e3:8.1f} ms  wall {s.median_wall() * 1e3:8.1f} ms"
+        f"  rss {s.median_rss() / 1024:6.1f} MiB  {ratio}"
+    )
+
+
+def rate(fn: Callable[[], int], seconds: float = 1.0) -> float:
+    """Items per CPU second of ``fn`` (which returns how many items it did), run repeatedly
+    for about ``seconds``; the median of the per-call rates."""
+    fn()  # warm
+    rates = []
+    end = time.process_time() + seconds
+    while time.process_time() < end or len(rates) < 3:
+        t0 = time.process_time()
+        n = fn()
+        rates.append(n / max(time.process_time() - t0, 1e-9))
+    return statistics.median(rates)
+
+
+def sweep_rates(n: int) -> None:
+    try:
+        from emgate.sweep import bench_rates
+    except ImportError:
+        print("  (emgate.sweep not installed in this environment)")
+        return
+    for label, (value, unit) in bench_rates(ONE, n, rate).items():
+        print(f"  {label:<44} {value:12,.0f} {unit}")
 
 
 def main() -> None:
-    repeat = int(sys.argv[1]) if len(sys.argv) > 1 else 15
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--rounds", type=int, default=7)
+    ap.add_argument("--records", type=int, default=1000)
+    ap.add_argument("--variants", type=int, default=4000, help="array size of the sweep section")
+    args = ap.parse_args()
     exe = shutil.which("emgate") or sys.exit("emgate is not installed in this environment")
-    base = wall([sys.executable, "-c", "import yaml"], repeat)
-    # The libraries the job requires, imported and nothing else: the floor under any CLI.
-    floor = wall(
-        [
-            sys.executable,
-            "-c",
-            "import yaml, numpy, pluggy, importlib.metadata;"
-            " from pydantic import BaseModel, TypeAdapter",
-        ],
-        repeat,
-    )
-    one = wall([exe, "check", str(ONE)], repeat)
-    many = wall([exe, "check", str(EXAMPLES)], repeat)
-    print(f"python -c 'import yaml'          {base * 1e3:8.1f} ms   1.00")
-    print(f"import yaml+numpy+pluggy+pydantic {floor * 1e3:7.1f} ms   {floor / base:5.2f} x")
-    print(f"emgate check one record          {one * 1e3:8.1f} ms   {one / base:5.2f} x")
-    print(f"emgate check examples/ (3 + 1)   {many * 1e3:8.1f} ms   {many / base:5.2f} x")
-
-    from emgate.config import Policy
-    from emgate.engine import Run, execute
-    from emgate.loader import load
-    from emgate.plugins import load_plugins
-
-    plugins = load_plugins()
-    files = sorted(EXAMPLES.rglob("*.yaml"))
-    load_one = per_call(lambda: load(ONE), repeat * 20)
-    load_all = per_call(lambda: [load(f) for f in files], repeat * 10)
-    rules_one = per_call(lambda: execute(Run([ONE], Policy(EXAMPLES), plugins)), repeat * 4)
-    rules_all = per_call(lambda: execute(Run([EXAMPLES], Policy(EXAMPLES), plugins)), repeat * 2)
-    n = len(plugins.rules)
-    print(f"\nin process ({n} rules installed):")
-    print(f"load one record                  {load_one * 1e3:8.3f} ms   1.00")
+    cores = len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else os.cpu_count()
+    jobs = has_option(exe, "--jobs")
+    n, quarter = args.records, max(args.records // 4, 1)
+    print(f"emgate bench: {args.rounds} rounds, medians; {cores} cores; CPU = user + system")
+    with tempfile.TemporaryDirectory() as tmp:
+        big, small = Path(tmp) / "big", Path(tmp) / "small"
+        big.mkdir()
+        small.mkdir()
+        records = make_repository(big, n)
+        make_repository(small, quarter)
+        git(big, "init", "-q")
+        git(big, "add", "-A")
+        git(big, "commit", "-q", "-m", "records")
+        changed = records[len(records) // 2]
+        changed.write_text(changed.read_text().replace("title: ", "title: (changed) ", 1))
+        serial = ["--jobs", "1"] if jobs else []
+        commands: dict[str, tuple[list[str], Path | None]] = {
+            "floor": ([sys.executable, "-c", FLOOR], None),
+            "one": ([exe, "check", str(ONE)], None),
+            "small": ([exe, "check", *serial, "designs"], small),
+            "big": ([exe, "check", *serial, "designs"], big),
+            "changed": ([exe, "check", "--changed-since", "HEAD"], big),
+        }
+        if jobs:
+            commands["parallel"] = ([exe, "check", "--jobs", str(cores), "designs"], big)
+        s = interleave(commands, args.rounds)
+    floor, one = s["floor"], s["one"]
+    print("\n1. start-up")
+    line(f'floor: python -c "{FLOOR}"', floor)
+    line("emgate check, one record", one, floor, "floor (target <= 1.5)")
+    print(f"\n2. many records ({'--jobs 1' if jobs else 'serial'})")
+    line(f"emgate check, {quarter} records", s["small"], one, "one")
+    line(f"emgate check, {n} records", s["big"], one, "one")
+    slope = (s["big"].median_cpu() - s["small"].median_cpu()) / (n - quarter)
+    beyond = (s["big"].median_cpu() - one.median_cpu()) / n
     print(
-        f"validate + all rules, one record {rules_one * 1e3:8.3f} ms   "
-        f"{rules_one / load_one:5.1f} x"
+        f"  CPU per record, slope {quarter} -> {n}:            {slope * 1e3:6.2f} ms (target <= 2)"
     )
-    print(f"load all example files           {load_all * 1e3:8.3f} ms   1.00")
-    print(
-        f"validate + all rules, examples   {rules_all * 1e3:8.3f} ms   "
-        f"{rules_all / load_all:5.1f} x"
-    )
+    print(f"  CPU per record beyond one check, {n} records:  {beyond * 1e3:6.2f} ms")
+    grow = (s["big"].median_rss() - s["small"].median_rss()) / (n - quarter)
+    print(f"  peak memory per extra record:                  {grow:6.2f} KiB")
+    print(f"\n3. --changed-since HEAD, one of {n} records changed")
+    line("emgate check --changed-since HEAD", s["changed"], one, "one (target <= 1.2)")
+    if jobs:
+        print(f"\n4. --jobs, {n} records")
+        line("--jobs 1", s["big"])
+        line(f"--jobs {cores}", s["parallel"], s["big"], "--jobs 1 (CPU)")
+        speed = s["big"].median_wall() / s["parallel"].median_wall()
+        print(f"  wall-time speed-up --jobs {cores} over --jobs 1:       {speed:6.2f} x")
+    else:
+        print("\n4. --jobs: not available in this emgate")
+    print(f"\n5. sweep rates in process ({args.variants} variants a call), per CPU second")
+    sweep_rates(args.variants)
 
 
 if __name__ == "__main__":

@@ -264,6 +264,7 @@ BUILTIN = [
     "slot-fill",
     "temperature-rise",
     "thermal-load",
+    "tolerance-corners",
     "tooth-flux",
     "winding-balance",
     "yoke-flux",

@@ -22,6 +22,7 @@ def emgate_rules() -> list[type[Rule]]:
     from emgate_rules.slot_fill import SlotFill
     from emgate_rules.temperature_rise import TemperatureRise
     from emgate_rules.thermal_load import ThermalLoadRule
+    from emgate_rules.tolerance_corners import ToleranceCorners
     from emgate_rules.tooth_flux import ToothFlux
     from emgate_rules.winding_balance import WindingBalance
     from emgate_rules.yoke_flux import YokeFlux
@@ -42,6 +43,7 @@ def emgate_rules() -> list[type[Rule]]:
         SlotFill,
         TemperatureRise,
         ThermalLoadRule,
+        ToleranceCorners,
         ToothFlux,
         WindingBalance,
         YokeFlux,

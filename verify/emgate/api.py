@@ -26,7 +26,8 @@ that ``emgate show`` prints; they never see the mutable calculation.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
+from collections.abc import Iterator
+from typing import TYPE_CHECKING, Any
 
 from emgate.calc.names import Entry
 from emgate.calc.view import NotComputed, Sheet
@@ -114,6 +115,7 @@ __all__ = [
     "ratio",
     "rise_limit_allowance",
     "temperature_rise_limit",
+    "tolerance_findings",
     "winding_path",
 ]
 
@@ -124,6 +126,14 @@ def temperature_rise_limit(insulation_class: str) -> float:
     from emgate.physics.conductors import temperature_rise_limit as lookup
 
     return lookup(insulation_class)
+
+
+def tolerance_findings(design: AnyDesign, context: Context, **how: Any) -> Iterator[Any]:
+    """(record path, message) of every rule failing across the record's tolerances
+    (``emgate.tolerances``: worst corner or Monte Carlo, ``how`` its options)."""
+    from emgate.tolerances import tolerance_findings as judge
+
+    return judge(design, context, **how)
 
 
 def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool) -> float:

@@ -32,6 +32,14 @@ def _date(text: str) -> dt.date:
         raise argparse.ArgumentTypeError(f"expected a date YYYY-MM-DD, found {text!r}") from None
 
 
+def _jobs(text: str) -> int:
+    if not text.isdigit() or int(text) < 1:
+        raise argparse.ArgumentTypeError(
+            f"expected a whole number of processes >= 1, found {text!r}"
+        )
+    return int(text)
+
+
 def _show_format(text: str) -> str:
     if text in ("text", "json", "html") or text.startswith("html:"):
         return text
@@ -113,6 +121,13 @@ def _parser() -> argparse.ArgumentParser:
         help="for each failing check, the value of a record field that would fix it (default"
         " on; off is faster)",
     )
+    c.add_argument(
+        "--jobs",
+        type=_jobs,
+        metavar="N",
+        help="worker processes for the records (default: the available cores); the report"
+        " is the same as with --jobs 1",
+    )
     s = sub.add_parser("show", help="print the calculation sheet of a design")
     s.add_argument("file", type=Path, metavar="FILE", help="a design record")
     s.add_argument(
@@ -147,6 +162,24 @@ def _parser() -> argparse.ArgumentParser:
         default="0.1",
         metavar="PERCENT",
         help="report a quantity that moved by more than this, relative (default 0.1 %%)",
+    )
+    w = sub.add_parser(
+        "sweep", help="check variants of a record over a grid or random sample of its fields"
+    )
+    w.add_argument("record", type=Path, metavar="RECORD", help="the design record to vary")
+    w.add_argument(
+        "spec", type=Path, metavar="SPEC", help="the sweep: fields and their ranges or values"
+    )
+    w.add_argument("--out", type=Path, help="table of variants: FILE.csv or FILE.parquet")
+    w.add_argument(
+        "--scheduler",
+        default="local",
+        help="local (default: a Dask cluster on this machine's cores), tcp://HOST:PORT"
+        " (a running Dask scheduler), or none (this process)",
+    )
+    w.add_argument("--chunk", type=_jobs, default=256, help="variants per task (default 256)")
+    w.add_argument(
+        "--config", type=Path, help="project config (default: nearest emgate.yaml of the record)"
     )
     r = sub.add_parser("rules", help="list every installed rule")
     r.add_argument(
@@ -245,6 +278,8 @@ def _dispatch(args: argparse.Namespace) -> int:
         from emgate.scaffold import init
 
         return init(args.dir, args.machine)
+    if args.command == "sweep":
+        return _sweep(args)
     if args.command == "lsp":
         from emgate.lsp import main as lsp
 
@@ -388,6 +423,9 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
         return result.exit_code
     if args.today:
         run.today = args.today
+    from emgate.parallel import available_cores
+
+    run.jobs = args.jobs or available_cores()
     result = execute(run)
     return max(result.exit_code, _emit(result, outputs, args.quiet))
 
@@ -427,6 +465,21 @@ def _deselected(plugins, select: list[str], ignore: list[str]) -> tuple[str, ...
             hint = f"; did you mean {close[0]!r}?" if close else ""
             raise _UsageError(f"{flag} {selector!r} matches no installed rule{hint}")
     return tuple(rid for rid, rule in sorted(rules.items()) if not chosen.selected(rule))
+
+
+def _sweep(args: argparse.Namespace) -> int:
+    from emgate.errors import InputError, InputErrors
+    from emgate.sweep import SweepRun, sweep
+
+    try:
+        return sweep(
+            SweepRun(args.record, args.spec, args.out, args.scheduler, args.chunk, args.config)
+        )
+    except (InputError, InputErrors) as exc:
+        for err in exc.errors if isinstance(exc, InputErrors) else [exc]:
+            where = f"{err.location}: " if err.location else ""
+            print(f"emgate sweep: {where}{err.message}", file=sys.stderr)
+        return EXIT_INPUT
 
 
 def _inside(path: Path, root: Path) -> bool:

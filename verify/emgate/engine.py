@@ -9,7 +9,6 @@ from __future__ import annotations
 
 import dataclasses
 import datetime as dt
-import math
 import re
 import time
 from collections.abc import Iterable
@@ -29,6 +28,7 @@ from emgate.findings import (
     anchor,
     source_root,
 )
+from emgate.findings import describe_check as _describe
 from emgate.listing import yaml_files
 from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
@@ -44,6 +44,7 @@ from emgate.terms import (
     RecordPath,
     Severity,
 )
+from emgate.variants import Evaluator
 from emgate.waivers import (
     WaiverEntry,
     apply_waivers,
@@ -57,6 +58,9 @@ if TYPE_CHECKING:
     from emgate.calc import Calculation
 
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
+#: Rules not run on variants of a record (sweeps, tolerance corners): the one that re-runs
+#: the others on variants, and the designer's declared figures, which are the nominal's.
+TOLERANCE_RULES = frozenset({"tolerance-corners", "declared-values"})
 
 
 @dataclass
@@ -87,6 +91,8 @@ class Run:
     changes: ChangeSet | None = None
     #: Also report the YAML files under a folder that are not emgate files (--verbose).
     verbose: bool = False
+    #: Worker processes for the records (1: this process); the report is the same.
+    jobs: int = 1
     #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
     remedies: bool = True
 
@@ -391,8 +397,7 @@ def input_findings(exc: InputError | InputErrors) -> list[Finding]:
 def execute(run: Run) -> RunResult:
     """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
     from emgate.explain import explain_markdown
-    from emgate.plausible import plausible_calculation
-    from emgate.validate import schema_of, validate_design, validate_materials
+    from emgate.validate import schema_of, validate_materials
 
     result = RunResult()
     for error in run.plugins.errors:
@@ -413,20 +418,46 @@ def execute(run: Run) -> RunResult:
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     sources = discover(run.paths, result, run.policy, run.changes, run.verbose)
-    named = {src.path.resolve() for src in sources}
-    roots = {r for p in run.paths if p.exists() and (r := repository_root(p)) is not None}
+    where = {id(src): src.path.resolve() for src in sources}  # each path resolved once
+    named = set(where.values())
+    # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
+    folders = {p if p.is_dir() else p.parent for p in run.paths if p.exists()}
+    roots = {r for f in folders if (r := repository_root(f)) is not None}
+    searched = {p.resolve() for p in run.paths if p.is_dir()}
     for root in sorted(roots):
+        if root in searched:
+            continue  # its materials files are among the sources already
         sources += [m for m in materials_sources(root) if m.path.resolve() not in named]
         named |= {m.path.resolve() for m in sources}
     result.files_read = len(sources)
+    # Materials (and any file not declared a design) first: the catalogue is complete
+    # before the first record is checked. Design files then stream through one at a time
+    # (parsed, checked, dropped), in this process or in --jobs worker processes.
     docs: list[tuple[Source, Document, str]] = []
+    designs: list[Source] = []
     for src in sources:
+        if src.declared == DESIGN_SCHEMA:
+            changes = run.changes
+            if (
+                changes is not None
+                and not changes.everything
+                and not changes.grades
+                and where.get(id(src), src.path.resolve()) not in changes.files
+            ):
+                continue  # outside the change by its path alone: not even parsed
+            designs.append(src)
+            continue
         try:
             doc = load_text(src.path, src.text)
-            docs.append((src, doc, schema_of(doc)))
+            kind = schema_of(doc)
+            if kind == DESIGN_SCHEMA:  # its first schema line and its parsed key disagree
+                raise InputError(
+                    f"expected one schema: the first 'schema:' line says {src.declared!r},"
+                    f" the parsed document {kind!r}",
+                    doc.locate(("schema",)),
+                )
+            docs.append((src, doc, kind))
         except (InputError, InputErrors) as exc:
-            if _untouched_record(run, src):
-                continue  # a broken record the change does not touch is its author's to fix
             result.findings.extend(input_findings(exc))
     file_waivers: dict[str, list[WaiverEntry]] = {}
     if run.policy.waivers_file is not None:
@@ -442,43 +473,31 @@ def execute(run: Run) -> RunResult:
             except (InputError, InputErrors) as exc:
                 catalogue.failed.append(display_path(doc.path))
                 result.findings.extend(input_findings(exc))
+    del docs  # nothing below reads the materials documents again
     seen_ids: dict[str, str] = {}
     with rule_guards():
-        for _, doc, kind in docs:
-            if kind != DESIGN_SCHEMA:
-                continue
-            if run.changes is not None and not run.changes.touches(doc.path, doc.data):
-                continue
-            try:
-                design = validate_design(doc)
-                catalogue.resolve(doc, design)
-                calc = plausible_calculation(doc, design, catalogue)
-                if design.id in seen_ids:
-                    raise InputError(
-                        f"record id {design.id!r} is already used by {seen_ids[design.id]}",
-                        doc.locate(("id",)),
+        from emgate.parallel import ordered_map
+
+        def one(src: Source) -> RecordDone:
+            return check_source(run, src, catalogue, file_waivers)
+
+        for done in ordered_map(one, designs, run.jobs):
+            if done.record_id is not None and done.record_id in seen_ids:
+                # the same verdict as a serial run: a record whose id is taken is not checked
+                result.findings.append(
+                    _input_finding(
+                        InputError(
+                            f"record id {done.record_id!r} is already used by"
+                            f" {seen_ids[done.record_id]}",
+                            done.id_location,
+                        )
                     )
-            except (InputError, InputErrors) as exc:
-                result.findings.extend(input_findings(exc))
+                )
                 continue
-            except (ValueError, ArithmeticError) as exc:  # absurd numbers validation let through
-                result.findings.append(_record_failure(doc, "input", exc))
-                continue
-            except Exception as exc:  # emgate's own bug: this record only, the others go on
-                result.findings.append(_record_failure(doc, "crash", exc))
-                continue
-            seen_ids[design.id] = display_path(doc.path)
-            ld = LoadedDesign(doc, design, display_path(doc.path))
-            try:
-                waivers = record_waivers(doc, design.id, list(design.waivers))
-                waivers += file_waivers.get(design.id, [])
-                waivers, bad = invalid_waivers(waivers, run.plugins.rules, doc)
-                result.findings.extend(_input_finding(e) for e in bad)
-                _check_design(run, ld, calc, result, waivers)
-            except (InputError, InputErrors) as exc:
-                result.findings.extend(input_findings(exc))
-            except Exception as exc:
-                result.findings.append(_record_failure(doc, "crash", exc, design.id))
+            if done.record_id is not None:
+                seen_ids[done.record_id] = done.file
+            result.findings.extend(done.findings)
+            result.records.extend(done.records)
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | _repository_record_ids(run.policy.root)
         result.findings.extend(
@@ -502,6 +521,78 @@ def execute(run: Run) -> RunResult:
     anchor(result, run_root(run))
     result.sort()
     return result
+
+
+@dataclass
+class RecordDone:
+    """What checking one design file gave, for the run to collect in order: its findings
+    and record result, and the id it claims (None when it did not validate)."""
+
+    file: str
+    findings: list[Finding] = field(default_factory=list)
+    records: list[RecordResult] = field(default_factory=list)
+    record_id: str | None = None
+    id_location: Location | None = None
+
+
+def check_source(
+    run: Run, src: Source, catalogue: Catalogue, file_waivers: dict[str, list[WaiverEntry]]
+) -> RecordDone:
+    """Load, validate and check one design file; never raises for the record's own faults.
+    The id it claims is compared with the other records' by the caller, in file order."""
+    from emgate.plausible import plausible_calculation
+    from emgate.validate import schema_of, validate_design
+
+    done = RecordDone(display_path(src.path))
+    try:
+        doc = load_text(src.path, src.text)
+        kind = schema_of(doc)
+    except (InputError, InputErrors) as exc:
+        if not _untouched_record(run, src):  # a broken record outside a change is its author's
+            done.findings.extend(input_findings(exc))
+        return done
+    if kind != DESIGN_SCHEMA:  # its first schema line and its parsed key disagree
+        done.findings.append(
+            _input_finding(
+                InputError(
+                    f"expected one schema: the first 'schema:' line says {DESIGN_SCHEMA!r},"
+                    f" the parsed document {kind!r}",
+                    doc.locate(("schema",)),
+                )
+            )
+        )
+        return done
+    if run.changes is not None and not run.changes.touches(doc.path, doc.data):
+        return done
+    partial = RunResult()
+    try:
+        design = validate_design(doc)
+        catalogue.resolve(doc, design)
+        calc = plausible_calculation(doc, design, catalogue)
+    except (InputError, InputErrors) as exc:
+        done.findings.extend(input_findings(exc))
+        return done
+    except (ValueError, ArithmeticError) as exc:  # absurd numbers validation let through
+        done.findings.append(_record_failure(doc, "input", exc))
+        return done
+    except Exception as exc:  # emgate's own bug: this record only, the others go on
+        done.findings.append(_record_failure(doc, "crash", exc))
+        return done
+    done.record_id, done.id_location = design.id, doc.locate(("id",))
+    ld = LoadedDesign(doc, design, done.file)
+    try:
+        waivers = record_waivers(doc, design.id, list(design.waivers))
+        waivers += file_waivers.get(design.id, [])
+        waivers, bad = invalid_waivers(waivers, run.plugins.rules, doc)
+        partial.findings.extend(_input_finding(e) for e in bad)
+        _check_design(run, ld, calc, partial, waivers)
+    except (InputError, InputErrors) as exc:
+        partial.findings.extend(input_findings(exc))
+    except Exception as exc:
+        partial.findings.append(_record_failure(doc, "crash", exc, design.id))
+    done.findings.extend(partial.findings)
+    done.records = partial.records
+    return done
 
 
 def run_root(run: Run) -> Path:
@@ -528,7 +619,10 @@ def _check_design(
     policy = run.policy.for_file(ld.doc.path)
     record = RecordResult(ld.file, design.id, design.machine)
     result.records.append(record)
-    context = Context(sheet=Sheet(calc), file=ld.file)
+    variants = Evaluator(
+        ld.doc, calc.catalogue, run.plugins, policy, run.policy.rule_time_budget, TOLERANCE_RULES
+    )
+    context = Context(Sheet(calc), ld.file, variants)
     produced: list[Finding] = []
     try:
         for _, loaded in sorted(run.plugins.rules.items()):
@@ -611,20 +705,4 @@ def _finding(
         record_id=ld.design.id,
         kind=kind,
         check=check,
-    )
-
-
-def _describe(check: Check) -> str:
-    from emgate.units import format_value
-
-    word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
-    basis = f" ({check.basis})" if check.basis else ""
-    margin = (  # a limit of zero has no relative margin: say by how much instead
-        f"margin {check.margin:+.1%}"
-        if math.isfinite(check.margin)
-        else f"off by {format_value(abs(check.value - check.limit), check.unit)}"
-    )
-    return (
-        f"{check.label} {format_value(check.value, check.unit)} {word}"
-        f" {format_value(check.limit, check.unit)}{basis}; {margin}"
     )

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import hashlib
+import math
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, Literal
@@ -125,6 +126,23 @@ class RunResult:
 
 def relative_file(path: Path) -> str:
     return display_path(path)
+
+
+def describe_check(check: Check) -> str:
+    """The words of a failed check: value, limit, basis and margin."""
+    from emgate.units import format_value
+
+    word = "exceeds the limit" if check.bound == "max" else "is below the minimum"
+    basis = f" ({check.basis})" if check.basis else ""
+    margin = (  # a limit of zero has no relative margin: say by how much instead
+        f"margin {check.margin:+.1%}"
+        if math.isfinite(check.margin)
+        else f"off by {format_value(abs(check.value - check.limit), check.unit)}"
+    )
+    return (
+        f"{check.label} {format_value(check.value, check.unit)} {word}"
+        f" {format_value(check.limit, check.unit)}{basis}; {margin}"
+    )
 
 
 def source_root(start: Path) -> Path:

@@ -11,6 +11,7 @@ import datetime as dt
 from typing import Annotated, Any, Literal, get_args, get_origin
 
 from pydantic import (
+    AfterValidator,
     BaseModel,
     BeforeValidator,
     ConfigDict,
@@ -431,6 +432,13 @@ class SalientRotor(Strict):
 # --- designs ----------------------------------------------------------------------------
 
 
+def _tolerance_text(text: str) -> str:
+    from emgate.tolerances import parse_tolerance
+
+    parse_tolerance(text)  # a ToleranceError is a ValueError: pydantic reports it located
+    return text
+
+
 class DesignBase(Strict):
     schema_: Literal["emgate/design@1"] = Field(alias="schema")
     id: Slug
@@ -454,6 +462,11 @@ class DesignBase(Strict):
         " declared-values rule",
     )
     waivers: list[Waiver] = Field(default_factory=list)
+    tolerances: dict[str, Annotated[str, AfterValidator(_tolerance_text)]] = Field(
+        default_factory=dict,
+        description="manufacturing tolerances by dotted record path, for the"
+        " tolerance-corners rule: '+-0.05 mm', '+0.02 mm -0.05 mm', '+-3 %', 'normal 0.02 mm'",
+    )
 
     @property
     def pole_pairs(self) -> int:

@@ -44,7 +44,8 @@ if TYPE_CHECKING:
     from emgate.materials import Catalogue
     from emgate.model import AnyDesign
     from emgate.plugins import PluginSet
-    from emgate.rule import Check, Rule
+    from emgate.rule import Check
+    from emgate.variants import Evaluator
 
 #: How far inside its limit a remedy puts the check (relative margin; common practice, no
 #: source: enough that rounding and the next review's small changes keep it inside).
@@ -113,21 +114,12 @@ def report_lines(finding: Finding) -> list[str]:
 
 
 class _Trial:
-    """The record moved in one field, recomputed: the rules' checks at a value."""
+    """The record moved in one field, recomputed: the rules' checks at a value (through
+    :class:`emgate.variants.Evaluator`, as a sweep's or a tolerance corner's variant)."""
 
-    def __init__(
-        self,
-        doc: Document,
-        catalogue: Catalogue,
-        rules: list[tuple[type[Rule], Callable[[], Any], bool]],
-        file: str,
-        budget: float,
-    ) -> None:
-        self.doc = doc
-        self.catalogue = catalogue
-        self.rules = rules
-        self.file = file
-        self.budget = budget
+    def __init__(self, variants: Evaluator) -> None:
+        self.variants = variants
+        self.doc = variants.doc
         self._baseline: list[tuple[str, Check]] | None = None
 
     def baseline(self) -> list[tuple[str, Check]]:
@@ -137,41 +129,29 @@ class _Trial:
         return self._baseline
 
     def design(self, data: Any) -> AnyDesign | None:
-        from emgate.loader import Document
-        from emgate.validate import validate_design
-
-        doc = Document(self.doc.path, data, self.doc.marks, self.doc.key_marks)
-        doc.collections = self.doc.collections
         try:
-            return validate_design(doc)
+            return self.variants.design(data)
         except Exception:  # invalid: outside the field's range, or inconsistent
             return None
 
     def checks(self, data: Any, only: str | None = None) -> tuple[list[tuple[str, Check]], bool]:
         """The checks of every rule (or only rule ``only``) on ``data``, and whether every
         rule ran cleanly; ([], False) for a record that does not validate."""
-        from emgate.calc import Calculation
-        from emgate.calc.view import Sheet
-        from emgate.rule import Check, Context
-        from emgate.runner import run_rule
+        from emgate.rule import Check
 
         design = self.design(data)
         if design is None:
             return [], False
-        context = Context(sheet=Sheet(Calculation(design, self.catalogue)), file=self.file)
         out: list[tuple[str, Check]] = []
         clean = True
-        for rule, options, builtin in self.rules:
-            if only is not None and rule.id != only:
-                continue
-            try:
-                ran = run_rule(rule, design, options, context, self.budget, builtin)
-            except Exception:
-                return [], False
-            if ran is None:
-                continue
-            clean = clean and not ran.crash
-            out += [(rule.id, c) for c in ran.items if isinstance(c, Check)]
+        try:
+            for rid, ran in self.variants.run(design, self.variants.context(design), only):
+                if ran is None:
+                    continue
+                clean = clean and not ran.crash
+                out += [(rid, c) for c in ran.items if isinstance(c, Check)]
+        except Exception:
+            return [], False
         return out, clean
 
 
@@ -621,12 +601,11 @@ def attach_remedies(
     ]  # fmt: skip
     if not failing:
         return
-    rules = [
-        (lr.rule, _options(policy, lr.rule), lr.pack.distribution == "emgate")
-        for _, lr in sorted(plugins.rules.items())
-        if policy.selected(lr.rule)
-    ]
-    trial = _Trial(doc, catalogue, rules, file, budget)
+    from emgate.variants import Evaluator
+
+    # no rule skipped (declared-values' checks have remedies too); the tolerance rule, given
+    # no variants of a trial, yields no check there
+    trial = _Trial(Evaluator(doc, catalogue, plugins, policy, budget, file=file))
     spans: dict[tuple[int, int], tuple[int, int, str]] | None = None
 
     def span(path: RecordPath) -> tuple[int, int, int, int, str]:
@@ -659,17 +638,6 @@ def attach_remedies(
             why = f"none of its fields ({names}) moves this check on this record"
             out.append(Remedy(f.rule, f.check.quantity, (), "none", reason=why))
         f.remedies = out
-
-
-def _options(policy: RulePolicy, rule: type[Rule]) -> Callable[[], Any]:
-    cached: list[Any] = []
-
-    def get() -> Any:
-        if not cached:
-            cached.append(policy.options_for(rule))
-        return cached[0]
-
-    return get
 
 
 def sarif_fixes(finding: Finding, artifact: dict[str, str]) -> list[dict[str, Any]]:

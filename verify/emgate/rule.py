@@ -161,6 +161,10 @@ class Context:
 
     sheet: Sheet
     file: str
+    #: Variants of this record through validation and the other rules
+    #: (:class:`emgate.variants.Evaluator`), for a rule that judges the record across its
+    #: tolerances; None outside a run.
+    variants: Any = None
 
     def check(
         self,

@@ -8,6 +8,7 @@ solvable, and conservative, when a design drives the iron past the tabulated ran
 
 from __future__ import annotations
 
+from bisect import bisect_right
 from dataclasses import dataclass
 
 import numpy as np
@@ -52,6 +53,22 @@ class BHCurve:
             raise ValueError("B-H points must be finite")
         object.__setattr__(self, "b", b)
         object.__setattr__(self, "h", h)
+        # Plain-float copies for the scalar path: one np.interp on a float costs some
+        # microseconds, 42 times a value's share of an array call, and the magnetic circuit
+        # of one record asks for a few hundred points.
+        object.__setattr__(self, "_bt", tuple(b.tolist()))
+        object.__setattr__(self, "_ht", tuple(h.tolist()))
+
+
+def _interp(x: float, xp: tuple[float, ...], fp: tuple[float, ...]) -> float:
+    """np.interp of one non-negative float inside the table, by the same formula (the
+    slope of the interval times the offset into it, plus its start), so that the scalar
+    and array paths agree."""
+    j = bisect_right(xp, x) - 1
+    if j >= len(xp) - 1:
+        return fp[-1]
+    slope = (fp[j + 1] - fp[j]) / (xp[j + 1] - xp[j])
+    return slope * (x - xp[j]) + fp[j]
 
 
 def h_from_b(curve: BHCurve, b: float | np.ndarray) -> float | np.ndarray:
@@ -68,6 +85,11 @@ def h_from_b(curve: BHCurve, b: float | np.ndarray) -> float | np.ndarray:
     float or numpy.ndarray
         Field strength [A/m]; beyond the last tabulated point it grows at slope 1/mu0.
     """
+    if type(b) is float or type(b) is int:  # the scalar path, by the same formulas
+        bt, ht = curve._bt, curve._ht  # type: ignore[attr-defined]
+        x = abs(float(b))
+        v = _interp(x, bt, ht) if x <= bt[-1] else ht[-1] + (x - bt[-1]) / MU0
+        return v if b > 0 else -v if b < 0 else 0.0
     babs = np.abs(np.asarray(b, dtype=float))
     inside = np.interp(babs, curve.b, curve.h)
     beyond = curve.h[-1] + (babs - curve.b[-1]) / MU0
@@ -89,6 +111,11 @@ def b_from_h(curve: BHCurve, h: float | np.ndarray) -> float | np.ndarray:
     float or numpy.ndarray
         Flux density [T].
     """
+    if type(h) is float or type(h) is int:
+        bt, ht = curve._bt, curve._ht  # type: ignore[attr-defined]
+        x = abs(float(h))
+        v = _interp(x, ht, bt) if x <= ht[-1] else bt[-1] + MU0 * (x - ht[-1])
+        return v if h > 0 else -v if h < 0 else 0.0
     habs = np.abs(np.asarray(h, dtype=float))
     inside = np.interp(habs, curve.h, curve.b)
     beyond = curve.b[-1] + MU0 * (habs - curve.h[-1])

@@ -297,9 +297,10 @@ def yoke_magnetic_voltage(
 
     Parameters
     ----------
-    b_peak : float
-        Peak yoke flux density [T].
-    path_length : float
+    b_peak : float or numpy.ndarray
+        Peak yoke flux density [T]; an array of variants (sinusoidal case only) gives an
+        array of voltages.
+    path_length : float or numpy.ndarray
         Length of the path the voltage is wanted over [m]: the yoke pole pitch tau_y for the
         whole path between two pole axes, or half of it for the share of one pole (the
         averages over a half and the whole path are the same).
@@ -319,6 +320,9 @@ def yoke_magnetic_voltage(
     magnetic voltage with the flux density varying along the yoke).
     """
     if ramp_fraction is None:
+        if np.ndim(b_peak):  # variants of a sweep (b_peak and path_length arrays): one product
+            rows = h_from_b(curve, np.multiply.outer(b_peak, np.sin(0.5 * np.pi * _NODES)))
+            return path_length * (np.asarray(rows) @ _WEIGHTS)  # type: ignore[return-value]
         mean_h = float(_WEIGHTS @ h_from_b(curve, b_peak * np.sin(0.5 * np.pi * _NODES)))
         return path_length * mean_h
     if not 0.0 <= ramp_fraction <= 1.0:

@@ -1,0 +1,116 @@
+"""--jobs: a run in worker processes reports byte for byte what a serial run reports (JUnit
+apart from its wall times, which the comparison blanks), and --changed-since leaves the
+records outside the change unparsed."""
+
+from __future__ import annotations
+
+import os
+import re
+import shutil
+import subprocess
+from pathlib import Path
+
+import pytest
+
+from conftest import GENSET, PUMP, SERVO, STEELS, run_cli, write_config, write_variant
+from emgate.parallel import MIN_ITEMS_PER_WORKER, ordered_map, workers_for
+
+RECORDS = 3 * MIN_ITEMS_PER_WORKER  # enough for two workers
+_STACK_MM = {PUMP: 140.0, SERVO: 60.0, GENSET: 160.0}  # as the bundled records give them
+_TIME = re.compile(r'\btime="[0-9.]+"')
+
+
+def many_records(repo: Path) -> None:
+    """Passing and failing records of all three kinds, a broken one, a taken id, a waiver."""
+    (repo / "designs").mkdir()
+    (repo / "materials").mkdir()
+    shutil.copy(STEELS, repo / "materials" / STEELS.name)
+    bases = (PUMP, SERVO, GENSET)
+    for i in range(RECORDS):
+        base = bases[i % 3]
+        # each record its own stack, a little longer than its base's (which passes its rules)
+        stack = _STACK_MM[base] + 0.1 * i
+        overrides = {"id": f"{base.stem}-{i:03d}", "stator.stack_length": f"{stack:.1f} mm"}
+        if i == 7:
+            overrides["rating.line_current"] = "40 A"  # a current density far past the limit
+        write_variant(repo / "designs", overrides, base=base, name=f"r{i:03d}.yaml")
+    write_variant(repo / "designs", {"id": "pump-drive-4p36s-003"}, name="taken-id.yaml")
+    write_variant(repo / "designs", {"poles": "four"}, name="invalid.yaml")
+    (repo / "designs" / "broken.yaml").write_text("schema: emgate/design@1\nid: [\n")
+    write_config(repo, "files: ['designs/*.yaml']\n")
+
+
+@pytest.mark.parametrize("fmt", ["text", "json", "sarif", "junit", "markdown"])
+def test_parallel_and_serial_reports_are_byte_identical(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, fmt: str
+) -> None:
+    many_records(tmp_path)
+    monkeypatch.chdir(tmp_path)
+    assert workers_for(RECORDS + 3, 2) == 2  # the parallel run really forks (POSIX)
+    serial = run_cli("check", "--jobs", "1", "--format", fmt, "designs")
+    parallel = run_cli("check", "--jobs", "2", "--format", fmt, "designs")
+    assert serial.code == parallel.code == 2  # the broken and invalid records
+    if fmt == "junit":  # JUnit's time attributes are wall times: everything else is the same
+        assert len(_TIME.findall(serial.out)) > RECORDS
+        assert _TIME.sub('time=""', parallel.out) == _TIME.sub('time=""', serial.out)
+    else:
+        assert parallel.out == serial.out
+    assert "taken-id.yaml" in serial.out  # the duplicate id is reported in both
+    if fmt == "text":  # the workers computed the remedies of the failing checks too
+        assert "fix: " in parallel.out
+
+
+def test_ordered_map_keeps_the_order_of_its_inputs() -> None:
+    items = list(range(5 * MIN_ITEMS_PER_WORKER))
+    assert list(ordered_map(lambda x: x * x, items, 2)) == [x * x for x in items]
+
+
+def test_jobs_must_be_a_positive_whole_number() -> None:
+    for bad in ("0", "-1", "two"):
+        result = run_cli("check", "--jobs", bad, ".")
+        assert result.code == 2
+        assert "--jobs" in result.err
+
+
+def _git(repo: Path, *args: str) -> None:
+    env = {
+        **os.environ,
+        "GIT_AUTHOR_NAME": "t",
+        "GIT_AUTHOR_EMAIL": "t@t",
+        "GIT_COMMITTER_NAME": "t",
+        "GIT_COMMITTER_EMAIL": "t@t",
+        "GIT_CONFIG_GLOBAL": os.devnull,
+        "GIT_CONFIG_NOSYSTEM": "1",
+    }
+    subprocess.run(["git", *args], cwd=repo, env=env, check=True, capture_output=True)
+
+
+@pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
+def test_changed_since_parses_only_the_changed_record(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    many_records(tmp_path)
+    (tmp_path / "designs" / "broken.yaml").unlink()
+    (tmp_path / "designs" / "invalid.yaml").unlink()
+    (tmp_path / "designs" / "taken-id.yaml").unlink()
+    _git(tmp_path, "init", "-q", "-b", "main")
+    _git(tmp_path, "add", "-A")
+    _git(tmp_path, "commit", "-qm", "records")
+    changed = tmp_path / "designs" / "r003.yaml"  # a pump record: passes every rule
+    changed.write_text(changed.read_text() + "# reviewed\n")
+    monkeypatch.chdir(tmp_path)
+    import emgate.engine
+
+    parsed: list[str] = []
+    real = emgate.engine.load_text
+
+    def spy(path: Path, text: str):  # type: ignore[no-untyped-def]
+        parsed.append(path.name)
+        return real(path, text)
+
+    monkeypatch.setattr(emgate.engine, "load_text", spy)
+    result = run_cli("check", "--jobs", "1", "--format", "json", "--changed-since", "HEAD")
+    assert result.code == 0, result.out
+    assert [r["record_id"] for r in result.json()["records"]] == ["pump-drive-4p36s-003"]
+    # the materials file (the catalogue) and the one changed record; no other record
+    assert sorted(parsed) == ["r003.yaml", "steels.yaml"]

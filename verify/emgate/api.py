@@ -30,6 +30,7 @@ from typing import TYPE_CHECKING
 
 from emgate.calc.names import Entry
 from emgate.calc.view import NotComputed, Sheet
+from emgate.geometry import magnet_rotor
 from emgate.hookspecs import hookimpl
 from emgate.model import (
     MACHINE_KINDS,
@@ -109,6 +110,7 @@ __all__ = [
     "hookimpl",
     "limit",
     "loss_reference_temperature",
+    "magnet_rotor",
     "nominal_efficiency",
     "quantity",
     "ratio",
@@ -172,7 +174,7 @@ def ratio(sign: str = "positive") -> object:
         "anyOf": [{"type": "number"}, {"type": "string", "pattern": _PERCENT}],
         "description": "a ratio, e.g. 0.45 or '45 %'",
     }
-    return Annotated[quantity("dimensionless", sign=sign), WithJsonSchema(schema)]
+    return Annotated[float, quantity("dimensionless", sign=sign), WithJsonSchema(schema)]
 
 
 if TYPE_CHECKING:  # to a type checker both are floats; pydantic sees the validators

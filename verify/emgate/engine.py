@@ -364,7 +364,7 @@ def _record_failure(
         severity="error",
         file=display_path(doc.path),
         line=loc.line,
-        column=loc.column,  # type: ignore[arg-type]
+        column=loc.column,
         record_path=loc.record_path,
         message=message,
         record_id=record_id,

@@ -85,7 +85,10 @@ def slot_area(c: Calculation) -> float:
 def opening_clearance(c: Calculation) -> float:
     from emgate.physics.conductors import opening_clearance
 
-    return opening_clearance(c.d.stator.slot.opening, c.d.winding.conductor.insulated_diameter)
+    slot, conductor = c.d.stator.slot, c.d.winding.conductor
+    if slot.shape != "semi_closed" or conductor.shape != "round":
+        raise TypeError("a round wire in a semi-closed slot was expected")  # `when` rules it out
+    return opening_clearance(slot.opening, conductor.insulated_diameter)
 
 
 @quantity(
@@ -95,11 +98,10 @@ def opening_clearance(c: Calculation) -> float:
 def slot_width_clearance(c: Calculation) -> float:
     from emgate.physics.conductors import slot_width_clearance
 
-    return slot_width_clearance(
-        c.d.stator.slot.width,
-        c.d.winding.conductor.insulated_width,
-        liner(c),
-    )
+    slot, conductor = c.d.stator.slot, c.d.winding.conductor
+    if slot.shape != "open" or conductor.shape != "rectangular":
+        raise TypeError("rectangular strands in an open slot were expected")  # `when` rules it out
+    return slot_width_clearance(slot.width, conductor.insulated_width, liner(c))
 
 
 def _rectangular_in_open_slot(d: AnyDesign) -> bool:

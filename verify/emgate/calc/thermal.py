@@ -158,13 +158,14 @@ def magnet_temperature(c: Calculation) -> float:
     (open or direct-liquid cooling), that reference temperature itself."""
     import math
 
-    declared = c.d.rotor.magnet.operating_temperature
+    magnet_rotor = geo.magnet_rotor(c.d)
+    declared = magnet_rotor.magnet.operating_temperature
     if declared is not None:
         return declared
     provisional = conductors.class_reference_temperature(c)
-    rotor = c.d.rotor.model_copy(
+    rotor = magnet_rotor.model_copy(
         update={
-            "magnet": c.d.rotor.magnet.model_copy(update={"operating_temperature": provisional})
+            "magnet": magnet_rotor.magnet.model_copy(update={"operating_temperature": provisional})
         }
     )
     first = Calculation(c.d.model_copy(update={"rotor": rotor}), c.catalogue)

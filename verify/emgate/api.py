@@ -123,7 +123,7 @@ __all__ = [
 def temperature_rise_limit(insulation_class: str) -> float:
     """IEC 60034-1 winding temperature-rise limit by resistance [K] for a thermal class
     ('B', 'F', 'H'); ValueError for a class without a tabulated limit."""
-    from emgate.physics.conductors import temperature_rise_limit as lookup
+    from emgate.physics.insulation import temperature_rise_limit as lookup
 
     return lookup(insulation_class)
 
@@ -139,7 +139,7 @@ def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool)
 def loss_reference_temperature(insulation_class: str) -> float:
     """Reference winding temperature [K] of a thermal class for losses and efficiency (IEC
     60034-2-1); ValueError where not held."""
-    from emgate.physics.conductors import reference_temperature
+    from emgate.physics.insulation import reference_temperature
 
     return reference_temperature(insulation_class)
 

@@ -32,7 +32,7 @@ def bar_area(c: Calculation) -> float:
 
 @quantity("rotor.bar_current")
 def bar_current(c: Calculation) -> float:
-    from emgate.physics.conductors import bar_current
+    from emgate.physics.rotor_conductors import bar_current
 
     return bar_current(
         winding.phase_current(c),
@@ -45,7 +45,7 @@ def bar_current(c: Calculation) -> float:
 
 @quantity("rotor.bar_current_density")
 def bar_current_density(c: Calculation) -> float:
-    from emgate.physics.conductors import current_density
+    from emgate.physics.currents import current_density
 
     return current_density(bar_current(c), bar_area(c))
 
@@ -62,7 +62,7 @@ def ring_current_density(c: Calculation) -> float:
 
 @quantity("rotor.field_current_density")
 def field_current_density(c: Calculation) -> float:
-    from emgate.physics.conductors import field_coil_current_density
+    from emgate.physics.rotor_conductors import field_coil_current_density
 
     f = geo.salient_rotor(c.d).field
     return field_coil_current_density(

@@ -71,7 +71,7 @@ def _network(c: Calculation):  # type: ignore[no-untyped-def]
 @memo
 def heat_sources(c: Calculation) -> HeatSources:
     """The losses by where they arise, copper at 20 degC (the fixed point rescales it)."""
-    from emgate.physics.conductors import copper_loss
+    from emgate.physics.resistance import copper_loss
     from emgate.physics.thermal import HeatSources
 
     slot_share = min(1.0, 2.0 * c.d.stator.stack_length / conductors.mean_turn_length(c))

@@ -4,6 +4,7 @@ path, the strand section of a field coil, the default opening clearance.
 
 from __future__ import annotations
 
+import importlib
 import math
 from pathlib import Path
 from typing import Any
@@ -20,8 +21,8 @@ from emgate.physics import conductors as ck
 def spy(monkeypatch: pytest.MonkeyPatch, name: str) -> list[tuple[Any, ...]]:
     """Record the calls of a kernel function, letting them run.
 
-    The calculation calls the kernel through the re-export emgate.physics.conductors until it
-    moves to the split modules; patch the module it calls through.
+    The calculation calls some kernel functions through the re-export
+    emgate.physics.conductors and others from their own module: patch both.
     """
     calls: list[tuple[Any, ...]] = []
     real = getattr(ck, name)
@@ -31,6 +32,7 @@ def spy(monkeypatch: pytest.MonkeyPatch, name: str) -> list[tuple[Any, ...]]:
         return real(*args, **kwargs)
 
     monkeypatch.setattr(ck, name, recording)
+    monkeypatch.setattr(importlib.import_module(real.__module__), name, recording)
     return calls
 
 

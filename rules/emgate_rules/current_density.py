@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Iterable
+from typing import Annotated
 
 from emgate.api import (
     TEAM_LIMIT,
@@ -17,7 +18,7 @@ from emgate.api import (
     quantity,
 )
 
-CurrentDensityLimit = quantity("current_density")
+CurrentDensityLimit = Annotated[float, quantity("current_density")]
 A_MM2 = "A/mm^2"
 CP = "common practice, no source"
 # Upper ends of the usual ranges by machine kind and cooling method, each with its source:

@@ -16,6 +16,7 @@ from emgate.api import (
     RatioOrZero,
     Rule,
     limit,
+    magnet_rotor,
 )
 
 
@@ -71,7 +72,7 @@ class Demagnetisation(Rule[DemagnetisationOptions]):
         self, design: AnyDesign, options: DemagnetisationOptions, context: Context
     ) -> Iterable[Check | Problem]:
         sheet = context.sheet
-        magnet = design.rotor.magnet
+        magnet = magnet_rotor(design).magnet
         factor = options.current_factor
         at = "rated current" if math.isclose(factor, 1.0) else f"{factor:g} x rated current"
         hot, cold = sheet["rotor.magnet_temperature"], design.cooling.ambient

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterable
+from typing import Literal
 
 from emgate.api import (
     TEAM_LIMIT,
@@ -75,7 +76,8 @@ class Nameplate(Rule[NameplateOptions]):
                 " point (rating.power_factor_estimate), so the rated current is not compared",
             )
             return
-        for bound, sign in (("min", -1.0), ("max", 1.0)):
+        bounds: tuple[tuple[Literal["min", "max"], float], ...] = (("min", -1.0), ("max", 1.0))
+        for bound, sign in bounds:
             yield context.check(
                 "rating.power_factor_nameplate",
                 Limit(

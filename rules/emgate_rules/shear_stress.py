@@ -3,10 +3,11 @@
 from __future__ import annotations
 
 from collections.abc import Iterable
+from typing import Annotated
 
 from emgate.api import AnyDesign, Bound, Check, Context, Options, Problem, Rule, limit, quantity
 
-Stress = quantity("pressure")
+Stress = Annotated[float, quantity("pressure")]
 KPA = "kN/m^2"
 # (lowest, highest) air-gap shear stress by cooling method: half the torque per rotor
 # volume TRV = 2 sigma of T. J. E. Miller's table (from memory: Hendershot and Miller,

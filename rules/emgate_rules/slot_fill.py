@@ -4,11 +4,12 @@ strands across and along the slot."""
 from __future__ import annotations
 
 from collections.abc import Iterable
+from typing import Annotated
 
 from emgate.api import AnyDesign, Check, Context, Options, Problem, Ratio, Rule, limit, quantity
 
 CP = "common practice, no source"
-Clearance = quantity("length", sign="non_negative")
+Clearance = Annotated[float, quantity("length", sign="non_negative")]
 
 
 class SlotFillOptions(Options):

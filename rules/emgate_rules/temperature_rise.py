@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Iterable
+from typing import Annotated
 
 from pydantic import Field
 
@@ -20,7 +21,7 @@ from emgate.api import (
     temperature_rise_limit,
 )
 
-Reserve = quantity("temperature_difference", sign="non_negative")
+Reserve = Annotated[float, quantity("temperature_difference", sign="non_negative")]
 #: Coolant temperature the IEC 60034-1 rise limits are tabulated for [K] (40 degC).
 TABLE_COOLANT = 313.15
 #: Cooling methods for which the table (indirect air cooling) is applied only as a guide.

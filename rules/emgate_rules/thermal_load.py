@@ -3,11 +3,14 @@
 from __future__ import annotations
 
 from collections.abc import Iterable
+from typing import Annotated
 
 from emgate.api import AnyDesign, Check, Context, Options, Problem, Rule, limit, quantity
 
-ThermalLoad = quantity("thermal_load")
-LinearCurrent = quantity("field_strength")  # A/m: the same dimension as electric loading
+ThermalLoad = Annotated[float, quantity("thermal_load")]
+LinearCurrent = Annotated[
+    float, quantity("field_strength")
+]  # A/m: the same dimension as electric loading
 CP = "common practice, no source"
 
 

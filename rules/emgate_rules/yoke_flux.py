@@ -4,7 +4,17 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from emgate.api import AnyDesign, Check, Context, FluxDensity, Options, Problem, Rule, limit
+from emgate.api import (
+    AnyDesign,
+    Check,
+    Context,
+    FluxDensity,
+    Options,
+    Problem,
+    RecordPath,
+    Rule,
+    limit,
+)
 
 PYRHONEN = "Pyrhonen et al., Design of Rotating Electrical Machines, Table 6.1"
 
@@ -53,7 +63,7 @@ class YokeFlux(Rule[YokeFluxOptions]):
         self, design: AnyDesign, options: YokeFluxOptions, context: Context
     ) -> Iterable[Check | Problem]:
         field = "stator_induction" if design.machine == "induction" else "stator_synchronous"
-        checks = [
+        checks: list[tuple[str, str, str, RecordPath]] = [
             (
                 field,
                 "stator.yoke_flux_density",

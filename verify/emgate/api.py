@@ -31,6 +31,7 @@ from typing import TYPE_CHECKING, Any
 
 from emgate.calc.names import Entry
 from emgate.calc.view import NotComputed, Sheet
+from emgate.geometry import magnet_rotor
 from emgate.hookspecs import hookimpl
 from emgate.model import (
     MACHINE_KINDS,
@@ -110,6 +111,7 @@ __all__ = [
     "hookimpl",
     "limit",
     "loss_reference_temperature",
+    "magnet_rotor",
     "nominal_efficiency",
     "quantity",
     "ratio",
@@ -123,7 +125,7 @@ __all__ = [
 def temperature_rise_limit(insulation_class: str) -> float:
     """IEC 60034-1 winding temperature-rise limit by resistance [K] for a thermal class
     ('B', 'F', 'H'); ValueError for a class without a tabulated limit."""
-    from emgate.physics.conductors import temperature_rise_limit as lookup
+    from emgate.physics.insulation import temperature_rise_limit as lookup
 
     return lookup(insulation_class)
 
@@ -147,7 +149,7 @@ def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool)
 def loss_reference_temperature(insulation_class: str) -> float:
     """Reference winding temperature [K] of a thermal class for losses and efficiency (IEC
     60034-2-1); ValueError where not held."""
-    from emgate.physics.conductors import reference_temperature
+    from emgate.physics.insulation import reference_temperature
 
     return reference_temperature(insulation_class)
 
@@ -182,7 +184,7 @@ def ratio(sign: str = "positive") -> object:
         "anyOf": [{"type": "number"}, {"type": "string", "pattern": _PERCENT}],
         "description": "a ratio, e.g. 0.45 or '45 %'",
     }
-    return Annotated[quantity("dimensionless", sign=sign), WithJsonSchema(schema)]
+    return Annotated[float, quantity("dimensionless", sign=sign), WithJsonSchema(schema)]
 
 
 if TYPE_CHECKING:  # to a type checker both are floats; pydantic sees the validators

@@ -44,7 +44,7 @@ Selector = Annotated[
 
 #: Default time budget of one rule on one record [s]: generous, a rule takes milliseconds.
 RULE_TIME_BUDGET = 60.0
-RuleTimeBudget = Annotated[quantity("time"), Field(le=3600.0)]
+RuleTimeBudget = Annotated[float, quantity("time"), Field(le=3600.0)]
 
 
 class _Strict(BaseModel):
@@ -329,15 +329,15 @@ def load_policy(
             (tuple(ov.files), RulePolicy(sel[0], sel[1], levels, {**base.options, **opts}))
         )
     _check_required(cfg.required_plugins, installed or {}, ld)
-    policies = [(("rules",), base)]
+    policies: list[tuple[RecordPath, RulePolicy]] = [(("rules",), base)]
     policies += [(("overrides", i, "rules"), p) for i, (_, p) in enumerate(overrides)]
-    for at, rule_policy in policies:
+    for where, rule_policy in policies:
         if not ld.errors and not any(rule_policy.selected(r) for r in rules.values()):
             ld.errors.append(
                 InputError(
                     "this selection runs no rule: a gate that checks nothing must not pass"
                     f" (installed: {', '.join(sorted(rules)) or 'none'})",
-                    doc.locate(at),
+                    doc.locate(where),
                 )
             )
     waivers = path.parent / cfg.waivers

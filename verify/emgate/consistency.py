@@ -171,9 +171,9 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             attempt((*at, "corner_radius"), partial(conductor_strand_area, c))
     if w.slot_liner:
         attempt(("winding", "slot_liner"), partial(slot_winding_area, st.slot, w.slot_liner))
-    if d.machine == "surface_pm" and d.rotor.magnet.operating_temperature is not None:
+    if d.machine == "surface_pm" and (hot := d.rotor.magnet.operating_temperature) is not None:
         m = d.rotor.magnet
-        hot, t0 = m.operating_temperature, m.material.reference_temperature
+        t0 = m.material.reference_temperature
         # The kernel's reversible law on a unit value: the share of Br0 and H_cJ0 left.
         br = remanence_at(1.0, hot, m.material.remanence_temperature_coefficient, t0)
         hcj = remanence_at(1.0, hot, m.material.coercivity_temperature_coefficient, t0)

@@ -367,7 +367,7 @@ def _record_failure(
         severity="error",
         file=display_path(doc.path),
         line=loc.line,
-        column=loc.column,  # type: ignore[arg-type]
+        column=loc.column,
         record_path=loc.record_path,
         message=message,
         record_id=record_id,
@@ -509,12 +509,12 @@ def execute(run: Run) -> RunResult:
             and all(p.is_dir() for p in run.paths)
             and not any(f.kind == "input" and f.severity == "error" for f in result.findings)
         ):  # a glob or folder typo must not pass the gate with nothing checked
-            where = ", ".join(display_path(p) for p in run.paths) or "the files emgate.yaml names"
+            looked = ", ".join(display_path(p) for p in run.paths) or "the files emgate.yaml names"
             result.findings.append(
                 _input_finding(
                     InputError(
                         f"no design record (a YAML file with 'schema: {DESIGN_SCHEMA}')"
-                        f" found in {where}"
+                        f" found in {looked}"
                     )
                 )
             )

@@ -14,6 +14,8 @@ def default_text(info: Any) -> str:
     for an optional quantity (``FluxDensity | None``), whose unit sits inside the union."""
     from typing import Annotated, get_args, get_origin
 
+    from annotated_types import GroupedMetadata
+
     from emgate.units import format_value
 
     metadata = list(info.metadata)
@@ -25,6 +27,8 @@ def default_text(info: Any) -> str:
         else:
             pending.extend(get_args(hint))
     default = info.get_default(call_default_factory=True)
+    # a quantity's metadata comes as one group (emgate.quantity.Quantity): unpack it
+    metadata = [m for g in metadata for m in (g if isinstance(g, GroupedMetadata) else [g])]
     for meta in metadata:
         examples = getattr(meta, "json_schema", None) or {}
         example = (examples.get("examples") or [None])[0]

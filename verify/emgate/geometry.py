@@ -7,17 +7,22 @@ beyond plane geometry, so that every rule derives a tooth width or a yoke height
 from __future__ import annotations
 
 import math
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, TypeVar
 
 if TYPE_CHECKING:
     from emgate.model import (
         AnyDesign,
+        CageRotor,
         InductionDesign,
         OpenSlot,
         SalientFieldDesign,
+        SalientRotor,
         SemiClosedSlot,
+        SurfacePMRotor,
     )
     from emgate.terms import RecordPath
+
+_R = TypeVar("_R")
 
 
 def slot_width_at_gap(slot: SemiClosedSlot | OpenSlot) -> float:
@@ -202,3 +207,33 @@ def rotor_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
                 )
             )
     return out
+
+
+# --- the rotor of each machine kind, narrowed for the type checker ------------------------
+
+
+def _rotor_of(design: AnyDesign, kind: type[_R], machine: str) -> _R:
+    if not isinstance(design.rotor, kind):
+        raise TypeError(f"{design.id}: a {machine} rotor was expected, found {design.machine}")
+    return design.rotor
+
+
+def cage_rotor(design: AnyDesign) -> CageRotor:
+    """The cage rotor of an induction design; TypeError for any other machine kind."""
+    from emgate.model import CageRotor
+
+    return _rotor_of(design, CageRotor, "induction")
+
+
+def magnet_rotor(design: AnyDesign) -> SurfacePMRotor:
+    """The magnet rotor of a surface-PM design; TypeError for any other machine kind."""
+    from emgate.model import SurfacePMRotor
+
+    return _rotor_of(design, SurfacePMRotor, "surface_pm")
+
+
+def salient_rotor(design: AnyDesign) -> SalientRotor:
+    """The salient-pole rotor of a salient-field design; TypeError for any other kind."""
+    from emgate.model import SalientRotor
+
+    return _rotor_of(design, SalientRotor, "salient_field")

@@ -14,6 +14,7 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 from importlib.metadata import EntryPoint, entry_points
+from typing import Any, cast
 
 import pluggy
 
@@ -122,7 +123,8 @@ def _rule_problem(rule: object, pack: Pack) -> str | None:
         return f"rule {rid!r} has severity {rule.severity!r}; expected one of {SEVERITIES}"
     if not set(rule.machines) <= set(MACHINE_KINDS):
         return f"rule {rid!r} names unknown machine kinds {sorted(set(rule.machines))}"
-    if not (isinstance(rule.options, type) and issubclass(rule.options, Options)):
+    options: object = getattr(rule, "options", None)  # a pack may set anything
+    if not (isinstance(options, type) and issubclass(options, Options)):
         return f"rule {rid!r}: options must subclass emgate.api.Options"
     try:
         rule.options()
@@ -152,7 +154,8 @@ def _load_one(ep: EntryPoint, pm: pluggy.PluginManager, out: PluginSet) -> None:
         plugin = ep.load()
         pm.register(plugin, name=ep.name)
         impls = [i for i in pm.hook.emgate_rules.get_hookimpls() if i.plugin_name == ep.name]
-        rules = [r for impl in impls for r in impl.function()]
+        # pluggy types a hook's result as object; _rule_problem checks each item below
+        rules = [r for impl in impls for r in cast("list[type[Rule[Any]]]", impl.function())]
     except BaseException as exc:  # a plugin's SystemExit must not end the run
         if users_interrupt(exc):
             raise
@@ -170,7 +173,7 @@ def _load_one(ep: EntryPoint, pm: pluggy.PluginManager, out: PluginSet) -> None:
             out.errors.append(InputError(f"{where}: {problem}"))
             continue
         try:  # the engine and every report read it: a raise there would end the run
-            text = rule.explain()
+            text: object = rule.explain()  # a pack may override it to return anything
         except BaseException as exc:
             if users_interrupt(exc):
                 raise

@@ -7,9 +7,11 @@ offers the same contract as emgate.
 
 from __future__ import annotations
 
+from collections.abc import Iterator
 from dataclasses import dataclass
 from typing import Annotated, Any
 
+from annotated_types import GroupedMetadata
 from pydantic import AfterValidator, BeforeValidator, WithJsonSchema
 
 from emgate.units import DIMENSIONS, QuantityError, convert, si_unit
@@ -110,8 +112,10 @@ def _plausible(dimension: str) -> Any:
     return AfterValidator(check)
 
 
-def quantity(dimension: str, *, sign: str = "positive") -> Any:
-    """An annotated float field holding a quantity of ``dimension`` in SI units.
+@dataclass(frozen=True)
+class Quantity(GroupedMetadata):
+    """The metadata of a float field holding a quantity of ``dimension`` in SI units:
+    ``Annotated[float, quantity("length")]`` (mypy sees a float; pydantic unpacks the group).
 
     Parameters
     ----------
@@ -119,50 +123,60 @@ def quantity(dimension: str, *, sign: str = "positive") -> Any:
         A key of :data:`emgate.units.DIMENSIONS`.
     sign : {"positive", "non_negative", "any"}
     """
-    _, example = DIMENSIONS[dimension]
-    label = dimension.replace("_", " ")
-    # The range goes in the description and, since a field's own description replaces that
-    # one, in the standard $comment keyword too.
-    plausible = f"plausible range {PLAUSIBLE.get(dimension, (0, 0, 'below 1e30 SI'))[2]}"
-    schema: dict[str, Any]
-    if dimension == "dimensionless":  # 0.45, or text with a ratio unit: "45 %"
-        schema = {
-            "anyOf": [{"type": "number"}, {"type": "string", "pattern": _NUMBER_PATTERN}],
-            "description": f"{label}; {plausible}",
-        }
-    else:
-        schema = {
-            "type": "string",
-            "pattern": _NUMBER_PATTERN,
-            "description": f"{label} with its unit, e.g. '{example}'; {plausible}",
-            "examples": [example],
-        }
-    schema["$comment"] = plausible
-    checks = {
-        "positive": [AfterValidator(_positive)],
-        "non_negative": [AfterValidator(_non_negative)],
-        "any": [],
-    }[sign]
-    return Annotated[
-        float,
-        BeforeValidator(_converter(dimension)),
-        *checks,
-        _plausible(dimension),
-        WithJsonSchema(schema),
-        DimensionPattern(dimension, sign),
-    ]
+
+    dimension: str
+    sign: str = "positive"
+
+    def __iter__(self) -> Iterator[object]:
+        dimension = self.dimension
+        _, example = DIMENSIONS[dimension]
+        label = dimension.replace("_", " ")
+        # The range goes in the description and, since a field's own description replaces
+        # that one, in the standard $comment keyword too.
+        plausible = f"plausible range {PLAUSIBLE.get(dimension, (0, 0, 'below 1e30 SI'))[2]}"
+        schema: dict[str, Any]
+        if dimension == "dimensionless":  # 0.45, or text with a ratio unit: "45 %"
+            schema = {
+                "anyOf": [{"type": "number"}, {"type": "string", "pattern": _NUMBER_PATTERN}],
+                "description": f"{label}; {plausible}",
+            }
+        else:
+            schema = {
+                "type": "string",
+                "pattern": _NUMBER_PATTERN,
+                "description": f"{label} with its unit, e.g. '{example}'; {plausible}",
+                "examples": [example],
+            }
+        schema["$comment"] = plausible
+        yield BeforeValidator(_converter(dimension))
+        if self.sign == "positive":
+            yield AfterValidator(_positive)
+        elif self.sign == "non_negative":
+            yield AfterValidator(_non_negative)
+        elif self.sign != "any":
+            raise ValueError(f"unknown sign {self.sign!r}")
+        yield _plausible(dimension)
+        yield WithJsonSchema(schema)
+        yield DimensionPattern(dimension, self.sign)
 
 
-Length = quantity("length")
-LengthOrZero = quantity("length", sign="non_negative")
-Area = quantity("area")
-Frequency = quantity("frequency")
-Speed = quantity("speed")
-Current = quantity("current")
-Voltage = quantity("voltage")
-Power = quantity("power")
-Temperature = quantity("temperature")
-TemperatureDifference = quantity("temperature_difference")
-FluxDensity = quantity("flux_density")
-FieldStrength = quantity("field_strength")
-PerTemperature = quantity("per_temperature", sign="any")
+def quantity(dimension: str, *, sign: str = "positive") -> Quantity:
+    """The metadata of a quantity field: ``Annotated[float, quantity("length")]``."""
+    if dimension not in DIMENSIONS:
+        raise KeyError(dimension)
+    return Quantity(dimension, sign)
+
+
+Length = Annotated[float, quantity("length")]
+LengthOrZero = Annotated[float, quantity("length", sign="non_negative")]
+Area = Annotated[float, quantity("area")]
+Frequency = Annotated[float, quantity("frequency")]
+Speed = Annotated[float, quantity("speed")]
+Current = Annotated[float, quantity("current")]
+Voltage = Annotated[float, quantity("voltage")]
+Power = Annotated[float, quantity("power")]
+Temperature = Annotated[float, quantity("temperature")]
+TemperatureDifference = Annotated[float, quantity("temperature_difference")]
+FluxDensity = Annotated[float, quantity("flux_density")]
+FieldStrength = Annotated[float, quantity("field_strength")]
+PerTemperature = Annotated[float, quantity("per_temperature", sign="any")]

@@ -123,8 +123,9 @@ def _malformed(item: object) -> str:
                 return f"a Check whose unit {item.unit!r} emgate does not know"
         return path_problem(item.path)
     if isinstance(item, Problem):
-        if not isinstance(item.message, str):
-            return f"a Problem whose message is {_short(item.message)}, not text"
+        message: object = item.message  # typed str, but a rule may yield anything
+        if not isinstance(message, str):
+            return f"a Problem whose message is {_short(message)}, not text"
         if item.severity is not None and item.severity not in SEVERITIES:
             known = ", ".join(SEVERITIES)
             return f"a Problem of unknown severity {_short(item.severity)} (not one of {known})"

@@ -64,7 +64,7 @@ def sheet_values(
     grades = [("stator", design.stator.steel)]
     if design.rotor.steel and design.rotor.steel != design.stator.steel:
         grades.append(("rotor", design.rotor.steel))
-    steels = [(part, name, catalogue.get(name).source) for part, name in grades]  # type: ignore[union-attr]
+    steels = [(part, name, catalogue.get(name).source) for part, name in grades]
     return design, out, steels
 
 

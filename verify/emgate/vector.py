@@ -118,7 +118,8 @@ def evaluate(
         pitch: Any, width: Any, height: Any, curve: BHCurve
     ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         geometry = (pitch, width, path.stack_length, path.iron_length, path.stacking_factor)
-        b_app = np.asarray(apparent_tooth_flux_density(b_peak, *geometry))
+        # elementwise kernel functions, annotated for scalars
+        b_app = np.asarray(apparent_tooth_flux_density(b_peak, *geometry))  # type: ignore[arg-type]
         ks = np.broadcast_to(slot_flux_sharing_factor(*geometry), b_app.shape)
         b_real = np.copysign(_real_tooth_b(np.abs(b_app), ks, curve), b_app)
         return b_app, b_real, np.asarray(h_from_b(curve, b_real)) * height
@@ -135,7 +136,7 @@ def evaluate(
     ry_path = gap_array(lambda p: p.rotor_yoke.path_length)
     sy_b = flux_pole / (2.0 * path.stacking_factor * path.iron_length * path.stator_yoke.height)
     ry_b = flux_pole / (2.0 * path.stacking_factor * path.iron_length * ry_height)
-    sy_mmf = yoke_magnetic_voltage(sy_b, 0.5 * path.stator_yoke.path_length, stator_curve)
+    sy_mmf = yoke_magnetic_voltage(sy_b, 0.5 * path.stator_yoke.path_length, stator_curve)  # type: ignore[arg-type]
     ry_mmf = yoke_magnetic_voltage(ry_b, 0.5 * ry_path, rotor_curve)  # type: ignore[arg-type]
     gap_mmf_ = b_peak * eff_gap / MU0
     out["air_gap.carter_coefficient"] = kc

@@ -140,7 +140,7 @@ def slot_factors(c: Calculation) -> tuple[float, float]:
 @quantity("stator.slot_permeance")
 def slot_permeance(c: Calculation) -> float:
     from emgate.physics import inductance as ik
-    from emgate.physics.conductors import semi_closed_winding_height
+    from emgate.physics.slots import semi_closed_winding_height
 
     k1, k2 = slot_factors(c)
     sl = c.d.stator.slot

@@ -16,7 +16,7 @@ if TYPE_CHECKING:
         RoundConductor,
         SemiClosedSlot,
     )
-    from emgate.physics.conductors import ConductorMaterial
+    from emgate.physics.resistance import ConductorMaterial
 
 #: Slot liner when the record gives none: 0.25 mm of insulating paper is usual for
 #: low-voltage random windings (common practice, no source).
@@ -30,7 +30,7 @@ def strand_area(c: Calculation) -> float:
 
 @quantity("stator.current_density")
 def stator_current_density(c: Calculation) -> float:
-    from emgate.physics.conductors import winding_current_density
+    from emgate.physics.currents import winding_current_density
 
     w = c.d.winding
     return winding_current_density(
@@ -83,9 +83,12 @@ def slot_area(c: Calculation) -> float:
     when=lambda d: d.winding.conductor.shape == "round" and d.stator.slot.shape == "semi_closed",
 )
 def opening_clearance(c: Calculation) -> float:
-    from emgate.physics.conductors import opening_clearance
+    from emgate.physics.slots import opening_clearance
 
-    return opening_clearance(c.d.stator.slot.opening, c.d.winding.conductor.insulated_diameter)
+    slot, conductor = c.d.stator.slot, c.d.winding.conductor
+    if slot.shape != "semi_closed" or conductor.shape != "round":
+        raise TypeError("a round wire in a semi-closed slot was expected")  # `when` rules it out
+    return opening_clearance(slot.opening, conductor.insulated_diameter)
 
 
 @quantity(
@@ -93,13 +96,12 @@ def opening_clearance(c: Calculation) -> float:
     when=lambda d: d.winding.conductor.shape == "rectangular" and d.stator.slot.shape == "open",
 )
 def slot_width_clearance(c: Calculation) -> float:
-    from emgate.physics.conductors import slot_width_clearance
+    from emgate.physics.slots import slot_width_clearance
 
-    return slot_width_clearance(
-        c.d.stator.slot.width,
-        c.d.winding.conductor.insulated_width,
-        liner(c),
-    )
+    slot, conductor = c.d.stator.slot, c.d.winding.conductor
+    if slot.shape != "open" or conductor.shape != "rectangular":
+        raise TypeError("rectangular strands in an open slot were expected")  # `when` rules it out
+    return slot_width_clearance(slot.width, conductor.insulated_width, liner(c))
 
 
 def _rectangular_in_open_slot(d: AnyDesign) -> bool:
@@ -151,7 +153,7 @@ def conductors_per_slot(c: Calculation) -> float:
 
 @quantity("stator.copper_area")
 def copper_area(c: Calculation) -> float:
-    from emgate.physics.conductors import copper_area_per_slot
+    from emgate.physics.strands import copper_area_per_slot
 
     return copper_area_per_slot(
         int(conductors_per_slot(c)), c.d.winding.conductor.strands, strand_area(c)
@@ -160,14 +162,14 @@ def copper_area(c: Calculation) -> float:
 
 @quantity("stator.slot_fill")
 def slot_fill(c: Calculation) -> float:
-    from emgate.physics.conductors import fill_factor
+    from emgate.physics.slots import fill_factor
 
     return fill_factor(copper_area(c), slot_area(c))
 
 
 @quantity("stator.electric_loading")
 def electric_loading(c: Calculation) -> float:
-    from emgate.physics.conductors import electric_loading
+    from emgate.physics.currents import electric_loading
 
     return electric_loading(
         c.d.winding.phases,
@@ -179,7 +181,7 @@ def electric_loading(c: Calculation) -> float:
 
 @quantity("stator.thermal_load")
 def thermal_load(c: Calculation) -> float:
-    from emgate.physics.conductors import thermal_load
+    from emgate.physics.currents import thermal_load
 
     return thermal_load(electric_loading(c), stator_current_density(c))
 
@@ -227,7 +229,7 @@ def phase_resistance_20c(c: Calculation) -> float:
 
 @memo
 def class_reference_temperature(c: Calculation) -> float:
-    from emgate.physics.conductors import reference_temperature
+    from emgate.physics.insulation import reference_temperature
 
     return reference_temperature(c.d.winding.insulation_class)
 
@@ -239,7 +241,7 @@ def phase_resistance_hot(c: Calculation) -> float:
 
 @quantity("winding.copper_loss")
 def copper_loss(c: Calculation) -> float:
-    from emgate.physics.conductors import copper_loss
+    from emgate.physics.resistance import copper_loss
 
     return copper_loss(c.d.winding.phases, winding.phase_current(c), phase_resistance_hot(c))
 

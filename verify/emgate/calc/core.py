@@ -54,7 +54,7 @@ def memo(fn: Callable[[Calculation], T]) -> Callable[[Calculation], T]:
     @functools.wraps(fn)
     def once(c: Calculation) -> T:
         try:
-            return c._cache[key]  # type: ignore[no-any-return]
+            return c._cache[key]
         except KeyError:
             value = c._cache[key] = fn(c)
             return value

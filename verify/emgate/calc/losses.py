@@ -158,7 +158,8 @@ def _field_resistance(c: Calculation) -> float:
     from emgate.physics import conductors as ck
 
     d = c.d
-    pole, field = d.rotor.pole, d.rotor.field
+    rotor = geo.salient_rotor(d)
+    pole, field = rotor.pole, rotor.field
     d_mid = geo.rotor_outer_diameter(d) - 2.0 * pole.shoe_height - pole.body_height
     side = max(0.5 * (math.pi * d_mid / d.poles - pole.body_width), 1e-4)
     turn = ck.tooth_coil_mean_turn_length(d.stator.stack_length, pole.body_width, side)
@@ -174,7 +175,7 @@ def magnet_eddy_estimate(c: Calculation) -> float:
     from emgate.physics import losses as lk
 
     d = c.d
-    m = d.rotor.magnet
+    m = geo.magnet_rotor(d).magnet
     w = d.winding
     waves = lk.mmf_travelling_waves(
         winding.layout(c),
@@ -183,7 +184,7 @@ def magnet_eddy_estimate(c: Calculation) -> float:
         d.pole_pairs,
         40 * d.stator.slots,
     )
-    r_out = geo.rotor_outer_diameter(d) / 2.0 - d.rotor.sleeve_thickness
+    r_out = geo.rotor_outer_diameter(d) / 2.0 - geo.magnet_rotor(d).sleeve_thickness
     volume = m.pole_arc * math.pi * (r_out**2 - (r_out - m.thickness) ** 2)
     volume *= d.stator.stack_length
     return lk.magnet_eddy_loss(

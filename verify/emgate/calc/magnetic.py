@@ -153,7 +153,7 @@ def _surface_pm_circuit(c: Calculation, temperature: float) -> SurfacePMResult:
     """The surface-magnet circuit at no load with the magnet at ``temperature`` [K]."""
     from emgate.physics import magnetic as mk
 
-    m = c.d.rotor.magnet
+    m = geo.magnet_rotor(c.d).magnet
     br = mk.remanence_at(
         m.material.remanence,
         temperature,

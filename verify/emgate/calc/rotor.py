@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from emgate import geometry as geo
 from emgate.calc import magnetic, winding
 from emgate.calc.conductors import conductor_strand_area
 from emgate.calc.core import Calculation, memo, quantity
@@ -11,11 +12,13 @@ from emgate.calc.core import Calculation, memo, quantity
 def bar_area(c: Calculation) -> float:
     from emgate.physics import conductors as ck
 
-    cage = c.d.rotor.cage
+    cage = geo.cage_rotor(c.d).cage
     if cage.bar is not None:
         return ck.rectangular_strand_area(cage.bar.width, cage.bar.height)
-    sl = c.d.rotor.slot
-    if sl.shape == "semi_closed":
+    from emgate.model import SemiClosedSlot
+
+    sl = geo.cage_rotor(c.d).slot
+    if isinstance(sl, SemiClosedSlot):
         return ck.semi_closed_full_area(
             sl.opening,
             sl.opening_height,
@@ -29,20 +32,20 @@ def bar_area(c: Calculation) -> float:
 
 @quantity("rotor.bar_current")
 def bar_current(c: Calculation) -> float:
-    from emgate.physics.conductors import bar_current
+    from emgate.physics.rotor_conductors import bar_current
 
     return bar_current(
         winding.phase_current(c),
         c.d.winding.phases,
         winding.series_turns(c),
         winding.winding_factor(c),
-        c.d.rotor.slots,
+        geo.cage_rotor(c.d).slots,
     )
 
 
 @quantity("rotor.bar_current_density")
 def bar_current_density(c: Calculation) -> float:
-    from emgate.physics.conductors import current_density
+    from emgate.physics.currents import current_density
 
     return current_density(bar_current(c), bar_area(c))
 
@@ -51,16 +54,17 @@ def bar_current_density(c: Calculation) -> float:
 def ring_current_density(c: Calculation) -> float:
     from emgate.physics.conductors import current_density, end_ring_current
 
-    ring = c.d.rotor.cage.end_ring
-    current = end_ring_current(bar_current(c), c.d.pole_pairs, c.d.rotor.slots)
+    rotor = geo.cage_rotor(c.d)
+    ring = rotor.cage.end_ring
+    current = end_ring_current(bar_current(c), c.d.pole_pairs, rotor.slots)
     return current_density(current, ring.axial_width * ring.radial_height)
 
 
 @quantity("rotor.field_current_density")
 def field_current_density(c: Calculation) -> float:
-    from emgate.physics.conductors import field_coil_current_density
+    from emgate.physics.rotor_conductors import field_coil_current_density
 
-    f = c.d.rotor.field
+    f = geo.salient_rotor(c.d).field
     return field_coil_current_density(
         f.current, f.conductor.strands * conductor_strand_area(f.conductor)
     )
@@ -95,7 +99,7 @@ def magnet_h_with_current(c: Calculation, current_factor: float, *, cold: bool =
     return magnet_field_under_current(
         h0,
         current_factor * winding.mmf_peak(c),
-        c.d.rotor.magnet.material.recoil_permeability,
+        geo.magnet_rotor(c.d).magnet.material.recoil_permeability,
         magnetic.effective_gap(c),
     )
 
@@ -116,7 +120,7 @@ def magnet_coercivity_at(c: Calculation, temperature: float) -> float:
     coefficient."""
     from emgate.physics.magnetic import remanence_at
 
-    mat = c.d.rotor.magnet.material
+    mat = geo.magnet_rotor(c.d).magnet.material
     return remanence_at(
         mat.intrinsic_coercivity,
         temperature,

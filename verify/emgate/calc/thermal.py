@@ -71,7 +71,7 @@ def _network(c: Calculation):  # type: ignore[no-untyped-def]
 @memo
 def heat_sources(c: Calculation) -> HeatSources:
     """The losses by where they arise, copper at 20 degC (the fixed point rescales it)."""
-    from emgate.physics.conductors import copper_loss
+    from emgate.physics.resistance import copper_loss
     from emgate.physics.thermal import HeatSources
 
     slot_share = min(1.0, 2.0 * c.d.stator.stack_length / conductors.mean_turn_length(c))
@@ -158,13 +158,14 @@ def magnet_temperature(c: Calculation) -> float:
     (open or direct-liquid cooling), that reference temperature itself."""
     import math
 
-    declared = c.d.rotor.magnet.operating_temperature
+    magnet_rotor = geo.magnet_rotor(c.d)
+    declared = magnet_rotor.magnet.operating_temperature
     if declared is not None:
         return declared
     provisional = conductors.class_reference_temperature(c)
-    rotor = c.d.rotor.model_copy(
+    rotor = magnet_rotor.model_copy(
         update={
-            "magnet": c.d.rotor.magnet.model_copy(update={"operating_temperature": provisional})
+            "magnet": magnet_rotor.magnet.model_copy(update={"operating_temperature": provisional})
         }
     )
     first = Calculation(c.d.model_copy(update={"rotor": rotor}), c.catalogue)

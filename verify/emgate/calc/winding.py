@@ -33,7 +33,7 @@ def series_turns(c: Calculation) -> float:
 
 @quantity("winding.phase_current")
 def phase_current(c: Calculation) -> float:
-    from emgate.physics.conductors import phase_current
+    from emgate.physics.currents import phase_current
 
     r = c.d.rating
     return phase_current(r.line_current, r.connection, c.d.winding.phases)
@@ -41,7 +41,7 @@ def phase_current(c: Calculation) -> float:
 
 @quantity("winding.phase_voltage")
 def phase_voltage(c: Calculation) -> float:
-    from emgate.physics.conductors import phase_voltage
+    from emgate.physics.currents import phase_voltage
 
     r = c.d.rating
     return phase_voltage(r.line_voltage, r.connection, c.d.winding.phases)

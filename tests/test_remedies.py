@@ -440,3 +440,32 @@ def test_the_sheet_finds_a_checks_remedies_from_its_outcome() -> None:
         assert remedies_for_check(result, c) == remedies_for(finding) != []
     passing = next(c for o in record.outcomes for c in o.checks if c.passed)
     assert remedies_for_check(result, passing) == []
+
+
+def test_a_value_the_kernel_cannot_compute_is_no_fix(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    """The remedy's answer is held to the plausibility pass a record is held to: where a
+    sheet quantity is non-finite (injected here for strands thicker than the servo's own
+    0.71 mm), the thicker wire that lowers the current density is not offered as a fix."""
+    import math
+
+    from emgate import calc
+
+    real = calc.PROVIDERS["winding.temperature_rise"]
+    monkeypatch.setitem(
+        calc.PROVIDERS,
+        "winding.temperature_rise",
+        lambda c: math.nan if c.d.winding.conductor.bare_diameter > 0.7101e-3 else real(c),
+    )
+    run = gate(make_case(tmp_path / "design-repo", "servo"))
+    (finding,) = [f for f in failing(run) if f["rule"] == "current-density"]
+    wires = [r for r in finding["remedies"] if r["field"] == "winding.conductor.bare_diameter"]
+    assert all(r["status"] != "fix" for r in wires), wires
+    # the unchanged case offers it (the same check, without the injection)
+    assert any(
+        r["field"] == "winding.conductor.bare_diameter" and r["status"] == "fix"
+        for f in servo_failing()
+        if f["rule"] == "current-density"
+        for r in f["remedies"]
+    )

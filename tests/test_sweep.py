@@ -136,3 +136,26 @@ def test_a_local_dask_cluster_gives_the_same_table_in_the_same_order(tmp_path: P
     assert done.code == 0, done.err
     assert dask.read_text() == serial.read_text()
     assert (DEMO / "designs").is_dir()  # the demo stays untouched by a sweep
+
+
+def test_a_variant_the_kernel_cannot_compute_is_invalid_input_not_a_feasible_row(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    """A variant is held to the plausibility pass a record file is held to: a sheet quantity
+    that comes out non-finite makes the variant invalid (as the same record would be, exit 2),
+    not a row the rules passed. The non-finite value is injected for small gaps only."""
+    from emgate import calc
+
+    real = calc.PROVIDERS["winding.temperature_rise"]
+    monkeypatch.setitem(
+        calc.PROVIDERS,
+        "winding.temperature_rise",
+        lambda c: math.nan if c.d.air_gap < 0.4e-3 else real(c),
+    )
+    spec = write_spec(tmp_path, "fields:\n  air_gap: [0.35 mm, 0.45 mm]\n")
+    evaluator, sp, cols = prepare(SweepRun(PUMP, spec, scheduler="none"))
+    small, nominal = (evaluator.evaluate(sp.variant(i)) for i in range(2))
+    assert not small.feasible and not small.rules, small
+    assert "winding.temperature_rise cannot be computed" in small.invalid
+    assert small.invalid.startswith("$.cooling"), small.invalid  # its driving field
+    assert nominal.feasible and not nominal.invalid

@@ -102,3 +102,27 @@ def test_a_monte_carlo_sample_names_the_share_that_passes(repo: Path) -> None:
     # four of them either side
     assert 83.6 <= share <= 95.6
     assert "of 400 samples pass every rule, 99 % required; the worst sample" in finding["message"]
+
+
+def test_a_corner_the_kernel_cannot_compute_fails_the_rule(
+    repo: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    """A corner is held to the plausibility pass a record is held to: a sheet quantity that is
+    non-finite at a corner (injected here for strands over 0.92 mm) is a finding naming the
+    corner, not a corner the rules passed."""
+    import math
+
+    from emgate import calc
+
+    real = calc.PROVIDERS["winding.temperature_rise"]
+    monkeypatch.setitem(
+        calc.PROVIDERS,
+        "winding.temperature_rise",
+        lambda c: math.nan if c.d.winding.conductor.bare_diameter > 0.92e-3 else real(c),
+    )
+    result = check_json(record(repo, {"winding.conductor.bare_diameter": "+0.03 mm -0.01 mm"}))
+    (finding,) = findings(result, "tolerance-corners")
+    assert "corner winding.conductor.bare_diameter = 0.93 mm is not a valid record" in (
+        finding["message"]
+    )
+    assert "winding.temperature_rise cannot be computed" in finding["message"]

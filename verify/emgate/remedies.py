@@ -145,7 +145,9 @@ class _Trial:
         out: list[tuple[str, Check]] = []
         clean = True
         try:
-            for rid, ran in self.variants.run(design, self.variants.context(design), only):
+            # one rule's trials while solving; the answer, with every rule, in full
+            context = self.variants.context(design, plausible=only is None)
+            for rid, ran in self.variants.run(design, context, only):
                 if ran is None:
                     continue
                 clean = clean and not ran.crash

@@ -3,9 +3,9 @@ the calculation and every selected rule, as for a record of its own.
 
 One piece of code for the sweeps (``emgate sweep``), the tolerance corners (the rule
 ``tolerance-corners``) and the remedies' trials (``emgate.remedies``): a variant is the
-record's raw data with some fields set, so that the model validates it (a variant the model
-refuses is reported, not computed), and the rules see it exactly as they would see a record
-with those values.
+record's raw data with some fields set, so that the model and the plausibility pass validate
+it (a variant either refuses is reported, not computed), and the rules see it exactly as they
+would see a record with those values.
 """
 
 from __future__ import annotations
@@ -99,12 +99,21 @@ class Evaluator:
         self.catalogue.resolve(doc, design)
         return design
 
-    def context(self, design: AnyDesign) -> Context:
+    def context(self, design: AnyDesign, *, plausible: bool = True) -> Context:
+        """The rules' context of a validated variant. By default every sheet quantity is
+        computed once and held to the plausibility a record file is held to (a variant the
+        kernel cannot compute is invalid input, as that record would be, not a rule crash or
+        a pass): InputErrors at the driving fields where it is not. ``plausible=False`` is
+        for a search's intermediate trials only, whose answer is then checked in full."""
         from emgate.calc import Calculation
         from emgate.calc.view import Sheet
+        from emgate.plausible import plausible_calculation
         from emgate.rule import Context
 
-        calc = Calculation(design, self.catalogue)
+        if plausible:
+            calc = plausible_calculation(self.doc, design, self.catalogue)
+        else:
+            calc = Calculation(design, self.catalogue)
         return Context(sheet=Sheet(calc), file=self.file or str(self.doc.path))
 
     def run(
@@ -149,13 +158,13 @@ class Evaluator:
         data = with_fields(self.doc.data, changes) if changes else self.doc.data
         try:
             design = self.design(data)
+            context = self.context(design)
         except (InputError, InputErrors) as exc:
             errors = exc.errors if isinstance(exc, InputErrors) else [exc]
             first = errors[0]
             where = first.location.record_path if first.location else "$"
             out.invalid = f"{where}: {first.message}"
             return out
-        context = self.context(design)
         for rid, ran in self.run(design, context):
             if ran is None:
                 out.rules[rid] = RuleVerdict("not_applicable")
@@ -180,6 +189,6 @@ class Evaluator:
             for name in context.sheet:
                 try:
                     out.sheet[name] = context.sheet[name]
-                except (ValueError, ArithmeticError):
+                except (ValueError, ArithmeticError):  # an unbalanced winding's undefined
                     out.sheet[name] = math.nan
         return out

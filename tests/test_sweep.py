@@ -153,7 +153,7 @@ def test_a_variant_the_kernel_cannot_compute_is_invalid_input_not_a_feasible_row
         lambda c: math.nan if c.d.air_gap < 0.4e-3 else real(c),
     )
     spec = write_spec(tmp_path, "fields:\n  air_gap: [0.35 mm, 0.45 mm]\n")
-    evaluator, sp, cols = prepare(SweepRun(PUMP, spec, scheduler="none"))
+    evaluator, sp, _ = prepare(SweepRun(PUMP, spec, scheduler="none"))
     small, nominal = (evaluator.evaluate(sp.variant(i)) for i in range(2))
     assert not small.feasible and not small.rules, small
     assert "winding.temperature_rise cannot be computed" in small.invalid

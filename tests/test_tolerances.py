@@ -122,7 +122,8 @@ def test_a_corner_the_kernel_cannot_compute_fails_the_rule(
     )
     result = check_json(record(repo, {"winding.conductor.bare_diameter": "+0.03 mm -0.01 mm"}))
     (finding,) = findings(result, "tolerance-corners")
-    assert "corner winding.conductor.bare_diameter = 0.93 mm is not a valid record" in (
-        finding["message"]
+    assert (
+        "corner winding.conductor.bare_diameter = 0.93 mm is not a valid record"
+        in (finding["message"])
     )
     assert "winding.temperature_rise cannot be computed" in finding["message"]

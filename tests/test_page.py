@@ -23,7 +23,8 @@ RECORDS = sorted(DESIGNS.glob("*.yaml"))
 
 
 def _gather(path: Path) -> Any:
-    from emgate.page.data import gather, run_gate
+    from emgate.page.data import gather
+    from emgate.page.run import run_gate
     from emgate.plugins import load_plugins
 
     return gather(path, run_gate([path], load_plugins()))
@@ -109,7 +110,7 @@ def test_spectrum_working_bar_is_the_sheets_rotating_fundamental_and_its_thd() -
 def test_sub_harmonics_are_marked_in_the_spectrum() -> None:
     """The ten-pole, twelve-slot tooth-coil winding has an MMF sub-harmonic at mechanical
     order 1 (below the working order 5): its bar is drawn, hatched."""
-    from emgate.page.plots import spectrum
+    from emgate.page.plots.winding import spectrum
 
     m = _gather(SERVO).mmf
     assert m.working_order == 5
@@ -441,8 +442,9 @@ def test_phases_and_verdicts_differ_in_more_than_colour() -> None:
     luminance 0.22 and 0.26 by the WCAG formula), so a greyscale print tells phases apart by
     hatch and letter: every phase has its own hatch, and a failing margin bar is hatched
     where a passing one is plain."""
-    from emgate.page.data import CheckRow
-    from emgate.page.plots import GREEN, PHASE_STYLE, VERMILLION, margins
+    from emgate.page.content import CheckRow
+    from emgate.page.plots.margins import margins
+    from emgate.page.plots.style import GREEN, PHASE_STYLE, VERMILLION
 
     def luminance(colour: str) -> float:
         rgb = [int(colour[i : i + 2], 16) / 255 for i in (1, 3, 5)]

@@ -1,11 +1,14 @@
 """The calculation sheet of a record as one self-contained HTML page, with plots.
 
-Three modules, one job each: :mod:`emgate.page.data` gathers what a page shows from a design,
-its calculation and the run's checks into plain dataclasses (the only module that reads the
-calculation or the kernel); :mod:`emgate.page.plots` draws them as SVG with matplotlib,
-imported only on this path; :mod:`emgate.page.html` writes the page, escaping everything
-that comes from the record. :mod:`emgate.page.shapes` holds the plane geometry of the
-drawings (slot outlines, conductors as placed for the fill).
+One job a module. :mod:`emgate.page.data` gathers what a page shows from a design, its
+calculation and the run's checks, with :mod:`~emgate.page.figures` (the drawings' and plots'
+data) and :mod:`~emgate.page.run` (the gate run and a record's checks): the only modules that
+read the calculation or the kernel. They hand on the plain dataclasses of
+:mod:`emgate.page.content`. :mod:`emgate.page.plots` draws them as SVG with matplotlib,
+imported only there; :mod:`emgate.page.html` writes the page from its
+:mod:`~emgate.page.sections` on the skeleton of :mod:`~emgate.page.markup`, escaping
+everything that comes from the record. :mod:`emgate.page.shapes` holds the plane geometry of
+the drawings (slot outlines, conductors as placed for the fill).
 """
 
 from __future__ import annotations
@@ -15,7 +18,7 @@ from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     from emgate.findings import RunResult
-    from emgate.page.data import PageData
+    from emgate.page.content import PageData
 
 
 MISSING_PLOTS = "the html format draws with matplotlib: pip install 'emgate[html]'"
@@ -70,7 +73,8 @@ def show_html(file: Path, out: Path | None, config: Path | None, plugins: object
 
     from emgate.atomic import write_atomic
     from emgate.errors import InputError, InputErrors
-    from emgate.page.data import gather, run_gate
+    from emgate.page.data import gather
+    from emgate.page.run import run_gate
     from emgate.report.common import one_line
     from emgate.terms import EXIT_INPUT, EXIT_OK
 

@@ -1,4 +1,5 @@
-"""Plane geometry of the drawings: slot outlines and conductors as placed for the fill [mm].
+"""Plane geometry of the drawings [mm]: slot outlines and layers, conductors as placed for the
+fill, a slot's frame turned into the lamination's plane.
 
 A slot is drawn in its own frame: x across the slot (0 on its centre line), y the depth from
 the air gap. The placement is a drawing of how the conductors can lie, row by row from the
@@ -9,6 +10,7 @@ and does not depend on it.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 
@@ -91,6 +93,32 @@ def layer_boundary(s: SlotDims, layers: int) -> float | None:
     k = (b - a) / (2.0 * h)
     t = (-a + math.sqrt(a * a + 4.0 * k * (a + b) * h / 4.0)) / (2.0 * k)
     return s.zone_top + t
+
+
+def to_plane(
+    points: Sequence[tuple[float, float]], angle: float, radius: float, inward: bool = False
+) -> list[tuple[float, float]]:
+    """Slot-frame points (x across, y depth from the gap) to the lamination's plane."""
+    ux, uy = math.cos(angle), math.sin(angle)
+    tx, ty = -uy, ux
+    sign = -1.0 if inward else 1.0
+    return [
+        ((radius + sign * y) * ux + x * tx, (radius + sign * y) * uy + x * ty) for x, y in points
+    ]
+
+
+def zone_band(s: SlotDims, y0: float, y1: float) -> list[tuple[float, float]]:
+    """The winding zone between depths ``y0`` and ``y1`` as a closed outline."""
+    a, b = s.width_at(y0) / 2.0, s.width_at(y1) / 2.0
+    return [(-a, y0), (-b, y1), (b, y1), (a, y0)]
+
+
+def layer_bands(s: SlotDims, layers: int) -> list[tuple[float, float]]:
+    """The depth range (top, bottom) of each layer of the winding zone, top first."""
+    split = layer_boundary(s, layers)
+    if split is None:
+        return [(s.zone_top, s.height)]
+    return [(s.zone_top, split), (split, s.height)]
 
 
 def place_conductors(

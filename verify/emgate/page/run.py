@@ -1,0 +1,110 @@
+"""The gate's run for a page, and a record's checks, rules and findings from its result."""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from emgate.page.content import CheckRow, PageData, RemedyRow, RuleRow
+
+if TYPE_CHECKING:
+    from emgate.findings import RecordResult, RunResult
+    from emgate.plugins import PluginSet
+
+
+def run_gate(
+    paths: list[Path], plugins: PluginSet, config: Path | None = None, root: Path | None = None
+) -> RunResult:
+    """The gate's own run (engine, policy of the nearest emgate.yaml) over ``paths``; bad
+    input comes back as input findings, as from ``emgate check``."""
+    from emgate.config import find_config, load_policy
+    from emgate.engine import Run, execute, input_findings
+    from emgate.errors import InputError, InputErrors
+    from emgate.findings import RunResult
+
+    start = paths[0] if paths else Path.cwd()
+    if config is None:
+        config = find_config(start if start.is_dir() else start.parent)
+    installed = {p.distribution: p.version for p in plugins.packs}
+    rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
+    try:
+        policy = load_policy(config, rules, root or Path.cwd(), installed)
+    except (InputError, InputErrors) as exc:
+        return RunResult(findings=input_findings(exc))
+    return execute(Run(paths=paths, policy=policy, plugins=plugins))
+
+
+def gather_checks(page: PageData, result: RunResult, record: RecordResult | None) -> None:
+    """The record's checks (with their remedies), rules and other findings from the run,
+    and the verdict on the record alone."""
+    from emgate.remedies import remedies_for_check, summary
+    from emgate.report.common import check_display
+    from emgate.terms import path_string
+
+    page.verdict = result.exit_code
+    if record is None:
+        page.problems.append("checks: the run did not check this record")
+        return
+    infos = {r.id: r for r in result.rules}
+    mine = [f for f in result.findings if f.record_id == record.record_id or f.file == record.file]
+    page.findings = [f"{f.severity}: {f.rule}: {f.message}" for f in mine if f.check is None]
+    live = [f for f in mine if f.waived_by is None]
+    page.verdict = (
+        3
+        if any(f.kind == "crash" for f in live)
+        else 2
+        if any(f.kind == "input" for f in live)
+        else 1
+        if any(f.severity == "error" for f in live)
+        else 0
+    )
+    for o in record.outcomes:
+        info = infos.get(o.rule)
+        page.rules.append(
+            RuleRow(
+                o.rule,
+                o.status,
+                info.version if info else "?",
+                info.summary if info else "",
+                f"{info.distribution} {info.distribution_version}" if info else "",
+                o.message,
+            )
+        )
+        for c in o.checks:
+            finding = next((f for f in mine if f.rule == o.rule and f.check == c), None)
+            remedies = remedies_for_check(result, c)
+            page.checks.append(
+                CheckRow(
+                    o.rule,
+                    c.quantity,
+                    c.label,
+                    c.value,
+                    c.limit,
+                    c.bound,
+                    c.unit,
+                    c.margin,
+                    c.passed,
+                    c.basis,
+                    check_display(c),
+                    path_string(c.path),
+                    finding.severity if finding else "",
+                    bool(finding and finding.waived_by),
+                    tuple(
+                        RemedyRow(
+                            r.field_name,
+                            r.status,
+                            r.old,
+                            r.new,
+                            r.margin,
+                            r.breaks,
+                            r.describe(),
+                        )
+                        for r in remedies
+                    ),
+                    summary(remedies),
+                )
+            )
+    # Failing first, then the closest to its limit.
+    # (A margin is +-inf against a zero limit: a pass sorts last, a failure first.)
+    page.checks.sort(key=lambda c: (c.passed, c.margin if c.margin == c.margin else -math.inf))

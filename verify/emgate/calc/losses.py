@@ -38,7 +38,7 @@ FALLBACK_GRADE = "M800-65A"
 def _iron_model(c: Calculation) -> tuple[tuple[LossCurve, ...] | None, LossSplit | None, str]:
     """The stator steel's loss table, or its designation split, and a note of which."""
     from emgate import steels
-    from emgate.physics import iron_loss as il
+    from emgate.physics.iron_loss import designation_split, parse_designation
 
     name = c.d.stator.steel
     table = c.catalogue.loss_table(name)
@@ -46,20 +46,20 @@ def _iron_model(c: Calculation) -> tuple[tuple[LossCurve, ...] | None, LossSplit
         return table[0], None, f"loss table of {name} ({table[1]})"
     data = steels.loss_data(name)
     if data is not None:
-        split = il.designation_split(
+        split = designation_split(
             data.specific_loss, data.thickness, data.resistivity, data.density
         )
         return None, split, f"designation of {name}"
-    parsed = il.parse_designation(name)
+    parsed = parse_designation(name)
     density = magnetic.stator_steel(c).density or FALLBACK_DENSITY
     if parsed is not None:
-        split = il.designation_split(
+        split = designation_split(
             parsed.specific_loss, parsed.thickness, FALLBACK_RESISTIVITY, density
         )
         return None, split, f"designation read from the name {name}"
     fb = steels.loss_data(FALLBACK_GRADE)
     assert fb is not None
-    split = il.designation_split(fb.specific_loss, fb.thickness, fb.resistivity, fb.density)
+    split = designation_split(fb.specific_loss, fb.thickness, fb.resistivity, fb.density)
     return None, split, f"no loss data for {name}: {FALLBACK_GRADE} taken (the safe side)"
 
 
@@ -69,20 +69,20 @@ def iron_loss_source(c: Calculation) -> str:
 
 
 def _specific_loss(c: Calculation, flux_density: float) -> float:
-    from emgate.physics import iron_loss as il
+    from emgate.physics.iron_loss import specific_loss, table_specific_loss
 
     curves, split, _ = _iron_model(c)
     f = c.d.rating.frequency
     if curves is not None:
-        return il.table_specific_loss(curves, flux_density, f).loss
+        return table_specific_loss(curves, flux_density, f).loss
     assert split is not None
-    return float(il.specific_loss(split, flux_density, f))
+    return float(specific_loss(split, flux_density, f))
 
 
 @memo
 def _iron_mass(c: Calculation) -> tuple[float, float]:
     from emgate.physics import conductors as ck
-    from emgate.physics import iron_loss as il
+    from emgate.physics.core_loss import stator_iron_mass
 
     st = c.d.stator
     sl = st.slot
@@ -93,7 +93,7 @@ def _iron_mass(c: Calculation) -> tuple[float, float]:
     else:
         full = ck.open_full_area(sl.width, sl.height)
     density = magnetic.stator_steel(c).density or FALLBACK_DENSITY
-    m = il.stator_iron_mass(
+    m = stator_iron_mass(
         st.bore_diameter,
         st.outer_diameter,
         sl.height,
@@ -108,7 +108,7 @@ def _iron_mass(c: Calculation) -> tuple[float, float]:
 
 @quantity("losses.stator_iron_teeth")
 def stator_iron_teeth(c: Calculation) -> float:
-    from emgate.physics.iron_loss import BUILD_FACTORS, core_loss
+    from emgate.physics.core_loss import BUILD_FACTORS, core_loss
 
     p = _specific_loss(c, magnetic.stator_tooth_b(c))
     return float(core_loss(p, _iron_mass(c)[0], BUILD_FACTORS[c.d.machine][0]))
@@ -116,7 +116,7 @@ def stator_iron_teeth(c: Calculation) -> float:
 
 @quantity("losses.stator_iron_yoke")
 def stator_iron_yoke(c: Calculation) -> float:
-    from emgate.physics.iron_loss import BUILD_FACTORS, core_loss
+    from emgate.physics.core_loss import BUILD_FACTORS, core_loss
 
     p = _specific_loss(c, magnetic.stator_yoke_b(c))
     return float(core_loss(p, _iron_mass(c)[1], BUILD_FACTORS[c.d.machine][1]))

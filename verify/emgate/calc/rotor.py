@@ -93,7 +93,7 @@ def magnet_h_with_current(c: Calculation, current_factor: float, *, cold: bool =
     of the magnet at the coolant temperature (``cooling.ambient``); the armature term is
     the same.
     """
-    from emgate.physics.magnetic import magnet_field_under_current
+    from emgate.physics.magnetic_surface_pm import magnet_field_under_current
 
     h0 = magnet_h_cold(c) if cold else magnet_h(c)
     return magnet_field_under_current(
@@ -118,7 +118,7 @@ def magnet_coercivity_at(c: Calculation, temperature: float) -> float:
     """Intrinsic coercivity of the magnet at ``temperature`` [K], H_cJ0 (1 + beta (T -
     T0)) [A/m]: the same linear reversible law as the remanence's, with H_cJ's own
     coefficient."""
-    from emgate.physics.magnetic import remanence_at
+    from emgate.physics.magnetic_surface_pm import remanence_at
 
     mat = geo.magnet_rotor(c.d).magnet.material
     return remanence_at(

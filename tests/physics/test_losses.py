@@ -10,7 +10,6 @@ import pytest
 from scipy import integrate
 
 from emgate import steels
-from emgate.physics import conductors as ck
 from emgate.physics import losses as lk
 from emgate.physics.convection import gap_nusselt
 from emgate.physics.core_loss import BUILD_FACTORS, stator_iron_mass
@@ -26,6 +25,7 @@ from emgate.physics.iron_loss import (
     specific_loss,
     table_specific_loss,
 )
+from emgate.physics.resistance import copper_loss
 from emgate.physics.thermal import (
     ThermalEstimate,
     machine_temperature_rise,
@@ -416,7 +416,7 @@ def test_fixed_point_matches_iec_60028_at_the_reported_temperature() -> None:
     geo = demo_geometry()
     others = HeatSources(0.0, 0.0, 90.0, 60.0, 180.0, 40.0)
     r20 = 0.9  # ohm per phase, three phases at 8.4 A
-    p20 = ck.copper_loss(3, 8.4, r20)
+    p20 = copper_loss(3, 8.4, r20)
 
     def estimate(copper: float) -> ThermalEstimate:
         return machine_temperature_rise(others.with_copper(copper), geo, "enclosed_fan")

@@ -500,7 +500,7 @@ def field_current_density_rated_load(c: Calculation) -> float:
 
 @quantity("rotor.field_copper_loss_rated_load")
 def field_copper_loss_rated_load(c: Calculation) -> float:
-    from emgate.physics import conductors as ck
+    from emgate.physics import resistance as ck
 
     d = c.d
     f = _salient(c).field

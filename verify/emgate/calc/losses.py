@@ -81,17 +81,17 @@ def _specific_loss(c: Calculation, flux_density: float) -> float:
 
 @memo
 def _iron_mass(c: Calculation) -> tuple[float, float]:
-    from emgate.physics import conductors as ck
     from emgate.physics.core_loss import stator_iron_mass
+    from emgate.physics.slots import open_full_area, semi_closed_full_area
 
     st = c.d.stator
     sl = st.slot
     if sl.shape == "semi_closed":
-        full = ck.semi_closed_full_area(
+        full = semi_closed_full_area(
             sl.opening, sl.opening_height, sl.wedge_height, sl.top_width, sl.bottom_width, sl.height
         )
     else:
-        full = ck.open_full_area(sl.width, sl.height)
+        full = open_full_area(sl.width, sl.height)
     density = magnetic.stator_steel(c).density or FALLBACK_DENSITY
     m = stator_iron_mass(
         st.bore_diameter,
@@ -155,16 +155,21 @@ def _field_resistance(c: Calculation) -> float:
     """Field winding resistance at the class reference temperature [ohm]: all poles in
     series, each coil's mean turn hugging the pole body with its side half the gap between
     neighbouring bodies at mid-height (common practice, no source)."""
-    from emgate.physics import conductors as ck
+    from emgate.physics.resistance import (
+        ALUMINIUM,
+        COPPER,
+        resistivity,
+        tooth_coil_mean_turn_length,
+    )
 
     d = c.d
     rotor = geo.salient_rotor(d)
     pole, field = rotor.pole, rotor.field
     d_mid = geo.rotor_outer_diameter(d) - 2.0 * pole.shoe_height - pole.body_height
     side = max(0.5 * (math.pi * d_mid / d.poles - pole.body_width), 1e-4)
-    turn = ck.tooth_coil_mean_turn_length(d.stator.stack_length, pole.body_width, side)
-    material = ck.COPPER if field.conductor.material == "copper" else ck.ALUMINIUM
-    rho = ck.resistivity(material, conductors.class_reference_temperature(c))
+    turn = tooth_coil_mean_turn_length(d.stator.stack_length, pole.body_width, side)
+    material = COPPER if field.conductor.material == "copper" else ALUMINIUM
+    rho = resistivity(material, conductors.class_reference_temperature(c))
     area = field.conductor.strands * conductor_strand_area(field.conductor)
     return rho * d.poles * field.turns_per_pole * turn / area
 

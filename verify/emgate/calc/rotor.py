@@ -10,16 +10,17 @@ from emgate.calc.core import Calculation, memo, quantity
 
 @memo
 def bar_area(c: Calculation) -> float:
-    from emgate.physics import conductors as ck
+    from emgate.physics.slots import open_full_area, semi_closed_full_area
+    from emgate.physics.strands import rectangular_strand_area
 
     cage = geo.cage_rotor(c.d).cage
     if cage.bar is not None:
-        return ck.rectangular_strand_area(cage.bar.width, cage.bar.height)
+        return rectangular_strand_area(cage.bar.width, cage.bar.height)
     from emgate.model import SemiClosedSlot
 
     sl = geo.cage_rotor(c.d).slot
     if isinstance(sl, SemiClosedSlot):
-        return ck.semi_closed_full_area(
+        return semi_closed_full_area(
             sl.opening,
             sl.opening_height,
             sl.wedge_height,
@@ -27,7 +28,7 @@ def bar_area(c: Calculation) -> float:
             sl.bottom_width,
             sl.height,
         )
-    return ck.open_full_area(sl.width, sl.height)
+    return open_full_area(sl.width, sl.height)
 
 
 @quantity("rotor.bar_current")
@@ -52,7 +53,8 @@ def bar_current_density(c: Calculation) -> float:
 
 @quantity("rotor.ring_current_density")
 def ring_current_density(c: Calculation) -> float:
-    from emgate.physics.conductors import current_density, end_ring_current
+    from emgate.physics.currents import current_density
+    from emgate.physics.rotor_conductors import end_ring_current
 
     rotor = geo.cage_rotor(c.d)
     ring = rotor.cage.end_ring

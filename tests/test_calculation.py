@@ -4,35 +4,30 @@ path, the strand section of a field coil, the default opening clearance.
 
 from __future__ import annotations
 
-import importlib
 import math
 from pathlib import Path
+from types import ModuleType
 from typing import Any
 
 import pytest
 
 from conftest import GENSET, MM, PUMP, calculation, variant
 from emgate.calc import conductors, thermal
-from emgate.physics import conductors as ck
+from emgate.physics import rotor_conductors, slots
 
 # --- one home for shared pieces -------------------------------------------------------------------
 
 
-def spy(monkeypatch: pytest.MonkeyPatch, name: str) -> list[tuple[Any, ...]]:
-    """Record the calls of a kernel function, letting them run.
-
-    The calculation calls some kernel functions through the re-export
-    emgate.physics.conductors and others from their own module: patch both.
-    """
+def spy(monkeypatch: pytest.MonkeyPatch, module: ModuleType, name: str) -> list[tuple[Any, ...]]:
+    """Record the calls of a kernel function in its module, letting them run."""
     calls: list[tuple[Any, ...]] = []
-    real = getattr(ck, name)
+    real = getattr(module, name)
 
     def recording(*args: Any, **kwargs: Any) -> Any:
         calls.append(args)
         return real(*args, **kwargs)
 
-    monkeypatch.setattr(ck, name, recording)
-    monkeypatch.setattr(importlib.import_module(real.__module__), name, recording)
+    monkeypatch.setattr(module, name, recording)
     return calls
 
 
@@ -48,10 +43,10 @@ def spy(monkeypatch: pytest.MonkeyPatch, name: str) -> list[tuple[Any, ...]]:
 def test_the_thermal_path_takes_the_liner_perimeter_from_the_kernel(
     monkeypatch: pytest.MonkeyPatch, base: Path, kernel: str, perimeter: float
 ) -> None:
-    calls = spy(monkeypatch, kernel)
+    calls = spy(monkeypatch, slots, kernel)
     calc = calculation(base)
     thermal.thermal_estimate(calc)
-    assert calls, f"the thermal estimate did not use conductors.{kernel}"
+    assert calls, f"the thermal estimate did not use slots.{kernel}"
     assert conductors.slot_perimeter(calc) / MM == pytest.approx(perimeter, rel=1e-12)  # rounding
 
 
@@ -67,14 +62,14 @@ def test_the_field_coil_uses_the_shared_strand_section(
         "insulated_width": "4.2 mm",
         "insulated_height": "1.7 mm",
     }
-    calls = spy(monkeypatch, "field_coil_current_density")
+    calls = spy(monkeypatch, rotor_conductors, "field_coil_current_density")
     calc = calculation(variant(repo, {"rotor.field.conductor": field}, base=GENSET))
     # [mem: IEC 60317-0-2] w h - (4 - pi) r^2 per strand, two in hand, 9 A.
     strand = (4.0 * 1.5 - (4 - math.pi) * 0.5**2) * MM**2
     assert calc.value("rotor.field_current_density") == pytest.approx(
         9.0 / (2 * strand), rel=1e-12
     )  # rounding
-    assert calls, "the field coil did not use conductors.field_coil_current_density"
+    assert calls, "the field coil did not use rotor_conductors.field_coil_current_density"
 
 
 def test_the_opening_clearance_is_the_kernels_and_its_limit_is_declared_once(
@@ -87,8 +82,8 @@ def test_the_opening_clearance_is_the_kernels_and_its_limit_is_declared_once(
     assert default == pytest.approx(0.2e-3, rel=1e-12)  # 0.2 mm, common practice, no source
     assert SlotFillOptions.source_of("opening_clearance") == "common practice, no source"
     # The quantity: the sheet's stator.opening_clearance is the kernel's function.
-    calls = spy(monkeypatch, "opening_clearance")
+    calls = spy(monkeypatch, slots, "opening_clearance")
     value = calculation(PUMP).value("stator.opening_clearance")
-    assert calls, "the sheet did not use conductors.opening_clearance"
+    assert calls, "the sheet did not use slots.opening_clearance"
     # [calc] pump: opening 2.8 mm less the insulated strand 0.97 mm (rounding only)
     assert value / MM == pytest.approx(2.8 - 0.97, rel=1e-12)

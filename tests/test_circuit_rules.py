@@ -127,7 +127,7 @@ def test_slot_leakage_of_the_servo_by_hand() -> None:
     # [mem: Pyrhonen sec. 4.3] lambda = k1 lambda_zone + k2 (2 h_w / (b0 + b1) + h0 / b0),
     # k1 = k2 = 7/8 for 12/10 tooth coils side by side [calc], zone 10 -> 14 mm over 13.5 mm;
     # L_u = 4 m mu0 l N^2 lambda / Q. Rounding only (the zone's closed form: 1e-10).
-    from emgate.physics.inductance import trapezoid_zone_permeance
+    from emgate.physics.slot_leakage import trapezoid_zone_permeance
 
     s = sheet(SERVO)
     lam = 0.875 * (trapezoid_zone_permeance(10.0, 14.0, 13.5) + 2 * 1.5 / 12.0 + 1.0 / 2.0)

@@ -105,15 +105,16 @@ def test_the_fixed_point_resistance_follows_iec_60028() -> None:
 
 def test_all_losses_warm_the_winding_more_than_copper_alone() -> None:
     from emgate.calc import thermal
-    from emgate.physics import thermal as th
+    from emgate.physics.thermal import winding_temperature_rise
+    from emgate.physics.winding_temperature import FIXED_POINT_TOLERANCE
 
     c = calculation(PUMP)
     op = thermal.operating_point(c)
-    assert op.converged and op.error_bound < th.FIXED_POINT_TOLERANCE
+    assert op.converged and op.error_bound < FIXED_POINT_TOLERANCE
     src = thermal.heat_sources(c)
     # the same network, the same copper loss, nothing else
     geometry, params, _ = thermal._network(c)
-    copper_only = th.winding_temperature_rise(
+    copper_only = winding_temperature_rise(
         op.copper_loss, geometry, c.d.cooling.method, parameters=params
     )
     assert op.estimate is not None

@@ -111,7 +111,8 @@ def test_the_servo_gap_is_carter_on_the_whole_magnetic_gap_with_ideal_iron() -> 
 
 
 def test_the_kernel_docstrings_state_what_effective_gap_must_be() -> None:
-    from emgate.physics.magnetic import PolePath, surface_pm_gap
+    from emgate.physics.magnetic import PolePath
+    from emgate.physics.magnetic_surface_pm import surface_pm_gap
 
     for doc in (PolePath.__doc__ or "", surface_pm_gap.__doc__ or ""):
         assert "kc g' - l_m / mu_rec" in doc

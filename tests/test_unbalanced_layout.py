@@ -17,7 +17,7 @@ from conftest import GENSET, PUMP, SERVO, check_json, findings, outcome, run_cli
 
 def _table(base: Path) -> list[str]:
     """The star-of-slots layout of a demo record, written as the record's slot table."""
-    from emgate.physics.winding import star_of_slots
+    from emgate.physics.star_of_slots import star_of_slots
 
     d = yaml.safe_load(base.read_text(encoding="utf-8"))
     w = d["winding"]

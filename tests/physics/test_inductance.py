@@ -14,34 +14,34 @@ from skfem.models.poisson import laplace, unit_load
 
 from emgate.physics.constants import MU0
 from emgate.physics.inductance import (
-    armature_reaction_on_field,
     end_winding_inductance,
-    excitation_emf,
     harmonic_leakage_inductance,
-    magnetising_current,
     magnetising_inductance,
-    open_slot_permeance,
-    power_factor_estimate,
     salient_pole_axis_factors,
-    semi_closed_slot_permeance,
+    synchronous_inductance,
+)
+from emgate.physics.magnetic_surface_pm import magnet_field_under_current
+from emgate.physics.mmf import harmonic_ratios, mmf_thd, winding_family
+from emgate.physics.performance import (
+    armature_reaction_on_field,
+    excitation_emf,
+    magnetising_current,
+    power_factor_estimate,
     shaft_torque,
     shear_stress,
     short_circuit_current,
+    torque_constant,
+)
+from emgate.physics.slot_leakage import (
+    open_slot_permeance,
+    semi_closed_slot_permeance,
     slot_leakage_factors,
     slot_leakage_inductance,
-    synchronous_inductance,
-    torque_constant,
     trapezoid_zone_permeance,
 )
-from emgate.physics.magnetic import magnet_field_under_current
-from emgate.physics.mmf import harmonic_ratios, mmf_thd, winding_family
-from emgate.physics.winding import (
-    WindingError,
-    phase_emf,
-    star_of_slots,
-    star_of_slots_layers,
-    winding_factors,
-)
+from emgate.physics.star_of_slots import star_of_slots, star_of_slots_layers
+from emgate.physics.winding import WindingError
+from emgate.physics.winding_factors import phase_emf, winding_factors
 
 MM = 1e-3
 #: Formulas that must agree exactly differ by rounding only.

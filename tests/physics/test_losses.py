@@ -10,10 +10,33 @@ import pytest
 from scipy import integrate
 
 from emgate import steels
-from emgate.physics import conductors as ck
-from emgate.physics import iron_loss as il
 from emgate.physics import losses as lk
-from emgate.physics import thermal as th
+from emgate.physics.convection import gap_nusselt
+from emgate.physics.core_loss import BUILD_FACTORS, stator_iron_mass
+from emgate.physics.insulation import rise_limit_allowance
+from emgate.physics.iron_loss import (
+    Designation,
+    LossCurve,
+    classical_eddy_loss,
+    designation_split,
+    eddy_skin_factor,
+    parse_designation,
+    skin_depth,
+    specific_loss,
+    table_specific_loss,
+)
+from emgate.physics.resistance import copper_loss
+from emgate.physics.thermal import (
+    ThermalEstimate,
+    machine_temperature_rise,
+    winding_temperature_rise,
+)
+from emgate.physics.thermal_inputs import HeatSources, RotorGap, StatorThermalGeometry
+from emgate.physics.winding_temperature import (
+    FIXED_POINT_MAX_ITERATIONS,
+    FIXED_POINT_TOLERANCE,
+    operating_temperature,
+)
 
 MM = 1e-3
 
@@ -48,7 +71,7 @@ def test_every_builtin_grade_carries_its_designation(grade: str) -> None:
     # exact: the figures are the designation's digits
     assert data.specific_loss == pytest.approx(loss, rel=1e-12)
     assert data.thickness == pytest.approx(thickness_mm * MM, rel=1e-12)
-    parsed = il.parse_designation(grade)
+    parsed = parse_designation(grade)
     assert parsed is not None
     assert parsed.specific_loss == pytest.approx(loss, rel=1e-12)
     assert parsed.thickness == pytest.approx(thickness_mm * MM, rel=1e-12)
@@ -59,26 +82,26 @@ def test_every_builtin_grade_carries_its_designation(grade: str) -> None:
 
 
 def test_designation_parser_refuses_other_names() -> None:
-    assert il.parse_designation("acme-lamination") is None
-    assert il.parse_designation("M400") is None
-    assert il.parse_designation(" m250-35a ") == il.Designation("M250-35A", 2.50, 0.35 * MM)
+    assert parse_designation("acme-lamination") is None
+    assert parse_designation("M400") is None
+    assert parse_designation(" m250-35a ") == Designation("M250-35A", 2.50, 0.35 * MM)
 
 
 @pytest.mark.parametrize("grade", sorted(DESIGNATIONS))
 def test_scaling_returns_the_designation_at_1_5_t_50_hz(grade: str) -> None:
     d = steels.loss_data(grade)
     assert d is not None
-    split = il.designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
+    split = designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
     # the split sums to the figure (float rounding, 1e-12)
-    assert il.specific_loss(split, 1.5, 50.0) == pytest.approx(d.specific_loss, rel=1e-12)
+    assert specific_loss(split, 1.5, 50.0) == pytest.approx(d.specific_loss, rel=1e-12)
 
 
 @pytest.mark.parametrize("grade", sorted(P10_50))
 def test_scaling_to_1_0_t_against_the_standards_second_figure(grade: str) -> None:
     d = steels.loss_data(grade)
     assert d is not None
-    split = il.designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
-    p = il.specific_loss(split, 1.0, 50.0)
+    split = designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
+    p = specific_loss(split, 1.0, 50.0)
     # The standard's P1.0/50 maxima are 0.41-0.45 of P1.5/50; a B^2 law gives 0.444 and the
     # excess term's B^1.5 a little more. The scaling must not fall below the standard's
     # figure (safe side) and stay within 20 % above it (the B^1.5 excess term; measured
@@ -89,20 +112,20 @@ def test_scaling_to_1_0_t_against_the_standards_second_figure(grade: str) -> Non
 def test_scaling_to_60_hz_between_the_pure_laws() -> None:
     d = steels.loss_data("M400-50A")
     assert d is not None
-    split = il.designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
-    ratio = il.specific_loss(split, 1.5, 60.0) / d.specific_loss
+    split = designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
+    ratio = specific_loss(split, 1.5, 60.0) / d.specific_loss
     # [calc] pure hysteresis scales by 60/50 = 1.2, pure eddy by 1.44
     assert 1.2 < ratio < 1.44
     # IEC 60404-8-4 also gives P1.5/60 for the grade, 5.10 W/kg for M400-50A [from memory]:
     # 5 % covers the recollection and the assumed excess share.
-    assert il.specific_loss(split, 1.5, 60.0) == pytest.approx(5.10, rel=0.05)
+    assert specific_loss(split, 1.5, 60.0) == pytest.approx(5.10, rel=0.05)
 
 
 def test_scaling_at_400_hz_is_on_the_safe_side_of_a_typical_datasheet() -> None:
     d = steels.loss_data("M270-35A")
     assert d is not None
-    split = il.designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
-    p = il.specific_loss(split, 1.0, 400.0)
+    split = designation_split(d.specific_loss, d.thickness, d.resistivity, d.density)
+    p = specific_loss(split, 1.0, 400.0)
     # Producers' typical P1.0/400 for M270-35A is about 15-17 W/kg [from memory]; scaling
     # the standard's MAXIMUM must not fall below that, and stays within 50 % above
     # (designation max vs typical ~10 %, no skin effect credited).
@@ -121,7 +144,7 @@ def test_classical_eddy_loss_against_a_numerical_integral() -> None:
     val, _ = integrate.dblquad(density, 0.0, 1.0 / f, -d / 2, d / 2)
     per_kg = val * f / d / dens
     # quadrature of a polynomial times cos^2: 1e-8
-    assert il.classical_eddy_loss(b, f, d, rho, dens) == pytest.approx(per_kg, rel=1e-8)
+    assert classical_eddy_loss(b, f, d, rho, dens) == pytest.approx(per_kg, rel=1e-8)
 
 
 def test_skin_factor_against_a_numerical_diffusion_solution() -> None:
@@ -151,28 +174,28 @@ def test_skin_factor_against_a_numerical_diffusion_solution() -> None:
         loss = np.trapezoid(dre**2 + dim**2, us) * rho / (2 * d)  # J = dH/du / d, per area
         b_mean = abs(np.trapezoid(re + 1j * im, us)) * mu
         classical = (2 * math.pi * f) ** 2 * b_mean**2 * d**3 / (24 * rho)
-        x_ratio = d / il.skin_depth(f, rho, 1000.0)
+        x_ratio = d / skin_depth(f, rho, 1000.0)
         # BVP tolerance 1e-8 and the trapezoid rule on 8001 points: 1e-4
-        assert loss / classical == pytest.approx(float(il.eddy_skin_factor(x_ratio)), rel=1e-4)
+        assert loss / classical == pytest.approx(float(eddy_skin_factor(x_ratio)), rel=1e-4)
 
 
 def test_skin_factor_limits() -> None:
     # [calc] 1 at x -> 0 (the series branch joins the exact one), 3/x for large x
-    assert il.eddy_skin_factor(0.0) == 1.0
-    assert il.eddy_skin_factor(1e-3 * 0.999) == pytest.approx(il.eddy_skin_factor(1.001e-3))
-    assert il.eddy_skin_factor(1000.0) == pytest.approx(3e-3, rel=1e-9)
+    assert eddy_skin_factor(0.0) == 1.0
+    assert eddy_skin_factor(1e-3 * 0.999) == pytest.approx(eddy_skin_factor(1.001e-3))
+    assert eddy_skin_factor(1000.0) == pytest.approx(3e-3, rel=1e-9)
     xs = np.linspace(0.01, 20, 200)
-    assert np.all(np.diff(il.eddy_skin_factor(xs)) < 0)  # the correction only lowers loss
+    assert np.all(np.diff(eddy_skin_factor(xs)) < 0)  # the correction only lowers loss
 
 
 def test_skin_depth_of_copper() -> None:
     # Copper at 50 Hz: 9.2 mm [from memory: any electrical engineering handbook; rho 1/58]
-    assert il.skin_depth(50.0, 1 / 58e6, 1.0) == pytest.approx(9.35e-3, rel=0.02)
+    assert skin_depth(50.0, 1 / 58e6, 1.0) == pytest.approx(9.35e-3, rel=0.02)
 
 
 def test_split_refuses_an_impossible_sheet() -> None:
     with pytest.raises(ValueError, match="classical eddy loss"):
-        il.designation_split(1.0, 2 * MM, 0.1e-6, 7650.0)
+        designation_split(1.0, 2 * MM, 0.1e-6, 7650.0)
 
 
 # --- loss table ---------------------------------------------------------------------------
@@ -183,9 +206,9 @@ def two_term(b: float, f: float) -> float:
     return 0.04 * f * b**2 + 1.6e-4 * f**2 * b**2
 
 
-def table(freqs: tuple[float, ...]) -> list[il.LossCurve]:
+def table(freqs: tuple[float, ...]) -> list[LossCurve]:
     bs = np.linspace(0.2, 1.8, 17)
-    return [il.LossCurve(f, bs, np.array([two_term(b, f) for b in bs])) for f in freqs]
+    return [LossCurve(f, bs, np.array([two_term(b, f) for b in bs])) for f in freqs]
 
 
 def test_table_interpolation_is_exact_for_hysteresis_plus_eddy() -> None:
@@ -193,15 +216,15 @@ def test_table_interpolation_is_exact_for_hysteresis_plus_eddy() -> None:
     for f in (60.0, 150.0, 300.0):
         # energy per cycle linear in f: exact for the two-term law; in B log-log
         # interpolation of a B^2 law is exact too (float rounding, 1e-9)
-        got = il.table_specific_loss(curves, 1.3, f)
+        got = table_specific_loss(curves, 1.3, f)
         assert got.loss == pytest.approx(two_term(1.3, f), rel=1e-9)
         assert not got.extrapolated
 
 
 def test_table_outside_its_frequencies_is_a_bound_and_says_so() -> None:
     curves = table((50.0, 100.0))
-    high = il.table_specific_loss(curves, 1.0, 400.0)
-    low = il.table_specific_loss(curves, 1.0, 20.0)
+    high = table_specific_loss(curves, 1.0, 400.0)
+    low = table_specific_loss(curves, 1.0, 20.0)
     assert high.extrapolated and low.extrapolated
     assert high.loss >= two_term(1.0, 400.0)  # [calc] bound p (f/f1)^2 above
     assert low.loss >= two_term(1.0, 20.0)  # [calc] bound p f/f0 below
@@ -209,30 +232,30 @@ def test_table_outside_its_frequencies_is_a_bound_and_says_so() -> None:
 
 def test_table_wins_its_points_and_extrapolates_in_b() -> None:
     curves = table((50.0,))
-    assert il.table_specific_loss(curves, 1.0, 50.0).loss == pytest.approx(two_term(1.0, 50.0))
-    beyond = il.table_specific_loss(curves, 2.0, 50.0)
+    assert table_specific_loss(curves, 1.0, 50.0).loss == pytest.approx(two_term(1.0, 50.0))
+    beyond = table_specific_loss(curves, 2.0, 50.0)
     assert beyond.extrapolated
     assert beyond.loss == pytest.approx(two_term(1.8, 50.0) * (2.0 / 1.8) ** 2)
 
 
 def test_loss_curve_refuses_bad_tables() -> None:
     with pytest.raises(ValueError):
-        il.LossCurve(50.0, np.array([1.0, 0.5]), np.array([1.0, 2.0]))
+        LossCurve(50.0, np.array([1.0, 0.5]), np.array([1.0, 2.0]))
     with pytest.raises(ValueError):
-        il.LossCurve(0.0, np.array([0.5, 1.0]), np.array([1.0, 2.0]))
+        LossCurve(0.0, np.array([0.5, 1.0]), np.array([1.0, 2.0]))
 
 
 def test_stator_iron_mass_of_a_plain_annulus() -> None:
     # [calc] no slots area: teeth = annulus bore..slot bottom, yoke = the rest
-    m = il.stator_iron_mass(0.1, 0.2, 0.02, 24, 0.0, 0.1, 1.0, 7650.0)
+    m = stator_iron_mass(0.1, 0.2, 0.02, 24, 0.0, 0.1, 1.0, 7650.0)
     assert m.teeth == pytest.approx(math.pi * (0.07**2 - 0.05**2) * 0.1 * 7650, rel=1e-12)
     assert m.yoke == pytest.approx(math.pi * (0.1**2 - 0.07**2) * 0.1 * 7650, rel=1e-12)
 
 
 def test_build_factors_as_recalled() -> None:
     # [from memory: Pyrhonen, Jokinen, Hrabovcova, correction coefficients for iron loss]
-    assert il.BUILD_FACTORS["induction"] == (1.8, 1.5)
-    assert il.BUILD_FACTORS["surface_pm"] == (2.0, 1.5)
+    assert BUILD_FACTORS["induction"] == (1.8, 1.5)
+    assert BUILD_FACTORS["surface_pm"] == (2.0, 1.5)
 
 
 # --- IEC 60034-2-1 allowance ---------------------------------------------------------------
@@ -337,8 +360,8 @@ def test_friction_windage_estimate_scales_with_speed_squared() -> None:
 # --- thermal: every loss where it arises, and the fixed point -----------------------------
 
 
-def demo_geometry() -> th.StatorThermalGeometry:
-    return th.StatorThermalGeometry(
+def demo_geometry() -> StatorThermalGeometry:
+    return StatorThermalGeometry(
         bore_diameter=0.136, outer_diameter=0.22, stack_length=0.14, slots=36,
         slot_depth=0.020, winding_area=130e-6, winding_height=0.0177,
         winding_perimeter=0.05, liner_thickness=0.25e-3, stacking_factor=0.97,
@@ -348,17 +371,17 @@ def demo_geometry() -> th.StatorThermalGeometry:
 
 def test_the_old_call_is_the_new_one_with_a_yoke_lump() -> None:
     geo = demo_geometry()
-    old = th.winding_temperature_rise(400.0, geo, "enclosed_fan", other_losses=150.0)
-    new = th.machine_temperature_rise(
-        th.HeatSources(copper_slot=400.0, iron_yoke=150.0), geo, "enclosed_fan"
+    old = winding_temperature_rise(400.0, geo, "enclosed_fan", other_losses=150.0)
+    new = machine_temperature_rise(
+        HeatSources(copper_slot=400.0, iron_yoke=150.0), geo, "enclosed_fan"
     )
     assert old.winding_rise == pytest.approx(new.winding_rise, rel=1e-15)
 
 
 def test_each_loss_joins_where_it_arises() -> None:
     geo = demo_geometry()
-    src = th.HeatSources(300.0, 100.0, 80.0, 120.0, 150.0, 40.0)
-    est = th.machine_temperature_rise(src, geo, "enclosed_fan")
+    src = HeatSources(300.0, 100.0, 80.0, 120.0, 150.0, 40.0)
+    est = machine_temperature_rise(src, geo, "enclosed_fan")
     heat = {s.name: s.heat for s in est.steps}
     assert heat["winding bundle"] == heat["slot liner"] == 400.0
     assert heat["stator teeth"] == 400.0 + 80.0 + 150.0
@@ -367,15 +390,15 @@ def test_each_loss_joins_where_it_arises() -> None:
     # each step's rise is its resistance times its heat, and they sum to the rise
     assert sum(s.rise for s in est.steps) == pytest.approx(est.winding_rise, rel=1e-12)
     # moving loss from the yoke to the teeth can only warm the winding
-    moved = th.HeatSources(300.0, 100.0, 200.0, 0.0, 150.0, 40.0)
-    assert th.machine_temperature_rise(moved, geo, "enclosed_fan").winding_rise > est.winding_rise
+    moved = HeatSources(300.0, 100.0, 200.0, 0.0, 150.0, 40.0)
+    assert machine_temperature_rise(moved, geo, "enclosed_fan").winding_rise > est.winding_rise
 
 
 def test_rotor_temperature_is_above_the_bore() -> None:
     geo = demo_geometry()
-    gap = th.RotorGap(0.45e-3, 0.1351, 1460 / 60)
-    est = th.machine_temperature_rise(
-        th.HeatSources(400.0, 0.0, 80.0, 120.0, 200.0, 40.0), geo, "enclosed_fan", rotor_gap=gap
+    gap = RotorGap(0.45e-3, 0.1351, 1460 / 60)
+    est = machine_temperature_rise(
+        HeatSources(400.0, 0.0, 80.0, 120.0, 200.0, 40.0), geo, "enclosed_fan", rotor_gap=gap
     )
     assert est.rotor_temperature is not None
     teeth_node = est.coolant_temperature + sum(s.rise for s in est.steps[2:])
@@ -384,30 +407,30 @@ def test_rotor_temperature_is_above_the_bore() -> None:
 
 def test_gap_nusselt_regimes() -> None:
     # [from memory: Becker and Kaye 1962] conduction below Ta 1700, then the two fits
-    assert th.gap_nusselt(1000.0) == 2.0
-    assert th.gap_nusselt(5000.0) == pytest.approx(0.128 * 5000**0.367)
-    assert th.gap_nusselt(1e5) == pytest.approx(0.409 * 1e5**0.241)
+    assert gap_nusselt(1000.0) == 2.0
+    assert gap_nusselt(5000.0) == pytest.approx(0.128 * 5000**0.367)
+    assert gap_nusselt(1e5) == pytest.approx(0.409 * 1e5**0.241)
 
 
 def test_fixed_point_matches_iec_60028_at_the_reported_temperature() -> None:
     geo = demo_geometry()
-    others = th.HeatSources(0.0, 0.0, 90.0, 60.0, 180.0, 40.0)
+    others = HeatSources(0.0, 0.0, 90.0, 60.0, 180.0, 40.0)
     r20 = 0.9  # ohm per phase, three phases at 8.4 A
-    p20 = ck.copper_loss(3, 8.4, r20)
+    p20 = copper_loss(3, 8.4, r20)
 
-    def estimate(copper: float) -> th.ThermalEstimate:
-        return th.machine_temperature_rise(others.with_copper(copper), geo, "enclosed_fan")
+    def estimate(copper: float) -> ThermalEstimate:
+        return machine_temperature_rise(others.with_copper(copper), geo, "enclosed_fan")
 
-    op = th.operating_temperature(p20, 0.00393, estimate, 313.15)
+    op = operating_temperature(p20, 0.00393, estimate, 313.15)
     assert op.converged and not op.runaway
-    assert op.error_bound < th.FIXED_POINT_TOLERANCE
+    assert op.error_bound < FIXED_POINT_TOLERANCE
     # R at the reported temperature by IEC 60028: R20 (1 + 0.00393 (T - 20 degC)), alpha
     # 0.00393 1/K for annealed copper [pub: IEC 60028]
     r_t = r20 * (1 + 0.00393 * (op.temperature - 293.15))
     assert op.copper_loss == pytest.approx(3 * 8.4**2 * r_t, rel=1e-12)
     # ... and the network at that loss gives back that temperature, within the tolerance
     assert estimate(op.copper_loss).winding_temperature == pytest.approx(
-        op.temperature, abs=th.FIXED_POINT_TOLERANCE
+        op.temperature, abs=FIXED_POINT_TOLERANCE
     )
 
 
@@ -415,31 +438,31 @@ def test_fixed_point_of_a_linear_network_against_its_closed_form() -> None:
     # A linear rise R P(T): T* = (T_c + R P20 (1 - a (293.15))) / (1 - R P20 a) [calc]
     rth, p20, a, tc = 0.08, 500.0, 0.00393, 313.15
 
-    def estimate(copper: float) -> th.ThermalEstimate:
+    def estimate(copper: float) -> ThermalEstimate:
         rise = rth * copper
-        return th.ThermalEstimate("x", rise, tc + rise, tc, (), 0.0, 0.0)
+        return ThermalEstimate("x", rise, tc + rise, tc, (), 0.0, 0.0)
 
-    op = th.operating_temperature(p20, a, estimate, tc)
+    op = operating_temperature(p20, a, estimate, tc)
     exact = (tc + rth * p20 * (1 - a * 293.15)) / (1 - rth * p20 * a)
     assert op.converged
-    assert op.temperature == pytest.approx(exact, abs=th.FIXED_POINT_TOLERANCE)
+    assert op.temperature == pytest.approx(exact, abs=FIXED_POINT_TOLERANCE)
 
 
 def test_thermal_runaway_is_a_flag_not_a_hang() -> None:
     # R P20 alpha = 1.2 > 1: the loss outgrows the cooling, no fixed point [calc]
     rth, p20, a, tc = 1.0, 1200.0 / 1.0, 0.001, 313.15
 
-    def estimate(copper: float) -> th.ThermalEstimate:
+    def estimate(copper: float) -> ThermalEstimate:
         rise = rth * copper
-        return th.ThermalEstimate("x", rise, tc + rise, tc, (), 0.0, 0.0)
+        return ThermalEstimate("x", rise, tc + rise, tc, (), 0.0, 0.0)
 
-    op = th.operating_temperature(p20, a, estimate, tc)
+    op = operating_temperature(p20, a, estimate, tc)
     assert op.runaway and not op.converged
-    assert op.iterations < th.FIXED_POINT_MAX_ITERATIONS
+    assert op.iterations < FIXED_POINT_MAX_ITERATIONS
 
 
 def test_iec_60034_1_allowance_for_small_and_fanless_machines() -> None:
     # [from memory: IEC 60034-1, rise limits: +5 K below 600 W and for IC410 frames]
-    assert th.rise_limit_allowance(500.0, totally_enclosed_fanless=False) == 5.0
-    assert th.rise_limit_allowance(7500.0, totally_enclosed_fanless=True) == 5.0
-    assert th.rise_limit_allowance(7500.0, totally_enclosed_fanless=False) == 0.0
+    assert rise_limit_allowance(500.0, totally_enclosed_fanless=False) == 5.0
+    assert rise_limit_allowance(7500.0, totally_enclosed_fanless=True) == 5.0
+    assert rise_limit_allowance(7500.0, totally_enclosed_fanless=False) == 0.0

@@ -21,22 +21,11 @@ from emgate.physics.iron import (
     yoke_flux_density,
     yoke_magnetic_voltage,
 )
-from emgate.physics.magnetic import (
-    DEFAULT_VOLTAGE_DROP,
-    PolePath,
-    SalientPole,
-    Segment,
-    SurfaceMagnet,
-    Teeth,
-    Yoke,
-    induction_gap,
-    remanence_at,
-    salient_field_gap,
-    segment_mmf,
-    series_flux,
-    series_mmf,
-    surface_pm_gap,
-)
+from emgate.physics.magnetic import PolePath, SalientPole, SurfaceMagnet, Teeth, Yoke
+from emgate.physics.magnetic_induction import DEFAULT_VOLTAGE_DROP, induction_gap
+from emgate.physics.magnetic_salient_field import salient_field_gap
+from emgate.physics.magnetic_surface_pm import remanence_at, surface_pm_gap
+from emgate.physics.series_circuit import Segment, segment_mmf, series_flux, series_mmf
 
 # Bounded, untimed property runs: keeps the suite at a few seconds and never fails on time.
 PROPERTY = settings(max_examples=25, deadline=None)

@@ -18,15 +18,14 @@ from emgate.physics.mmf import (
     mmf_thd,
     slot_ampere_conductors,
 )
+from emgate.physics.star_of_slots import star_of_slots
 from emgate.physics.winding import (
     WindingError,
     feasibility,
     harmonic_phasors,
     series_turns_per_phase,
-    star_of_slots,
-    winding_factor_closed_form,
-    winding_factors,
 )
+from emgate.physics.winding_factors import winding_factor_closed_form, winding_factors
 
 # Exact results (Parseval, closed forms) differ by rounding only.
 EXACT_TOL = 1e-12

@@ -18,7 +18,8 @@ from scipy.constants import g as scipy_g
 from scipy.constants import sigma as scipy_sigma
 
 from emgate.physics import convection, slots
-from emgate.physics import thermal as th
+from emgate.physics.thermal import winding_temperature_rise
+from emgate.physics.thermal_inputs import COOLING_METHODS, StatorThermalGeometry, ThermalParameters
 
 MM = 1e-3
 
@@ -121,7 +122,7 @@ def test_forced_coefficient_takes_laminar_floor() -> None:
 # --- the network -----------------------------------------------------------------------------
 
 
-def demo_geometry(**overrides: float) -> th.StatorThermalGeometry:
+def demo_geometry(**overrides: float) -> StatorThermalGeometry:
     """Demo stator of the design notes (invented data)."""
     dims = (2.8 * MM, 0.8 * MM, 1.5 * MM, 6.0 * MM, 8.6 * MM, 16 * MM)
     values: dict = {
@@ -138,12 +139,12 @@ def demo_geometry(**overrides: float) -> th.StatorThermalGeometry:
         "frame_length": 0.25,
     }
     values.update(overrides)
-    return th.StatorThermalGeometry(**values)
+    return StatorThermalGeometry(**values)
 
 
-@pytest.mark.parametrize("method", th.COOLING_METHODS)
+@pytest.mark.parametrize("method", COOLING_METHODS)
 def test_rise_is_the_sum_along_the_path(method: str) -> None:
-    est = th.winding_temperature_rise(400.0, demo_geometry(), method, other_losses=150.0)
+    est = winding_temperature_rise(400.0, demo_geometry(), method, other_losses=150.0)
     # [calc] series chain: rise = sum of R_i P_i; the heat after the injection node is P + 150.
     path = sum(s.resistance * s.heat for s in est.steps)
     assert est.winding_rise == pytest.approx(path, rel=1e-12)  # float summation only
@@ -158,7 +159,7 @@ def test_natural_surface_against_ht_and_fluids() -> None:
     """At the solved frame temperature, ht's Churchill-Chu with fluids' air properties plus
     grey-body radiation (scipy's sigma) reproduce the surface resistance."""
     geom = demo_geometry()
-    est = th.winding_temperature_rise(150.0, geom, "enclosed_natural", other_losses=50.0)
+    est = winding_temperature_rise(150.0, geom, "enclosed_natural", other_losses=50.0)
     surface = est.steps[-1]
     assert surface.name == "frame surface"
     t_c = 313.15
@@ -180,8 +181,8 @@ def test_natural_surface_against_ht_and_fluids() -> None:
 
 
 def test_fan_surface_against_ht() -> None:
-    par = th.ThermalParameters(fin_area_factor=3.0, fin_efficiency=0.8, air_velocity=8.0)
-    est = th.winding_temperature_rise(400.0, demo_geometry(), "enclosed_fan", parameters=par)
+    par = ThermalParameters(fin_area_factor=3.0, fin_efficiency=0.8, air_velocity=8.0)
+    est = winding_temperature_rise(400.0, demo_geometry(), "enclosed_fan", parameters=par)
     surface = est.steps[-1]
     t_c = 313.15
     t_s = t_c + surface.rise
@@ -199,8 +200,8 @@ def test_fan_surface_against_ht() -> None:
 
 
 def test_jacket_and_conduction_closed_forms() -> None:
-    par = th.ThermalParameters(jacket_coefficient=3000.0, coolant_capacity_rate=200.0)
-    est = th.winding_temperature_rise(500.0, demo_geometry(), "liquid_jacket", parameters=par)
+    par = ThermalParameters(jacket_coefficient=3000.0, coolant_capacity_rate=200.0)
+    est = winding_temperature_rise(500.0, demo_geometry(), "liquid_jacket", parameters=par)
     r = est.resistances
     d_f = 0.210 + 12e-3
     # [calc] film 1/(h pi D L); yoke ln(r_o/r_b)/(2 pi k kFe L); liner t/(k Q P L);
@@ -213,8 +214,8 @@ def test_jacket_and_conduction_closed_forms() -> None:
     assert r["slot liner"] == pytest.approx(liner, rel=1e-12)
     assert r["coolant"] == pytest.approx(1 / 400.0, rel=1e-12)
     # Doubling h halves the film resistance [calc].
-    par2 = th.ThermalParameters(jacket_coefficient=6000.0, coolant_capacity_rate=200.0)
-    est2 = th.winding_temperature_rise(500.0, demo_geometry(), "liquid_jacket", parameters=par2)
+    par2 = ThermalParameters(jacket_coefficient=6000.0, coolant_capacity_rate=200.0)
+    est2 = winding_temperature_rise(500.0, demo_geometry(), "liquid_jacket", parameters=par2)
     assert est2.resistances["frame surface"] == pytest.approx(r["frame surface"] / 2, rel=1e-12)
 
 
@@ -222,7 +223,7 @@ def test_bundle_resistance_against_finite_differences() -> None:
     """Mean rise of a slab with uniform heat, cooled on both faces, by finite differences."""
     geom = demo_geometry()
     power = 400.0
-    est = th.winding_temperature_rise(power, geom, "liquid_jacket")
+    est = winding_temperature_rise(power, geom, "liquid_jacket")
     width = geom.winding_area / geom.winding_height
     k = 0.6
     volume = geom.winding_area * geom.stack_length * geom.slots
@@ -245,24 +246,24 @@ def test_bundle_resistance_against_finite_differences() -> None:
 def test_cooling_ranking_and_monotonicity() -> None:
     geom = demo_geometry()
     rises = {
-        m: th.winding_temperature_rise(300.0, geom, m, other_losses=100.0).winding_rise
-        for m in th.COOLING_METHODS
+        m: winding_temperature_rise(300.0, geom, m, other_losses=100.0).winding_rise
+        for m in COOLING_METHODS
     }
     # Physical ordering of the default methods [cp]: liquid beats forced air beats still air.
     assert rises["liquid_jacket"] < rises["enclosed_fan"] < rises["enclosed_natural"]
     # More loss, more rise; the free-convection surface is nonlinear, so not proportional.
-    low = th.winding_temperature_rise(100.0, geom, "enclosed_natural").winding_rise
-    high = th.winding_temperature_rise(200.0, geom, "enclosed_natural").winding_rise
+    low = winding_temperature_rise(100.0, geom, "enclosed_natural").winding_rise
+    high = winding_temperature_rise(200.0, geom, "enclosed_natural").winding_rise
     assert low < high < 2.0 * low  # h grows with dT (Ra^(1/4) to ^(1/3), radiation ~T^3)
 
 
 def test_zero_loss_and_validation() -> None:
-    est = th.winding_temperature_rise(0.0, demo_geometry(), "enclosed_natural")
+    est = winding_temperature_rise(0.0, demo_geometry(), "enclosed_natural")
     assert est.winding_rise == 0.0
     with pytest.raises(ValueError):
-        th.winding_temperature_rise(100.0, demo_geometry(), "immersion")  # type: ignore[arg-type]
+        winding_temperature_rise(100.0, demo_geometry(), "immersion")  # type: ignore[arg-type]
     with pytest.raises(ValueError):
-        th.winding_temperature_rise(-1.0, demo_geometry(), "enclosed_fan")
+        winding_temperature_rise(-1.0, demo_geometry(), "enclosed_fan")
 
 
 def test_radiation_coefficient_linearisation() -> None:

@@ -9,16 +9,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from emgate.physics.winding import (
-    WindingError,
-    balance,
-    feasibility,
-    parallel_path_counts,
-    series_turns_per_phase,
-    star_of_slots,
-    winding_factor_closed_form,
-    winding_factors,
-)
+from emgate.physics.star_of_slots import parallel_path_counts, star_of_slots
+from emgate.physics.winding import WindingError, balance, feasibility, series_turns_per_phase
+from emgate.physics.winding_factors import winding_factor_closed_form, winding_factors
 
 # The tabulated winding factors are quoted to 4 decimals: half a unit in the last place.
 TABLE_TOL = 5e-5

@@ -141,7 +141,7 @@ def tolerance_findings(design: AnyDesign, context: Context, **how: Any) -> Itera
 def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool) -> float:
     """Increase of the IEC 60034-1 rise limit [K] for machines below 600 W and totally
     enclosed fanless ones (5 K; from memory)."""
-    from emgate.physics.thermal import rise_limit_allowance as allowance
+    from emgate.physics.insulation import rise_limit_allowance as allowance
 
     return allowance(rated_output, totally_enclosed_fanless=totally_enclosed_fanless)
 

@@ -123,12 +123,9 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     """What the kernel cannot build: asked of the kernel itself, so that the record, not a
     rule, is reported (exit 2, at the field)."""
     from emgate.calc import conductor_strand_area, slot_winding_area
-    from emgate.physics.magnetic import remanence_at
-    from emgate.physics.winding import (
-        parallel_path_counts,
-        series_turns_per_phase,
-        star_of_slots,
-    )
+    from emgate.physics.magnetic_surface_pm import remanence_at
+    from emgate.physics.star_of_slots import parallel_path_counts, star_of_slots
+    from emgate.physics.winding import series_turns_per_phase
 
     out: list[tuple[RecordPath, str]] = []
     w, st = d.winding, d.stator

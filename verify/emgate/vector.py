@@ -77,7 +77,7 @@ def evaluate(
 ) -> dict[str, np.ndarray]:
     """Sheet quantities [SI] of N variants (arrays of equal length; turns whole numbers)."""
     from emgate.calc import Calculation, conductors, magnetic, winding
-    from emgate.physics.conductors import phase_current
+    from emgate.physics.currents import phase_current
     from emgate.physics.iron import (
         apparent_tooth_flux_density,
         slot_flux_sharing_factor,

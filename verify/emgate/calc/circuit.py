@@ -18,7 +18,7 @@ if TYPE_CHECKING:
     import numpy as np
 
     from emgate.model import SalientRotor, SurfacePMRotor
-    from emgate.physics.magnetic import SurfacePMResult
+    from emgate.physics.magnetic_surface_pm import SurfacePMResult
     from emgate.physics.mmf import HarmonicRatios, WindingFamily
 
 #: Rated power factor when the record gives none: synchronous generators are usually rated
@@ -120,8 +120,8 @@ def _table_layers(table: list[str], phases: int) -> tuple[np.ndarray, np.ndarray
 def slot_factors(c: Calculation) -> tuple[float, float]:
     """(k1, k2) of the slot leakage from the layers' currents: distributed double layers
     stacked, tooth coils side by side, single layers one phase a slot."""
-    from emgate.physics.inductance import slot_leakage_factors
-    from emgate.physics.winding import star_of_slots_layers
+    from emgate.physics.slot_leakage import slot_leakage_factors
+    from emgate.physics.star_of_slots import star_of_slots_layers
 
     w, d = c.d.winding, c.d
     if w.layers == 1 or family(c) != "distributed":
@@ -139,7 +139,7 @@ def slot_factors(c: Calculation) -> tuple[float, float]:
 
 @quantity("stator.slot_permeance")
 def slot_permeance(c: Calculation) -> float:
-    from emgate.physics import inductance as ik
+    from emgate.physics import slot_leakage as ik
     from emgate.physics.slots import semi_closed_winding_height
 
     k1, k2 = slot_factors(c)
@@ -165,7 +165,7 @@ def slot_permeance(c: Calculation) -> float:
 
 @quantity("winding.slot_leakage_inductance")
 def slot_leakage_inductance(c: Calculation) -> float:
-    from emgate.physics.inductance import slot_leakage_inductance as lu
+    from emgate.physics.slot_leakage import slot_leakage_inductance as lu
 
     d = c.d
     return float(
@@ -186,7 +186,7 @@ def _coil_groups(c: Calculation) -> tuple[int, float]:
     w = c.d.winding
     row = winding.layout(c)[0]
     if w.layers == 2 and w.layout is None and family(c) == "distributed":
-        from emgate.physics.winding import star_of_slots_layers
+        from emgate.physics.star_of_slots import star_of_slots_layers
 
         top, _ = star_of_slots_layers(
             c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers, w.coil_pitch
@@ -237,7 +237,7 @@ def synchronous_inductance(c: Calculation) -> float:
 
 
 def _emf_of(c: Calculation, circuit: SurfacePMResult, frequency: float) -> float:
-    from emgate.physics.winding import phase_emf
+    from emgate.physics.winding_factors import phase_emf
 
     d = c.d
     return phase_emf(
@@ -251,7 +251,7 @@ def _emf_of(c: Calculation, circuit: SurfacePMResult, frequency: float) -> float
 
 
 def _short_circuit(c: Calculation, emf: float) -> float:
-    from emgate.physics.inductance import short_circuit_current
+    from emgate.physics.performance import short_circuit_current
 
     return float(short_circuit_current(emf, c.d.rating.frequency, synchronous_inductance(c)))
 
@@ -263,7 +263,7 @@ def short_circuit_current(c: Calculation) -> float:
 
 @quantity("winding.torque_constant")
 def torque_constant(c: Calculation) -> float:
-    from emgate.physics.inductance import torque_constant as kt
+    from emgate.physics.performance import torque_constant as kt
 
     d = c.d
     return float(kt(d.winding.phases, magnetic.back_emf(c), d.rating.frequency, d.pole_pairs))
@@ -301,7 +301,7 @@ def fault_current_peak(c: Calculation) -> float:
 def magnet_field_at_fault(c: Calculation, *, cold: bool, factor: float = 1.0) -> float:
     """Magnet field strength with ``factor`` times the worst credible current wholly on the
     d-axis [A/m] (hot: operating temperature; cold: lowest ambient)."""
-    from emgate.physics.magnetic import magnet_field_under_current
+    from emgate.physics.magnetic_surface_pm import magnet_field_under_current
 
     h0 = circuit_lowest_ambient(c).magnet_h if cold else rotor.magnet_h(c)
     rated_peak = math.sqrt(2.0) * winding.phase_current(c)
@@ -361,7 +361,7 @@ def stator_yoke_b_cold(c: Calculation) -> float:
 
 @quantity("winding.magnetising_current")
 def magnetising_current(c: Calculation) -> float:
-    from emgate.physics.inductance import magnetising_current as im
+    from emgate.physics.performance import magnetising_current as im
 
     d = c.d
     return float(
@@ -389,8 +389,8 @@ def _motor(d: Any) -> bool:
 @quantity("rating.power_factor_estimate", when=_motor)
 def power_factor_estimate(c: Calculation) -> float:
     from emgate.calc import losses
-    from emgate.physics.inductance import power_factor_estimate as estimate
-    from emgate.physics.magnetic import InductionResult
+    from emgate.physics.magnetic_induction import InductionResult
+    from emgate.physics.performance import power_factor_estimate as estimate
 
     d = c.d
     voltage = winding.phase_voltage(c)
@@ -441,12 +441,9 @@ def field_current_rated_load(c: Calculation) -> float:
     leakage reactance), and the armature's d-axis MMF referred to the field."""
     import numpy as np
 
-    from emgate.physics.inductance import (
-        armature_reaction_on_field,
-        excitation_emf,
-        salient_pole_axis_factors,
-    )
+    from emgate.physics.inductance import salient_pole_axis_factors
     from emgate.physics.iron import solve_increasing
+    from emgate.physics.performance import armature_reaction_on_field, excitation_emf
 
     d = c.d
     motor = d.rating.operation == "motor"
@@ -503,7 +500,7 @@ def field_current_density_rated_load(c: Calculation) -> float:
 
 @quantity("rotor.field_copper_loss_rated_load")
 def field_copper_loss_rated_load(c: Calculation) -> float:
-    from emgate.physics import conductors as ck
+    from emgate.physics import resistance as ck
 
     d = c.d
     f = _salient(c).field
@@ -525,7 +522,7 @@ def field_copper_loss_rated_load(c: Calculation) -> float:
 
 @quantity("rating.torque")
 def torque(c: Calculation) -> float:
-    from emgate.physics.inductance import shaft_torque
+    from emgate.physics.performance import shaft_torque
 
     r = c.d.rating
     power = r.power * (power_factor(c) if r.operation == "generator" else 1.0)
@@ -534,7 +531,7 @@ def torque(c: Calculation) -> float:
 
 @quantity("rotor.shear_stress")
 def shear_stress(c: Calculation) -> float:
-    from emgate.physics.inductance import shear_stress as sigma
+    from emgate.physics.performance import shear_stress as sigma
 
     return float(sigma(torque(c), geo.rotor_outer_diameter(c.d), c.d.stator.stack_length))
 

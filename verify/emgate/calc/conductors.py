@@ -40,9 +40,9 @@ def stator_current_density(c: Calculation) -> float:
 
 @memo
 def conductor_material(c: Calculation) -> ConductorMaterial:
-    from emgate.physics import conductors as ck
+    from emgate.physics.resistance import ALUMINIUM, COPPER
 
-    return ck.COPPER if c.d.winding.conductor.material == "copper" else ck.ALUMINIUM
+    return COPPER if c.d.winding.conductor.material == "copper" else ALUMINIUM
 
 
 @memo
@@ -54,14 +54,14 @@ def liner(c: Calculation) -> float:
 @memo
 def slot_perimeter(c: Calculation) -> float:
     """Perimeter of the slot's winding zone, along which the liner lies [m]."""
-    from emgate.physics import conductors as ck
+    from emgate.physics.slots import open_slot_perimeter, semi_closed_slot_perimeter
 
     sl = c.d.stator.slot
     if sl.shape == "semi_closed":
-        return ck.semi_closed_slot_perimeter(
+        return semi_closed_slot_perimeter(
             sl.opening_height, sl.wedge_height, sl.top_width, sl.bottom_width, sl.height
         )
-    return ck.open_slot_perimeter(sl.width, sl.height, sl.wedge_height)
+    return open_slot_perimeter(sl.width, sl.height, sl.wedge_height)
 
 
 def _slot_area(c: Calculation, liner: float) -> float:
@@ -188,7 +188,11 @@ def thermal_load(c: Calculation) -> float:
 
 @quantity("winding.mean_turn_length")
 def mean_turn_length(c: Calculation) -> float:
-    from emgate.physics import conductors as ck
+    from emgate.physics.resistance import (
+        coil_span_width,
+        mean_turn_length,
+        tooth_coil_mean_turn_length,
+    )
 
     d = c.d
     if d.winding.coil_pitch == 1:
@@ -197,23 +201,23 @@ def mean_turn_length(c: Calculation) -> float:
         # Tooth and slot widths vary linearly with depth: their means sit at mid-zone.
         mid = d.stator.bore_diameter / 2.0 + (top + bottom) / 2.0
         tooth = geo.stator_slot_pitch_at(d, mid) - slot_width
-        return ck.tooth_coil_mean_turn_length(
+        return tooth_coil_mean_turn_length(
             d.stator.stack_length, tooth, slot_width / d.winding.layers
         )
-    span = ck.coil_span_width(
+    span = coil_span_width(
         d.stator.bore_diameter, d.stator.slot.height, d.stator.slots, d.winding.coil_pitch
     )
-    return ck.mean_turn_length(
+    return mean_turn_length(
         d.stator.stack_length, span, high_voltage=d.rating.line_voltage > 1000.0
     )
 
 
 def _phase_resistance(c: Calculation, temperature: float) -> float:
-    from emgate.physics import conductors as ck
+    from emgate.physics.resistance import phase_resistance, resistivity
 
     w = c.d.winding
-    return ck.phase_resistance(
-        ck.resistivity(conductor_material(c), temperature),
+    return phase_resistance(
+        resistivity(conductor_material(c), temperature),
         winding.series_turns(c),
         mean_turn_length(c),
         w.parallel_paths,
@@ -248,10 +252,10 @@ def copper_loss(c: Calculation) -> float:
 
 def slot_winding_area(slot: SemiClosedSlot | OpenSlot, liner: float = 0.0) -> float:
     """Winding-zone area of a slot, gross or net of a liner [m^2]."""
-    from emgate.physics import conductors as ck
+    from emgate.physics.slots import open_slot_area, semi_closed_slot_area
 
     if slot.shape == "semi_closed":
-        return ck.semi_closed_slot_area(
+        return semi_closed_slot_area(
             slot.opening,
             slot.opening_height,
             slot.wedge_height,
@@ -260,14 +264,14 @@ def slot_winding_area(slot: SemiClosedSlot | OpenSlot, liner: float = 0.0) -> fl
             slot.height,
             liner=liner,
         )
-    return ck.open_slot_area(slot.width, slot.height, slot.wedge_height, liner=liner)
+    return open_slot_area(slot.width, slot.height, slot.wedge_height, liner=liner)
 
 
 def conductor_strand_area(conductor: RoundConductor | RectangularConductor) -> float:
     """Bare section of one strand of a conductor, stator winding or field coil [m^2]."""
-    from emgate.physics import conductors as ck
+    from emgate.physics.strands import rectangular_strand_area, round_strand_area
 
     c = conductor
     if c.shape == "round":
-        return ck.round_strand_area(c.bare_diameter)
-    return ck.rectangular_strand_area(c.width, c.height, c.corner_radius)
+        return round_strand_area(c.bare_diameter)
+    return rectangular_strand_area(c.width, c.height, c.corner_radius)

@@ -38,7 +38,7 @@ FALLBACK_GRADE = "M800-65A"
 def _iron_model(c: Calculation) -> tuple[tuple[LossCurve, ...] | None, LossSplit | None, str]:
     """The stator steel's loss table, or its designation split, and a note of which."""
     from emgate import steels
-    from emgate.physics import iron_loss as il
+    from emgate.physics.iron_loss import designation_split, parse_designation
 
     name = c.d.stator.steel
     table = c.catalogue.loss_table(name)
@@ -46,20 +46,20 @@ def _iron_model(c: Calculation) -> tuple[tuple[LossCurve, ...] | None, LossSplit
         return table[0], None, f"loss table of {name} ({table[1]})"
     data = steels.loss_data(name)
     if data is not None:
-        split = il.designation_split(
+        split = designation_split(
             data.specific_loss, data.thickness, data.resistivity, data.density
         )
         return None, split, f"designation of {name}"
-    parsed = il.parse_designation(name)
+    parsed = parse_designation(name)
     density = magnetic.stator_steel(c).density or FALLBACK_DENSITY
     if parsed is not None:
-        split = il.designation_split(
+        split = designation_split(
             parsed.specific_loss, parsed.thickness, FALLBACK_RESISTIVITY, density
         )
         return None, split, f"designation read from the name {name}"
     fb = steels.loss_data(FALLBACK_GRADE)
     assert fb is not None
-    split = il.designation_split(fb.specific_loss, fb.thickness, fb.resistivity, fb.density)
+    split = designation_split(fb.specific_loss, fb.thickness, fb.resistivity, fb.density)
     return None, split, f"no loss data for {name}: {FALLBACK_GRADE} taken (the safe side)"
 
 
@@ -69,31 +69,31 @@ def iron_loss_source(c: Calculation) -> str:
 
 
 def _specific_loss(c: Calculation, flux_density: float) -> float:
-    from emgate.physics import iron_loss as il
+    from emgate.physics.iron_loss import specific_loss, table_specific_loss
 
     curves, split, _ = _iron_model(c)
     f = c.d.rating.frequency
     if curves is not None:
-        return il.table_specific_loss(curves, flux_density, f).loss
+        return table_specific_loss(curves, flux_density, f).loss
     assert split is not None
-    return float(il.specific_loss(split, flux_density, f))
+    return float(specific_loss(split, flux_density, f))
 
 
 @memo
 def _iron_mass(c: Calculation) -> tuple[float, float]:
-    from emgate.physics import conductors as ck
-    from emgate.physics import iron_loss as il
+    from emgate.physics.core_loss import stator_iron_mass
+    from emgate.physics.slots import open_full_area, semi_closed_full_area
 
     st = c.d.stator
     sl = st.slot
     if sl.shape == "semi_closed":
-        full = ck.semi_closed_full_area(
+        full = semi_closed_full_area(
             sl.opening, sl.opening_height, sl.wedge_height, sl.top_width, sl.bottom_width, sl.height
         )
     else:
-        full = ck.open_full_area(sl.width, sl.height)
+        full = open_full_area(sl.width, sl.height)
     density = magnetic.stator_steel(c).density or FALLBACK_DENSITY
-    m = il.stator_iron_mass(
+    m = stator_iron_mass(
         st.bore_diameter,
         st.outer_diameter,
         sl.height,
@@ -108,7 +108,7 @@ def _iron_mass(c: Calculation) -> tuple[float, float]:
 
 @quantity("losses.stator_iron_teeth")
 def stator_iron_teeth(c: Calculation) -> float:
-    from emgate.physics.iron_loss import BUILD_FACTORS, core_loss
+    from emgate.physics.core_loss import BUILD_FACTORS, core_loss
 
     p = _specific_loss(c, magnetic.stator_tooth_b(c))
     return float(core_loss(p, _iron_mass(c)[0], BUILD_FACTORS[c.d.machine][0]))
@@ -116,7 +116,7 @@ def stator_iron_teeth(c: Calculation) -> float:
 
 @quantity("losses.stator_iron_yoke")
 def stator_iron_yoke(c: Calculation) -> float:
-    from emgate.physics.iron_loss import BUILD_FACTORS, core_loss
+    from emgate.physics.core_loss import BUILD_FACTORS, core_loss
 
     p = _specific_loss(c, magnetic.stator_yoke_b(c))
     return float(core_loss(p, _iron_mass(c)[1], BUILD_FACTORS[c.d.machine][1]))
@@ -155,16 +155,21 @@ def _field_resistance(c: Calculation) -> float:
     """Field winding resistance at the class reference temperature [ohm]: all poles in
     series, each coil's mean turn hugging the pole body with its side half the gap between
     neighbouring bodies at mid-height (common practice, no source)."""
-    from emgate.physics import conductors as ck
+    from emgate.physics.resistance import (
+        ALUMINIUM,
+        COPPER,
+        resistivity,
+        tooth_coil_mean_turn_length,
+    )
 
     d = c.d
     rotor = geo.salient_rotor(d)
     pole, field = rotor.pole, rotor.field
     d_mid = geo.rotor_outer_diameter(d) - 2.0 * pole.shoe_height - pole.body_height
     side = max(0.5 * (math.pi * d_mid / d.poles - pole.body_width), 1e-4)
-    turn = ck.tooth_coil_mean_turn_length(d.stator.stack_length, pole.body_width, side)
-    material = ck.COPPER if field.conductor.material == "copper" else ck.ALUMINIUM
-    rho = ck.resistivity(material, conductors.class_reference_temperature(c))
+    turn = tooth_coil_mean_turn_length(d.stator.stack_length, pole.body_width, side)
+    material = COPPER if field.conductor.material == "copper" else ALUMINIUM
+    rho = resistivity(material, conductors.class_reference_temperature(c))
     area = field.conductor.strands * conductor_strand_area(field.conductor)
     return rho * d.poles * field.turns_per_pole * turn / area
 

@@ -11,7 +11,8 @@ from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
     from emgate.physics.bh import BHCurve
-    from emgate.physics.magnetic import GapResult, PolePath, SurfacePMResult
+    from emgate.physics.magnetic import GapResult, PolePath
+    from emgate.physics.magnetic_surface_pm import SurfacePMResult
 
 #: Flux of a salient pole's body over its gap flux, for the pole-to-pole leakage
 #: (1.1 to 1.25 is usual; common practice, no source).
@@ -106,11 +107,11 @@ def pole_path(c: Calculation) -> PolePath:
 @memo
 def magnetic(c: Calculation) -> GapResult:
     """The machine's magnetic circuit at its rated (no-load for PM and field) point."""
-    from emgate.physics import magnetic as mk
+    from emgate.physics.magnetic_induction import induction_gap
 
     d = c.d
     if d.machine == "induction":
-        return mk.induction_gap(
+        return induction_gap(
             pole_path(c),
             stator_steel(c),
             rotor_steel(c),
@@ -126,7 +127,8 @@ def magnetic(c: Calculation) -> GapResult:
 
 def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
     """The salient-pole circuit at no load with the field ampere-turns per pole ``field_mmf``."""
-    from emgate.physics import magnetic as mk
+    from emgate.physics.magnetic import SalientPole
+    from emgate.physics.magnetic_salient_field import salient_field_gap
 
     d = c.d
     assert d.machine == "salient_field"
@@ -134,13 +136,13 @@ def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
     # The kernel's pole height runs from the gap to the rim, shoe included; the record's
     # body_height stops at the shoe. The body's flux density is carried over the shoe
     # too, which overrates the shoe's ampere-turns (safe side).
-    salient = mk.SalientPole(
+    salient = SalientPole(
         geo.pole_shoe_width(d),
         pole.body_width,
         pole.body_height + pole.shoe_height,
         leakage_factor=POLE_LEAKAGE,
     )
-    return mk.salient_field_gap(
+    return salient_field_gap(
         pole_path(c),
         salient,
         stator_steel(c),
@@ -151,17 +153,18 @@ def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
 
 def _surface_pm_circuit(c: Calculation, temperature: float) -> SurfacePMResult:
     """The surface-magnet circuit at no load with the magnet at ``temperature`` [K]."""
-    from emgate.physics import magnetic as mk
+    from emgate.physics.magnetic import SurfaceMagnet
+    from emgate.physics.magnetic_surface_pm import remanence_at, surface_pm_gap
 
     m = geo.magnet_rotor(c.d).magnet
-    br = mk.remanence_at(
+    br = remanence_at(
         m.material.remanence,
         temperature,
         m.material.remanence_temperature_coefficient,
         m.material.reference_temperature,
     )
-    magnet = mk.SurfaceMagnet(br, m.material.recoil_permeability, m.thickness, m.pole_arc)
-    return mk.surface_pm_gap(pole_path(c), magnet, stator_steel(c), rotor_steel(c))
+    magnet = SurfaceMagnet(br, m.material.recoil_permeability, m.thickness, m.pole_arc)
+    return surface_pm_gap(pole_path(c), magnet, stator_steel(c), rotor_steel(c))
 
 
 @memo
@@ -199,7 +202,7 @@ def total_mmf(c: Calculation) -> float:
 
 @quantity("winding.back_emf")
 def back_emf(c: Calculation) -> float:
-    from emgate.physics.winding import phase_emf
+    from emgate.physics.winding_factors import phase_emf
 
     d = c.d
     return phase_emf(

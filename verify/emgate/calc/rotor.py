@@ -10,16 +10,17 @@ from emgate.calc.core import Calculation, memo, quantity
 
 @memo
 def bar_area(c: Calculation) -> float:
-    from emgate.physics import conductors as ck
+    from emgate.physics.slots import open_full_area, semi_closed_full_area
+    from emgate.physics.strands import rectangular_strand_area
 
     cage = geo.cage_rotor(c.d).cage
     if cage.bar is not None:
-        return ck.rectangular_strand_area(cage.bar.width, cage.bar.height)
+        return rectangular_strand_area(cage.bar.width, cage.bar.height)
     from emgate.model import SemiClosedSlot
 
     sl = geo.cage_rotor(c.d).slot
     if isinstance(sl, SemiClosedSlot):
-        return ck.semi_closed_full_area(
+        return semi_closed_full_area(
             sl.opening,
             sl.opening_height,
             sl.wedge_height,
@@ -27,7 +28,7 @@ def bar_area(c: Calculation) -> float:
             sl.bottom_width,
             sl.height,
         )
-    return ck.open_full_area(sl.width, sl.height)
+    return open_full_area(sl.width, sl.height)
 
 
 @quantity("rotor.bar_current")
@@ -52,7 +53,8 @@ def bar_current_density(c: Calculation) -> float:
 
 @quantity("rotor.ring_current_density")
 def ring_current_density(c: Calculation) -> float:
-    from emgate.physics.conductors import current_density, end_ring_current
+    from emgate.physics.currents import current_density
+    from emgate.physics.rotor_conductors import end_ring_current
 
     rotor = geo.cage_rotor(c.d)
     ring = rotor.cage.end_ring
@@ -93,7 +95,7 @@ def magnet_h_with_current(c: Calculation, current_factor: float, *, cold: bool =
     of the magnet at the coolant temperature (``cooling.ambient``); the armature term is
     the same.
     """
-    from emgate.physics.magnetic import magnet_field_under_current
+    from emgate.physics.magnetic_surface_pm import magnet_field_under_current
 
     h0 = magnet_h_cold(c) if cold else magnet_h(c)
     return magnet_field_under_current(
@@ -118,7 +120,7 @@ def magnet_coercivity_at(c: Calculation, temperature: float) -> float:
     """Intrinsic coercivity of the magnet at ``temperature`` [K], H_cJ0 (1 + beta (T -
     T0)) [A/m]: the same linear reversible law as the remanence's, with H_cJ's own
     coefficient."""
-    from emgate.physics.magnetic import remanence_at
+    from emgate.physics.magnetic_surface_pm import remanence_at
 
     mat = geo.magnet_rotor(c.d).magnet.material
     return remanence_at(

@@ -11,7 +11,9 @@ from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
     from emgate.model import AnyDesign
-    from emgate.physics.thermal import HeatSources, OperatingPoint, ThermalEstimate
+    from emgate.physics.thermal import ThermalEstimate
+    from emgate.physics.thermal_inputs import HeatSources
+    from emgate.physics.winding_temperature import OperatingPoint
 
 #: Cooled frame length over the stack length when the record gives no cooling.frame_length:
 #: the frame with its end shields (the record's documented default; common practice, no
@@ -40,7 +42,7 @@ def thermal_estimate(c: Calculation) -> ThermalEstimate:
 
 @memo
 def _network(c: Calculation):  # type: ignore[no-untyped-def]
-    from emgate.physics import thermal as tk
+    from emgate.physics.thermal_inputs import RotorGap, StatorThermalGeometry, ThermalParameters
 
     d = c.d
     cooling = d.cooling
@@ -48,7 +50,7 @@ def _network(c: Calculation):  # type: ignore[no-untyped-def]
     if frame is None:
         frame = FRAME_PER_STACK * d.stator.stack_length
     top, bottom, _, _ = geo.winding_zone(d.stator.slot)
-    geometry = tk.StatorThermalGeometry(
+    geometry = StatorThermalGeometry(
         bore_diameter=d.stator.bore_diameter,
         outer_diameter=d.stator.outer_diameter,
         stack_length=d.stator.stack_length,
@@ -61,10 +63,10 @@ def _network(c: Calculation):  # type: ignore[no-untyped-def]
         stacking_factor=d.stator.stacking_factor,
         frame_length=frame,
     )
-    params = tk.ThermalParameters(
+    params = ThermalParameters(
         fin_area_factor=cooling.fin_area_factor, core_area_factor=cooling.core_area_factor
     )
-    gap = tk.RotorGap(d.air_gap, geo.rotor_outer_diameter(d), d.rating.speed)
+    gap = RotorGap(d.air_gap, geo.rotor_outer_diameter(d), d.rating.speed)
     return geometry, params, gap
 
 
@@ -72,7 +74,7 @@ def _network(c: Calculation):  # type: ignore[no-untyped-def]
 def heat_sources(c: Calculation) -> HeatSources:
     """The losses by where they arise, copper at 20 degC (the fixed point rescales it)."""
     from emgate.physics.resistance import copper_loss
-    from emgate.physics.thermal import HeatSources
+    from emgate.physics.thermal_inputs import HeatSources
 
     slot_share = min(1.0, 2.0 * c.d.stator.stack_length / conductors.mean_turn_length(c))
     cu20 = copper_loss(
@@ -96,15 +98,16 @@ def heat_sources(c: Calculation) -> HeatSources:
 
 @memo
 def operating_point(c: Calculation) -> OperatingPoint:
-    """The fixed point T = T_c + rise(P_cu(T)) (``emgate.physics.thermal``)."""
-    from emgate.physics import thermal as tk
+    """The fixed point T = T_c + rise(P_cu(T)) (``emgate.physics.winding_temperature``)."""
+    from emgate.physics.thermal import machine_temperature_rise
+    from emgate.physics.winding_temperature import operating_temperature
 
     geometry, params, gap = _network(c)
     sources = heat_sources(c)
     d = c.d
 
     def estimate(copper: float) -> ThermalEstimate:
-        return tk.machine_temperature_rise(
+        return machine_temperature_rise(
             sources.with_copper(copper),
             geometry,
             d.cooling.method,
@@ -113,7 +116,7 @@ def operating_point(c: Calculation) -> OperatingPoint:
             rotor_gap=None if d.cooling.method == "open_ventilated" else gap,
         )
 
-    return tk.operating_temperature(
+    return operating_temperature(
         sources.copper, conductors.conductor_material(c).alpha20, estimate, d.cooling.ambient
     )
 

@@ -13,12 +13,12 @@ if TYPE_CHECKING:
 @memo
 def layout(c: Calculation) -> np.ndarray:
     """Signed coil sides per phase and slot, shape (m, Q)."""
-    from emgate.physics import winding as wk
+    from emgate.physics.star_of_slots import star_of_slots
 
     w = c.d.winding
     if w.layout is not None:
         return layout_from_table(w.layout, w.phases)
-    return wk.star_of_slots(c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers, w.coil_pitch)
+    return star_of_slots(c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers, w.coil_pitch)
 
 
 @quantity("winding.series_turns")
@@ -59,7 +59,7 @@ def slip(c: Calculation) -> float:
 def winding_factor(c: Calculation) -> float:
     import numpy as np
 
-    from emgate.physics.winding import winding_factors
+    from emgate.physics.winding_factors import winding_factors
 
     return float(winding_factors(layout(c)[0], np.array([c.d.pole_pairs]))[0])
 

@@ -115,7 +115,7 @@ def _side(sign: int, k: int) -> str:
 def winding(page: PageData, d: Any, calc: Any) -> None:
     import numpy as np
 
-    from emgate.physics import winding as wk
+    from emgate.physics import star_of_slots as wk
 
     w = d.winding
     layout = np.asarray(cw.layout(calc))

@@ -1,8 +1,13 @@
-"""Argument checks shared by the kernel modules."""
+"""Argument checks shared by the kernel modules, and the float-or-array convention."""
 
 from __future__ import annotations
 
 import math
+
+import numpy as np
+
+#: A float or an array of floats: the formulas sweep.
+Num = float | np.ndarray
 
 
 def check_positive(**values: float) -> None:
@@ -10,3 +15,32 @@ def check_positive(**values: float) -> None:
     for name, value in values.items():
         if not (math.isfinite(value) and value > 0.0):
             raise ValueError(f"{name} must be a finite positive number, got {value!r}")
+
+
+def check_all_positive(name: str, *values: object) -> None:
+    """Raise ValueError unless every value (float or array) is finite and > 0."""
+    for v in values:
+        a = np.asarray(v, dtype=float)
+        if not (np.all(np.isfinite(a)) and np.all(a > 0.0)):
+            raise ValueError(f"{name} must be finite and > 0, got {v!r}")
+
+
+def check_all_non_negative(name: str, *values: object) -> None:
+    """Raise ValueError unless every value (float or array) is finite and >= 0."""
+    for v in values:
+        a = np.asarray(v, dtype=float)
+        if not (np.all(np.isfinite(a)) and np.all(a >= 0.0)):
+            raise ValueError(f"{name} must be finite and >= 0, got {v!r}")
+
+
+def check_positive_fields(obj: object, *names: str) -> None:
+    """Raise ValueError naming the first of ``obj``'s fields that is not finite and > 0."""
+    for name in names:
+        value = getattr(obj, name)
+        if not (math.isfinite(value) and value > 0.0):
+            raise ValueError(f"{type(obj).__name__}.{name} must be finite and > 0, got {value}")
+
+
+def float_or_array(value: Num) -> Num:
+    """A Python float for scalar inputs (numpy scalars compare to numpy bools), else the array."""
+    return float(value) if np.ndim(value) == 0 else value

@@ -1,8 +1,9 @@
 """Air properties and heat-transfer coefficients at the surfaces of a machine.
 
 Dry air at a temperature and pressure, the Nusselt correlations of a horizontal cylinder in
-still air and of a flat plate in a flow, and the linearised radiation coefficient: the film
-coefficients the lumped winding-rise estimate (:mod:`emgate.physics.thermal`) needs.
+still air and of a flat plate in a flow, the linearised radiation coefficient and the
+Nusselt number of the gap between a rotating and a still cylinder: the film coefficients the
+lumped winding-rise estimate (:mod:`emgate.physics.thermal`) needs.
 """
 
 from __future__ import annotations
@@ -275,3 +276,34 @@ def radiation_coefficient(
     """
     ts, tsur = surface_temperature, surroundings_temperature
     return emissivity * STEFAN_BOLTZMANN * (ts**2 + tsur**2) * (ts + tsur)
+
+
+def gap_nusselt(taylor: float) -> float:
+    """Nusselt number of the air gap between a rotating cylinder and a still one.
+
+    Parameters
+    ----------
+    taylor : float
+        Modified Taylor number ``Ta_m = Omega^2 r_m g^3 / nu^2`` (geometric factor taken as
+        1, a narrow gap) [-].
+
+    Returns
+    -------
+    float
+        ``Nu = h 2 g / k``: 2 (conduction) below 1700; ``0.128 Ta_m^0.367`` up to 1e4;
+        ``0.409 Ta_m^0.241`` up to 1e7 (and beyond, as an extrapolation) [-]. The two
+        correlations meet the conduction value near Ta_m = 1700 and each other near 1e4.
+
+    References
+    ----------
+    Becker, K. M. and Kaye, J., "Measurements of diabatic flow in an annulus with an inner
+    rotating cylinder", J. Heat Transfer 84 (1962) 97-105 [from memory, as quoted in
+    Boglietti et al., IEEE Trans. Ind. Electron. 56(3), 2009].
+    """
+    if taylor < 0.0:
+        raise ValueError("Taylor number must be >= 0")
+    if taylor < 1700.0:
+        return 2.0
+    if taylor < 1e4:
+        return max(2.0, 0.128 * taylor**0.367)
+    return 0.409 * taylor**0.241

@@ -117,3 +117,40 @@ def reference_temperature(letter: str) -> float:
     if cls.reference_temperature is None:
         raise ValueError(f"no reference temperature is on record for class {cls.letter}")
     return cls.reference_temperature
+
+
+# --- IEC 60034-1 adjustments of the rise limit -------------------------------------------------
+
+#: Extra rise allowed [K] for small and fanless machines (module function below).
+SMALL_OR_FANLESS_ALLOWANCE: float = 5.0
+#: Rated output below which a machine counts as small for that allowance [W].
+SMALL_MACHINE_OUTPUT: float = 600.0
+
+
+def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool) -> float:
+    """Increase of the winding rise limit [K] that IEC 60034-1 grants some machines.
+
+    Parameters
+    ----------
+    rated_output : float
+        [W].
+    totally_enclosed_fanless : bool
+        Self-cooled, totally enclosed without a fan (IC410).
+
+    Returns
+    -------
+    float
+        5 K for machines rated below 600 W and for totally enclosed fanless ones (limits by
+        resistance, e.g. class B 85 K, F 110 K, H 130 K instead of 80, 105, 125); 0
+        otherwise [K].
+
+    References
+    ----------
+    IEC 60034-1, limits of temperature rise of windings with indirect air cooling, the rows
+    for a.c. machines below 600 W and for totally enclosed fanless (IC410) machines [from
+    memory, verify against the standard].
+    """
+    if rated_output < 0.0:
+        raise ValueError("rated output must be >= 0")
+    small = rated_output < SMALL_MACHINE_OUTPUT
+    return SMALL_OR_FANLESS_ALLOWANCE if small or totally_enclosed_fanless else 0.0

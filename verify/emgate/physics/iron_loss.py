@@ -31,7 +31,8 @@ Limits of the scaling, all stated to the user:
   expelled from the sheet centre and the true eddy loss is LOWER than the formula
   (:func:`eddy_skin_factor`), so the scaling stays on the safe side but overstates;
 * harmonics, rotational flux in the tooth roots and punching damage are not in the sheet
-  figure: they are covered by the build factors (:data:`BUILD_FACTORS`).
+  figure: they are covered by the build factors
+  (:data:`emgate.physics.core_loss.BUILD_FACTORS`).
 
 A measured table (W/kg against B at one or more frequencies) wins over the scaling:
 :func:`table_specific_loss`.
@@ -53,17 +54,6 @@ DESIGNATION_B: float = 1.5
 DESIGNATION_F: float = 50.0
 #: Default excess share of the non-classical loss at 1.5 T, 50 Hz (see the module notes).
 EXCESS_SHARE: float = 0.15
-
-#: Build factors (measured core loss over the sheet figure times the mass) by machine kind,
-#: (teeth, yoke). Induction: 1.8 teeth, 1.5 yoke; synchronous (surface magnets, wound field):
-#: 2.0 teeth, 1.5 yoke [from memory: Pyrhonen, Jokinen, Hrabovcova, Design of Rotating
-#: Electrical Machines, table of correction coefficients for iron losses]. They cover
-#: punching and burrs, pressing, non-sinusoidal and rotating flux.
-BUILD_FACTORS: dict[str, tuple[float, float]] = {
-    "induction": (1.8, 1.5),
-    "surface_pm": (2.0, 1.5),
-    "salient_field": (2.0, 1.5),
-}
 
 _DESIGNATION = re.compile(r"^\s*M(\d{3,4})-(\d{2,3})([A-Z]{1,2})\s*$", re.IGNORECASE)
 
@@ -420,93 +410,3 @@ def table_specific_loss(
     e0, e1 = values[k][0] / f0, values[k + 1][0] / f1  # energy per cycle [J/kg]
     e = e0 + (e1 - e0) * (frequency - f0) / (f1 - f0)
     return TableLoss(e * frequency, extrapolated)
-
-
-# --- the core ------------------------------------------------------------------------------
-
-
-def core_loss(
-    specific_loss: float | np.ndarray, mass: float | np.ndarray, build_factor: float
-) -> float | np.ndarray:
-    """Loss of a core part: build factor times specific loss times mass [W].
-
-    Parameters
-    ----------
-    specific_loss : float or numpy.ndarray
-        [W/kg] at the part's working flux density and frequency.
-    mass : float or numpy.ndarray
-        [kg].
-    build_factor : float
-        [-] (:data:`BUILD_FACTORS`).
-
-    Returns
-    -------
-    float or numpy.ndarray
-        [W].
-
-    References
-    ----------
-    [from memory: Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical Machines,
-    iron loss of teeth and yoke with correction coefficients].
-    """
-    out = build_factor * np.asarray(specific_loss) * np.asarray(mass)
-    return float(out) if np.ndim(out) == 0 else out
-
-
-@dataclass(frozen=True)
-class StatorIronMass:
-    """Iron masses of a slotted stator [kg].
-
-    Parameters
-    ----------
-    teeth, yoke : float
-        [kg].
-    """
-
-    teeth: float
-    yoke: float
-
-
-def stator_iron_mass(
-    bore_diameter: float,
-    outer_diameter: float,
-    slot_depth: float,
-    slots: int,
-    slot_area: float,
-    stack_length: float,
-    stacking_factor: float,
-    density: float,
-) -> StatorIronMass:
-    """Masses of the stator teeth (bore to slot bottom, less the slots) and the yoke.
-
-    Parameters
-    ----------
-    bore_diameter, outer_diameter, slot_depth : float
-        [m].
-    slots : int
-        ``Q`` [-].
-    slot_area : float
-        Whole area of one slot, opening included [m^2].
-    stack_length : float
-        [m].
-    stacking_factor : float
-        [-].
-    density : float
-        [kg/m^3].
-
-    Returns
-    -------
-    StatorIronMass
-
-    References
-    ----------
-    Geometry [calc].
-    """
-    r_b, r_s, r_o = bore_diameter / 2.0, bore_diameter / 2.0 + slot_depth, outer_diameter / 2.0
-    if not r_o > r_s > r_b > 0.0:
-        raise ValueError("need 0 < bore < slot bottom < outer radius")
-    k = stacking_factor * stack_length * density
-    teeth = math.pi * (r_s**2 - r_b**2) - slots * slot_area
-    if not teeth > 0.0:
-        raise ValueError("the slots leave no tooth iron")
-    return StatorIronMass(teeth * k, math.pi * (r_o**2 - r_s**2) * k)

@@ -1,10 +1,10 @@
 """Losses other than iron, the energy balance and the efficiency.
 
-Iron loss is in :mod:`emgate.physics.iron_loss`; stator copper loss ``m I^2 R`` in
-:mod:`emgate.physics.conductors`. Here: rotor losses by machine kind (cage, field winding
-with brushes, surface-magnet eddy currents), the IEC 60034-2-1 assigned allowance for
-additional load losses, a friction-and-windage estimate, and the balance of a motor or a
-generator.
+Iron loss is in :mod:`emgate.physics.iron_loss` and :mod:`emgate.physics.core_loss`; stator
+copper loss ``m I^2 R`` in :mod:`emgate.physics.resistance`. Here: rotor losses by machine
+kind (cage, field winding with brushes, surface-magnet eddy currents), the IEC 60034-2-1
+assigned allowance for additional load losses, a friction-and-windage estimate, and the
+balance of a motor or a generator.
 """
 
 from __future__ import annotations

@@ -1,149 +1,41 @@
-"""Magnetic circuit of one pole: the gap flux density with the iron's share of the MMF.
+"""Magnetic circuit of one pole: the flux path, the iron's share of the MMF, the results.
 
 The iron is taken from its B-H curve, so the circuit is nonlinear and saturation shows.
 Per pole, the loop holds one gap, the stator teeth (and rotor teeth, if any), a salient pole
 body where there is one, and half of each yoke between two pole axes. Leakage between poles
 is a factor on the rotor-side flux; it does not load the gap or the stator.
 
-- Surface PM: the magnet's working point, solved with the iron in the loop.
-- Salient pole with field winding: the gap flux density from the field ampere-turns.
-- Induction: the flux from the voltage equation; the magnetising ampere-turns follow.
+Here the geometry of a pole, the state of its iron at a gap flux density
+(:func:`pole_state`) and the results; the circuit of each machine kind solves on them:
 
-A general series circuit (:class:`Segment`, :func:`series_mmf`, :func:`series_flux`) covers
-the textbook circuits of uniform sections. All quantities SI; MMF in amperes (ampere-turns).
+- Surface PM: the magnet's working point, solved with the iron in the loop
+  (:mod:`emgate.physics.magnetic_surface_pm`, with the magnet's temperature law).
+- Salient pole with field winding: the gap flux density from the field ampere-turns
+  (:mod:`emgate.physics.magnetic_salient_field`).
+- Induction: the flux from the voltage equation; the magnetising ampere-turns follow
+  (:mod:`emgate.physics.magnetic_induction`).
+
+The textbook circuits of uniform sections are :mod:`emgate.physics.series_circuit`. All
+quantities SI; MMF in amperes (ampere-turns).
 """
 
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
-from dataclasses import dataclass, fields, replace
+from dataclasses import dataclass, fields
 from typing import Any
 
-from emgate.physics.bh import BHCurve, h_from_b
+from emgate.physics._checks import check_positive_fields
+from emgate.physics.bh import BHCurve
 from emgate.physics.constants import MU0
 from emgate.physics.iron import (
     apparent_tooth_flux_density,
     real_tooth_flux_density,
     slot_flux_sharing_factor,
-    solve_increasing,
     tooth_magnetic_voltage,
     yoke_flux_density,
     yoke_magnetic_voltage,
 )
-
-#: Reference temperature of magnet data sheets [K] (20 degC).
-T_REF = 293.15
-#: Default share of the phase voltage taken by the stator resistance and leakage reactance
-#: of an induction machine at rated load; 2-5 % is usual (common practice, no source).
-DEFAULT_VOLTAGE_DROP = 0.03
-
-
-def _require_positive(obj: object, *names: str) -> None:
-    for name in names:
-        value = getattr(obj, name)
-        if not (math.isfinite(value) and value > 0.0):
-            raise ValueError(f"{type(obj).__name__}.{name} must be finite and > 0, got {value}")
-
-
-# ---------------------------------------------------------------- general series circuit
-
-
-@dataclass(frozen=True)
-class Segment:
-    """A uniform section of a series magnetic circuit.
-
-    Parameters
-    ----------
-    length : float
-        Path length [m].
-    area : float
-        Cross-section the flux passes [m^2].
-    curve : BHCurve or None
-        Steel of the section; None for a linear medium (air, or a magnet's recoil line).
-    relative_permeability : float
-        Relative permeability of a linear section [-]; ignored when ``curve`` is given.
-    """
-
-    length: float
-    area: float
-    curve: BHCurve | None = None
-    relative_permeability: float = 1.0
-
-    def __post_init__(self) -> None:
-        _require_positive(self, "length", "area", "relative_permeability")
-
-
-def segment_mmf(segment: Segment, flux: float) -> float:
-    """Magnetic voltage of one section carrying a flux: ``H(Phi / A) l``.
-
-    Parameters
-    ----------
-    segment : Segment
-    flux : float
-        Flux through the section [Wb].
-
-    Returns
-    -------
-    float
-        Magnetic voltage [A].
-
-    References
-    ----------
-    Fitzgerald, Kingsley, Umans, Electric Machinery, ch. 1 (magnetic circuits).
-    """
-    b = flux / segment.area
-    if segment.curve is None:
-        h = b / (MU0 * segment.relative_permeability)
-    else:
-        h = float(h_from_b(segment.curve, b))
-    return h * segment.length
-
-
-def series_mmf(segments: Sequence[Segment], flux: float) -> float:
-    """MMF needed to drive a flux through sections in series [A] (sum of their voltages).
-
-    References
-    ----------
-    Fitzgerald, Kingsley, Umans, Electric Machinery, ch. 1.
-    """
-    return sum(segment_mmf(s, flux) for s in segments)
-
-
-def series_flux(segments: Sequence[Segment], mmf: float) -> float:
-    """Flux that an MMF drives through sections in series, solved on the B-H curves.
-
-    Parameters
-    ----------
-    segments : sequence of Segment
-        At least one section.
-    mmf : float
-        Ampere-turns applied round the loop [A]; odd symmetry for negative values.
-
-    Returns
-    -------
-    float
-        Flux [Wb].
-
-    References
-    ----------
-    Fitzgerald, Kingsley, Umans, Electric Machinery, ch. 1.
-    """
-    if not segments:
-        raise ValueError("a magnetic circuit needs at least one segment")
-    target = abs(mmf)
-    if target == 0.0:
-        return 0.0
-    # Start from the flux the loop would carry if it were all air, and double until the
-    # MMF is reached; it always is, as H grows at least at 1/mu0 beyond a curve's table.
-    lo, hi = 0.0, target / sum(s.length / (MU0 * s.area) for s in segments)
-    for _ in range(2000):
-        if series_mmf(segments, hi) >= target:
-            break
-        lo, hi = hi, 2.0 * hi
-    flux = solve_increasing(lambda phi: series_mmf(segments, phi) - target, lo, hi)
-    return math.copysign(flux, mmf)
-
 
 # ---------------------------------------------------------------- geometry of a pole
 
@@ -171,7 +63,7 @@ class Teeth:
     height: float
 
     def __post_init__(self) -> None:
-        _require_positive(self, "slot_pitch", "width", "height")
+        check_positive_fields(self, "slot_pitch", "width", "height")
 
 
 @dataclass(frozen=True)
@@ -191,7 +83,7 @@ class Yoke:
     path_length: float
 
     def __post_init__(self) -> None:
-        _require_positive(self, "height", "path_length")
+        check_positive_fields(self, "height", "path_length")
 
 
 @dataclass(frozen=True)
@@ -213,7 +105,8 @@ class PolePath:
         Carter-corrected gap in series with the iron [m]: kc g for cage and salient-pole
         rotors. For surface magnets, the whole Carter-corrected magnetic gap kc g',
         g' = g + sleeve + l_m / mu_rec (:func:`emgate.physics.airgap.magnetic_gap`), the
-        magnet's own l_m / mu_rec included: :func:`surface_pm_gap` counts that share on the
+        magnet's own l_m / mu_rec included:
+        :func:`emgate.physics.magnetic_surface_pm.surface_pm_gap` counts that share on the
         magnet's recoil line and the rest, ``kc g' - l_m / mu_rec``, as the gap.
     stator_teeth : Teeth
     stator_yoke : Yoke
@@ -233,7 +126,7 @@ class PolePath:
     rotor_teeth: Teeth | None = None
 
     def __post_init__(self) -> None:
-        _require_positive(
+        check_positive_fields(
             self, "pole_pitch", "stack_length", "iron_length", "stacking_factor", "effective_gap"
         )
         if self.stacking_factor > 1.0:
@@ -247,7 +140,8 @@ class SurfaceMagnet:
     Parameters
     ----------
     remanence : float
-        Remanent flux density Br at the operating temperature [T] (see :func:`remanence_at`).
+        Remanent flux density Br at the operating temperature [T] (see
+        :func:`emgate.physics.magnetic_surface_pm.remanence_at`).
     recoil_permeability : float
         Relative recoil permeability mu_rec [-].
     thickness : float
@@ -265,7 +159,7 @@ class SurfaceMagnet:
     leakage_factor: float = 1.0
 
     def __post_init__(self) -> None:
-        _require_positive(self, "remanence", "recoil_permeability", "thickness", "arc_fraction")
+        check_positive_fields(self, "remanence", "recoil_permeability", "thickness", "arc_fraction")
         if self.arc_fraction > 1.0 or not self.leakage_factor >= 1.0:
             raise ValueError("SurfaceMagnet needs arc_fraction <= 1 and leakage_factor >= 1")
 
@@ -296,80 +190,9 @@ class SalientPole:
     leakage_factor: float = 1.0
 
     def __post_init__(self) -> None:
-        _require_positive(self, "shoe_width", "body_width", "body_height")
+        check_positive_fields(self, "shoe_width", "body_width", "body_height")
         if not self.leakage_factor >= 1.0:
             raise ValueError("SalientPole.leakage_factor must be >= 1")
-
-
-def remanence_at(
-    remanence_ref: float, temperature: float, alpha: float, reference_temperature: float = T_REF
-) -> float:
-    """Remanence at a magnet temperature: ``Br(T) = Br0 (1 + alpha (T - T0))``.
-
-    The same linear reversible law gives the intrinsic coercivity at a temperature,
-    ``H_cJ(T) = H_cJ0 (1 + beta (T - T0))``: pass ``H_cJ0`` [A/m] and ``beta``.
-
-    Parameters
-    ----------
-    remanence_ref : float
-        Remanence Br0 at the reference temperature [T].
-    temperature : float
-        Magnet temperature T [K].
-    alpha : float
-        Reversible temperature coefficient of Br [1/K] (negative for NdFeB and ferrite).
-    reference_temperature : float
-        T0 [K], 293.15 K (20 degC) by default.
-
-    Returns
-    -------
-    float
-        Br(T) [T].
-
-    References
-    ----------
-    Hendershot and Miller, Design of Brushless Permanent-Magnet Machines (temperature
-    coefficients of magnet materials).
-    """
-    return remanence_ref * (1.0 + alpha * (temperature - reference_temperature))
-
-
-def magnet_field_under_current(
-    no_load_field: float, mmf: float, recoil_permeability: float, magnetic_gap: float
-) -> float:
-    """Magnet field strength with a stator MMF on the d-axis against the magnet.
-
-    Superposes on the no-load working point H_0 (iron included) the armature term of the
-    linear loop of magnet and gap, ``H = H_0 - F / (mu_rec g_m)``, ``g_m`` the whole
-    Carter-corrected magnetic gap ``kc (g + sleeve + l_m / mu_rec)``: the MMF ``F`` drops
-    over ``l_m + mu_rec (g_m - l_m / mu_rec) = mu_rec g_m`` of magnet length. An
-    approximation on the worst side when ``F`` is the peak of the MMF: the iron's
-    reluctance and the magnet's leakage are neglected in the armature term.
-
-    Parameters
-    ----------
-    no_load_field : float
-        Magnet field strength H_0 at no load [A/m] (negative: demagnetising).
-    mmf : float
-        Stator MMF taken wholly on the d-axis, demagnetising, F >= 0 [A] (ampere-turns per
-        pole across one gap).
-    recoil_permeability : float
-        Relative recoil permeability mu_rec [-], > 0.
-    magnetic_gap : float
-        Carter-corrected magnetic gap g_m, magnet included [m], > 0.
-
-    Returns
-    -------
-    float
-        H [A/m] (negative: demagnetising).
-
-    References
-    ----------
-    Hendershot and Miller, Design of Brushless Permanent-Magnet Machines (demagnetisation
-    by the armature reaction of a surface magnet; from memory).
-    """
-    if not (recoil_permeability > 0.0 and magnetic_gap > 0.0):
-        raise ValueError("recoil permeability and magnetic gap must be > 0")
-    return no_load_field - mmf / (recoil_permeability * magnetic_gap)
 
 
 # ---------------------------------------------------------------- results
@@ -455,36 +278,6 @@ class GapResult:
         return (self.gap_mmf + self.iron.teeth_mmf) / self.gap_mmf
 
 
-@dataclass(frozen=True)
-class SurfacePMResult(GapResult):
-    """:class:`GapResult` with the magnet working point.
-
-    Attributes
-    ----------
-    magnet_b : float
-        Flux density in the magnet [T].
-    magnet_h : float
-        Field strength in the magnet [A/m], negative (demagnetising) in normal operation;
-        compare with the intrinsic coercivity at the magnet temperature.
-    """
-
-    magnet_b: float
-    magnet_h: float
-
-
-@dataclass(frozen=True)
-class InductionResult(GapResult):
-    """:class:`GapResult` with the induced voltage used.
-
-    Attributes
-    ----------
-    emf : float
-        Induced phase voltage E (rms) that sets the flux [V].
-    """
-
-    emf: float
-
-
 # ---------------------------------------------------------------- the pole's iron
 
 
@@ -503,7 +296,7 @@ def _teeth_state(
     return b_app, b_real, tooth_magnetic_voltage(b_real, teeth.height, curve)
 
 
-def _pole_state(
+def pole_state(
     path: PolePath,
     b_peak: float,
     arc: float | None,
@@ -567,204 +360,6 @@ def _pole_state(
     )
 
 
-def _state_args(result: GapResult) -> dict[str, Any]:
+def gap_fields(result: GapResult) -> dict[str, Any]:
+    """The fields of a :class:`GapResult`, for a machine kind's result that extends it."""
     return {f.name: getattr(result, f.name) for f in fields(GapResult)}
-
-
-# ---------------------------------------------------------------- solvers per machine kind
-
-
-def surface_pm_gap(
-    path: PolePath, magnet: SurfaceMagnet, stator_curve: BHCurve, rotor_curve: BHCurve
-) -> SurfacePMResult:
-    """Gap flux density of a surface-magnet machine at no load, iron included.
-
-    Solves the loop of one pole ``H_m l_m + F_gap + F_iron = 0`` with the magnet on its
-    recoil line ``B_m = Br + mu0 mu_rec H_m`` and ``B_m = k_leak B_g`` (magnet and gap
-    areas taken equal). The gap flux is rectangular over the magnet arc (slot ripple and
-    fringing neglected). The path's ``effective_gap`` is the whole Carter-corrected
-    magnetic gap ``kc g'``, ``g' = g + sleeve + l_m / mu_rec``; the magnet's own
-    ``l_m / mu_rec`` of it is the recoil line's, so the gap in series with magnet and iron
-    is ``g_e = kc g' - l_m / mu_rec``. With ideal iron and no leakage this is
-    ``B_g = Br (l_m / mu_rec) / (l_m / mu_rec + g_e) = Br (l_m / mu_rec) / (kc g')``,
-    Carter's coefficient applied to the whole magnetic gap; with ``kc = 1`` it is the
-    textbook ``B_g = Br l_m / (l_m + mu_rec (g + sleeve))``.
-
-    Parameters
-    ----------
-    path : PolePath
-        Flux path; ``effective_gap`` is ``kc g'``, the magnet's ``l_m / mu_rec`` included
-        (see :class:`PolePath`); it must exceed ``l_m / mu_rec``.
-    magnet : SurfaceMagnet
-    stator_curve, rotor_curve : BHCurve
-        Stator lamination and rotor back iron.
-
-    Returns
-    -------
-    SurfacePMResult
-        Gap and iron state, and the magnet working point (B_m, H_m).
-
-    References
-    ----------
-    Hendershot and Miller, Design of Brushless Permanent-Magnet Machines (magnetic circuit
-    of a surface magnet); Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical
-    Machines, ch. 3 (magnetic voltages of teeth and yokes).
-    """
-    own = magnet.thickness / magnet.recoil_permeability
-    if not path.effective_gap > own:
-        raise ValueError(
-            "PolePath.effective_gap of a surface-magnet machine is the whole magnetic gap"
-            " kc g' and must exceed the magnet's own l_m / mu_rec"
-        )
-    path = replace(path, effective_gap=path.effective_gap - own)  # the gap beside the magnet
-    k_leak = magnet.leakage_factor
-    coercive_mmf = magnet.remanence * magnet.thickness / (MU0 * magnet.recoil_permeability)
-
-    def state(b_gap: float) -> GapResult:
-        return _pole_state(
-            path,
-            b_gap,
-            magnet.arc_fraction,
-            stator_curve,
-            rotor_curve,
-            rotor_flux_factor=k_leak,
-            rotor_yoke_ramp=magnet.arc_fraction,
-        )
-
-    def residual(b_gap: float) -> float:
-        magnet_drop = k_leak * b_gap * magnet.thickness / (MU0 * magnet.recoil_permeability)
-        return magnet_drop + state(b_gap).total_mmf - coercive_mmf
-
-    # At B_g = Br / k_leak the magnet field is zero and the rest of the loop is not.
-    b_gap = solve_increasing(residual, 0.0, magnet.remanence / k_leak)
-    magnet_b = k_leak * b_gap
-    magnet_h = (magnet_b - magnet.remanence) / (MU0 * magnet.recoil_permeability)
-    return SurfacePMResult(**_state_args(state(b_gap)), magnet_b=magnet_b, magnet_h=magnet_h)
-
-
-def salient_field_gap(
-    path: PolePath,
-    pole: SalientPole,
-    stator_curve: BHCurve,
-    rotor_curve: BHCurve,
-    *,
-    field_mmf: float,
-) -> GapResult:
-    """Gap flux density under the centre of a salient pole from its field ampere-turns.
-
-    Solves ``F_f = F_gap + F_teeth + F_pole body + F_yokes / 2`` for the peak gap flux
-    density. Flux shape: uniform gap under the shoe, so the gap flux density is flat over
-    the pole-shoe width and zero between poles (fringing neglected); the flux per pole is
-    ``B_g b_p l`` and the fundamental ``(4/pi) B_g sin(pi b_p / (2 tau_p))``. The pole body
-    and rotor yoke carry the leakage factor times the gap flux; the rim flux ramps up over
-    the pole-body width and is flat between poles (see :func:`yoke_magnetic_voltage`).
-
-    Parameters
-    ----------
-    path : PolePath
-        Flux path; ``rotor_yoke`` is the rim the pole bodies sit on.
-    pole : SalientPole
-    stator_curve, rotor_curve : BHCurve
-        Stator lamination; pole and rim steel.
-    field_mmf : float
-        Field ampere-turns per pole [A], >= 0.
-
-    Returns
-    -------
-    GapResult
-        ``total_mmf`` equals ``field_mmf`` at the solution.
-
-    References
-    ----------
-    Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical Machines, ch. 3 (magnetic
-    circuit and magnetic voltages); Fitzgerald, Kingsley, Umans, Electric Machinery, ch. 1
-    (series magnetic circuit).
-    """
-    if not (math.isfinite(field_mmf) and field_mmf >= 0.0):
-        raise ValueError("the field ampere-turns must be finite and >= 0")
-    if pole.shoe_width > path.pole_pitch:
-        raise ValueError("the pole shoe is wider than the pole pitch")
-    arc = pole.shoe_width / path.pole_pitch
-    rim_ramp = min(1.0, pole.body_width / path.rotor_yoke.path_length)
-
-    def state(b_gap: float) -> GapResult:
-        return _pole_state(
-            path,
-            b_gap,
-            arc,
-            stator_curve,
-            rotor_curve,
-            rotor_flux_factor=pole.leakage_factor,
-            rotor_yoke_ramp=rim_ramp,
-            pole=pole,
-        )
-
-    # The gap alone would take all the ampere-turns at B = mu0 F / (kc g).
-    b_gap = solve_increasing(
-        lambda b: state(b).total_mmf - field_mmf, 0.0, MU0 * field_mmf / path.effective_gap
-    )
-    return state(b_gap)
-
-
-def induction_gap(
-    path: PolePath,
-    stator_curve: BHCurve,
-    rotor_curve: BHCurve,
-    *,
-    phase_voltage: float,
-    frequency: float,
-    series_turns: float,
-    winding_factor: float,
-    voltage_drop: float = DEFAULT_VOLTAGE_DROP,
-) -> InductionResult:
-    """Gap flux density of an induction machine from its voltage, and the magnetising MMF.
-
-    ``E = (1 - d) U_ph``, ``Phi = E / (sqrt(2) pi f N_ph kw1)`` (sqrt(2) pi = 4.443),
-    ``B_avg = Phi / (tau_p l)`` and, for a sinusoidal distribution, ``B_peak = (pi/2) B_avg``.
-    The flux is set by the voltage, so the gap length changes the magnetising ampere-turns
-    (``total_mmf``: gap, teeth and half of each yoke), not the flux density. Tooth saturation
-    flattening the wave (which raises B_peak over (pi/2) B_avg) is not modelled; the
-    saturation factor shows how far it matters.
-
-    Parameters
-    ----------
-    path : PolePath
-        Flux path; ``rotor_teeth`` for a cage rotor.
-    stator_curve, rotor_curve : BHCurve
-    phase_voltage : float
-        Phase voltage U_ph, rms [V] (the line voltage for a delta connection).
-    frequency : float
-        Supply frequency f [Hz].
-    series_turns : float
-        Series turns per phase N_ph [-].
-    winding_factor : float
-        Fundamental winding factor kw1 [-].
-    voltage_drop : float
-        Share d of the phase voltage lost in the stator resistance and leakage reactance
-        [-]; default 0.03 (2-5 % is usual, common practice, no source).
-
-    Returns
-    -------
-    InductionResult
-
-    References
-    ----------
-    Fitzgerald, Kingsley, Umans, Electric Machinery (E = 4.44 f N kw Phi); Pyrhonen,
-    Jokinen, Hrabovcova, Design of Rotating Electrical Machines, ch. 3 and 7 (magnetising
-    MMF, saturation factor).
-    """
-    if not 0.0 <= voltage_drop < 1.0:
-        raise ValueError("the voltage-drop allowance must lie in [0, 1)")
-    for name, value in (
-        ("phase_voltage", phase_voltage),
-        ("frequency", frequency),
-        ("series_turns", series_turns),
-        ("winding_factor", winding_factor),
-    ):
-        if not (math.isfinite(value) and value > 0.0):
-            raise ValueError(f"{name} must be finite and > 0, got {value}")
-    emf = (1.0 - voltage_drop) * phase_voltage
-    flux = emf / (math.sqrt(2.0) * math.pi * frequency * series_turns * winding_factor)
-    b_avg = flux / (path.pole_pitch * path.stack_length)
-    state = _pole_state(path, 0.5 * math.pi * b_avg, None, stator_curve, rotor_curve)
-    return InductionResult(**_state_args(state), emf=emf)

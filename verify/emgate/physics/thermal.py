@@ -7,9 +7,10 @@ winding bundle -> slot liner -> stator teeth -> stator yoke -> core-frame interf
 wall -> frame surface (convection + radiation) -> coolant (mean rise of the coolant itself,
 when its heat-capacity rate is given).
 
-Which links exist depends on the cooling method (:data:`COOLING_METHODS`); the surface film
-coefficients come from :mod:`emgate.physics.convection`. Each loss joins the path where it
-arises (:class:`HeatSources`, :func:`machine_temperature_rise`). Stated
+Which links exist depends on the cooling method
+(:data:`~emgate.physics.thermal_inputs.COOLING_METHODS`); the surface film coefficients come
+from :mod:`emgate.physics.convection`. Each loss joins the path where it arises
+(:class:`~emgate.physics.thermal_inputs.HeatSources`, :func:`machine_temperature_rise`). Stated
 simplifications, all of them conservative or neutral for a limit check:
 
 * all copper loss, end windings included, is taken to leave through the slot liner (the end
@@ -24,8 +25,9 @@ simplifications, all of them conservative or neutral for a limit check:
 * the coolant temperature is the mean coolant temperature at the boundary (inlet air, or the
   mean liquid temperature), unless a heat-capacity rate adds the coolant's own mean rise.
 
-The copper loss depends on the winding temperature it produces: :func:`operating_temperature`
-iterates the two to a fixed point and reports a thermal run-away as a result, never a hang.
+The copper loss depends on the winding temperature it produces:
+:func:`emgate.physics.winding_temperature.operating_temperature` iterates the two to a fixed
+point and reports a thermal run-away as a result, never a hang.
 """
 
 from __future__ import annotations
@@ -33,241 +35,22 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Literal
 
 from emgate.physics.convection import (
-    STANDARD_PRESSURE,
     air_properties,
     forced_convection_coefficient,
+    gap_nusselt,
     natural_convection_coefficient,
     radiation_coefficient,
 )
-
-#: Cooling methods the estimate knows.
-COOLING_METHODS: tuple[str, ...] = (
-    "enclosed_natural",
-    "enclosed_fan",
-    "open_ventilated",
-    "liquid_jacket",
-    "direct_liquid",
+from emgate.physics.thermal_inputs import (
+    COOLING_METHODS,
+    CoolingMethod,
+    HeatSources,
+    RotorGap,
+    StatorThermalGeometry,
+    ThermalParameters,
 )
-CoolingMethod = Literal[
-    "enclosed_natural", "enclosed_fan", "open_ventilated", "liquid_jacket", "direct_liquid"
-]
-
-
-# --- the lumped network ----------------------------------------------------------------------
-
-
-@dataclass(frozen=True)
-class StatorThermalGeometry:
-    """Stator dimensions the heat path needs (SI).
-
-    Parameters
-    ----------
-    bore_diameter, outer_diameter, stack_length : float
-        [m].
-    slots : int
-        ``Q`` [-].
-    slot_depth : float
-        Total slot depth from the bore [m].
-    winding_area : float
-        Gross winding-zone area of one slot [m^2].
-    winding_height : float
-        Radial height of the winding zone [m].
-    winding_perimeter : float
-        Perimeter of the winding zone, the liner's length [m].
-    liner_thickness : float
-        [m].
-    stacking_factor : float, optional
-        Iron share of the stack length [-]; default 0.95 [cp].
-    frame_length : float or None, optional
-        Cooled frame length [m]; None takes the stack length (conservative).
-    frame_outer_diameter : float or None, optional
-        Frame diameter at the fin roots [m]; None takes the core diameter plus two frame
-        walls.
-    """
-
-    bore_diameter: float
-    outer_diameter: float
-    stack_length: float
-    slots: int
-    slot_depth: float
-    winding_area: float
-    winding_height: float
-    winding_perimeter: float
-    liner_thickness: float
-    stacking_factor: float = 0.95
-    frame_length: float | None = None
-    frame_outer_diameter: float | None = None
-
-
-@dataclass(frozen=True)
-class ThermalParameters:
-    """Material and cooling parameters, each default with its source.
-
-    Parameters
-    ----------
-    liner_conductivity : float
-        0.15 W/(m K): aramid insulating paper, manufacturers' datasheets 0.1-0.15 [mem].
-    bundle_conductivity : float
-        0.6 W/(m K): impregnated random winding across the wires [cp, no source]; reported
-        values range widely with fill and impregnation.
-    iron_conductivity : float
-        25 W/(m K): non-oriented electrical steel in the sheet plane [cp, 20-30].
-    interface_gap : float
-        0.03 mm: equivalent air gap between core and frame [mem: Staton, Boglietti,
-        Cavagnino, IEEE Trans. Energy Conversion 20(3), 2005, range 0.01-0.08 mm].
-    frame_wall : float
-        6 mm frame wall under the fins [cp].
-    frame_conductivity : float
-        150 W/(m K): cast aluminium alloy [cp].
-    emissivity : float
-        0.9: painted frame [mem: Bergman et al., Introduction to Heat Transfer, Table A.11].
-    fin_area_factor : float
-        Wetted frame area over the bare cylinder area; default 1 (smooth frame, conservative).
-    fin_efficiency : float
-        0.8 [cp]: share of the fin area that works like the base.
-    air_velocity : float
-        6 m/s: fan air along the frame fins [cp].
-    internal_air_velocity : float
-        5 m/s: through-flow air over the core back of an open machine [cp].
-    core_area_factor : float
-        Air-washed core area of an open machine over its back area (ducts, bore, core
-        ends); default 1, the back alone (conservative).
-    jacket_coefficient : float
-        2000 W/(m^2 K) on the jacket's wetted wall [cp]; forced convection of liquids spans
-        100-20000 [mem: Bergman et al., Introduction to Heat Transfer, Table 1.1].
-    jacket_area_factor : float
-        Wetted jacket area over the frame cylinder area; default 1.
-    direct_coefficient : float
-        1000 W/(m^2 K) from winding surface to a liquid in contact [cp]; same range as above.
-    direct_wetted_area : float or None
-        Winding surface wetted by the liquid [m^2]; None takes the liner area (slots x
-        winding perimeter x stack length), as for channels along the slots.
-    coolant_capacity_rate : float or None
-        Coolant mass flow times specific heat [W/K]; None neglects the coolant's own rise.
-    pressure : float
-        Air pressure [Pa].
-    """
-
-    liner_conductivity: float = 0.15
-    bundle_conductivity: float = 0.6
-    iron_conductivity: float = 25.0
-    interface_gap: float = 0.03e-3
-    frame_wall: float = 6e-3
-    frame_conductivity: float = 150.0
-    emissivity: float = 0.9
-    fin_area_factor: float = 1.0
-    fin_efficiency: float = 0.8
-    air_velocity: float = 6.0
-    internal_air_velocity: float = 5.0
-    core_area_factor: float = 1.0
-    jacket_coefficient: float = 2000.0
-    jacket_area_factor: float = 1.0
-    direct_coefficient: float = 1000.0
-    direct_wetted_area: float | None = None
-    coolant_capacity_rate: float | None = None
-    pressure: float = STANDARD_PRESSURE
-
-
-@dataclass(frozen=True)
-class HeatSources:
-    """Losses [W] by where they arise in the machine.
-
-    Parameters
-    ----------
-    copper_slot, copper_end : float
-        Stator copper loss in the slot parts and in the end windings.
-    iron_teeth, iron_yoke : float
-        Stator iron loss.
-    rotor : float
-        All rotor loss (cage or field copper, rotor iron, magnet eddy currents, the rotor
-        share of stray load), leaving across the gap.
-    friction : float
-        Friction and windage, at the frame.
-    """
-
-    copper_slot: float = 0.0
-    copper_end: float = 0.0
-    iron_teeth: float = 0.0
-    iron_yoke: float = 0.0
-    rotor: float = 0.0
-    friction: float = 0.0
-
-    @property
-    def copper(self) -> float:
-        """[W]."""
-        return self.copper_slot + self.copper_end
-
-    @property
-    def total(self) -> float:
-        """[W]."""
-        return self.copper + self.iron_teeth + self.iron_yoke + self.rotor + self.friction
-
-    def with_copper(self, copper: float) -> HeatSources:
-        """The same sources with the copper loss rescaled to ``copper`` [W], its slot and
-        end shares kept (both shares at one mean winding temperature)."""
-        total = self.copper
-        slot_share = self.copper_slot / total if total > 0.0 else 1.0
-        return HeatSources(
-            copper * slot_share,
-            copper * (1.0 - slot_share),
-            self.iron_teeth,
-            self.iron_yoke,
-            self.rotor,
-            self.friction,
-        )
-
-
-@dataclass(frozen=True)
-class RotorGap:
-    """What the gap crossing needs (SI).
-
-    Parameters
-    ----------
-    air_gap : float
-        Radial gap [m].
-    rotor_diameter : float
-        [m].
-    speed : float
-        [1/s].
-    """
-
-    air_gap: float
-    rotor_diameter: float
-    speed: float
-
-
-def gap_nusselt(taylor: float) -> float:
-    """Nusselt number of the air gap between a rotating cylinder and a still one.
-
-    Parameters
-    ----------
-    taylor : float
-        Modified Taylor number ``Ta_m = Omega^2 r_m g^3 / nu^2`` (geometric factor taken as
-        1, a narrow gap) [-].
-
-    Returns
-    -------
-    float
-        ``Nu = h 2 g / k``: 2 (conduction) below 1700; ``0.128 Ta_m^0.367`` up to 1e4;
-        ``0.409 Ta_m^0.241`` up to 1e7 (and beyond, as an extrapolation) [-]. The two
-        correlations meet the conduction value near Ta_m = 1700 and each other near 1e4.
-
-    References
-    ----------
-    Becker, K. M. and Kaye, J., "Measurements of diabatic flow in an annulus with an inner
-    rotating cylinder", J. Heat Transfer 84 (1962) 97-105 [from memory, as quoted in
-    Boglietti et al., IEEE Trans. Ind. Electron. 56(3), 2009].
-    """
-    if taylor < 0.0:
-        raise ValueError("Taylor number must be >= 0")
-    if taylor < 1700.0:
-        return 2.0
-    if taylor < 1e4:
-        return max(2.0, 0.128 * taylor**0.367)
-    return 0.409 * taylor**0.241
 
 
 def gap_resistance(gap: RotorGap, stack_length: float, air_temperature: float) -> float:
@@ -284,12 +67,13 @@ def gap_resistance(gap: RotorGap, stack_length: float, air_temperature: float) -
     Returns
     -------
     float
-        ``1 / (h pi D l)``, ``h = Nu k / (2 g)`` by :func:`gap_nusselt`; both surfaces of
-        the gap share the one coefficient (a lumped estimate).
+        ``1 / (h pi D l)``, ``h = Nu k / (2 g)`` by
+        :func:`~emgate.physics.convection.gap_nusselt`; both surfaces of the gap share the one
+        coefficient (a lumped estimate).
 
     References
     ----------
-    As :func:`gap_nusselt`.
+    As :func:`emgate.physics.convection.gap_nusselt`.
     """
     if not (gap.air_gap > 0.0 and gap.rotor_diameter > 0.0 and stack_length > 0.0):
         raise ValueError("gap, rotor diameter and length must be > 0")
@@ -442,7 +226,8 @@ def winding_temperature_rise(
         Stator copper loss [W], at the temperature it is to be checked at.
     geometry : StatorThermalGeometry
     cooling : str
-        One of :data:`COOLING_METHODS` (see :func:`machine_temperature_rise`).
+        One of :data:`~emgate.physics.thermal_inputs.COOLING_METHODS` (see
+        :func:`machine_temperature_rise`).
     other_losses : float, optional
         Iron and other losses joining the path at the teeth-yoke boundary [W].
     coolant_temperature : float, optional
@@ -485,7 +270,7 @@ def machine_temperature_rise(
         The losses [W] (module notes: where each joins the path).
     geometry : StatorThermalGeometry
     cooling : str
-        One of :data:`COOLING_METHODS`:
+        One of :data:`~emgate.physics.thermal_inputs.COOLING_METHODS`:
 
         * ``enclosed_natural``: free convection (Churchill-Chu) and radiation from the
           frame, a horizontal cylinder in still air;
@@ -515,7 +300,8 @@ def machine_temperature_rise(
     Mejuto, "Evolution and modern approaches for thermal analysis of electrical machines",
     IEEE Trans. Ind. Electron. 56(3), 2009]; mean temperature of a slab with uniform
     generation cooled on both faces, ``q w^2 / (12 k)`` [calc]; correlations as in
-    :func:`natural_convection_coefficient` and :func:`forced_convection_coefficient`.
+    :func:`~emgate.physics.convection.natural_convection_coefficient` and
+    :func:`~emgate.physics.convection.forced_convection_coefficient`.
     """
     if cooling not in COOLING_METHODS:
         raise ValueError(f"cooling must be one of {COOLING_METHODS}, got {cooling!r}")
@@ -620,163 +406,3 @@ def machine_temperature_rise(
         rotor_temperature=rotor_temperature,
         sources=src,
     )
-
-
-# --- the self-consistent winding temperature -------------------------------------------------
-
-#: Fixed-point tolerance on the winding temperature [K], and the iteration cap.
-FIXED_POINT_TOLERANCE: float = 0.01
-FIXED_POINT_MAX_ITERATIONS: int = 200
-#: A winding estimated above this [K] (1000 degC) is a run-away, whatever the iteration does.
-RUNAWAY_TEMPERATURE: float = 1273.15
-
-
-@dataclass(frozen=True)
-class OperatingPoint:
-    """Result of :func:`operating_temperature`.
-
-    Parameters
-    ----------
-    temperature : float
-        Mean winding temperature at the fixed point [K] (the last iterate if not converged).
-    copper_loss : float
-        Copper loss at that temperature [W].
-    estimate : ThermalEstimate or None
-        The thermal estimate at the fixed point; None when the network failed (run-away).
-    iterations : int
-    converged : bool
-        Within the tolerance.
-    runaway : bool
-        No fixed point: the copper loss grows with temperature faster than the cooling
-        sheds it (the contraction ratio reached 1, the temperature passed
-        :data:`RUNAWAY_TEMPERATURE`, or the surface could shed the heat at no plausible
-        temperature).
-    error_bound : float
-        A-posteriori bound on the temperature error [K]: step q / (1 - q), q the observed
-        contraction ratio.
-    """
-
-    temperature: float
-    copper_loss: float
-    estimate: ThermalEstimate | None
-    iterations: int
-    converged: bool
-    runaway: bool
-    error_bound: float
-
-
-def operating_temperature(
-    copper_loss_20: float,
-    alpha20: float,
-    estimate: Callable[[float], ThermalEstimate],
-    coolant_temperature: float,
-    *,
-    tolerance: float = FIXED_POINT_TOLERANCE,
-    max_iterations: int = FIXED_POINT_MAX_ITERATIONS,
-) -> OperatingPoint:
-    """Winding temperature at which the copper loss and the rise it causes agree.
-
-    Solves ``T = T_c + rise(P_cu(T))`` with ``P_cu(T) = P_cu20 (1 + alpha20 (T - 20 degC))``
-    (IEC 60028 linear resistance law) by fixed-point iteration from the coolant temperature.
-    The map is increasing, so the iterates rise monotonically to the lowest fixed point;
-    convergence is declared when the a-posteriori error bound ``dT q / (1 - q)`` (q the
-    observed ratio of successive steps) is below ``tolerance``. A ratio of 1 or more, a
-    temperature above :data:`RUNAWAY_TEMPERATURE` or a network that cannot shed the heat
-    is a thermal run-away, reported in the result.
-
-    Parameters
-    ----------
-    copper_loss_20 : float
-        Copper loss with the winding at 20 degC [W].
-    alpha20 : float
-        Temperature coefficient of resistance at 20 degC [1/K] (copper 0.00393).
-    estimate : callable
-        ``estimate(copper_loss)`` returns the :class:`ThermalEstimate` with that copper
-        loss (other losses fixed).
-    coolant_temperature : float
-        [K], the start.
-    tolerance : float, optional
-        [K], default 0.01 K.
-    max_iterations : int, optional
-
-    Returns
-    -------
-    OperatingPoint
-
-    References
-    ----------
-    IEC 60028 (R(T) = R20 (1 + alpha20 (T - 20 degC)), alpha20 = 0.00393 /K for annealed
-    copper); Banach's fixed-point theorem for the contraction and its a-posteriori error
-    bound [calc].
-    """
-    if copper_loss_20 < 0.0 or not tolerance > 0.0 or max_iterations < 1:
-        raise ValueError("copper loss must be >= 0, tolerance > 0, iterations >= 1")
-
-    def loss_at(t: float) -> float:
-        return copper_loss_20 * (1.0 + alpha20 * (t - 293.15))
-
-    t = coolant_temperature
-    last_step = math.inf
-    q = 0.0
-    est: ThermalEstimate | None = None
-    for k in range(1, max_iterations + 1):
-        try:
-            est = estimate(loss_at(t))
-        except ValueError:
-            return OperatingPoint(t, loss_at(t), None, k, False, True, math.inf)
-        t_new = est.winding_temperature
-        step = abs(t_new - t)
-        t = t_new
-        if t > RUNAWAY_TEMPERATURE:
-            return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
-        if step == 0.0:
-            return OperatingPoint(t, loss_at(t), est, k, True, False, 0.0)
-        if math.isfinite(last_step):
-            q = step / last_step
-            if q >= 1.0:
-                return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
-            bound = step * q / (1.0 - q)
-            if bound < tolerance:
-                # One more evaluation so the estimate and the loss belong to t itself.
-                est = estimate(loss_at(t))
-                return OperatingPoint(t, loss_at(t), est, k, True, False, bound)
-        last_step = step
-    bound = last_step * q / (1.0 - q) if q < 1.0 else math.inf
-    return OperatingPoint(t, loss_at(t), est, max_iterations, False, False, bound)
-
-
-# --- IEC 60034-1 adjustments of the rise limit -------------------------------------------------
-
-#: Extra rise allowed [K] for small and fanless machines (module function below).
-SMALL_OR_FANLESS_ALLOWANCE: float = 5.0
-#: Rated output below which a machine counts as small for that allowance [W].
-SMALL_MACHINE_OUTPUT: float = 600.0
-
-
-def rise_limit_allowance(rated_output: float, *, totally_enclosed_fanless: bool) -> float:
-    """Increase of the winding rise limit [K] that IEC 60034-1 grants some machines.
-
-    Parameters
-    ----------
-    rated_output : float
-        [W].
-    totally_enclosed_fanless : bool
-        Self-cooled, totally enclosed without a fan (IC410).
-
-    Returns
-    -------
-    float
-        5 K for machines rated below 600 W and for totally enclosed fanless ones (limits by
-        resistance, e.g. class B 85 K, F 110 K, H 130 K instead of 80, 105, 125); 0
-        otherwise [K].
-
-    References
-    ----------
-    IEC 60034-1, limits of temperature rise of windings with indirect air cooling, the rows
-    for a.c. machines below 600 W and for totally enclosed fanless (IC410) machines [from
-    memory, verify against the standard].
-    """
-    if rated_output < 0.0:
-        raise ValueError("rated output must be >= 0")
-    small = rated_output < SMALL_MACHINE_OUTPUT
-    return SMALL_OR_FANLESS_ALLOWANCE if small or totally_enclosed_fanless else 0.0

@@ -52,7 +52,8 @@ def overrated() -> Path:
 def run(remedies: bool, where: Path = EXAMPLES) -> tuple[float, float, int]:
     """One in-process run: wall and CPU time [s], and the failing checks."""
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
     from emgate.plugins import load_plugins
 
     plugins = load_plugins()

@@ -350,7 +350,7 @@ def _moved(record: Path, tmp: Path, driver: str, name: str) -> bool | None:
     """Whether nudging ``driver`` alone moves sheet quantity ``name`` on ``record``; None
     where the record lacks the field or the quantity."""
     from emgate.calc import Calculation
-    from emgate.engine import discover_materials
+    from emgate.discovery import discover_materials
     from emgate.loader import load_text
     from emgate.remedies import NumberField
 
@@ -423,7 +423,8 @@ def test_a_waived_check_gets_no_remedies(demo: Path) -> None:
 def test_the_sheet_finds_a_checks_remedies_from_its_outcome() -> None:
     # The HTML sheet reads checks from the records' outcomes, not findings.
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
     from emgate.plugins import load_plugins
     from emgate.remedies import remedies_for, remedies_for_check
 

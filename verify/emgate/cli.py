@@ -374,9 +374,10 @@ class _UsageError(Exception):
 
 def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped-def]
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute, input_findings
+    from emgate.engine import execute
     from emgate.errors import InputError, InputErrors
-    from emgate.findings import RunResult
+    from emgate.findings import RunResult, input_findings
+    from emgate.pipeline import Run
 
     try:
         outputs = _outputs(args.formats)

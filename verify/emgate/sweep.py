@@ -492,8 +492,9 @@ def prepare(run: SweepRun) -> tuple[Evaluator, Spec, Columns]:
     """Load record, spec, policy, plugins and steels (InputError(s), located, when bad)."""
     from emgate.calc import SHEET
     from emgate.config import find_config, load_policy
-    from emgate.engine import TOLERANCE_RULES, discover_materials
+    from emgate.discovery import discover_materials
     from emgate.loader import load
+    from emgate.pipeline import TOLERANCE_RULES
     from emgate.plugins import load_plugins
     from emgate.validate import schema_of, validate_design
 

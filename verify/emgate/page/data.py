@@ -236,9 +236,10 @@ def run_gate(
     """The gate's own run (engine, policy of the nearest emgate.yaml) over ``paths``; bad
     input comes back as input findings, as from ``emgate check``."""
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute, input_findings
+    from emgate.engine import execute
     from emgate.errors import InputError, InputErrors
-    from emgate.findings import RunResult
+    from emgate.findings import RunResult, input_findings
+    from emgate.pipeline import Run
 
     start = paths[0] if paths else Path.cwd()
     if config is None:

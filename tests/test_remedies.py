@@ -21,7 +21,8 @@ import yaml
 
 from conftest import DEMO, REPO, SERVO, run_cli, write_config
 from emgate.calc.core import SHEET
-from emgate.remedies import WIRE_DIAMETERS_MM, Edit
+from emgate.remedy import Edit
+from emgate.remedy_fields import WIRE_DIAMETERS_MM
 
 SARIF_SCHEMA = REPO / "tests" / "data" / "sarif" / "sarif-schema-2.1.0.json"
 RECORDS = sorted((DEMO / "designs").glob("*.yaml"))
@@ -352,7 +353,7 @@ def _moved(record: Path, tmp: Path, driver: str, name: str) -> bool | None:
     from emgate.calc import Calculation
     from emgate.discovery import discover_materials
     from emgate.loader import load_text
-    from emgate.remedies import NumberField
+    from emgate.remedy_fields import NumberField
 
     catalogue = discover_materials(record)
     base_doc = load_text(record, record.read_text(encoding="utf-8"))
@@ -426,7 +427,7 @@ def test_the_sheet_finds_a_checks_remedies_from_its_outcome() -> None:
     from emgate.engine import execute
     from emgate.pipeline import Run
     from emgate.plugins import load_plugins
-    from emgate.remedies import remedies_for, remedies_for_check
+    from emgate.remedy_report import remedies_for, remedies_for_check
 
     plugins = load_plugins()
     rules = {rid: lr.rule for rid, lr in plugins.rules.items()}

@@ -572,7 +572,7 @@ def _thermal(page: PageData, d: Any, calc: Any) -> None:
 
 
 def _checks(page: PageData, result: RunResult, record: RecordResult | None) -> None:
-    from emgate.remedies import remedies_for_check, summary
+    from emgate.remedy_report import remedies_for_check, summary
     from emgate.report.common import check_display
     from emgate.terms import path_string
 

@@ -245,7 +245,7 @@ def test_a_check_no_single_field_can_fix_says_so(demo: Path) -> None:
 def test_no_suggestion_lies_outside_the_fields_valid_range(demo: Path) -> None:
     # Each suggested value validates through the model: rerunning the gate on it gives no
     # input error (above), and a count never leaves its declared bounds.
-    from emgate.model import RoundConductor, Winding
+    from emgate.model.stator import RoundConductor, Winding
 
     bounds = {
         "winding.conductor.strands": RoundConductor.model_fields["strands"].metadata,

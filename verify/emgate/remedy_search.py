@@ -30,7 +30,6 @@ if TYPE_CHECKING:
 #: How far inside its limit a remedy puts the check (relative margin; common practice, no
 #: source: enough that rounding and the next review's small changes keep it inside).
 TARGET_MARGIN = 0.02
-#: Fields tried per failing check.
 #: The furthest a field is moved, as a factor of its value either way.
 MAX_FACTOR = 20.0
 #: Geometric step of the bracket search.

@@ -17,7 +17,7 @@ from emgate.calc.core import Calculation, memo, quantity
 if TYPE_CHECKING:
     import numpy as np
 
-    from emgate.model import SalientRotor, SurfacePMRotor
+    from emgate.model.rotor import SalientRotor, SurfacePMRotor
     from emgate.physics.magnetic import SurfacePMResult
     from emgate.physics.mmf import HarmonicRatios, WindingFamily
 

@@ -9,13 +9,8 @@ from emgate.calc import winding
 from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
-    from emgate.model import (
-        AnyDesign,
-        OpenSlot,
-        RectangularConductor,
-        RoundConductor,
-        SemiClosedSlot,
-    )
+    from emgate.model import AnyDesign
+    from emgate.model.stator import OpenSlot, RectangularConductor, RoundConductor, SemiClosedSlot
     from emgate.physics.resistance import ConductorMaterial
 
 #: Slot liner when the record gives none: 0.25 mm of insulating paper is usual for

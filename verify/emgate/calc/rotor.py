@@ -15,7 +15,7 @@ def bar_area(c: Calculation) -> float:
     cage = geo.cage_rotor(c.d).cage
     if cage.bar is not None:
         return ck.rectangular_strand_area(cage.bar.width, cage.bar.height)
-    from emgate.model import SemiClosedSlot
+    from emgate.model.stator import SemiClosedSlot
 
     sl = geo.cage_rotor(c.d).slot
     if isinstance(sl, SemiClosedSlot):

@@ -162,6 +162,17 @@ def slot_fill(c: Calculation) -> float:
     return fill_factor(copper_area(c), slot_area(c))
 
 
+@quantity("stator.slot_fill_insulated")
+def slot_fill_insulated(c: Calculation) -> float:
+    w = c.d.winding
+    cond = w.conductor
+    if cond.shape == "round":
+        one = cond.insulated_diameter**2
+    else:
+        one = cond.insulated_width * cond.insulated_height
+    return conductors_per_slot(c) * cond.strands * one / slot_area(c)
+
+
 @quantity("stator.electric_loading")
 def electric_loading(c: Calculation) -> float:
     from emgate.physics.currents import electric_loading

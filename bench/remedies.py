@@ -52,7 +52,8 @@ def overrated() -> Path:
 def run(remedies: bool, where: Path = EXAMPLES) -> tuple[float, float, int]:
     """One in-process run: wall and CPU time [s], and the failing checks."""
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
     from emgate.plugins import load_plugins
 
     plugins = load_plugins()
@@ -68,21 +69,21 @@ def run(remedies: bool, where: Path = EXAMPLES) -> tuple[float, float, int]:
 
 def count_trials(where: Path) -> int:
     """Trial evaluations of one run with remedies."""
-    from emgate import remedies
+    from emgate import remedy_search
 
     calls = 0
-    original = remedies._Trial.checks
+    original = remedy_search.Trial.checks
 
     def counted(self, data, only=None):  # type: ignore[no-untyped-def]
         nonlocal calls
         calls += 1
         return original(self, data, only)
 
-    remedies._Trial.checks = counted  # type: ignore[method-assign]
+    remedy_search.Trial.checks = counted  # type: ignore[method-assign]
     try:
         run(True, where)
     finally:
-        remedies._Trial.checks = original  # type: ignore[method-assign]
+        remedy_search.Trial.checks = original  # type: ignore[method-assign]
     return calls
 
 

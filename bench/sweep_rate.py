@@ -57,7 +57,7 @@ def main() -> None:
     )
 
     from emgate.calc import Calculation
-    from emgate.engine import discover_materials
+    from emgate.discovery import discover_materials
     from emgate.loader import load
     from emgate.validate import validate_design
     from emgate.vector import Nominal, evaluate

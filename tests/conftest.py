@@ -346,7 +346,7 @@ class OneSteel:
 def calculation(path: Path, steel: BHCurve | None = None) -> Calculation:
     """The Calculation of a record, as `emgate show` builds it; optionally with one steel."""
     from emgate.calc import Calculation
-    from emgate.engine import discover_materials
+    from emgate.discovery import discover_materials
     from emgate.loader import load
     from emgate.validate import validate_design
 

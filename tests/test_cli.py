@@ -116,7 +116,8 @@ class Raising(Rule):
 
 def test_exit_3_when_a_rule_raises_and_the_others_still_run(repo: Path) -> None:
     from emgate.config import Policy
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
     from emgate.plugins import LoadedRule, Pack, PluginSet
     from emgate_rules.current_density import CurrentDensity
 

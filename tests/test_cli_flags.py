@@ -76,7 +76,7 @@ def test_colour_follows_no_color_and_force_color(
 def test_colour_on_a_terminal_and_never_in_a_file(
     monkeypatch: pytest.MonkeyPatch, tmp_path: Path
 ) -> None:
-    from emgate import cli
+    from emgate import commands
 
     class Stream:
         def __init__(self, tty: bool) -> None:
@@ -88,9 +88,9 @@ def test_colour_on_a_terminal_and_never_in_a_file(
     monkeypatch.delenv("NO_COLOR", raising=False)
     monkeypatch.delenv("FORCE_COLOR", raising=False)
     monkeypatch.setenv("TERM", "xterm")
-    assert cli._colour(Stream(tty=True)) and not cli._colour(Stream(tty=False))
+    assert commands._colour(Stream(tty=True)) and not commands._colour(Stream(tty=False))
     monkeypatch.setenv("TERM", "dumb")  # a terminal that cannot show colour
-    assert not cli._colour(Stream(tty=True))
+    assert not commands._colour(Stream(tty=True))
     monkeypatch.setenv("FORCE_COLOR", "1")
     report = tmp_path / "report.txt"
     run_cli("check", SERVO, "--format", f"text:{report}")

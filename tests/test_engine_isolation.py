@@ -172,16 +172,16 @@ def test_an_error_in_one_record_is_reported_there_and_the_others_are_checked(
 ) -> None:
     # Issue 9, item 7: an error of emgate's own on one record (here planted in the
     # waiver step, outside any rule) is exit 3 on that record; the other is checked.
-    import emgate.engine
+    import emgate.pipeline
 
-    real = emgate.engine.apply_waivers
+    real = emgate.pipeline.apply_waivers
 
     def planted(waivers: Any, produced: Any, record: Any, today: Any) -> Any:
         if record.record_id.startswith("servo"):
             raise RuntimeError("planted")
         return real(waivers, produced, record, today)
 
-    monkeypatch.setattr(emgate.engine, "apply_waivers", planted)
+    monkeypatch.setattr(emgate.pipeline, "apply_waivers", planted)
     write_variant(repo, {}, base=SERVO)
     write_variant(repo, {})
     result = run_cli("check", "--format", "json", repo)

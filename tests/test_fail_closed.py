@@ -314,7 +314,8 @@ def test_every_field_at_an_extreme_is_a_located_input_error_or_a_finite_verdict(
     """Each numeric field of each bundled record set to 1e308, 5e-324, 1e300, -1 and 0 in
     turn: never a crash, a non-finite number or a traceback."""
     from emgate.config import load_policy
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
     from emgate.plugins import load_plugins
 
     plugins = load_plugins()

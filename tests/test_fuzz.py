@@ -167,7 +167,8 @@ def check_outputs(result: Any) -> None:
 def test_mutated_records_are_reported_never_escape(
     engine: tuple[Path, Any, Any], case: tuple[str, dict[str, Any]]
 ) -> None:
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
 
     folder, plugins, policy = engine
     name, data = case

@@ -343,7 +343,7 @@ def test_columns_are_utf16_units_as_lsp_counts_them() -> None:
 def test_a_keystrokes_check_skips_remedies_and_an_open_computes_them() -> None:
     from emgate.lsp.gate import check_open
     from emgate.plugins import load_plugins
-    from emgate.remedies import remedies_for
+    from emgate.remedy_report import remedies_for
 
     plugins = load_plugins()
     path = SERVO.resolve()

@@ -3,6 +3,8 @@ patterns said in words, a typical value for a missing key, a lost colon on its o
 
 from __future__ import annotations
 
+import importlib
+import pkgutil
 import typing
 from pathlib import Path
 from typing import Any
@@ -83,7 +85,11 @@ def _patterns(annotation: Any, seen: set[type]) -> set[str]:
 def test_every_pattern_of_the_models_is_said_in_words() -> None:
     seen: set[type] = set()
     found: set[str] = set()
-    for module in (model, config):
+    parts = [
+        importlib.import_module(f"emgate.model.{m.name}")
+        for m in pkgutil.iter_modules(model.__path__)
+    ]
+    for module in (model, *parts, config):
         for value in vars(module).values():
             if isinstance(value, type) and issubclass(value, BaseModel):
                 found |= _patterns(value, seen)

@@ -99,7 +99,9 @@ def test_changed_since_parses_only_the_changed_record(
     changed = tmp_path / "designs" / "r003.yaml"  # a pump record: passes every rule
     changed.write_text(changed.read_text() + "# reviewed\n")
     monkeypatch.chdir(tmp_path)
+    import emgate.discovery
     import emgate.engine
+    import emgate.pipeline
 
     parsed: list[str] = []
     real = emgate.engine.load_text
@@ -108,7 +110,9 @@ def test_changed_since_parses_only_the_changed_record(
         parsed.append(path.name)
         return real(path, text)
 
-    monkeypatch.setattr(emgate.engine, "load_text", spy)
+    # every home that parses a file of the run: discovery, the run (materials), each record
+    for module in (emgate.discovery, emgate.engine, emgate.pipeline):
+        monkeypatch.setattr(module, "load_text", spy)
     result = run_cli("check", "--jobs", "1", "--format", "json", "--changed-since", "HEAD")
     assert result.code == 0, result.out
     assert [r["record_id"] for r in result.json()["records"]] == ["pump-drive-4p36s-003"]

@@ -21,7 +21,8 @@ import yaml
 
 from conftest import DEMO, REPO, SERVO, run_cli, write_config
 from emgate.calc.core import SHEET
-from emgate.remedies import WIRE_DIAMETERS_MM, Edit
+from emgate.remedy import Edit
+from emgate.remedy_fields import WIRE_DIAMETERS_MM
 
 SARIF_SCHEMA = REPO / "tests" / "data" / "sarif" / "sarif-schema-2.1.0.json"
 RECORDS = sorted((DEMO / "designs").glob("*.yaml"))
@@ -244,7 +245,7 @@ def test_a_check_no_single_field_can_fix_says_so(demo: Path) -> None:
 def test_no_suggestion_lies_outside_the_fields_valid_range(demo: Path) -> None:
     # Each suggested value validates through the model: rerunning the gate on it gives no
     # input error (above), and a count never leaves its declared bounds.
-    from emgate.model import RoundConductor, Winding
+    from emgate.model.stator import RoundConductor, Winding
 
     bounds = {
         "winding.conductor.strands": RoundConductor.model_fields["strands"].metadata,
@@ -350,9 +351,9 @@ def _moved(record: Path, tmp: Path, driver: str, name: str) -> bool | None:
     """Whether nudging ``driver`` alone moves sheet quantity ``name`` on ``record``; None
     where the record lacks the field or the quantity."""
     from emgate.calc import Calculation
-    from emgate.engine import discover_materials
+    from emgate.discovery import discover_materials
     from emgate.loader import load_text
-    from emgate.remedies import NumberField
+    from emgate.remedy_fields import NumberField
 
     catalogue = discover_materials(record)
     base_doc = load_text(record, record.read_text(encoding="utf-8"))
@@ -423,9 +424,10 @@ def test_a_waived_check_gets_no_remedies(demo: Path) -> None:
 def test_the_sheet_finds_a_checks_remedies_from_its_outcome() -> None:
     # The HTML sheet reads checks from the records' outcomes, not findings.
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
     from emgate.plugins import load_plugins
-    from emgate.remedies import remedies_for, remedies_for_check
+    from emgate.remedy_report import remedies_for, remedies_for_check
 
     plugins = load_plugins()
     rules = {rid: lr.rule for rid, lr in plugins.rules.items()}

@@ -57,7 +57,8 @@ def demo() -> RunResult:
     import os
 
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute
+    from emgate.engine import execute
+    from emgate.pipeline import Run
     from emgate.plugins import load_plugins
 
     here = Path.cwd()

@@ -74,7 +74,7 @@ def test_each_rule_is_generic_over_its_options() -> None:
 def _servo_sheet() -> Any:
     from emgate.calc import Calculation
     from emgate.calc.view import Sheet
-    from emgate.engine import discover_materials
+    from emgate.discovery import discover_materials
     from emgate.loader import load
     from emgate.validate import validate_design
 

@@ -10,7 +10,8 @@ from __future__ import annotations
 from collections.abc import Callable
 from functools import partial
 
-from emgate.model import AnyDesign, RectangularConductor, RoundConductor
+from emgate.model import AnyDesign
+from emgate.model.stator import RectangularConductor, RoundConductor
 from emgate.terms import RecordPath
 
 

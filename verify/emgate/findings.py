@@ -8,7 +8,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, Literal
 
-from emgate.errors import display_path
+from emgate.errors import InputError, InputErrors, display_path
 from emgate.rule import Check
 from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK, Severity
 
@@ -167,3 +167,23 @@ def anchor(result: RunResult, root: Path) -> None:
                 f.repo_file = path.relative_to(top).as_posix()
             except ValueError:
                 f.repo_file = path.as_posix()
+
+
+def input_finding(exc: InputError) -> Finding:
+    """An input error as a finding (exit 2), at its location when it has one."""
+    loc = exc.location
+    return Finding(
+        rule="input",
+        severity="error",
+        file=display_path(loc.file) if loc else "",
+        line=loc.line if loc else 0,
+        column=loc.column if loc else 0,
+        record_path=loc.record_path if loc else "$",
+        message=exc.message,
+        kind="input",
+    )
+
+
+def input_findings(exc: InputError | InputErrors) -> list[Finding]:
+    errors = exc.errors if isinstance(exc, InputErrors) else [exc]
+    return [input_finding(e) for e in errors]

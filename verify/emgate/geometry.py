@@ -10,16 +10,9 @@ import math
 from typing import TYPE_CHECKING, TypeVar
 
 if TYPE_CHECKING:
-    from emgate.model import (
-        AnyDesign,
-        CageRotor,
-        InductionDesign,
-        OpenSlot,
-        SalientFieldDesign,
-        SalientRotor,
-        SemiClosedSlot,
-        SurfacePMRotor,
-    )
+    from emgate.model import AnyDesign, InductionDesign, SalientFieldDesign
+    from emgate.model.rotor import CageRotor, SalientRotor, SurfacePMRotor
+    from emgate.model.stator import OpenSlot, SemiClosedSlot
     from emgate.terms import RecordPath
 
 _R = TypeVar("_R")
@@ -220,20 +213,20 @@ def _rotor_of(design: AnyDesign, kind: type[_R], machine: str) -> _R:
 
 def cage_rotor(design: AnyDesign) -> CageRotor:
     """The cage rotor of an induction design; TypeError for any other machine kind."""
-    from emgate.model import CageRotor
+    from emgate.model.rotor import CageRotor
 
     return _rotor_of(design, CageRotor, "induction")
 
 
 def magnet_rotor(design: AnyDesign) -> SurfacePMRotor:
     """The magnet rotor of a surface-PM design; TypeError for any other machine kind."""
-    from emgate.model import SurfacePMRotor
+    from emgate.model.rotor import SurfacePMRotor
 
     return _rotor_of(design, SurfacePMRotor, "surface_pm")
 
 
 def salient_rotor(design: AnyDesign) -> SalientRotor:
     """The salient-pole rotor of a salient-field design; TypeError for any other kind."""
-    from emgate.model import SalientRotor
+    from emgate.model.rotor import SalientRotor
 
     return _rotor_of(design, SalientRotor, "salient_field")

@@ -9,7 +9,8 @@ import numpy as np
 
 from emgate.errors import InputError, InputErrors
 from emgate.loader import Document
-from emgate.model import AnyDesign, LossCurveTable, MaterialsFile
+from emgate.model import AnyDesign
+from emgate.model.materials import LossCurveTable, MaterialsFile
 from emgate.physics.bh import BHCurve
 from emgate.physics.iron_loss import LossCurve
 from emgate.terms import RecordPath

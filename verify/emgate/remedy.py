@@ -1,7 +1,8 @@
 """What a remedy is: one field's answer for one failing check, and the edits that apply it.
 
-The search that finds them is :mod:`emgate.remedies`; this module holds only the data, so
-that a finding can carry its remedies.
+The search that finds them is :mod:`emgate.remedies`, what the front ends show of them
+:mod:`emgate.remedy_report`; this module holds only the data, so that a finding can carry its
+remedies.
 """
 
 from __future__ import annotations

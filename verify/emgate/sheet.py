@@ -19,7 +19,7 @@ from emgate.units import si_unit
 def load_design(path: Path) -> tuple[Any, Any, Any]:
     """One design record, validated, with the steel catalogue of its repository resolved:
     (document, design, catalogue); InputError(s) when it cannot be read."""
-    from emgate.engine import discover_materials
+    from emgate.discovery import discover_materials
     from emgate.loader import load
     from emgate.plausible import plausible_calculation
     from emgate.validate import schema_of, validate_design

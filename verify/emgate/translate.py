@@ -36,11 +36,12 @@ def _vocabulary() -> tuple[str, ...]:
             for sub in _models_in(info.annotation):
                 walk(sub)
 
-    from emgate import model as m
+    from emgate.model import InductionDesign, SalientFieldDesign, SurfacePMDesign, WaiversFile
+    from emgate.model.materials import MaterialsFile
 
-    for cls in vars(m).values():
-        if isinstance(cls, type) and issubclass(cls, BaseModel) and cls is not BaseModel:
-            walk(cls)
+    # the root model of each record file: every other model is a part of one
+    for root in (InductionDesign, SurfacePMDesign, SalientFieldDesign, MaterialsFile, WaiversFile):
+        walk(root)
     return tuple(sorted(names))
 
 

@@ -14,7 +14,8 @@ from pydantic import TypeAdapter, ValidationError
 from emgate.consistency import consistency_problems
 from emgate.errors import InputError, InputErrors
 from emgate.loader import Document
-from emgate.model import AnyDesign, Design, MaterialsFile
+from emgate.model import AnyDesign, Design
+from emgate.model.materials import MaterialsFile
 from emgate.terms import DESIGN_SCHEMA, MATERIALS_SCHEMA
 from emgate.translate import describe_value, model_errors
 

@@ -9,13 +9,8 @@ from emgate.calc import winding
 from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
-    from emgate.model import (
-        AnyDesign,
-        OpenSlot,
-        RectangularConductor,
-        RoundConductor,
-        SemiClosedSlot,
-    )
+    from emgate.model import AnyDesign
+    from emgate.model.stator import OpenSlot, RectangularConductor, RoundConductor, SemiClosedSlot
     from emgate.physics.resistance import ConductorMaterial
 
 #: Slot liner when the record gives none: 0.25 mm of insulating paper is usual for
@@ -165,6 +160,17 @@ def slot_fill(c: Calculation) -> float:
     from emgate.physics.slots import fill_factor
 
     return fill_factor(copper_area(c), slot_area(c))
+
+
+@quantity("stator.slot_fill_insulated")
+def slot_fill_insulated(c: Calculation) -> float:
+    w = c.d.winding
+    cond = w.conductor
+    if cond.shape == "round":
+        one = cond.insulated_diameter**2
+    else:
+        one = cond.insulated_width * cond.insulated_height
+    return conductors_per_slot(c) * cond.strands * one / slot_area(c)
 
 
 @quantity("stator.electric_loading")

@@ -121,7 +121,7 @@ def magnetic(c: Calculation) -> GapResult:
             winding_factor=winding.winding_factor(c),
         )
     if d.machine == "surface_pm":
-        return _surface_pm_circuit(c, c.value("rotor.magnet_temperature"))  # calc.thermal
+        return surface_pm_circuit(c, c.value("rotor.magnet_temperature"))  # calc.thermal
     return salient_circuit(c, d.rotor.field.turns_per_pole * d.rotor.field.current)
 
 
@@ -151,7 +151,7 @@ def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
     )
 
 
-def _surface_pm_circuit(c: Calculation, temperature: float) -> SurfacePMResult:
+def surface_pm_circuit(c: Calculation, temperature: float) -> SurfacePMResult:
     """The surface-magnet circuit at no load with the magnet at ``temperature`` [K]."""
     from emgate.physics.magnetic import SurfaceMagnet
     from emgate.physics.magnetic_surface_pm import remanence_at, surface_pm_gap
@@ -172,7 +172,7 @@ def magnetic_cold(c: Calculation) -> SurfacePMResult:
     """The surface-magnet circuit at no load with the magnet at the coolant temperature
     (a cold start): Br, and so |H_0|, is higher cold for a negative remanence
     coefficient."""
-    return _surface_pm_circuit(c, c.d.cooling.ambient)
+    return surface_pm_circuit(c, c.d.cooling.ambient)
 
 
 @quantity("air_gap.flux_density_peak")

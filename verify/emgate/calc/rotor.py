@@ -16,7 +16,7 @@ def bar_area(c: Calculation) -> float:
     cage = geo.cage_rotor(c.d).cage
     if cage.bar is not None:
         return rectangular_strand_area(cage.bar.width, cage.bar.height)
-    from emgate.model import SemiClosedSlot
+    from emgate.model.stator import SemiClosedSlot
 
     sl = geo.cage_rotor(c.d).slot
     if isinstance(sl, SemiClosedSlot):

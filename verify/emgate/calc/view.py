@@ -170,16 +170,18 @@ def _guarded(c: Calculation, name: str, compute: Callable[[], float]) -> float:
 
 
 def _fault_current(c: Calculation, cold: bool) -> float:
-    from emgate.calc import circuit
+    from emgate.calc import worst_cases
 
-    return _guarded(c, "winding.fault_current_peak", lambda: circuit.fault_current(c, cold=cold))
+    return _guarded(
+        c, "winding.fault_current_peak", lambda: worst_cases.fault_current(c, cold=cold)
+    )
 
 
 def _magnet_field_at_fault(c: Calculation, factor: float, cold: bool) -> float:
-    from emgate.calc import circuit
+    from emgate.calc import worst_cases
 
     name = "rotor.magnet_field_strength_fault_" + ("cold" if cold else "hot")
-    return _guarded(c, name, lambda: circuit.magnet_field_at_fault(c, cold=cold, factor=factor))
+    return _guarded(c, name, lambda: worst_cases.magnet_field_at_fault(c, cold=cold, factor=factor))
 
 
 def _slot_height_clearance(c: Calculation, separator: float) -> float:
@@ -193,21 +195,21 @@ def _slot_height_clearance(c: Calculation, separator: float) -> float:
 
 
 def _winding_family(c: Calculation) -> str:
-    from emgate.calc import circuit
+    from emgate.calc import inductance
 
-    return circuit.family(c)
+    return inductance.family(c)
 
 
 def _lowest_ambient(c: Calculation) -> float:
-    from emgate.calc import circuit
+    from emgate.calc import worst_cases
 
-    return circuit.lowest_ambient(c)
+    return worst_cases.lowest_ambient(c)
 
 
 def _top_speed(c: Calculation) -> float:
-    from emgate.calc import circuit
+    from emgate.calc import worst_cases
 
-    return circuit.top_speed(c)
+    return worst_cases.top_speed(c)
 
 
 def _thermal_steps(c: Calculation) -> tuple[ThermalStep, ...]:

@@ -99,7 +99,7 @@ def _name_status(base: str, head: str | None, top: Path, paths: list[str]) -> li
 
 def _designs(tree: Path, rel_paths: list[str]) -> set[str]:
     """Repository-relative paths of the design records under ``rel_paths`` in a tree."""
-    from emgate.engine import discover
+    from emgate.discovery import discover
     from emgate.findings import RunResult
     from emgate.terms import DESIGN_SCHEMA
 

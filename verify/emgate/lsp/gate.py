@@ -38,9 +38,12 @@ def check_open(
     file are checked with every record the policy names, as they are read for those.
     ``remedies`` computes the remedies of failing checks (off on every keystroke)."""
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, discover, execute, input_findings
+    from emgate.discovery import discover
+    from emgate.engine import execute
     from emgate.errors import InputError, InputErrors
+    from emgate.findings import input_findings
     from emgate.loader import BUFFERS
+    from emgate.pipeline import Run
     from emgate.terms import DESIGN_SCHEMA
 
     token = BUFFERS.set(buffers)

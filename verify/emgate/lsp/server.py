@@ -29,7 +29,7 @@ from emgate.lsp.gate import (
     names,
 )
 from emgate.plugins import PluginSet
-from emgate.remedies import remedies_for
+from emgate.remedy_report import remedies_for
 
 SEVERITY = {
     "error": types.DiagnosticSeverity.Error,

@@ -19,9 +19,10 @@ def run_gate(
     """The gate's own run (engine, policy of the nearest emgate.yaml) over ``paths``; bad
     input comes back as input findings, as from ``emgate check``."""
     from emgate.config import find_config, load_policy
-    from emgate.engine import Run, execute, input_findings
+    from emgate.engine import execute
     from emgate.errors import InputError, InputErrors
-    from emgate.findings import RunResult
+    from emgate.findings import RunResult, input_findings
+    from emgate.pipeline import Run
 
     start = paths[0] if paths else Path.cwd()
     if config is None:
@@ -38,7 +39,7 @@ def run_gate(
 def gather_checks(page: PageData, result: RunResult, record: RecordResult | None) -> None:
     """The record's checks (with their remedies), rules and other findings from the run,
     and the verdict on the record alone."""
-    from emgate.remedies import remedies_for_check, summary
+    from emgate.remedy_report import remedies_for_check, summary
     from emgate.report.common import check_display
     from emgate.terms import path_string
 

@@ -15,7 +15,7 @@ import re
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RuleOutcome, RunResult
-from emgate.remedies import report_lines
+from emgate.remedy_report import report_lines
 from emgate.report.common import VERDICTS, printable, rules_run, summary_line
 from emgate.rule import Check
 

@@ -27,7 +27,7 @@ from urllib.parse import quote
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RuleInfo, RunResult
-from emgate.remedies import sarif_fixes
+from emgate.remedy_report import sarif_fixes
 from emgate.report.common import VERDICTS, rules_run
 from emgate.report.jsonfmt import check_dict
 

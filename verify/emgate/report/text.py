@@ -7,7 +7,7 @@ from __future__ import annotations
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
-from emgate.remedies import report_lines
+from emgate.remedy_report import report_lines
 from emgate.report.common import margins_line, one_line, rules_line, summary_line, where
 
 

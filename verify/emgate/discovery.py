@@ -1,0 +1,270 @@
+"""Discovery: which files a run reads, and what each declares.
+
+Files named, and ``*.yaml`` / ``*.yml`` under folders named, sniffed for the emgate schema they
+declare; a file that resembles a record but is no valid emgate file is an input error. Also the
+repository a path belongs to and its materials files.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterable
+from dataclasses import dataclass
+from pathlib import Path
+
+from emgate.changes import ChangeSet
+from emgate.config import CONFIG_NAME, Policy
+from emgate.errors import InputError, Location, display_path
+from emgate.findings import Finding, RunResult, input_finding
+from emgate.listing import yaml_files
+from emgate.loader import load_text, read_text
+from emgate.materials import Catalogue
+from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
+
+_DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
+
+
+@dataclass
+class Source:
+    path: Path
+    text: str
+    declared: str | None
+    explicit: bool
+
+
+def discover(
+    paths: Iterable[Path],
+    result: RunResult,
+    policy: Policy | None = None,
+    changes: ChangeSet | None = None,
+    verbose: bool = False,
+) -> list[Source]:
+    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema.
+
+    Fail closed: a file that is not a valid emgate file is an input error when it resembles
+    one (a near-miss ``schema:`` value or key, a list root holding a record, a record's keys
+    with no schema), and, in a configured repository, whenever the configuration's ``files``
+    globs select it or it is named on the command line, unless ``ignore_files`` lists it.
+    Otherwise it is skipped (with a note when named, or with ``verbose``). With a change
+    set, only the files the change touches are held to this.
+    """
+    out: list[Source] = []
+    seen: set[Path] = set()
+    for root in paths:
+        if root.is_dir():
+            candidates = [p for p in yaml_files(root) if p.name != CONFIG_NAME]
+            explicit = False
+        elif root.exists():
+            candidates, explicit = [root], True
+        else:
+            result.findings.append(input_finding(InputError(f"no such file or folder: {root}")))
+            continue
+        for path in candidates:
+            key = path.resolve()
+            if key in seen:
+                continue
+            seen.add(key)
+            if not explicit and not _within(path, root):
+                result.findings.append(
+                    input_finding(
+                        InputError(
+                            f"a symbolic link leading outside {display_path(root)}: emgate"
+                            " reads nothing outside the folders it checks",
+                            Location(path, 1, 1, "$"),
+                        )
+                    )
+                )
+                continue
+            try:
+                text = read_text(path)
+            except InputError as exc:
+                result.findings.append(input_finding(exc))
+                continue
+            m = _DECLARES.search(text[:4096])
+            declared = m.group(1) if m and m.group(1) in _KNOWN else None
+            if declared is None:
+                declared, problem, near_miss = _classify(path, text)
+                named = explicit or bool(changes and changes.named and key in changes.files)
+                strict = _strict(path, named, policy)
+                if problem is not None and not near_miss and _ignored(path, policy):
+                    problem = None  # the team says it is no record (a fixture, a draft)
+                if problem is None and strict is not None:
+                    problem = InputError(
+                        "not an emgate file (no 'schema: emgate/...' line at the top level):"
+                        f" {strict}; list it under ignore_files in {CONFIG_NAME} if it is no"
+                        " record",
+                        Location(path, 1, 1, "$"),
+                    )
+                if problem is not None and _touched(changes, key):
+                    result.findings.append(input_finding(problem))
+                    continue
+            if declared is None:
+                # a file named, or --verbose: say so, do not fail (pre-commit passes CI files)
+                if explicit or verbose:
+                    result.findings.append(
+                        Finding(
+                            "input",
+                            "info",
+                            display_path(path),
+                            1,
+                            1,
+                            "$",
+                            "skipped: not an emgate file (no 'schema: emgate/...' line)",
+                            kind="note",
+                        )
+                    )
+                continue
+            if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
+                continue  # read through the policy, not as records
+            out.append(Source(path, text, declared, explicit))
+    return out
+
+
+#: Top-level keys of emgate records: a file holding one of them is meant as a record.
+RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
+_KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
+
+
+def _within(path: Path, root: Path) -> bool:
+    try:
+        path.resolve().relative_to(root.resolve())
+    except (ValueError, OSError):
+        return False
+    return True
+
+
+def _touched(changes: ChangeSet | None, key: Path) -> bool:
+    """Whether a change (if any) touches a file: an untouched file's problems are its own."""
+    return changes is None or changes.everything or key in changes.files
+
+
+def _ignored(path: Path, policy: Policy | None) -> bool:
+    """Whether a configuration's ignore_files lists a file."""
+    return policy is not None and policy.source is not None and policy.ignored(path)
+
+
+def _strict(path: Path, named: bool, policy: Policy | None) -> str | None:
+    """Why a non-emgate file is an error here (None: it may be skipped)."""
+    if policy is None or policy.source is None or not policy.inside(path):
+        return None
+    if policy.ignored(path):
+        return None
+    if named:
+        return "it is named inside a configured repository"
+    if policy.selects(path):
+        return f"the files globs of {CONFIG_NAME} select it"
+    return None
+
+
+def _classify(path: Path, text: str) -> tuple[str | None, InputError | None, bool]:
+    """A file the schema-line scan misses: (the emgate schema it declares, or None; the
+    reason it is a broken emgate file, or None when it does not resemble one; whether the
+    reason is a near-miss schema key or value, an error even where ignore_files lists it)."""
+    import difflib
+
+    try:
+        doc = load_text(path, text)
+    except InputError as exc:
+        if "emgate" in text.lower() and exc.location is not None:
+            problem = InputError(f"not a valid emgate file: {exc.message}", exc.location)
+            return None, problem, False
+        return None, None, False
+    data = doc.data
+    if isinstance(data, list):
+        if any(isinstance(item, dict) and _resembles(item) for item in data):
+            problem = InputError(
+                "expected a mapping with a 'schema' key at the top level, found a list holding"
+                " a record: an emgate file holds one record, not a list",
+                doc.locate(()),
+            )
+            return None, problem, False
+        return None, None, False
+    if not isinstance(data, dict):
+        return None, None, False
+    for k in data:
+        if k != "schema" and k.strip().lower() == "schema":
+            problem = InputError(
+                f"key {k!r} is not 'schema': emgate reads the key in lower case, without"
+                " spaces; did you mean 'schema'?",
+                doc.locate_key((k,)),
+            )
+            return None, problem, True
+    if "schema" not in data:
+        if _resembles(data):
+            problem = InputError(
+                "a record's keys with no 'schema' key: expected 'schema: emgate/design@1'"
+                " (or another emgate schema) at the top level",
+                doc.locate(()),
+            )
+            return None, problem, False
+        return None, None, False
+    declared = data["schema"]
+    if isinstance(declared, str) and declared in _KNOWN:
+        return declared, None, False  # (flow style, JSON, CR line ends)
+    looks = isinstance(declared, str) and "emgate" in declared.lower()
+    if not looks and not _resembles(data):
+        return None, None, False
+    hint = ""
+    if isinstance(declared, str):
+        close = difflib.get_close_matches(declared.strip().lower(), _KNOWN, n=1, cutoff=0.6)
+        hint = f"; did you mean {close[0]!r}?" if close else ""
+        if close and declared.strip().lower() != close[0]:
+            hint += " (emgate reads version 1 of each schema)"
+        hint += "; schema ids are lower case, without spaces"
+    shown = (
+        repr(declared)
+        if isinstance(declared, str) and len(declared) <= 40
+        else ("a list" if isinstance(declared, list) else type(declared).__name__)
+    )
+    problem = InputError(
+        f"expected one of {', '.join(repr(s) for s in _KNOWN)}, found {shown}{hint}",
+        doc.locate(("schema",)),
+    )
+    return None, problem, looks
+
+
+def _resembles(data: dict) -> bool:
+    return bool(RECORD_KEYS.intersection(data)) or (
+        isinstance(data.get("schema"), str) and "emgate" in data["schema"].lower()
+    )
+
+
+_RECORD_ID = re.compile(r"^id:\s*['\"]?([a-z0-9][a-z0-9._-]*)", re.MULTILINE)
+
+
+def repository_record_ids(root: Path) -> set[str]:
+    """Ids of every design record in the repository, checked in this run or not, so that a
+    waiver for a record outside the run is not taken for a typo."""
+    ids: set[str] = set()
+    for src in discover([root], RunResult()):
+        if src.declared == DESIGN_SCHEMA:
+            ids.update(_RECORD_ID.findall(src.text))
+    return ids
+
+
+def repository_root(start: Path) -> Path | None:
+    """The design repository a path belongs to: the folder of the nearest emgate.yaml, else
+    the git work tree's top; None outside both (then no folder is searched for materials)."""
+    here = (start if start.is_dir() else start.parent).resolve()
+    for folder in (here, *here.parents):
+        if (folder / CONFIG_NAME).is_file() or (folder / ".git").exists():
+            return folder
+    return None
+
+
+def materials_sources(root: Path) -> list[Source]:
+    """Every materials file under a repository root."""
+    scratch = RunResult()
+    return [s for s in discover([root], scratch) if s.declared == MATERIALS_SCHEMA]
+
+
+def discover_materials(start: Path) -> Catalogue:
+    """The steel catalogue of the repository holding ``start`` (for ``emgate show``)."""
+    from emgate.validate import validate_materials
+
+    catalogue = Catalogue()
+    root = repository_root(start)
+    for src in materials_sources(root) if root is not None else []:
+        doc = load_text(src.path, src.text)
+        catalogue.add_file(doc, validate_materials(doc))
+    return catalogue

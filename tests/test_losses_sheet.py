@@ -189,6 +189,28 @@ def test_a_runaway_is_a_finding_not_a_hang(repo: Path) -> None:
     assert any("run-away" in m for m in msgs), msgs
 
 
+def test_a_runaway_fails_the_rules_that_need_its_temperature_not_a_crash(repo: Path) -> None:
+    """The servo at twice its current with no declared magnet temperature: the magnet's
+    temperature is the rotor's estimate, and there is none (found by the long fuzz run,
+    where it was reported as six rule crashes, exit 3). It fails the record (exit 1): the
+    run-away itself by temperature-rise, and each rule that needs the magnet temperature
+    as not verified, at the cooling."""
+    path = variant(
+        repo,
+        {"rating.line_current": "7.8 A", "rotor.magnet.operating_temperature": DELETE},
+        base=SERVO,
+    )
+    result = check_json(path)
+    assert result.code == 1
+    assert not [f for f in findings(result) if f["kind"] == "crash"]
+    (runaway,) = [f for f in findings(result, "temperature-rise") if "run-away" in f["message"]]
+    assert runaway["record_path"] == "$.cooling.method"
+    for rule in ("demagnetisation", "gap-flux", "back-emf"):
+        (f,) = findings(result, rule)
+        assert f["severity"] == "error" and f["record_path"] == "$.cooling.method", f
+        assert "not verified by this rule" in f["message"] and "run-away" in f["message"]
+
+
 def test_an_undeclared_magnet_temperature_is_the_estimate(repo: Path) -> None:
     declared = sheet(SERVO)
     # the record's 100 degC is used verbatim [calc]

@@ -4,7 +4,8 @@ Whatever a rule does, the run goes on: an exception of any kind (SystemExit incl
 only the user's own Ctrl-C stops the run), anything yielded that is not a well-formed
 :class:`~emgate.rule.Check` or :class:`~emgate.rule.Problem`, or a run past its time
 budget is a crash of that rule, and the items it yielded before stand. A quantity the
-kernel cannot compute for an unbalanced winding ends the rule with a located finding.
+kernel cannot compute for an unbalanced winding, or one that needs the operating temperature
+of a design in thermal run-away, ends the rule with a located finding.
 """
 
 from __future__ import annotations
@@ -47,6 +48,7 @@ def run_rule(
 ) -> RuleRun | None:
     """Run ``rule`` on ``design`` within ``budget`` seconds (inside :func:`rule_guards`);
     None when the rule does not apply to the record."""
+    from emgate.calc.thermal import ThermalRunaway
     from emgate.calc.view import UNBALANCED, NotComputed
 
     ran = RuleRun()
@@ -76,6 +78,17 @@ def run_rule(
             Problem(
                 winding_path(design),
                 f"the record is not verified by this rule: {exc.reason}; {UNBALANCED}",
+            )
+        )
+    except ThermalRunaway as exc:
+        # The design overheats (the temperature-rise rule's finding); what depends on the
+        # operating temperature (a hot magnet, hot copper) has no value to check: fail the
+        # rule at the cooling, where the cause is, rather than call it emgate's crash.
+        items.append(
+            Problem(
+                ("cooling", "method"),
+                f"the record is not verified by this rule: it needs the operating"
+                f" temperature, and there is none: {exc}",
             )
         )
     except BaseException as exc:  # a rule's SystemExit must not end the run (fail closed)

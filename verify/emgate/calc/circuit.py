@@ -94,7 +94,6 @@ def field_current_rated_load(c: Calculation) -> float:
     import numpy as np
 
     from emgate.physics.inductance import salient_pole_axis_factors
-    from emgate.physics.iron import solve_increasing
     from emgate.physics.performance import armature_reaction_on_field, excitation_emf
 
     d = c.d
@@ -110,25 +109,10 @@ def field_current_rated_load(c: Calculation) -> float:
         leading=motor,
         motoring=motor,
     )
-    # E is proportional to B1 at the rated frequency: find the field MMF giving E_d.
+    # E is proportional to B1 at the rated frequency: the field MMF whose no-load circuit
+    # gives E_d, computed forward from that fundamental (no iteration)
     target = magnetic.gap_flux_density_fundamental(c) * float(emf) / magnetic.back_emf(c)
-
-    def excess(mmf: float) -> float:
-        return magnetic.salient_circuit(c, mmf).b_fundamental - target
-
-    no_load_mmf = rotor.field.turns_per_pole * rotor.field.current
-    high = 2.0 * no_load_mmf
-    for _ in range(6):
-        if excess(high) >= 0.0:
-            break
-        high *= 2.0
-    else:
-        raise ValueError(
-            f"no field current up to {high / rotor.field.turns_per_pole:.4g} A gives the"
-            f" air-gap EMF {float(emf):.4g} V on load: the iron saturates"
-        )
-    # 1e-6 of the field current is far inside the method's accuracy; each step is a circuit
-    resultant = solve_increasing(excess, 0.0, high, rtol=1e-6)
+    resultant = magnetic.salient_circuit_for_fundamental(c, target).total_mmf
     c_d, _ = salient_pole_axis_factors(rotor.pole.shoe_arc)
     armature = armature_reaction_on_field(
         winding.mmf_fundamental(c), float(c_d), rotor.pole.shoe_arc

@@ -11,7 +11,7 @@ from emgate.calc.core import Calculation, memo, quantity
 
 if TYPE_CHECKING:
     from emgate.physics.bh import BHCurve
-    from emgate.physics.magnetic import GapResult, PolePath
+    from emgate.physics.magnetic import GapResult, PolePath, SalientPole
     from emgate.physics.magnetic_surface_pm import SurfacePMResult
 
 #: Flux of a salient pole's body over its gap flux, for the pole-to-pole leakage
@@ -127,8 +127,22 @@ def magnetic(c: Calculation) -> GapResult:
 
 def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
     """The salient-pole circuit at no load with the field ampere-turns per pole ``field_mmf``."""
-    from emgate.physics.magnetic import SalientPole
     from emgate.physics.magnetic_salient_field import salient_field_gap
+
+    return salient_field_gap(*_salient_parts(c), field_mmf=field_mmf)
+
+
+def salient_circuit_for_fundamental(c: Calculation, b_fundamental: float) -> GapResult:
+    """The salient-pole circuit whose gap flux density has the fundamental ``b_fundamental``
+    [T]; its total MMF is the field ampere-turns per pole that give it."""
+    from emgate.physics.magnetic_salient_field import salient_field_for_fundamental
+
+    return salient_field_for_fundamental(*_salient_parts(c), b_fundamental=b_fundamental)
+
+
+def _salient_parts(c: Calculation) -> tuple[PolePath, SalientPole, BHCurve, BHCurve]:
+    """The flux path, pole and steels of a salient-pole machine's circuit."""
+    from emgate.physics.magnetic import SalientPole
 
     d = c.d
     assert d.machine == "salient_field"
@@ -142,13 +156,7 @@ def salient_circuit(c: Calculation, field_mmf: float) -> GapResult:
         pole.body_height + pole.shoe_height,
         leakage_factor=POLE_LEAKAGE,
     )
-    return salient_field_gap(
-        pole_path(c),
-        salient,
-        stator_steel(c),
-        rotor_steel(c),
-        field_mmf=field_mmf,
-    )
+    return pole_path(c), salient, stator_steel(c), rotor_steel(c)
 
 
 def surface_pm_circuit(c: Calculation, temperature: float) -> SurfacePMResult:

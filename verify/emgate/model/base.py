@@ -16,7 +16,7 @@ Fraction = Annotated[float, Field(ge=0.01, le=1.0)]
 class Strict(BaseModel):
     """Unknown keys are errors; numbers are not read from quoted text."""
 
-    model_config = ConfigDict(extra="forbid", strict=True, frozen=True)
+    model_config = ConfigDict(extra="forbid", strict=True, frozen=True, defer_build=True)
 
     @model_validator(mode="before")
     @classmethod

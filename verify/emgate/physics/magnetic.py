@@ -296,6 +296,15 @@ def _teeth_state(
     return b_app, b_real, tooth_magnetic_voltage(b_real, teeth.height, curve)
 
 
+def flux_shape(arc: float | None) -> tuple[float, float]:
+    """The mean and the fundamental of the gap flux density over its peak: a rectangle of
+    pole-arc fraction ``arc``, or a sine (None)."""
+    if arc is None:
+        return 2.0 / math.pi, 1.0  # the sine's mean over its peak
+    # Fourier fundamental of a rectangle of width a*pi (electrical): (4/pi) sin(a pi/2).
+    return arc, 4.0 / math.pi * math.sin(0.5 * math.pi * arc)
+
+
 def pole_state(
     path: PolePath,
     b_peak: float,
@@ -311,11 +320,7 @@ def pole_state(
 
     ``arc``: pole-arc fraction of a rectangular gap flux, or None for a sinusoidal one.
     """
-    if arc is None:
-        flux_width, fundamental = 2.0 / math.pi, 1.0  # the sine's mean over its peak
-    else:
-        # Fourier fundamental of a rectangle of width a*pi (electrical): (4/pi) sin(a pi/2).
-        flux_width, fundamental = arc, 4.0 / math.pi * math.sin(0.5 * math.pi * arc)
+    flux_width, fundamental = flux_shape(arc)
     flux = b_peak * flux_width * path.pole_pitch * path.stack_length
     rotor_flux = rotor_flux_factor * flux
     iron_area = path.stacking_factor * path.iron_length

@@ -12,7 +12,7 @@ import math
 from emgate.physics.bh import BHCurve
 from emgate.physics.constants import MU0
 from emgate.physics.iron import solve_increasing
-from emgate.physics.magnetic import GapResult, PolePath, SalientPole, pole_state
+from emgate.physics.magnetic import GapResult, PolePath, SalientPole, flux_shape, pole_state
 
 
 def salient_field_gap(
@@ -56,25 +56,57 @@ def salient_field_gap(
     """
     if not (math.isfinite(field_mmf) and field_mmf >= 0.0):
         raise ValueError("the field ampere-turns must be finite and >= 0")
-    if pole.shoe_width > path.pole_pitch:
-        raise ValueError("the pole shoe is wider than the pole pitch")
-    arc = pole.shoe_width / path.pole_pitch
-    rim_ramp = min(1.0, pole.body_width / path.rotor_yoke.path_length)
 
     def state(b_gap: float) -> GapResult:
-        return pole_state(
-            path,
-            b_gap,
-            arc,
-            stator_curve,
-            rotor_curve,
-            rotor_flux_factor=pole.leakage_factor,
-            rotor_yoke_ramp=rim_ramp,
-            pole=pole,
-        )
+        return salient_field_state(path, pole, stator_curve, rotor_curve, b_gap=b_gap)
 
     # The gap alone would take all the ampere-turns at B = mu0 F / (kc g).
     b_gap = solve_increasing(
         lambda b: state(b).total_mmf - field_mmf, 0.0, MU0 * field_mmf / path.effective_gap
     )
     return state(b_gap)
+
+
+def salient_field_state(
+    path: PolePath,
+    pole: SalientPole,
+    stator_curve: BHCurve,
+    rotor_curve: BHCurve,
+    *,
+    b_gap: float,
+) -> GapResult:
+    """The salient pole's circuit at the peak gap flux density ``b_gap`` [T]: the forward
+    direction of :func:`salient_field_gap`, whose ``total_mmf`` is the field ampere-turns
+    per pole that flux takes (same flux shape and iron)."""
+    if pole.shoe_width > path.pole_pitch:
+        raise ValueError("the pole shoe is wider than the pole pitch")
+    return pole_state(
+        path,
+        b_gap,
+        pole.shoe_width / path.pole_pitch,
+        stator_curve,
+        rotor_curve,
+        rotor_flux_factor=pole.leakage_factor,
+        rotor_yoke_ramp=min(1.0, pole.body_width / path.rotor_yoke.path_length),
+        pole=pole,
+    )
+
+
+def salient_field_for_fundamental(
+    path: PolePath,
+    pole: SalientPole,
+    stator_curve: BHCurve,
+    rotor_curve: BHCurve,
+    *,
+    b_fundamental: float,
+) -> GapResult:
+    """The salient pole's circuit whose gap flux density has the fundamental
+    ``b_fundamental`` [T]; its ``total_mmf`` is the field ampere-turns that give it. The
+    flat flux under the shoe makes the fundamental proportional to the peak, so this needs
+    no iteration (the resultant MMF of a loaded machine, for instance)."""
+    if not (math.isfinite(b_fundamental) and b_fundamental >= 0.0):
+        raise ValueError("the fundamental gap flux density must be finite and >= 0")
+    _, fundamental = flux_shape(pole.shoe_width / path.pole_pitch)
+    return salient_field_state(
+        path, pole, stator_curve, rotor_curve, b_gap=b_fundamental / fundamental
+    )

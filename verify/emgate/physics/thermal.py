@@ -43,6 +43,7 @@ from emgate.physics.convection import (
     natural_convection_coefficient,
     radiation_coefficient,
 )
+from emgate.physics.iron import solve_increasing
 from emgate.physics.thermal_inputs import (
     COOLING_METHODS,
     CoolingMethod,
@@ -165,14 +166,7 @@ def _solve_surface_rise(heat: float, conductance: Callable[[float], float]) -> f
         hi *= 2.0
         if hi > 1e5:
             raise ValueError("the surface cannot shed this heat at any plausible temperature")
-    lo = 0.0
-    for _ in range(80):  # bisection to below 1e-20 of the bracket
-        mid = 0.5 * (lo + hi)
-        if mid * conductance(mid) < heat:
-            lo = mid
-        else:
-            hi = mid
-    return 0.5 * (lo + hi)
+    return solve_increasing(lambda rise: rise * conductance(rise) - heat, 0.0, hi)
 
 
 def _air_surface(

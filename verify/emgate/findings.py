@@ -187,3 +187,13 @@ def input_finding(exc: InputError) -> Finding:
 def input_findings(exc: InputError | InputErrors) -> list[Finding]:
     errors = exc.errors if isinstance(exc, InputErrors) else [exc]
     return [input_finding(e) for e in errors]
+
+
+def needing_remedies(findings: list[Finding]) -> list[Finding]:
+    """The failing, unwaived checks among ``findings``: those a remedy is sought for."""
+    return [
+        f
+        for f in findings
+        if f.check is not None and not f.check.passed and f.waived_by is None
+        and f.kind == "violation"
+    ]  # fmt: skip

@@ -25,6 +25,7 @@ from emgate.findings import (
     RunResult,
     input_finding,
     input_findings,
+    needing_remedies,
 )
 from emgate.findings import describe_check as _describe
 from emgate.loader import Document, load_text
@@ -209,7 +210,7 @@ def _check_design(
             _check_rule(run, ld, policy, loaded.rule, context, record, produced, builtin)
     finally:  # an error of emgate's own keeps what the rules before it found
         result.findings.extend(apply_waivers(waivers, produced, record, run.today))
-    if run.remedies:
+    if run.remedies and needing_remedies(produced):  # the remedies' modules only then
         from emgate.remedies import attach_remedies
 
         budget = run.policy.rule_time_budget

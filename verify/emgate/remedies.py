@@ -94,14 +94,10 @@ def attach_remedies(
 ) -> None:
     """Compute the remedies of every failing, unwaived check among ``findings`` of one
     record and attach them (``Finding.remedies``)."""
+    from emgate.findings import needing_remedies
     from emgate.loader import read_text
 
-    failing = [
-        f
-        for f in findings
-        if f.check is not None and not f.check.passed and f.waived_by is None
-        and f.kind == "violation"
-    ]  # fmt: skip
+    failing = needing_remedies(findings)
     if not failing:
         return
     from emgate.variants import Evaluator

@@ -79,6 +79,8 @@ class CellMap:
     feasible: list[list[int]]
     total: list[list[int]]
     values: tuple[int, int]  # distinct values of x and y: more than cells, neighbours share
+    x_at: list[float]  # each cell's value, where a cell holds one (else empty)
+    y_at: list[float]
     projected: bool  # more than two fields: a cell holds the variants over the others
 
 
@@ -135,10 +137,10 @@ class _Axis:
         labels = () if self.numeric else tuple(str(v) for v in axis.values)
         self.view = MapAxis(axis.name, unit, self.numeric, labels)
         self.index = {} if self.numeric else {axis_value(v): k for k, v in enumerate(axis.values)}
-        self.size = len(axis.values)
         self.cell: list[int] = []
         self.edges: list[float] = []
         self.values = 0
+        self.at: list[float] = []
         if grid:
             at = [self.position(axis_value(axis.record(v))) for v in axis.values]
             unique = sorted(set(at))
@@ -149,6 +151,7 @@ class _Axis:
             bounds = _bounds(unique, self.numeric)
             self.edges = [bounds[-(-b * n // cells)] for b in range(cells + 1)]
             self.values = n
+            self.at = unique if n == cells else []
 
     def position(self, value: Any) -> float:
         if self.numeric:
@@ -190,7 +193,8 @@ class _Pair:
 
 
 class SweepMaps:
-    """The page's data, from the rows in any order (each names its variant)."""
+    """The page's data, from the rows in variant order as the sweep hands them on (the maps
+    would not mind another order; the list of the first infeasible variants would)."""
 
     def __init__(self, spec: Spec, cols: Columns) -> None:
         self.spec, self.names = spec, cols.names
@@ -219,7 +223,7 @@ class SweepMaps:
             rank = _INFEASIBLE if math.isfinite(margin) else _NO_MARGIN
         values = r[1 : 1 + len(self.axes)]
         if self.pairs:
-            cell = [a.cell[k] for a, k in zip(self.axes, self._indices(i), strict=True)]
+            cell = [a.cell[k] for a, k in zip(self.axes, self.spec.indices(i), strict=True)]
             score = margin if math.isfinite(margin) else -math.inf
             for p in self.pairs:
                 at = (cell[p.y], cell[p.x])
@@ -239,14 +243,6 @@ class SweepMaps:
                 InfeasibleRow(i, shown, label, margin, str(get["invalid_reason"] or ""))
             )
 
-    def _indices(self, i: int) -> list[int]:
-        """Each field's value index of grid variant ``i`` (the last field varies fastest)."""
-        out = []
-        for axis in reversed(self.axes):
-            i, k = divmod(i, axis.size)
-            out.append(k)
-        return out[::-1]
-
     def page(self, summary: Summary, record: Path, spec: Path, data: Any) -> SweepPage:
         """The page, once every row is in; ``data`` the record's own data (its title, id)."""
         others = sorted(label for label in self.codes if label != FEASIBLE)
@@ -256,6 +252,7 @@ class SweepMaps:
             Outcome(label, chr(ord("A") + k) if k < 26 else "?") for k, label in enumerate(others)
         ]
         new = {self.codes[label]: k for k, label in enumerate(order)}
+        # a trailing -1, so that an empty cell (-1) stays empty
         remap = np.array([new[c] for c in range(len(self.codes))] + [-1], dtype=np.int16)
         maps = [
             CellMap(
@@ -267,6 +264,8 @@ class SweepMaps:
                 p.feasible.tolist(),
                 p.total.tolist(),
                 (self.axes[p.x].values, self.axes[p.y].values),
+                self.axes[p.x].at,
+                self.axes[p.y].at,
                 len(self.axes) > 2,
             )
             for p in self.pairs

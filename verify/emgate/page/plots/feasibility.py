@@ -9,7 +9,6 @@ image inside the SVG (a page stays small); the outline, axes and legend stay vec
 from __future__ import annotations
 
 import math
-from itertools import pairwise
 from typing import TYPE_CHECKING, Any
 
 from emgate.page.plots.style import (
@@ -74,15 +73,15 @@ def sweep_plots(page: SweepPage) -> dict[str, str]:
     return out
 
 
-def _ticks(ax: Any, which: str, axis: MapAxis, centres: list[float]) -> None:
-    """A list's labels at its values; a short numeric axis labelled at every value."""
+def _ticks(ax: Any, which: str, axis: MapAxis, values: list[float]) -> None:
+    """A list's labels at its values; a numeric axis of a few values labelled at each."""
     setter = ax.set_xticks if which == "x" else ax.set_yticks
     if not axis.numeric:
         step = max(1, math.ceil(len(axis.labels) / 12))
         at = list(range(0, len(axis.labels), step))
         setter(at, [axis.labels[k] for k in at])
-    elif 0 < len(centres) <= 12:
-        setter(centres, [f"{c:.4g}" for c in centres])
+    elif 0 < len(values) <= 12:
+        setter(values, [f"{v:.4g}" for v in values])
 
 
 def _legend(fig: Any, handles: list[Any], title: str) -> None:
@@ -133,8 +132,8 @@ def grid_map(page: SweepPage, m: CellMap) -> str:
         )
         ax.set_xlim(m.x_edges[0], m.x_edges[-1])
         ax.set_ylim(m.y_edges[0], m.y_edges[-1])
-        _ticks(ax, "x", xa, _centres(m.x_edges))
-        _ticks(ax, "y", ya, _centres(m.y_edges))
+        _ticks(ax, "x", xa, m.x_at)
+        _ticks(ax, "y", ya, m.y_at)
         ax.set_xlabel(xa.title)
         ax.set_ylabel(ya.title)
         ax.spines[["top", "right"]].set_visible(True)
@@ -160,10 +159,10 @@ def _cells_vector(ax: Any, m: CellMap, outcomes: list[Outcome], letters: bool) -
                 continue
             x0, x1 = m.x_edges[ix], m.x_edges[ix + 1]
             boxes.setdefault(k, []).append(Rectangle((x0, y0), x1 - x0, y1 - y0))
-            if letters and k > 0:
+            if letters and k > 0:  # at the cell's value (off centre between uneven ones)
                 ax.text(
-                    (x0 + x1) / 2,
-                    (y0 + y1) / 2,
+                    m.x_at[ix] if m.x_at else (x0 + x1) / 2,
+                    m.y_at[iy] if m.y_at else (y0 + y1) / 2,
                     outcomes[k].letter,
                     ha="center",
                     va="center",
@@ -196,10 +195,6 @@ def _cells_image(ax: Any, m: CellMap, outcomes: list[Outcome]) -> None:
     )
     codes = np.array(m.cells)
     ax.pcolormesh(m.x_edges, m.y_edges, palette[codes], rasterized=True, gid="cells")
-
-
-def _centres(edges: list[float]) -> list[float]:
-    return [(a + b) / 2 for a, b in pairwise(edges)]
 
 
 def _outline(m: CellMap) -> list[list[tuple[float, float]]]:
@@ -320,7 +315,8 @@ def margin_line(page: SweepPage, pts: PointSet) -> str:
         if page.sample == "grid":
             line = sorted((x, y) for x, y in zip(xs, ys, strict=True) if math.isfinite(y))
             ax.plot([p[0] for p in line], [p[1] for p in line], color=STEEL, linewidth=1.0)
-        present = _scatter(ax, page, pts, _place(axis, xs, pts.variants), shown)
+        at = _place(axis, xs, pts.variants) if page.sample == "random" else xs
+        present = _scatter(ax, page, pts, at, shown)
         ax.axhline(0.0, color=BLACK, linewidth=1.0)
         _ticks(ax, "x", axis, sorted(set(xs)) if page.sample == "grid" else [])
         ax.set_xlabel(axis.title)

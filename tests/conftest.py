@@ -1,9 +1,9 @@
 """Shared fixtures and the one home of the helpers test modules share.
 
 The CLI run in-process; design-record variants written to tmp_path; the JSON of a run taken
-apart (findings, outcomes, checks); hand calculations used as oracles by several modules; and
-calculations built directly with a chosen steel. Test modules import helpers from here, never
-from one another.
+apart (findings, outcomes, checks); hand calculations used as oracles by several modules;
+calculations built directly with a chosen steel; and the headless browser of the pages'
+tests. Test modules import helpers from here, never from one another.
 
 Record variants start from the demo records, are edited as plain data and written back with
 PyYAML's dumper; the expected line of a node is read back with PyYAML's composer, which is
@@ -16,10 +16,12 @@ import copy
 import io
 import json
 import math
+import os
 import shutil
 import sys
+import tempfile
 import textwrap
-from collections.abc import Callable, Mapping
+from collections.abc import Callable, Iterator, Mapping
 from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
 from pathlib import Path
@@ -355,3 +357,72 @@ def calculation(path: Path, steel: BHCurve | None = None) -> Calculation:
     catalogue: Any = discover_materials(path)
     catalogue.resolve(doc, design)
     return Calculation(design, OneSteel(steel) if steel is not None else catalogue)
+
+
+# ------------------------------------------------------------------ a real browser
+
+
+BROWSER_FLAGS = (
+    "--headless",
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+)
+
+
+def _browser_or_skip() -> tuple[str, str]:
+    """Paths of the system chromium and its driver. Missing in CI is a failure; outside CI
+    the browser tests are skipped and say why (`.ci/run` and `nox -s tests` install it)."""
+    reasons = []
+    try:
+        import selenium  # noqa: F401
+    except ImportError:
+        reasons.append("the selenium package is not installed (pip install -e '.[test]')")
+    browser = shutil.which("chromium") or shutil.which("chromium-browser")
+    driver = shutil.which("chromedriver") or (
+        "/usr/bin/chromedriver" if Path("/usr/bin/chromedriver").exists() else None
+    )
+    if not browser or not driver:
+        reasons.append("Debian's chromium and chromium-driver are not installed")
+    if reasons:
+        why = "; ".join(reasons)
+        if os.environ.get("CI") == "true":
+            pytest.fail(f"browser tests cannot run in CI: {why}")
+        print(f"skipping the browser tests: {why}")
+        pytest.skip(why)
+    return browser, driver  # type: ignore[return-value]
+
+
+@pytest.fixture(scope="module")
+def browser() -> Iterator[Any]:
+    from selenium import webdriver
+    from selenium.webdriver.chrome.options import Options
+    from selenium.webdriver.chrome.service import Service
+
+    binary, driver_path = _browser_or_skip()
+    profile = tempfile.mkdtemp(prefix="emgate-chromium-")
+    opts = Options()
+    opts.binary_location = binary
+    for flag in (*BROWSER_FLAGS, f"--user-data-dir={profile}", "--window-size=1280,900"):
+        opts.add_argument(flag)
+    opts.set_capability("goog:loggingPrefs", {"browser": "ALL", "performance": "ALL"})
+    drv = webdriver.Chrome(options=opts, service=Service(driver_path))
+    try:
+        yield drv
+    finally:
+        drv.quit()
+        shutil.rmtree(profile, ignore_errors=True)
+
+
+def requests(drv: Any) -> list[str]:
+    """The addresses a browser asked for since its performance log was last read."""
+    urls = []
+    for entry in drv.get_log("performance"):
+        msg = json.loads(entry["message"])["message"]
+        if msg.get("method") == "Network.requestWillBeSent":
+            urls.append(msg["params"]["request"]["url"])
+    return urls

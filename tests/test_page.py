@@ -3,13 +3,9 @@ computations, the command line, escaping, and the page in a real headless browse
 
 from __future__ import annotations
 
-import json
 import math
 import os
 import re
-import shutil
-import tempfile
-from collections.abc import Iterator
 from pathlib import Path
 from typing import Any
 
@@ -17,7 +13,7 @@ import numpy as np
 import pytest
 import yaml
 
-from conftest import DESIGNS, GENSET, PUMP, SERVO, STEELS, run_cli, write_variant
+from conftest import DESIGNS, GENSET, PUMP, SERVO, STEELS, requests, run_cli, write_variant
 
 RECORDS = sorted(DESIGNS.glob("*.yaml"))
 
@@ -276,77 +272,12 @@ def test_everything_from_the_record_is_escaped(tmp_path: Path) -> None:
 # ------------------------------------------------------------------ a real browser
 
 
-BROWSER_FLAGS = (
-    "--headless",
-    "--no-sandbox",
-    "--disable-gpu",
-    "--disable-quic",
-    "--no-first-run",
-    "--disable-background-networking",
-    "--disable-component-update",
-    "--disable-sync",
-)
-
-
-def _browser_or_skip() -> tuple[str, str]:
-    """Paths of the system chromium and its driver. Missing in CI is a failure; outside CI
-    the browser tests are skipped and say why (`.ci/run` and `nox -s tests` install it)."""
-    reasons = []
-    try:
-        import selenium  # noqa: F401
-    except ImportError:
-        reasons.append("the selenium package is not installed (pip install -e '.[test]')")
-    browser = shutil.which("chromium") or shutil.which("chromium-browser")
-    driver = shutil.which("chromedriver") or (
-        "/usr/bin/chromedriver" if Path("/usr/bin/chromedriver").exists() else None
-    )
-    if not browser or not driver:
-        reasons.append("Debian's chromium and chromium-driver are not installed")
-    if reasons:
-        why = "; ".join(reasons)
-        if os.environ.get("CI") == "true":
-            pytest.fail(f"browser tests cannot run in CI: {why}")
-        print(f"skipping the browser tests: {why}")
-        pytest.skip(why)
-    return browser, driver  # type: ignore[return-value]
-
-
-@pytest.fixture(scope="module")
-def browser() -> Iterator[Any]:
-    from selenium import webdriver
-    from selenium.webdriver.chrome.options import Options
-    from selenium.webdriver.chrome.service import Service
-
-    binary, driver_path = _browser_or_skip()
-    profile = tempfile.mkdtemp(prefix="emgate-chromium-")
-    opts = Options()
-    opts.binary_location = binary
-    for flag in (*BROWSER_FLAGS, f"--user-data-dir={profile}", "--window-size=1280,900"):
-        opts.add_argument(flag)
-    opts.set_capability("goog:loggingPrefs", {"browser": "ALL", "performance": "ALL"})
-    drv = webdriver.Chrome(options=opts, service=Service(driver_path))
-    try:
-        yield drv
-    finally:
-        drv.quit()
-        shutil.rmtree(profile, ignore_errors=True)
-
-
 @pytest.fixture(scope="module")
 def pages(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
     out = tmp_path_factory.mktemp("sheets")
     done = run_cli("check", DESIGNS.parent, "--format", f"html:{out}")
     assert done.code == 1, done.err
     return {p.stem.removeprefix("sheet-"): p for p in out.glob("*.html")}
-
-
-def _requests(drv: Any) -> list[str]:
-    urls = []
-    for entry in drv.get_log("performance"):
-        msg = json.loads(entry["message"])["message"]
-        if msg.get("method") == "Network.requestWillBeSent":
-            urls.append(msg["params"]["request"]["url"])
-    return urls
 
 
 EXPECTED_PLOTS = {"section", "slot", "star", "mmf", "spectrum", "ampere-turns", "thermal"}
@@ -363,7 +294,7 @@ def test_page_loads_offline_without_console_errors(
     browser.get(url)
     errors = [e for e in browser.get_log("browser") if e["level"] in ("SEVERE", "WARNING")]
     assert errors == []
-    assert set(_requests(browser)) <= {url}
+    assert set(requests(browser)) <= {url}
     plots = browser.execute_script(
         """return Array.from(document.querySelectorAll('svg.plot')).map(function (s) {
              var r = s.getBoundingClientRect();

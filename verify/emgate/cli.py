@@ -168,6 +168,12 @@ def _parser() -> argparse.ArgumentParser:
     )
     w.add_argument("--out", type=Path, help="table of variants: FILE.csv or FILE.parquet")
     w.add_argument(
+        "--html",
+        type=Path,
+        metavar="FILE",
+        help="a self-contained page of the feasibility maps (needs the extra emgate[html])",
+    )
+    w.add_argument(
         "--scheduler",
         default="local",
         help="local (default: a Dask cluster on this machine's cores), tcp://HOST:PORT"

@@ -246,7 +246,15 @@ def _sweep(args: argparse.Namespace) -> int:
 
     try:
         return sweep(
-            SweepRun(args.record, args.spec, args.out, args.scheduler, args.chunk, args.config)
+            SweepRun(
+                args.record,
+                args.spec,
+                args.out,
+                args.scheduler,
+                args.chunk,
+                args.config,
+                args.html,
+            )
         )
     except (InputError, InputErrors) as exc:
         for err in exc.errors if isinstance(exc, InputErrors) else [exc]:

@@ -107,6 +107,7 @@ class SweepRun:
     scheduler: str = "local"
     chunk: int = DEFAULT_CHUNK
     config: Path | None = None
+    html: Path | None = None
     log: Callable[[str], None] = field(default=lambda text: print(text, file=sys.stderr))
 
 
@@ -152,11 +153,19 @@ def prepare(run: SweepRun) -> tuple[Evaluator, Spec, Columns]:
 
 
 def sweep(run: SweepRun) -> int:
-    """Run a sweep; the summary to stdout, the table to ``run.out`` (or stdout as CSV)."""
+    """Run a sweep; the summary to stdout, the table to ``run.out`` (or stdout as CSV), the
+    page of its maps to ``run.html``."""
     import time
 
     from emgate.atomic import write_atomic
 
+    if run.html is not None:
+        from emgate.page import MISSING_PLOTS, plots_available
+
+        if not plots_available():
+            raise InputError(MISSING_PLOTS)
+        if not run.html.parent.is_dir():  # found now, not after the sweep has run
+            raise InputError(f"cannot write html to {run.html}: no such folder")
     evaluator, spec, cols = prepare(run)
     scheduler = run.scheduler
     if scheduler != "none":
@@ -170,6 +179,11 @@ def sweep(run: SweepRun) -> int:
             run.log("emgate sweep: Dask is not installed (emgate[sweep]); running in this process")
             scheduler = "none"
     summary = Summary(spec, cols)
+    maps = None
+    if run.html is not None:
+        from emgate.page.sweep_data import SweepMaps
+
+        maps = SweepMaps(spec, cols)
     tmp: Path | None = None
     stream: TextIO | None = None
     if run.out is not None and run.out.suffix == ".parquet":
@@ -194,6 +208,8 @@ def sweep(run: SweepRun) -> int:
             writer.write(rows)
             for r in rows:
                 summary.add(r)
+                if maps is not None:
+                    maps.add(r)
     finally:
         writer.close()
         if stream is not None:
@@ -202,6 +218,14 @@ def sweep(run: SweepRun) -> int:
         write_atomic(run.out, tmp.read_text(encoding="utf-8"))
         tmp.unlink()
     elapsed = time.perf_counter() - start
+    if maps is not None and run.html is not None:
+        from emgate.page.sweep_page import sweep_html
+
+        page = maps.page(summary, run.record, run.spec, evaluator.doc.data)
+        try:
+            write_atomic(run.html, sweep_html(page))
+        except OSError as exc:
+            raise InputError(f"cannot write html to {run.html}: {exc.strerror or exc}") from None
     text = summary.text()
     rate = summary.total / elapsed if elapsed > 0 else 0.0
     text += f"({rate:,.0f} variants/s wall, scheduler {scheduler})\n"

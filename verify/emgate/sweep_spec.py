@@ -59,14 +59,21 @@ class Spec:
             return self.count
         return math.prod(len(a.values) for a in self.axes)
 
+    def indices(self, i: int) -> tuple[int, ...]:
+        """Grid variant ``i``: the index of each field's value."""
+        out = []
+        for axis in reversed(self.axes):  # the last field varies fastest
+            i, k = divmod(i, len(axis.values))
+            out.append(k)
+        return tuple(reversed(out))
+
     def variant(self, i: int) -> dict[tuple[str | int, ...], Any]:
         """Variant ``i``: the record value of each swept field."""
         out: dict[tuple[str | int, ...], Any] = {}
         if self.sample == "grid":
-            for axis in reversed(self.axes):  # the last field varies fastest
-                i, k = divmod(i, len(axis.values))
+            for axis, k in zip(self.axes, self.indices(i), strict=True):
                 out[axis.path] = axis.record(axis.values[k])
-            return dict(reversed(list(out.items())))
+            return out
         import numpy as np
 
         rng = np.random.default_rng([self.seed, i])

@@ -81,6 +81,18 @@ def row(i: int, spec: Spec, cols: Columns, result: VariantResult) -> list[Any]:
     ]
 
 
+def outcome(get: dict[str, Any]) -> str:
+    """A row's binding rule, '(invalid)' for a variant that did not validate, '(none)' for
+    one without a margin."""
+    return str(get["binding_rule"]) or ("(invalid)" if not get["valid"] else "(none)")
+
+
+def numeric(axis: Axis) -> bool:
+    """Whether a swept field's values are numbers in the table (a range, or a list of
+    numbers or quantities)."""
+    return axis.is_range or all(_is_number(axis_value(v)) for v in axis.values)
+
+
 class Summary:
     """Feasible fraction and binding rules, and the feasible map of a two-field grid."""
 
@@ -97,7 +109,7 @@ class Summary:
         self.total += 1
         self.valid += bool(get["valid"])
         self.feasible += bool(get["feasible"])
-        rule = get["binding_rule"] or ("(invalid)" if not get["valid"] else "(none)")
+        rule = outcome(get)
         (self.binding_feasible if get["feasible"] else self.binding_infeasible)[rule] += 1
         if self.spec.sample == "grid" and len(self.spec.axes) == 2:
             swept = self.spec.variant(r[0])
@@ -191,8 +203,7 @@ class ParquetWriter:
 
         types: list[Any] = [pa.int64()]
         for axis in spec.axes:
-            numeric = axis.is_range or all(_is_number(axis_value(v)) for v in axis.values)
-            types.append(pa.float64() if numeric else pa.string())
+            types.append(pa.float64() if numeric(axis) else pa.string())
         types += [pa.bool_(), pa.string(), pa.bool_(), pa.string(), pa.float64()]
         types += [pa.float64()] * len(cols.sheet)
         types += [pa.string()] * len(cols.rules) + [pa.float64()] * len(cols.rules)

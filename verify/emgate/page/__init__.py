@@ -8,7 +8,8 @@ read the calculation or the kernel. They hand on the plain dataclasses of
 imported only there; :mod:`emgate.page.html` writes the page from its
 :mod:`~emgate.page.sections` on the skeleton of :mod:`~emgate.page.markup`, escaping
 everything that comes from the record. :mod:`emgate.page.shapes` holds the plane geometry of
-the drawings (slot outlines, conductors as placed for the fill).
+the drawings (slot outlines, conductors as placed for the fill). The page of a sweep is
+:mod:`emgate.page.sweep_data` (what it keeps of the rows) and :mod:`emgate.page.sweep_page`.
 """
 
 from __future__ import annotations

@@ -4,7 +4,7 @@ matplotlib is imported by these modules only, and there inside the functions, of
 check``'s path. :mod:`.style`: the palette, the style and the SVG output every plot shares;
 :mod:`.section` and :mod:`.slot`: the drawings; :mod:`.winding`: the star of slots and the
 MMF; :mod:`.magnetic`: the B-H curves and the ampere-turns; :mod:`.margins`: the temperature
-steps and the checks' margins.
+steps and the checks' margins; :mod:`.feasibility`: a sweep's maps (for its own page).
 """
 
 from __future__ import annotations

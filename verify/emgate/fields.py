@@ -45,6 +45,14 @@ def get_field(data: Any, path: Sequence[str | int]) -> Any:
     return node
 
 
+def field_or_none(data: Any, path: Sequence[str | int]) -> Any:
+    """The value at ``path``, None where the data has none."""
+    try:
+        return get_field(data, path)
+    except (KeyError, IndexError, TypeError):
+        return None
+
+
 def _copy(node: Any) -> Any:
     """A copy of plain loaded data (dicts, lists, scalars): deepcopy's work, a tenth the time."""
     if isinstance(node, dict):

@@ -4,10 +4,10 @@ rounded away from the limit, or a standard wire size."""
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass
 from typing import Any
 
+from emgate.fields import field_or_none, split_quantity
 from emgate.terms import RecordPath
 
 #: Nominal bare diameters of round enamelled winding wire [mm] from 0.1 to 5 mm: the R 20
@@ -27,35 +27,12 @@ INSULATED = {
     "width": "insulated_width",
     "height": "insulated_height",
 }
-_NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
-
-
-def value_at(data: Any, path: RecordPath) -> Any:
-    """The raw record's value at ``path``, None where it has none."""
-    for p in path:
-        if isinstance(data, dict) and p in data:
-            data = data[p]
-        elif isinstance(data, list) and isinstance(p, int) and 0 <= p < len(data):
-            data = data[p]
-        else:
-            return None
-    return data
 
 
 def _attr(model: Any, path: RecordPath) -> Any:
     for p in path:
         model = getattr(model, str(p), None)
     return model
-
-
-def with_value(data: Any, path: RecordPath, value: Any) -> Any:
-    """A copy of ``data`` with ``value`` at ``path`` (only the containers along it copied)."""
-    if not path:
-        return value
-    head, rest = path[0], path[1:]
-    out = dict(data) if isinstance(data, dict) else list(data)
-    out[head] = with_value(data[head], rest, value)  # type: ignore[index]
-    return out
 
 
 @dataclass
@@ -73,19 +50,14 @@ class NumberField:
         """The field at ``path`` of the raw record, or None where it is not a number; a
         count is one the validated ``design`` holds as an int (a float field may be
         written '4')."""
-        raw = value_at(data, path)
-        if isinstance(raw, bool):
-            return None
-        if isinstance(raw, int):
+        raw = field_or_none(data, path)
+        if isinstance(raw, int) and not isinstance(raw, bool):
             whole = design is None or isinstance(_attr(design, path), int)
             return cls(path, float(raw), "", whole, raw)
-        if isinstance(raw, float):
-            return cls(path, raw, "", False, raw)
-        if isinstance(raw, str) and (m := _NUMBER.match(raw)) is not None:
-            if m.group(2) in ("degC", "°C", "degF"):  # affine: not scaled by a factor
-                return None
-            return cls(path, float(m.group(1)), m.group(2), False, raw)
-        return None
+        split = split_quantity(raw)
+        if split is None or split[1] in ("degC", "°C", "degF"):  # affine: not a factor
+            return None
+        return cls(path, split[0], split[1], False, raw)
 
     def text(self, number: float) -> Any:
         """The record value for ``number``, in the record's own style."""

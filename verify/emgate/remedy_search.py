@@ -9,6 +9,7 @@ import math
 from collections.abc import Callable
 from typing import TYPE_CHECKING, Any
 
+from emgate.fields import field_or_none, with_fields
 from emgate.remedy import Edit, Remedy
 from emgate.remedy_fields import (
     INSULATED,
@@ -17,8 +18,6 @@ from emgate.remedy_fields import (
     NumberField,
     number_text,
     round_away,
-    value_at,
-    with_value,
 )
 from emgate.terms import RecordPath
 
@@ -113,11 +112,10 @@ class Search:
 
     def data_for(self, f: NumberField, number: float) -> Any:
         """The raw record with ``f`` at ``number`` (and what moves with it)."""
-        data = with_value(self.data, f.path, f.text(number))
-        extra = self.coupled(f, number)
-        if extra is not None:
-            data = with_value(data, extra[0].path, extra[1])
-        return data
+        changes: dict[RecordPath, Any] = {f.path: f.text(number)}
+        if (extra := self.coupled(f, number)) is not None:
+            changes[extra[0].path] = extra[1]
+        return with_fields(self.data, changes)
 
     def at(self, f: NumberField, number: float) -> tuple[Any, float | None]:
         data = self.data_for(f, number)
@@ -298,17 +296,14 @@ class Search:
             if not f.whole and abs(invalid / valid - 1.0) <= TOLERANCE:
                 return valid
             mid = float(round((valid + invalid) / 2)) if f.whole else math.sqrt(valid * invalid)
-            data = with_value(self.data, f.path, f.text(mid))
-            if (c := self.coupled(f, mid)) is not None:
-                data = with_value(data, c[0].path, c[1])
-            if self.trial.design(data) is None:
+            if self.trial.design(self.data_for(f, mid)) is None:
                 invalid = mid
             else:
                 valid = mid
         return valid
 
     def _wire(self, f: NumberField) -> bool:
-        conductor = value_at(self.data, f.path[:-1])
+        conductor = field_or_none(self.data, f.path[:-1])
         return (
             f.path[-1] == "bare_diameter"
             and isinstance(conductor, dict)

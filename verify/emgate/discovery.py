@@ -30,6 +30,8 @@ class Source:
     text: str
     declared: str | None
     explicit: bool
+    #: ``path`` resolved (once, in discovery: a change set and the sources' set compare it)
+    key: Path
 
 
 def discover(
@@ -54,8 +56,9 @@ def discover(
         if root.is_dir():
             candidates = [p for p in yaml_files(root) if p.name != CONFIG_NAME]
             explicit = False
+            inside = root.resolve()
         elif root.exists():
-            candidates, explicit = [root], True
+            candidates, explicit, inside = [root], True, None
         else:
             result.findings.append(input_finding(InputError(f"no such file or folder: {root}")))
             continue
@@ -64,7 +67,7 @@ def discover(
             if key in seen:
                 continue
             seen.add(key)
-            if not explicit and not _within(path, root):
+            if inside is not None and not key.is_relative_to(inside):
                 result.findings.append(
                     input_finding(
                         InputError(
@@ -116,21 +119,13 @@ def discover(
                 continue
             if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
                 continue  # read through the policy, not as records
-            out.append(Source(path, text, declared, explicit))
+            out.append(Source(path, text, declared, explicit, key))
     return out
 
 
 #: Top-level keys of emgate records: a file holding one of them is meant as a record.
 RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
 _KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
-
-
-def _within(path: Path, root: Path) -> bool:
-    try:
-        path.resolve().relative_to(root.resolve())
-    except (ValueError, OSError):
-        return False
-    return True
 
 
 def _touched(changes: ChangeSet | None, key: Path) -> bool:

@@ -59,8 +59,7 @@ def execute(run: Run) -> RunResult:
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     sources = discover(run.paths, result, run.policy, run.changes, run.verbose)
-    where = {id(src): src.path.resolve() for src in sources}  # each path resolved once
-    named = set(where.values())
+    named = {src.key for src in sources}
     # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
     folders = {p if p.is_dir() else p.parent for p in run.paths if p.exists()}
     roots = {r for f in folders if (r := repository_root(f)) is not None}
@@ -68,8 +67,8 @@ def execute(run: Run) -> RunResult:
     for root in sorted(roots):
         if root in searched:
             continue  # its materials files are among the sources already
-        sources += [m for m in materials_sources(root) if m.path.resolve() not in named]
-        named |= {m.path.resolve() for m in sources}
+        sources += [m for m in materials_sources(root) if m.key not in named]
+        named |= {m.key for m in sources}
     result.files_read = len(sources)
     # Materials (and any file not declared a design) first: the catalogue is complete
     # before the first record is checked. Design files then stream through one at a time
@@ -83,7 +82,7 @@ def execute(run: Run) -> RunResult:
                 changes is not None
                 and not changes.everything
                 and not changes.grades
-                and where.get(id(src), src.path.resolve()) not in changes.files
+                and src.key not in changes.files
             ):
                 continue  # outside the change by its path alone: not even parsed
             designs.append(src)

@@ -151,7 +151,7 @@ def _untouched_record(run: Run, src: Source) -> bool:
         changes is not None
         and not changes.everything
         and src.declared == DESIGN_SCHEMA
-        and src.path.resolve() not in changes.files
+        and src.key not in changes.files
     )
 
 

@@ -19,6 +19,7 @@ from pathlib import Path
 from typing import Any, TextIO
 
 from emgate.fields import split_quantity
+from emgate.findings import DISCLAIMER
 from emgate.sweep_spec import Axis, Spec
 from emgate.variants import VariantResult
 
@@ -132,10 +133,7 @@ class Summary:
                     out.write(f"  {rid:<28} {n:8d}\n")
         if self.grid:
             out.write(self._map())
-        out.write(
-            "Results support, and do not replace, review by a qualified engineer under the"
-            " applicable standards and local codes.\n"
-        )
+        out.write(DISCLAIMER + "\n")
         return out.getvalue()
 
     def _map(self) -> str:

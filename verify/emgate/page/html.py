@@ -15,18 +15,17 @@ from emgate import __version__
 from emgate.findings import DISCLAIMER
 from emgate.page.markup import SCRIPT, e, html_table, json_script, page_head
 from emgate.page.sections import SECTIONS, margin_text
+from emgate.report.common import VERDICTS
 
 if TYPE_CHECKING:
     from emgate.findings import RunResult
     from emgate.page.content import PageData
 
-VERDICT = {0: "PASS", 1: "FAIL", 2: "INVALID INPUT", 3: "RULE CRASHED"}
-
 
 def render_page(page: PageData, plots: dict[str, str]) -> str:
     """The sheet of one record as one HTML document."""
     p = page
-    verdict = VERDICT.get(p.verdict, "?")
+    verdict = VERDICTS.get(p.verdict, "?")
     cls = "pass" if p.verdict == 0 else "fail"
     out = [page_head(f"emgate sheet: {p.record_id}: {p.title}")]
     out.append(
@@ -85,7 +84,7 @@ def render_index(result: RunResult, pages: list[PageData], sheet_name: Callable[
     out = [page_head("emgate run")]
     out.append(
         '<header><p class="meta">emgate run</p><h1>Calculation sheets</h1>'
-        f'<p><span class="verdict {cls}" id="verdict">{e(VERDICT.get(code, "?"))}</span></p>'
+        f'<p><span class="verdict {cls}" id="verdict">{e(VERDICTS.get(code, "?"))}</span></p>'
         f"<p>{e(summary_line(result))}</p>"
         f'<p class="caution">{e(DISCLAIMER)}</p></header><main>'
     )
@@ -103,7 +102,7 @@ def render_index(result: RunResult, pages: list[PageData], sheet_name: Callable[
                 f"{e(p.record_id)}</a></td>",
                 e(p.title),
                 e(p.file),
-                e(VERDICT.get(p.verdict, "?")),
+                e(VERDICTS.get(p.verdict, "?")),
                 e(near),
             ]
         )

@@ -58,6 +58,15 @@ class BHCurve:
         # of one record asks for a few hundred points.
         object.__setattr__(self, "_bt", tuple(b.tolist()))
         object.__setattr__(self, "_ht", tuple(h.tolist()))
+        # The array path's table, extended by one point along the straight line beyond the
+        # last (slope 1/mu0), so that one np.interp covers the tables and the line.
+        far = b[-1] + _EXTENSION
+        object.__setattr__(self, "_b_ext", np.append(b, far))
+        object.__setattr__(self, "_h_ext", np.append(h, h[-1] + _EXTENSION / MU0))
+
+
+#: How far [T] beyond its last point the array path's table is extended along the line.
+_EXTENSION = 100.0
 
 
 def _interp(x: float, xp: tuple[float, ...], fp: tuple[float, ...]) -> float:
@@ -91,9 +100,10 @@ def h_from_b(curve: BHCurve, b: float | np.ndarray) -> float | np.ndarray:
         v = _interp(x, bt, ht) if x <= bt[-1] else ht[-1] + (x - bt[-1]) / MU0
         return v if b > 0 else -v if b < 0 else 0.0
     babs = np.abs(np.asarray(b, dtype=float))
-    inside = np.interp(babs, curve.b, curve.h)
-    beyond = curve.h[-1] + (babs - curve.b[-1]) / MU0
-    h = np.where(babs <= curve.b[-1], inside, beyond) * np.sign(b)
+    h: np.ndarray = np.asarray(np.interp(babs, curve._b_ext, curve._h_ext))  # type: ignore[attr-defined]
+    if babs.size and not babs.max() <= curve._b_ext[-1]:  # type: ignore[attr-defined]
+        h = np.where(babs <= curve.b[-1], h, curve.h[-1] + (babs - curve.b[-1]) / MU0)
+    h = np.copysign(h, b)
     return float(h) if np.ndim(h) == 0 else h
 
 

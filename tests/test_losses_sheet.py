@@ -211,6 +211,23 @@ def test_a_runaway_fails_the_rules_that_need_its_temperature_not_a_crash(repo: P
         assert "not verified by this rule" in f["message"] and "run-away" in f["message"]
 
 
+def test_a_runaway_fails_a_rule_the_team_made_a_warning(repo: Path) -> None:
+    """Without temperature-rise, and with the magnet rule turned to a warning, the record
+    that has no operating temperature still fails: an unverified record never passes."""
+    write_config(
+        repo, "rules:\n  select: [demagnetisation]\nseverity:\n  demagnetisation: warning\n"
+    )
+    path = variant(
+        repo,
+        {"rating.line_current": "7.8 A", "rotor.magnet.operating_temperature": DELETE},
+        base=SERVO,
+    )
+    result = check_json(path)
+    assert result.code == 1, result.out
+    (f,) = findings(result, "demagnetisation")
+    assert f["severity"] == "error" and "not verified by this rule" in f["message"], f
+
+
 def test_an_undeclared_magnet_temperature_is_the_estimate(repo: Path) -> None:
     declared = sheet(SERVO)
     # the record's 100 degC is used verbatim [calc]

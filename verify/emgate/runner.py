@@ -83,12 +83,14 @@ def run_rule(
     except ThermalRunaway as exc:
         # The design overheats (the temperature-rise rule's finding); what depends on the
         # operating temperature (a hot magnet, hot copper) has no value to check: fail the
-        # rule at the cooling, where the cause is, rather than call it emgate's crash.
+        # rule at the cooling, where the cause is, rather than call it emgate's crash. An
+        # error whatever the rule's severity: an unverified record must not pass.
         items.append(
             Problem(
                 ("cooling", "method"),
                 f"the record is not verified by this rule: it needs the operating"
                 f" temperature, and there is none: {exc}",
+                "error",
             )
         )
     except BaseException as exc:  # a rule's SystemExit must not end the run (fail closed)

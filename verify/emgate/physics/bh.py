@@ -15,6 +15,9 @@ import numpy as np
 
 from emgate.physics.constants import MU0
 
+#: How far [T] beyond its last point the array path's table is extended along the line.
+_EXTENSION = 100.0
+
 
 @dataclass(frozen=True)
 class BHCurve:
@@ -63,10 +66,6 @@ class BHCurve:
         far = b[-1] + _EXTENSION
         object.__setattr__(self, "_b_ext", np.append(b, far))
         object.__setattr__(self, "_h_ext", np.append(h, h[-1] + _EXTENSION / MU0))
-
-
-#: How far [T] beyond its last point the array path's table is extended along the line.
-_EXTENSION = 100.0
 
 
 def _interp(x: float, xp: tuple[float, ...], fp: tuple[float, ...]) -> float:

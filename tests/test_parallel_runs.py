@@ -113,8 +113,40 @@ def test_changed_since_parses_only_the_changed_record(
     # every home that parses a file of the run: discovery, the run (materials), each record
     for module in (emgate.discovery, emgate.engine, emgate.pipeline):
         monkeypatch.setattr(module, "load_text", spy)
+    read_whole: list[str] = []
+    real_read = emgate.discovery.read_text
+
+    def read_spy(path: Path) -> str:
+        read_whole.append(path.name)
+        return real_read(path)
+
+    monkeypatch.setattr(emgate.discovery, "read_text", read_spy)
     result = run_cli("check", "--jobs", "1", "--format", "json", "--changed-since", "HEAD")
     assert result.code == 0, result.out
     assert [r["record_id"] for r in result.json()["records"]] == ["pump-drive-4p36s-003"]
     # the materials file (the catalogue) and the one changed record; no other record
     assert sorted(parsed) == ["r003.yaml", "steels.yaml"]
+    # the other records are not even read whole: their heads say they are no materials file
+    assert sorted(read_whole) == ["r003.yaml", "steels.yaml"]
+
+
+@pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
+def test_changed_since_still_reports_an_unreadable_file_outside_the_change(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    """Reading only the heads of unchanged files must not hide a file that read_text refuses
+    (it may be a materials file the catalogue needs): it is read whole and reported, as
+    without a change set."""
+    many_records(tmp_path)
+    for name in ("broken.yaml", "invalid.yaml", "taken-id.yaml"):
+        (tmp_path / "designs" / name).unlink()
+    (tmp_path / "designs" / "scan.yaml").write_bytes(b"schema: emgate/mat\x00erials@1\n")
+    _git(tmp_path, "init", "-q", "-b", "main")
+    _git(tmp_path, "add", "-A")
+    _git(tmp_path, "commit", "-qm", "records")
+    changed = tmp_path / "designs" / "r003.yaml"
+    changed.write_text(changed.read_text() + "# reviewed\n")
+    monkeypatch.chdir(tmp_path)
+    result = run_cli("check", "--jobs", "1", "--changed-since", "HEAD")
+    assert result.code == 2, result.out
+    assert "scan.yaml:1:" in result.out and "control character U+0000" in result.out

@@ -7,6 +7,7 @@ repository a path belongs to and its materials files.
 
 from __future__ import annotations
 
+import os
 import re
 from collections.abc import Iterable
 from dataclasses import dataclass
@@ -16,8 +17,8 @@ from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy
 from emgate.errors import InputError, Location, display_path
 from emgate.findings import Finding, RunResult, input_finding
-from emgate.listing import yaml_files
-from emgate.loader import load_text, read_text
+from emgate.listing import yaml_names
+from emgate.loader import HEAD_CHARS, load_text, read_head, read_text
 from emgate.materials import Catalogue
 from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
 
@@ -51,43 +52,55 @@ def discover(
     set, only the files the change touches are held to this.
     """
     out: list[Source] = []
-    seen: set[Path] = set()
+    # Paths as strings until a file is kept: a thousand-record repository checked for one
+    # changed file spends its time here, and pathlib's objects cost more than the file reads.
+    seen: set[str] = set()
+    folders: dict[str, str] = {}
+    # Outside a change set's files (with no grade or policy change) a record is not read
+    # whole: its head tells it from a materials file (which the catalogue needs); a file whose
+    # head declares no emgate schema, or holds anything read_text refuses, is read whole.
+    narrow = changes is not None and not (changes.everything or changes.grades)
+    changed = {str(p) for p in changes.files} if changes is not None else set()
     for root in paths:
         if root.is_dir():
-            candidates = [p for p in yaml_files(root) if p.name != CONFIG_NAME]
+            candidates = [p for p in yaml_names(root) if os.path.basename(p) != CONFIG_NAME]
             explicit = False
-            inside = root.resolve()
+            inside: str | None = str(root.resolve())
         elif root.exists():
-            candidates, explicit, inside = [root], True, None
+            candidates, explicit, inside = [str(root)], True, None
         else:
             result.findings.append(input_finding(InputError(f"no such file or folder: {root}")))
             continue
-        for path in candidates:
-            key = path.resolve()
+        for name in candidates:
+            key = _resolved(name, folders)
             if key in seen:
                 continue
             seen.add(key)
-            if inside is not None and not key.is_relative_to(inside):
+            if inside is not None and not _within(key, inside):
                 result.findings.append(
                     input_finding(
                         InputError(
                             f"a symbolic link leading outside {display_path(root)}: emgate"
                             " reads nothing outside the folders it checks",
-                            Location(path, 1, 1, "$"),
+                            Location(Path(name), 1, 1, "$"),
                         )
                     )
                 )
                 continue
+            outside = narrow and key not in changed
+            if outside and (head := read_head(name)) is not None:
+                if _declared(head) in (DESIGN_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA):
+                    continue  # none of them is read for a record outside the change
+            path = Path(name)
             try:
                 text = read_text(path)
             except InputError as exc:
                 result.findings.append(input_finding(exc))
                 continue
-            m = _DECLARES.search(text[:4096])
-            declared = m.group(1) if m and m.group(1) in _KNOWN else None
+            declared = _declared(text)
             if declared is None:
                 declared, problem, near_miss = _classify(path, text)
-                named = explicit or bool(changes and changes.named and key in changes.files)
+                named = explicit or bool(changes and changes.named and key in changed)
                 strict = _strict(path, named, policy)
                 if problem is not None and not near_miss and _ignored(path, policy):
                     problem = None  # the team says it is no record (a fixture, a draft)
@@ -98,7 +111,9 @@ def discover(
                         " record",
                         Location(path, 1, 1, "$"),
                     )
-                if problem is not None and _touched(changes, key):
+                if problem is not None and (
+                    changes is None or changes.everything or key in changed
+                ):
                     result.findings.append(input_finding(problem))
                     continue
             if declared is None:
@@ -119,18 +134,38 @@ def discover(
                 continue
             if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
                 continue  # read through the policy, not as records
-            out.append(Source(path, text, declared, explicit, key))
+            if outside and declared == DESIGN_SCHEMA:
+                continue  # outside the change by its path alone: not parsed
+            out.append(Source(path, text, declared, explicit, Path(key)))
     return out
+
+
+def _declared(text: str) -> str | None:
+    """The emgate schema a file's ``schema:`` line declares in its head, if any."""
+    m = _DECLARES.search(text, 0, HEAD_CHARS)
+    return m.group(1) if m and m.group(1) in _KNOWN else None
+
+
+def _resolved(name: str, folders: dict[str, str]) -> str:
+    """``os.path.realpath(name)``, each folder resolved once: a file that is no symbolic link
+    resolves to its resolved folder and its own name."""
+    if os.path.islink(name):
+        return os.path.realpath(name)
+    folder, base = os.path.split(name)
+    real = folders.get(folder)
+    if real is None:
+        real = folders[folder] = os.path.realpath(folder or ".")
+    return os.path.join(real, base)
+
+
+def _within(key: str, folder: str) -> bool:
+    """Whether a resolved path lies inside a resolved folder."""
+    return key == folder or key.startswith(folder if folder.endswith(os.sep) else folder + os.sep)
 
 
 #: Top-level keys of emgate records: a file holding one of them is meant as a record.
 RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
 _KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
-
-
-def _touched(changes: ChangeSet | None, key: Path) -> bool:
-    """Whether a change (if any) touches a file: an untouched file's problems are its own."""
-    return changes is None or changes.everything or key in changes.files
 
 
 def _ignored(path: Path, policy: Policy | None) -> bool:
@@ -249,8 +284,9 @@ def repository_root(start: Path) -> Path | None:
 
 def materials_sources(root: Path) -> list[Source]:
     """Every materials file under a repository root."""
-    scratch = RunResult()
-    return [s for s in discover([root], scratch) if s.declared == MATERIALS_SCHEMA]
+    scratch = RunResult()  # an empty change: the other files' heads are read, not their texts
+    sources = discover([root], scratch, changes=ChangeSet())
+    return [s for s in sources if s.declared == MATERIALS_SCHEMA]
 
 
 def discover_materials(start: Path) -> Catalogue:

@@ -77,14 +77,6 @@ def execute(run: Run) -> RunResult:
     designs: list[Source] = []
     for src in sources:
         if src.declared == DESIGN_SCHEMA:
-            changes = run.changes
-            if (
-                changes is not None
-                and not changes.everything
-                and not changes.grades
-                and src.key not in changes.files
-            ):
-                continue  # outside the change by its path alone: not even parsed
             designs.append(src)
             continue
         try:

@@ -28,27 +28,40 @@ def _skipped(folder: Path) -> bool:
 
 def yaml_files(root: Path) -> list[Path]:
     """Every ``*.yaml``/``*.yml`` file under ``root`` that the gate should read, sorted."""
+    return [Path(name) for name in yaml_names(root)]
+
+
+def yaml_names(root: Path) -> list[str]:
+    """:func:`yaml_files` as path strings (``root`` joined with each file's relative path):
+    discovery of a large repository builds a path object only for the files it keeps."""
     listed = _git_listing(root)
     if listed is None:
-        return sorted(p for p in _walk(root) if p.is_file())
-    verdict: dict[Path, bool] = {}
+        return sorted((p for p in _walk(root) if os.path.isfile(p)), key=_parts)
+    top = str(root)
+    verdict: dict[str, bool] = {}
 
-    def kept(path: Path) -> bool:
-        folder = path.parent
+    def kept(name: str) -> bool:
+        folder = os.path.dirname(name)
         chain = []
-        while folder != root and folder not in verdict:
+        while folder and folder not in verdict:
             chain.append(folder)
-            folder = folder.parent
+            folder = os.path.dirname(folder)
         ok = verdict.get(folder, True)
         for f in reversed(chain):  # outermost first: a skipped parent skips its children
-            ok = ok and not _skipped(f)
+            ok = ok and not _skipped(Path(top, f))
             verdict[f] = ok
         return ok
 
-    return sorted(p for p in listed if p.suffix in SUFFIXES and kept(p) and p.is_file())
+    paths = (os.path.join(top, name) for name in listed if name.endswith(SUFFIXES) and kept(name))
+    return sorted((p for p in paths if os.path.isfile(p)), key=_parts)
 
 
-def _git_listing(root: Path) -> list[Path] | None:
+def _parts(name: str) -> list[str]:
+    """Sort key: the order of the paths' parts, as paths sort (``a/x`` before ``a-b/x``)."""
+    return name.split(os.sep)
+
+
+def _git_listing(root: Path) -> list[str] | None:
     """Git's files under ``root``, or None when ``root`` is not in a work tree (or git is
     missing or does not answer): then the caller walks the folder instead."""
     try:
@@ -64,13 +77,12 @@ def _git_listing(root: Path) -> list[Path] | None:
     if done.returncode != 0:
         return None
     names = done.stdout.decode("utf-8", "surrogateescape").split("\0")
-    return [root / name for name in dict.fromkeys(names) if name]
+    return [name for name in dict.fromkeys(names) if name]  # relative, in git's / form
 
 
-def _walk(root: Path) -> list[Path]:
-    out: list[Path] = []
+def _walk(root: Path) -> list[str]:
+    out: list[str] = []
     for folder, dirs, names in os.walk(root):
-        here = Path(folder)
-        dirs[:] = sorted(d for d in dirs if not _skipped(here / d))
-        out.extend(here / n for n in names if n.endswith(SUFFIXES))
+        dirs[:] = sorted(d for d in dirs if not _skipped(Path(folder, d)))
+        out.extend(os.path.join(folder, n) for n in names if n.endswith(SUFFIXES))
     return out

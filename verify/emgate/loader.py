@@ -11,6 +11,7 @@ schema, restricted: null, true/false, decimal integers and floats; everything el
 
 from __future__ import annotations
 
+import codecs
 import os
 import re
 import stat
@@ -284,10 +285,10 @@ def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
 BUFFERS: ContextVar[Mapping[Path, str] | None] = ContextVar("emgate_buffers", default=None)
 
 
-def _read_bytes(path: Path) -> bytes:
+def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
     buffers = BUFFERS.get()
-    if buffers and (text := buffers.get(path.resolve())) is not None:
-        return text.encode("utf-8", "surrogatepass")[: MAX_BYTES + 1]
+    if buffers and (text := buffers.get(Path(path).resolve())) is not None:
+        return text.encode("utf-8", "surrogatepass")[:limit]
     # Opened without blocking and checked on the open descriptor: a FIFO or a device would
     # otherwise hold the run forever (and a check before opening could be raced).
     fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
@@ -300,10 +301,32 @@ def _read_bytes(path: Path) -> bytes:
             )
         with os.fdopen(fd, "rb") as handle:
             fd = -1
-            return handle.read(MAX_BYTES + 1)
+            return handle.read(limit)
     finally:
         if fd >= 0:
             os.close(fd)
+
+
+#: Characters of a file's head in which discovery looks for its ``schema:`` line.
+HEAD_CHARS = 4096
+_CONTROL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f\ufffe\uffff]")
+
+
+def read_head(path: Path | str) -> str | None:
+    """The first :data:`HEAD_CHARS` characters of a file, or None when they hold anything
+    :func:`read_text` would refuse (or the file cannot be read): the caller then reads it
+    whole, to report the located error."""
+    try:
+        raw = _read_bytes(path, 4 * HEAD_CHARS)  # UTF-8 takes at most 4 bytes a character
+    except (OSError, InputError):
+        return None
+    try:  # not final: a character the limit cut in two is left out, not refused
+        text = codecs.getincrementaldecoder("utf-8")().decode(raw, final=False)
+    except UnicodeDecodeError:
+        return None
+    if _CONTROL.search(text):
+        return None
+    return text.removeprefix("\ufeff")[:HEAD_CHARS]
 
 
 def read_text(path: Path) -> str:
@@ -326,7 +349,7 @@ def read_text(path: Path) -> str:
             f"expected UTF-8 text, found byte 0x{raw[exc.start]:02x}",
             Location(path, line, col, "$"),
         ) from None
-    bad = re.search(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f\ufffe\uffff]", text)
+    bad = _CONTROL.search(text)
     if bad:
         line = text.count("\n", 0, bad.start()) + 1
         col = bad.start() - (text.rfind("\n", 0, bad.start()) + 1) + 1

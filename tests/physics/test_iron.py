@@ -190,3 +190,42 @@ def test_solve_increasing_matches_brentq(func, lo: float, hi: float) -> None:
 def test_solve_increasing_rejects_a_bracket_without_a_root() -> None:
     with pytest.raises(ValueError):
         solve_increasing(lambda x: x + 1.0, 0.0, 1.0)
+
+
+@pytest.mark.parametrize(
+    ("func", "lo", "hi", "most"),
+    [
+        # convex on the bracket: plain regula falsi keeps one end and creeps in from the other
+        (lambda x: math.exp(x) - 2.0, 0.0, 5.0, 12),
+        # a winding's temperature rise against its losses: rise x conductance(rise) = heat
+        (lambda x: x * (3.0 + 0.8 * x**0.25) - 400.0, 0.0, 400.0, 10),
+    ],
+)
+def test_solve_increasing_closes_the_bracket_in_few_evaluations(func, lo, hi, most) -> None:
+    # [calc] root checked against scipy.optimize.brentq (1e-11 absolute, as above); the
+    # evaluation counts are what the Anderson-Bjorck scaling and the step to the root's
+    # other side buy: the Illinois solver before them took 27 and 24 (measured).
+    calls = []
+
+    def counted(x: float) -> float:
+        calls.append(x)
+        return func(x)
+
+    root = solve_increasing(counted, lo, hi)
+    assert root == pytest.approx(brentq(func, lo, hi, xtol=1e-14), abs=1e-11)
+    assert len(calls) <= most
+
+
+def test_solve_increasing_always_halves_the_bracket_in_five_evaluations() -> None:
+    # a triple root slows every interpolation to a crawl: the bisection after four stalled
+    # steps must still halve the bracket at least every five evaluations, down to the
+    # tolerance 1e-12 x max(|lo|, |hi|) ~ 1e-12 x pi from a width of 10
+    calls = []
+
+    def cube(x: float) -> float:
+        calls.append(x)
+        return (x - math.pi) ** 3
+
+    root = solve_increasing(cube, 0.0, 10.0)
+    assert abs(root - math.pi) < 1e-11
+    assert len(calls) <= 2 + 5 * math.ceil(math.log2(10.0 / (1e-12 * math.pi)))

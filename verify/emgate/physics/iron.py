@@ -6,7 +6,7 @@ follows from the flux per pole; its magnetic voltage integrates H along a path o
 flux density varies with the gap-flux distribution.
 
 Also here: the kernel's bracketed root finder for monotone equations, used by the magnetic
-circuit as well.
+circuit and the thermal network as well.
 """
 
 from __future__ import annotations
@@ -31,6 +31,10 @@ _NODES = (_EDGES[:-1, None] + (_GL_X[None, :] + 1.0) / (2.0 * _PANELS)).ravel()
 _WEIGHTS = np.tile(_GL_W / (2.0 * _PANELS), _PANELS)
 
 
+#: Interpolation steps allowed in a row that do not halve the bracket; then a bisection.
+_STALL = 4
+
+
 def solve_increasing(
     f: Callable[[float], float],
     lo: float,
@@ -38,12 +42,16 @@ def solve_increasing(
     *,
     xtol: float = 0.0,
     rtol: float = 1e-12,
-    maxiter: int = 200,
+    maxiter: int = 300,
 ) -> float:
     """Root of a non-decreasing scalar function inside a bracket.
 
-    Regula falsi with the Illinois modification, safeguarded by a bisection whenever a step
-    fails to halve the bracket, so the bracket at least halves every two evaluations and the
+    Regula falsi with the Anderson-Bjorck modification (the end kept twice has its value
+    scaled down, so neither end sticks). A step that would land within half the tolerance
+    of an end lands that far inside instead, as Brent's method does, so once the estimate
+    has converged the next evaluation closes the bracket from the root's other side rather
+    than creeping in from one end. Four steps in a row that do not halve the bracket are
+    followed by a bisection, so the bracket at least halves every five evaluations and the
     solver always converges.
 
     Parameters
@@ -70,8 +78,9 @@ def solve_increasing(
 
     References
     ----------
-    Dowell and Jarratt, "A modified regula falsi method for computing the root of an
-    equation", BIT 11 (1971) 168-174 (the Illinois method).
+    Anderson and Bjorck, "A new high order method of regula falsi type for computing a root
+    of an equation", BIT 13 (1973) 253-264; Brent, Algorithms for Minimization without
+    Derivatives (1973), ch. 4 (the step of at least the tolerance).
     """
     if not lo <= hi:
         raise ValueError("the bracket needs lo <= hi")
@@ -83,28 +92,37 @@ def solve_increasing(
     if fhi == 0.0:
         return hi
     side = 0
-    bisect = False
+    mark, stalled = hi - lo, 0  # the width to halve, and the steps since it last halved
     for _ in range(maxiter):
         width = hi - lo
-        if width <= xtol + max(rtol, 4.0 * _EPS) * max(abs(lo), abs(hi)):
+        tol = xtol + max(rtol, 4.0 * _EPS) * max(abs(lo), abs(hi))
+        if width <= tol:
             break
-        x = 0.5 * (lo + hi) if bisect else lo - flo * width / (fhi - flo)
-        if not lo < x < hi:
+        if stalled >= _STALL:
             x = 0.5 * (lo + hi)
+        else:
+            x = lo - flo * width / (fhi - flo)
+            nudge = 0.5 * tol
+            x = min(max(x, lo + nudge), hi - nudge)
+            if not lo < x < hi:
+                x = 0.5 * (lo + hi)
         fx = f(x)
         if fx == 0.0:
             return x
         if fx < 0.0:
-            lo, flo = x, fx
-            if side < 0:
-                fhi *= 0.5
-            side = -1
+            if side < 0:  # lo moves again: scale the value kept at hi
+                m = 1.0 - fx / flo
+                fhi *= m if m > 0.0 else 0.5
+            lo, flo, side = x, fx, -1
         else:
-            hi, fhi = x, fx
             if side > 0:
-                flo *= 0.5
-            side = 1
-        bisect = (hi - lo) > 0.5 * width
+                m = 1.0 - fx / fhi
+                flo *= m if m > 0.0 else 0.5
+            hi, fhi, side = x, fx, 1
+        if hi - lo <= 0.5 * mark:
+            mark, stalled = hi - lo, 0
+        else:
+            stalled += 1
     return lo - flo * (hi - lo) / (fhi - flo)
 
 

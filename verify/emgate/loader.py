@@ -293,7 +293,8 @@ def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
     # otherwise hold the run forever (and a check before opening could be raced).
     fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
     try:
-        if not stat.S_ISREG(os.fstat(fd).st_mode):
+        info = os.fstat(fd)
+        if not stat.S_ISREG(info.st_mode):
             raise InputError(
                 "not a regular file (a pipe, device, socket or folder): emgate reads only"
                 " regular files",
@@ -301,7 +302,12 @@ def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
             )
         with os.fdopen(fd, "rb") as handle:
             fd = -1
-            return handle.read(limit)
+            # A read sized to the file: read(limit) would allocate the whole limit (1 MiB)
+            # first, which costs more than reading a record. One byte more shows growth.
+            raw = handle.read(min(limit, info.st_size + 1))
+            if info.st_size < len(raw) < limit:
+                raw += handle.read(limit - len(raw))
+            return raw
     finally:
         if fd >= 0:
             os.close(fd)

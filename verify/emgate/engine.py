@@ -113,7 +113,8 @@ def execute(run: Run) -> RunResult:
         def one(src: Source) -> RecordDone:
             return check_source(run, src, catalogue, file_waivers)
 
-        for done in ordered_map(one, designs, run.jobs):
+        for src, done in zip(designs, ordered_map(one, designs, run.jobs), strict=True):
+            src.text = ""  # checked: the run keeps its result, not its text
             if done.record_id is not None and done.record_id in seen_ids:
                 # the same verdict as a serial run: a record whose id is taken is not checked
                 result.findings.append(

@@ -28,7 +28,7 @@ def fingerprint(rule: str, file: str, record_id: str, record_path: str) -> str:
     return hashlib.sha256(text.encode()).hexdigest()[:32]
 
 
-@dataclass
+@dataclass(slots=True)
 class Finding:
     rule: str
     severity: Severity
@@ -64,7 +64,7 @@ class Finding:
         return (self.file, self.line, self.column, self.rule, self.message)
 
 
-@dataclass
+@dataclass(slots=True)
 class RuleOutcome:
     rule: str
     status: Status
@@ -75,7 +75,7 @@ class RuleOutcome:
     seconds: float = 0.0
 
 
-@dataclass
+@dataclass(slots=True)
 class RecordResult:
     file: str
     record_id: str

@@ -57,7 +57,7 @@ def limit(value: float, unit: str, source: str, **constraints: float) -> Any:
     return Field(si, **extra)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Limit:
     """A limit [SI] and its basis, the words a finding gives for where it comes from."""
 
@@ -112,7 +112,7 @@ class Options(BaseModel):
         return Limit(float(getattr(self, field)), self.basis(field))
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Check:
     """A recomputed quantity compared with a limit.
 
@@ -146,7 +146,7 @@ class Check:
         return rel if self.bound == "max" else -rel
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Problem:
     """A finding with no quantity (an unbalanced winding, an unknown declared name)."""
 

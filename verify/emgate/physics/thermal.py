@@ -157,16 +157,26 @@ def _cylinder_resistance(r_in: float, r_out: float, conductivity: float, length:
     return math.log(r_out / r_in) / (2.0 * math.pi * conductivity * length)
 
 
+#: The highest surface rise [K] searched for: a surface that needs more sheds nothing.
+_MAX_SURFACE_RISE = 65536.0
+
+
 def _solve_surface_rise(heat: float, conductance: Callable[[float], float]) -> float:
     """Rise dT with dT * conductance(dT) = heat, conductance(dT) [W/K] non-decreasing."""
     if heat <= 0.0:
         return 0.0
-    hi = 1.0
-    while hi * conductance(hi) < heat:
-        hi *= 2.0
-        if hi > 1e5:
+    # With G non-decreasing the root lies in [heat / G(hi), heat / G(0)]: two evaluations
+    # instead of doubling a bracket from 1 K. Each end is checked, not assumed (a forced
+    # film's coefficient may fall a little as the air warms), and widened if it fails.
+    hi = min(heat / conductance(1e-6), _MAX_SURFACE_RISE)
+    while (g_hi := conductance(hi)) * hi < heat:
+        if hi >= _MAX_SURFACE_RISE:
             raise ValueError("the surface cannot shed this heat at any plausible temperature")
-    return solve_increasing(lambda rise: rise * conductance(rise) - heat, 0.0, hi)
+        hi = min(2.0 * hi, _MAX_SURFACE_RISE)
+    lo = heat / g_hi
+    if not lo * conductance(lo) <= heat:
+        lo = 0.0
+    return solve_increasing(lambda rise: rise * conductance(rise) - heat, lo, hi)
 
 
 def _air_surface(

@@ -29,6 +29,8 @@ _GL_W = np.array([5.0, 8.0, 5.0]) / 9.0
 _EDGES = np.linspace(0.0, 1.0, _PANELS + 1)
 _NODES = (_EDGES[:-1, None] + (_GL_X[None, :] + 1.0) / (2.0 * _PANELS)).ravel()
 _WEIGHTS = np.tile(_GL_W / (2.0 * _PANELS), _PANELS)
+#: sin(pi x / 2) at the nodes: the sinusoidal yoke's flux density over its peak.
+_SIN_NODES = np.sin(0.5 * np.pi * _NODES)
 
 
 #: Interpolation steps allowed in a row that do not halve the bracket; then a bisection.
@@ -339,9 +341,9 @@ def yoke_magnetic_voltage(
     """
     if ramp_fraction is None:
         if np.ndim(b_peak):  # variants of a sweep (b_peak and path_length arrays): one product
-            rows = h_from_b(curve, np.multiply.outer(b_peak, np.sin(0.5 * np.pi * _NODES)))
+            rows = h_from_b(curve, np.multiply.outer(b_peak, _SIN_NODES))
             return path_length * (np.asarray(rows) @ _WEIGHTS)  # type: ignore[return-value]
-        mean_h = float(_WEIGHTS @ h_from_b(curve, b_peak * np.sin(0.5 * np.pi * _NODES)))
+        mean_h = float(_WEIGHTS @ h_from_b(curve, b_peak * _SIN_NODES))
         return path_length * mean_h
     if not 0.0 <= ramp_fraction <= 1.0:
         raise ValueError("the ramp fraction of a yoke must lie in [0, 1]")

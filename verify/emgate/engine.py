@@ -9,6 +9,7 @@ only sequences them and collects the records' findings in file order.
 from __future__ import annotations
 
 import dataclasses
+import functools
 from pathlib import Path
 
 from emgate.discovery import (
@@ -54,7 +55,7 @@ def execute(run: Run) -> RunResult:
             lr.pack.version,
             lr.rule.severity,
             lr.rule.explain(),
-            explain_markdown(rid, lr),
+            make_help=functools.partial(explain_markdown, rid, lr),
         )
         for rid, lr in sorted(run.plugins.rules.items())
     ]

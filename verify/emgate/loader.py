@@ -298,7 +298,7 @@ def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
             raise InputError(
                 "not a regular file (a pipe, device, socket or folder): emgate reads only"
                 " regular files",
-                Location(path, 1, 1, "$"),
+                Location(Path(path), 1, 1, "$"),
             )
         with os.fdopen(fd, "rb") as handle:
             fd = -1

@@ -64,7 +64,7 @@ def render(result: RunResult) -> str:
         "tool": {"name": "emgate", "version": __version__},
         "exit_code": result.exit_code,
         "rules": [  # (the help texts are for people: emgate explain RULE prints them)
-            {k: v for k, v in r.__dict__.items() if k not in ("description", "help")}
+            {k: v for k, v in r.__dict__.items() if k not in ("description", "help", "make_help")}
             for r in result.rules
         ],
         "summary": {

@@ -66,7 +66,7 @@ def _descriptor(r: RuleInfo) -> dict[str, Any]:
         "id": r.id,
         "shortDescription": {"text": r.summary or r.id},
         "fullDescription": {"text": " ".join(first.split())},
-        "help": {"text": method, "markdown": r.help or method},
+        "help": {"text": method, "markdown": r.help_markdown() or method},
         "defaultConfiguration": {"level": LEVELS[r.severity]},
         "properties": {
             "version": r.version,

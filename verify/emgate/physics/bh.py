@@ -66,6 +66,8 @@ class BHCurve:
         far = b[-1] + _EXTENSION
         object.__setattr__(self, "_b_ext", np.append(b, far))
         object.__setattr__(self, "_h_ext", np.append(h, h[-1] + _EXTENSION / MU0))
+        # B + c H(B) at the table points by slot-sharing constant c (emgate.physics.iron)
+        object.__setattr__(self, "_sharing", {})
 
 
 def _interp(x: float, xp: tuple[float, ...], fp: tuple[float, ...]) -> float:

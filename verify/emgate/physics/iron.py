@@ -11,6 +11,7 @@ circuit and the thermal network as well.
 
 from __future__ import annotations
 
+from bisect import bisect_right
 from collections.abc import Callable
 
 import numpy as np
@@ -206,8 +207,9 @@ def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHC
     """Real tooth flux density from the apparent one, with the slot sharing the flux.
 
     Solves ``B_app = B_real + mu0 k_s H(B_real)``. The right side increases strictly with
-    B_real, and the root lies in [0, B_app], so a bracketed solve always converges; beyond
-    the end of the curve's table H grows at 1/mu0 (see :mod:`emgate.physics.bh`).
+    B_real and is piecewise linear as the curve's H(B) is (beyond the end of the table H
+    grows at 1/mu0, see :mod:`emgate.physics.bh`), so the root lies in [0, B_app] and is
+    found exactly, on the segment of the table that holds it.
 
     Parameters
     ----------
@@ -229,16 +231,39 @@ def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHC
     """
     if not sharing_factor >= 0.0:
         raise ValueError("the slot-flux-sharing factor must be >= 0")
-    b_app = abs(b_apparent)
+    b_app = abs(float(b_apparent))
     if sharing_factor == 0.0 or b_app == 0.0:
         return float(b_apparent)
+    # H(B) is linear between table points (and at slope 1/mu0 beyond the last), so
+    # g(B) = B + c H(B) is too: the segment holding g = B_app is found among the table's
+    # g values, and the root is that segment's line solved exactly; no iteration.
+    c = MU0 * sharing_factor
+    bt, ht = curve._bt, curve._ht  # type: ignore[attr-defined]
+    j = bisect_right(_sharing_table(curve, c), b_app) - 1
+    if j >= len(bt) - 1:
+        b_real = (b_app - c * ht[-1] + c * bt[-1] / MU0) / (1.0 + c / MU0)
+    else:
+        slope = (ht[j + 1] - ht[j]) / (bt[j + 1] - bt[j])
+        b_real = (b_app - c * ht[j] + c * slope * bt[j]) / (1.0 + c * slope)
+    # H >= 0 bounds the root by b_app; the clamp keeps the last bit of rounding inside it.
+    b_real = min(max(b_real, 0.0), b_app)
+    return b_real if b_apparent > 0 else -b_real
 
-    def residual(b: float) -> float:
-        return b + MU0 * sharing_factor * float(h_from_b(curve, b)) - b_app
 
-    # H >= 0 bounds the root by b_app; the clamp keeps the solver's last bit inside it.
-    b_real = min(solve_increasing(residual, 0.0, b_app, xtol=1e-13, rtol=1e-13), b_app)
-    return float(np.copysign(b_real, b_apparent))
+#: Tables g_j = B_j + c H_j kept per curve, for this many sharing constants c at most.
+_SHARING_TABLES = 64
+
+
+def _sharing_table(curve: BHCurve, c: float) -> tuple[float, ...]:
+    """``B + c H(B)`` at the points of a curve's table, computed once per curve and ``c``
+    (a record's teeth have one or two sharing factors, asked for at every flux density)."""
+    tables: dict[float, tuple[float, ...]] = curve._sharing  # type: ignore[attr-defined]
+    table = tables.get(c)
+    if table is None:
+        if len(tables) >= _SHARING_TABLES:
+            tables.clear()
+        table = tables[c] = tuple(b + c * h for b, h in zip(curve._bt, curve._ht, strict=True))  # type: ignore[attr-defined]
+    return table
 
 
 def tooth_magnetic_voltage(b_tooth: float, tooth_height: float, curve: BHCurve) -> float:

@@ -20,16 +20,24 @@ def check_positive(**values: float) -> None:
 def check_all_positive(name: str, *values: object) -> None:
     """Raise ValueError unless every value (float or array) is finite and > 0."""
     for v in values:
-        a = np.asarray(v, dtype=float)
-        if not (np.all(np.isfinite(a)) and np.all(a > 0.0)):
+        if type(v) is float or type(v) is int:  # a record's own path: no array for a float
+            ok = 0.0 < v < math.inf
+        else:
+            a = np.asarray(v, dtype=float)
+            ok = bool(np.all(np.isfinite(a)) and np.all(a > 0.0))
+        if not ok:
             raise ValueError(f"{name} must be finite and > 0, got {v!r}")
 
 
 def check_all_non_negative(name: str, *values: object) -> None:
     """Raise ValueError unless every value (float or array) is finite and >= 0."""
     for v in values:
-        a = np.asarray(v, dtype=float)
-        if not (np.all(np.isfinite(a)) and np.all(a >= 0.0)):
+        if type(v) is float or type(v) is int:
+            ok = 0.0 <= v < math.inf
+        else:
+            a = np.asarray(v, dtype=float)
+            ok = bool(np.all(np.isfinite(a)) and np.all(a >= 0.0))
+        if not ok:
             raise ValueError(f"{name} must be finite and >= 0, got {v!r}")
 
 

@@ -4,6 +4,7 @@ records outside the change unparsed."""
 
 from __future__ import annotations
 
+import json
 import os
 import re
 import shutil
@@ -150,3 +151,43 @@ def test_changed_since_still_reports_an_unreadable_file_outside_the_change(
     result = run_cli("check", "--jobs", "1", "--changed-since", "HEAD")
     assert result.code == 2, result.out
     assert "scan.yaml:1:" in result.out and "control character U+0000" in result.out
+
+
+@pytest.mark.parametrize("fmt", ["text", "annotations", "codequality"])
+def test_a_summary_report_keeps_summaries_and_says_the_same(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, fmt: str
+) -> None:
+    """With only summary formats asked for, the run keeps each record's summary, not its
+    outcomes (memory that does not grow with every check), and the report is byte for byte
+    the one a run keeping every outcome (JSON asked for as well) writes."""
+    many_records(tmp_path)
+    monkeypatch.chdir(tmp_path)
+    import emgate.findings
+
+    summarised: list[str] = []
+    real = emgate.findings.RecordResult.summarised
+
+    def spy(self, interned):  # type: ignore[no-untyped-def]
+        summarised.append(self.record_id)
+        return real(self, interned)
+
+    monkeypatch.setattr(emgate.findings.RecordResult, "summarised", spy)
+    alone = run_cli("check", "--jobs", "1", "--format", fmt, "designs")
+    kept = len(summarised)
+    both = run_cli(
+        "check",
+        "--jobs",
+        "1",
+        "--format",
+        fmt,
+        "--format",
+        f"json:{tmp_path / 'r.json'}",
+        "designs",
+    )
+    assert alone.code == both.code == 2  # the broken and invalid records
+    checked = json.loads((tmp_path / "r.json").read_text())["records"]
+    assert len(checked) > RECORDS // 2
+    assert all(r["outcomes"] for r in checked)  # the JSON run kept every outcome
+    assert kept == len(checked)  # every checked record summarised in the summary-only run,
+    assert len(summarised) == kept  # and none in the run that writes JSON too
+    assert alone.out == both.out

@@ -12,6 +12,10 @@ from emgate.report import FORMATS
 from emgate.schemas import SCHEMA_KINDS
 from emgate.terms import EXIT_CRASH, EXIT_INPUT, EXIT_OK
 
+#: The formats that read a record's summary alone (its check count, its check closest to a
+#: limit, the rules it ran), never its every outcome: with only these, a run keeps no more.
+SUMMARY_FORMATS = frozenset({"text", "annotations", "codequality"})
+
 
 def _untrusted_path_guard() -> None:
     """Drop the working directory from the import path: plugins come only from installed
@@ -173,6 +177,7 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
             plugins=plugins,
             verbose=args.verbose,
             remedies=args.remedies == "on",
+            details=not all(name in SUMMARY_FORMATS for name, _ in outputs),
         )
         if args.changed_since:
             from emgate.changes import changed_since

@@ -108,6 +108,7 @@ def execute(run: Run) -> RunResult:
                 result.findings.extend(input_findings(exc))
     del docs  # nothing below reads the materials documents again
     seen_ids: dict[str, str] = {}
+    interned: dict[frozenset[str], frozenset[str]] = {}
     with rule_guards():
         from emgate.parallel import ordered_map
 
@@ -131,7 +132,10 @@ def execute(run: Run) -> RunResult:
             if done.record_id is not None:
                 seen_ids[done.record_id] = done.file
             result.findings.extend(done.findings)
-            result.records.extend(done.records)
+            if run.details:
+                result.records.extend(done.records)
+            else:
+                result.records.extend(r.summarised(interned) for r in done.records)
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | repository_record_ids(run.policy.root)
         result.findings.extend(

@@ -13,7 +13,7 @@ from emgate.rule import Check
 from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK, Severity
 
 if TYPE_CHECKING:
-    from collections.abc import Callable
+    from collections.abc import Callable, Iterable
 
     from emgate.remedy import Remedy
 
@@ -77,12 +77,56 @@ class RuleOutcome:
     seconds: float = 0.0
 
 
+@dataclass(frozen=True, slots=True)
+class RecordSummary:
+    """What the summary reports (text, annotations, code quality) read of a record, kept in
+    place of its outcomes when no other report is asked for: a large run's memory then
+    holds a few hundred bytes a record, not its every check."""
+
+    check_count: int
+    closest: tuple[str, Check] | None
+    rules_ran: frozenset[str]
+
+
 @dataclass(slots=True)
 class RecordResult:
     file: str
     record_id: str
     machine: str
     outcomes: list[RuleOutcome] = field(default_factory=list)
+    #: Set by :meth:`summarised`, which drops the outcomes.
+    summary: RecordSummary | None = None
+
+    def check_count(self) -> int:
+        if self.summary is not None:
+            return self.summary.check_count
+        return sum(len(o.checks) for o in self.outcomes)
+
+    def closest(self) -> tuple[str, Check] | None:
+        """The (rule, check) closest to its limit, or None when the record has no check."""
+        if self.summary is not None:
+            return self.summary.closest
+        return closest_check((o.rule, c) for o in self.outcomes for c in o.checks)
+
+    def rules_ran(self) -> frozenset[str]:
+        """The rules that applied to the record (passed, failed, waived or crashed)."""
+        if self.summary is not None:
+            return self.summary.rules_ran
+        return frozenset(o.rule for o in self.outcomes if o.status != "not_applicable")
+
+    def summarised(self, interned: dict[frozenset[str], frozenset[str]]) -> RecordResult:
+        """This record with its outcomes replaced by a :class:`RecordSummary`; ``interned``
+        shares one set of rule ids among the records that ran the same rules."""
+        ran = self.rules_ran()
+        ran = interned.setdefault(ran, ran)
+        summary = RecordSummary(self.check_count(), self.closest(), ran)
+        return RecordResult(self.file, self.record_id, self.machine, [], summary)
+
+
+def closest_check(checks: Iterable[tuple[str, Check]]) -> tuple[str, Check] | None:
+    """The (rule, check) with the smallest margin to its limit, or None when there is none;
+    ties go to the first given."""
+    return min(checks, key=lambda rc: rc[1].margin, default=None)
 
 
 @dataclass(frozen=True)

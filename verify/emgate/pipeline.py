@@ -63,6 +63,9 @@ class Run:
     jobs: int = 1
     #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
     remedies: bool = True
+    #: Keep every record's outcomes (False: a :class:`~emgate.findings.RecordSummary`, all
+    #: that the summary reports read, when only they are asked for).
+    details: bool = True
 
 
 @dataclass

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import math
 import re
-from collections.abc import Iterable
 
 from emgate.findings import Finding, RecordResult, RuleInfo, RunResult
 from emgate.rule import Check
@@ -43,7 +42,7 @@ def where(f: Finding) -> str:
 
 def rules_run(result: RunResult) -> list[RuleInfo]:
     """The rules that ran on at least one record (not only loaded), with their versions."""
-    ran = {o.rule for r in result.records for o in r.outcomes if o.status != "not_applicable"}
+    ran = {rule for r in result.records for rule in r.rules_ran()}
     known = {r.id: r for r in result.rules}
     return [known.get(rid, RuleInfo(rid, "?", "", "", "")) for rid in sorted(ran)]
 
@@ -57,7 +56,7 @@ def rules_line(result: RunResult) -> str:
 
 def summary_line(result: RunResult) -> str:
     """The verdict and the counts, in one sentence."""
-    checks = sum(len(o.checks) for r in result.records for o in r.outcomes)
+    checks = sum(r.check_count() for r in result.records)
     waived = sum(1 for f in result.findings if f.waived_by)
     return (
         f"{VERDICTS[result.exit_code]}: {len(result.records)} record(s) checked,"
@@ -75,12 +74,6 @@ def check_display(c: Check) -> str:
     return f"{format_value(c.value, c.unit)} {bound} {format_value(c.limit, c.unit)}"
 
 
-def closest_check(checks: Iterable[tuple[str, Check]]) -> tuple[str, Check] | None:
-    """The (rule, check) with the smallest margin to its limit, or None when there is none;
-    ties go to the first given."""
-    return min(checks, key=lambda rc: rc[1].margin, default=None)
-
-
 def margin_text(c: Check) -> str:
     """A check's margin as a signed percentage ('+18.3 %'), or 'n/a' when not finite."""
     return f"{c.margin:+.1%}".replace("%", " %") if math.isfinite(c.margin) else "n/a"
@@ -88,14 +81,14 @@ def margin_text(c: Check) -> str:
 
 def margins_line(record: RecordResult) -> str:
     """One line on a record's checks: how many, and the one closest to its limit."""
-    checks = [(o.rule, c) for o in record.outcomes for c in o.checks]
-    closest = closest_check(checks)
+    closest = record.closest()
     if closest is None:
         return f"{record.record_id}: no numeric check"
     rule, c = closest
     from emgate.units import format_value
 
-    head = f"{record.record_id}: {len(checks)} check{'' if len(checks) == 1 else 's'}"
+    count = record.check_count()
+    head = f"{record.record_id}: {count} check{'' if count == 1 else 's'}"
     return (
         f"{head}; closest to a limit: {rule}, {c.label} {format_value(c.value, c.unit)}"
         f" of {format_value(c.limit, c.unit)} ({margin_text(c)})"

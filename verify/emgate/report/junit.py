@@ -24,11 +24,10 @@ from __future__ import annotations
 import xml.etree.ElementTree as ET
 
 from emgate import __version__
-from emgate.findings import DISCLAIMER, Finding, RuleInfo, RuleOutcome, RunResult
+from emgate.findings import DISCLAIMER, Finding, RuleInfo, RuleOutcome, RunResult, closest_check
 from emgate.report.common import (
     VERDICTS,
     check_display,
-    closest_check,
     margin_text,
     one_line,
     printable,

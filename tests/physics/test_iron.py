@@ -12,7 +12,7 @@ from scipy.integrate import quad
 from scipy.optimize import brentq
 
 from conftest import linear_curve, m350_50a_curve
-from emgate.physics.bh import h_from_b
+from emgate.physics.bh import h_from_b, mean_field_strength
 from emgate.physics.constants import MU0
 from emgate.physics.iron import (
     apparent_tooth_flux_density,
@@ -146,8 +146,9 @@ def test_yoke_magnetic_voltage_linear_steel(ramp: float | None, mean_over_peak: 
 @pytest.mark.parametrize("ramp", [None, 0.6])
 def test_yoke_magnetic_voltage_matches_scipy_quad(b_peak: float, ramp: float | None) -> None:
     # [calc] external check: scipy.integrate.quad of H along the same distribution, with the
-    # curve's kinks given as break points. Tolerance 1e-5 relative: the composite 768-point
-    # rule meets a kink of the piecewise-linear H in some panels (measured error ~1e-6).
+    # curve's kinks given as break points. Tolerance 1e-5 relative: the sine's composite
+    # 768-point rule meets a kink of the piecewise-linear H in some panels (measured error
+    # ~1e-6); the ramp is exact (test_mean_field_strength_matches_scipy_quad).
     path = 0.1
     kinks = M350.b[(M350.b > 0.0) & (M350.b < b_peak)] / b_peak
     if ramp is None:
@@ -165,6 +166,20 @@ def test_yoke_magnetic_voltage_matches_scipy_quad(b_peak: float, ramp: float | N
         mean = ramp * ramp_mean + (1.0 - ramp) * h_from_b(M350, b_peak)
     got = yoke_magnetic_voltage(b_peak, path, M350, ramp)
     assert got == pytest.approx(path * mean, rel=1e-5)
+
+
+@pytest.mark.parametrize("b_end", [0.3, 1.45, 1.7, 2.2, 2.5, 4.0, -1.9])
+def test_mean_field_strength_matches_scipy_quad(b_end: float) -> None:
+    # [calc] external check: scipy.integrate.quad of H(B) from 0 to b_end over b_end, the
+    # curve's kinks as break points, within the table, at its end (2.2 T) and beyond it.
+    # Tolerance 1e-10 relative: both are exact for a piecewise-linear integrand but for
+    # rounding (quad reports errors near 1e-14 here).
+    x = abs(b_end)
+    kinks = M350.b[(M350.b > 0.0) & (M350.b < x)]
+    area = quad(lambda b: h_from_b(M350, b), 0.0, x, points=kinks, limit=1000)[0]
+    expected = math.copysign(area / x, b_end)
+    assert mean_field_strength(M350, b_end) == pytest.approx(expected, rel=1e-10)
+    assert mean_field_strength(M350, 0.0) == 0.0
 
 
 def test_yoke_magnetic_voltage_rejects_bad_ramp() -> None:

@@ -16,7 +16,7 @@ from collections.abc import Callable
 
 import numpy as np
 
-from emgate.physics.bh import BHCurve, h_from_b
+from emgate.physics.bh import BHCurve, h_from_b, mean_field_strength
 from emgate.physics.constants import MU0
 
 _EPS = float(np.finfo(float).eps)
@@ -327,8 +327,9 @@ def yoke_magnetic_voltage(
     """Magnetic voltage along a yoke path on which the flux density varies.
 
     The yoke flux is the gap flux accumulated from a pole axis, so it is zero there and
-    peaks on the interpolar axis. Two distributions, each integrated numerically
-    (composite Gauss-Legendre, 768 points) over the path:
+    peaks on the interpolar axis. Two distributions over the path: the sinusoidal one
+    integrated numerically (composite Gauss-Legendre, 768 points), the ramp exactly (the
+    area under the piecewise-linear curve, :func:`~emgate.physics.bh.mean_field_strength`):
 
     - ``ramp_fraction=None``: sinusoidal gap flux, so ``B(x) = B_peak sin(pi x / tau_y)``
       and ``V = tau_y mean(H(B_peak sin theta))`` over theta in [0, pi/2];
@@ -372,6 +373,6 @@ def yoke_magnetic_voltage(
         return path_length * mean_h
     if not 0.0 <= ramp_fraction <= 1.0:
         raise ValueError("the ramp fraction of a yoke must lie in [0, 1]")
-    ramp_h = float(_WEIGHTS @ h_from_b(curve, b_peak * _NODES))
+    ramp_h = mean_field_strength(curve, b_peak)
     flat_h = float(h_from_b(curve, b_peak))
     return path_length * (ramp_fraction * ramp_h + (1.0 - ramp_fraction) * flat_h)

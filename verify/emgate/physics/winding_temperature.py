@@ -42,8 +42,7 @@ class OperatingPoint:
         :data:`RUNAWAY_TEMPERATURE`, or the surface could shed the heat at no plausible
         temperature).
     error_bound : float
-        A-posteriori bound on the temperature error [K]: step q / (1 - q), q the observed
-        contraction ratio.
+        A-posteriori bound on the temperature error [K] (see :func:`operating_temperature`).
     """
 
     temperature: float
@@ -70,8 +69,10 @@ def operating_temperature(
     (IEC 60028 linear resistance law) by fixed-point iteration from the coolant temperature,
     accelerated by Steffensen's method (Aitken's extrapolation after every two steps).
     The map is increasing, so the plain iterates rise monotonically to the lowest fixed
-    point; convergence is declared when the a-posteriori error bound ``dT q / (1 - q)`` (q
-    the observed ratio of two successive plain steps) is below ``tolerance``. A ratio of 1
+    point. Convergence is declared when an a-posteriori error bound is below ``tolerance``
+    (q the observed ratio of two successive plain steps, dT the last): ``dT / (1 - q)`` for
+    the temperature the last estimate was made at, which is then the result, else ``dT q /
+    (1 - q)`` for the one that step reached, where one more estimate is made. A ratio of 1
     or more, a temperature above :data:`RUNAWAY_TEMPERATURE` or a network that cannot shed
     the heat is a thermal run-away, reported in the result; one met after an extrapolation
     sends the iteration back to where it jumped from, to go on without jumps.
@@ -142,6 +143,9 @@ def operating_temperature(
             return OperatingPoint(t, loss_at(t), est, k, True, False, 0.0)
         if math.isfinite(last_step) and plain >= 2:
             q = step / last_step
+            here = step / (1.0 - q)  # the bound at t_old, where the estimate was made
+            if here < tolerance:
+                return OperatingPoint(t_old, loss_at(t_old), est, k, True, False, here)
             bound = step * q / (1.0 - q)
             if bound < tolerance:
                 # One more evaluation so the estimate and the loss belong to t itself.

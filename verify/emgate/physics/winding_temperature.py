@@ -42,7 +42,8 @@ class OperatingPoint:
         :data:`RUNAWAY_TEMPERATURE`, or the surface could shed the heat at no plausible
         temperature).
     error_bound : float
-        A-posteriori bound on the temperature error [K] (see :func:`operating_temperature`).
+        A-posteriori bound on the temperature error [K]: step q / (1 - q), q the observed
+        contraction ratio.
     """
 
     temperature: float
@@ -66,16 +67,12 @@ def operating_temperature(
     """Winding temperature at which the copper loss and the rise it causes agree.
 
     Solves ``T = T_c + rise(P_cu(T))`` with ``P_cu(T) = P_cu20 (1 + alpha20 (T - 20 degC))``
-    (IEC 60028 linear resistance law) by fixed-point iteration from the coolant temperature,
-    accelerated by Steffensen's method (Aitken's extrapolation after every two steps).
-    The map is increasing, so the plain iterates rise monotonically to the lowest fixed
-    point. Convergence is declared when an a-posteriori error bound is below ``tolerance``
-    (q the observed ratio of two successive plain steps, dT the last): ``dT / (1 - q)`` for
-    the temperature the last estimate was made at, which is then the result, else ``dT q /
-    (1 - q)`` for the one that step reached, where one more estimate is made. A ratio of 1
-    or more, a temperature above :data:`RUNAWAY_TEMPERATURE` or a network that cannot shed
-    the heat is a thermal run-away, reported in the result; one met after an extrapolation
-    sends the iteration back to where it jumped from, to go on without jumps.
+    (IEC 60028 linear resistance law) by fixed-point iteration from the coolant temperature.
+    The map is increasing, so the iterates rise monotonically to the lowest fixed point;
+    convergence is declared when the a-posteriori error bound ``dT q / (1 - q)`` (q the
+    observed ratio of successive steps) is below ``tolerance``. A ratio of 1 or more, a
+    temperature above :data:`RUNAWAY_TEMPERATURE` or a network that cannot shed the heat
+    is a thermal run-away, reported in the result.
 
     Parameters
     ----------
@@ -100,8 +97,7 @@ def operating_temperature(
     ----------
     IEC 60028 (R(T) = R20 (1 + alpha20 (T - 20 degC)), alpha20 = 0.00393 /K for annealed
     copper); Banach's fixed-point theorem for the contraction and its a-posteriori error
-    bound [calc]; Aitken's delta-squared extrapolation (Steffensen's method), e.g. Burden and
-    Faires, Numerical Analysis, section 2.5.
+    bound [calc].
     """
     if copper_loss_20 < 0.0 or not tolerance > 0.0 or max_iterations < 1:
         raise ValueError("copper loss must be >= 0, tolerance > 0, iterations >= 1")
@@ -113,49 +109,27 @@ def operating_temperature(
     last_step = math.inf
     q = 0.0
     est: ThermalEstimate | None = None
-    # Steffensen's acceleration: after two plain steps with the ratio q < 1, the iterate
-    # jumps to Aitken's estimate of the limit (the map is nearly affine: the rise is linear
-    # in the losses but for the surface's film), and plain steps resume from there. The
-    # error bound and every run-away test are those of the plain steps; a run-away seen
-    # after a jump restarts the plain iteration from before it, without jumps, so that a
-    # jump past a higher, unstable fixed point is never taken for a run-away.
-    plain, jumped_from, accelerate = 0, None, True
-    k = 0
-    while k < max_iterations:
-        k += 1
+    for k in range(1, max_iterations + 1):
         try:
             est = estimate(loss_at(t))
         except ValueError:
-            if jumped_from is not None:
-                t, last_step, plain, jumped_from, accelerate = jumped_from, math.inf, 0, None, False
-                continue
             return OperatingPoint(t, loss_at(t), None, k, False, True, math.inf)
         t_new = est.winding_temperature
         step = abs(t_new - t)
-        t_old, t = t, t_new
-        plain += 1
-        if t > RUNAWAY_TEMPERATURE or (math.isfinite(last_step) and step >= last_step > 0.0):
-            if jumped_from is not None:
-                t, last_step, plain, jumped_from, accelerate = jumped_from, math.inf, 0, None, False
-                continue
+        t = t_new
+        if t > RUNAWAY_TEMPERATURE:
             return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
         if step == 0.0:
             return OperatingPoint(t, loss_at(t), est, k, True, False, 0.0)
-        if math.isfinite(last_step) and plain >= 2:
+        if math.isfinite(last_step):
             q = step / last_step
-            here = step / (1.0 - q)  # the bound at t_old, where the estimate was made
-            if here < tolerance:
-                return OperatingPoint(t_old, loss_at(t_old), est, k, True, False, here)
+            if q >= 1.0:
+                return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
             bound = step * q / (1.0 - q)
             if bound < tolerance:
                 # One more evaluation so the estimate and the loss belong to t itself.
                 est = estimate(loss_at(t))
                 return OperatingPoint(t, loss_at(t), est, k, True, False, bound)
-            if accelerate:
-                jumped_from = t
-                t += math.copysign(bound, t - t_old)  # Aitken's limit of the last two steps
-                last_step, plain = math.inf, 0
-                continue
         last_step = step
     bound = last_step * q / (1.0 - q) if q < 1.0 else math.inf
     return OperatingPoint(t, loss_at(t), est, max_iterations, False, False, bound)

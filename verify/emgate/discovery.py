@@ -18,10 +18,12 @@ from emgate.config import CONFIG_NAME, Policy
 from emgate.errors import InputError, Location, display_path
 from emgate.findings import Finding, RunResult, input_finding
 from emgate.listing import yaml_names
-from emgate.loader import HEAD_CHARS, load_text, read_head, read_text
+from emgate.loader import load_text, read_text
 from emgate.materials import Catalogue
 from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
 
+#: Characters at the top of a file in which its ``schema:`` line is looked for.
+_HEAD_CHARS = 4096
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
 
 
@@ -56,9 +58,8 @@ def discover(
     # changed file spends its time here, and pathlib's objects cost more than the file reads.
     seen: set[str] = set()
     folders: dict[str, str] = {}
-    # Outside a change set's files (with no grade or policy change) a record is not read
-    # whole: its head tells it from a materials file (which the catalogue needs); a file whose
-    # head declares no emgate schema, or holds anything read_text refuses, is read whole.
+    # Outside a change set's files (with no grade or policy change) a record is read and
+    # checked as a file (read_text's refusals are reported) but not parsed or kept.
     narrow = changes is not None and not (changes.everything or changes.grades)
     changed = {str(p) for p in changes.files} if changes is not None else set()
     for root in paths:
@@ -88,9 +89,6 @@ def discover(
                 )
                 continue
             outside = narrow and key not in changed
-            if outside and (head := read_head(name)) is not None:
-                if _declared(head) in (DESIGN_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA):
-                    continue  # none of them is read for a record outside the change
             path = Path(name)
             try:
                 text = read_text(path)
@@ -98,6 +96,8 @@ def discover(
                 result.findings.append(input_finding(exc))
                 continue
             declared = _declared(text)
+            if outside and declared in (DESIGN_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA):
+                continue  # outside the change by its path alone: not parsed
             if declared is None:
                 declared, problem, near_miss = _classify(path, text)
                 named = explicit or bool(changes and changes.named and key in changed)
@@ -134,15 +134,13 @@ def discover(
                 continue
             if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
                 continue  # read through the policy, not as records
-            if outside and declared == DESIGN_SCHEMA:
-                continue  # outside the change by its path alone: not parsed
             out.append(Source(path, text, declared, explicit, Path(key)))
     return out
 
 
 def _declared(text: str) -> str | None:
     """The emgate schema a file's ``schema:`` line declares in its head, if any."""
-    m = _DECLARES.search(text, 0, HEAD_CHARS)
+    m = _DECLARES.search(text, 0, _HEAD_CHARS)
     return m.group(1) if m and m.group(1) in _KNOWN else None
 
 

@@ -52,13 +52,20 @@ def yaml_names(root: Path) -> list[str]:
             verdict[f] = ok
         return ok
 
-    paths = (os.path.join(top, name) for name in listed if name.endswith(SUFFIXES) and kept(name))
+    paths = (os.path.join(top, name) for name in listed if _suffix(name) in SUFFIXES and kept(name))
     return sorted((p for p in paths if os.path.isfile(p)), key=_parts)
 
 
-def _parts(name: str) -> list[str]:
-    """Sort key: the order of the paths' parts, as paths sort (``a/x`` before ``a-b/x``)."""
-    return name.split(os.sep)
+def _suffix(name: str) -> str:
+    """``Path(name).suffix``: a file named ``.yaml`` alone has none."""
+    return os.path.splitext(os.path.basename(name))[1]
+
+
+def _parts(name: str) -> list[str] | Path:
+    """Sort key: the order of the paths' parts, as paths sort (``a/x`` before ``a-b/x``);
+    elsewhere than POSIX, the path itself (Windows paths sort by case-folded parts, and git
+    names keep their ``/``)."""
+    return name.split(os.sep) if os.name == "posix" else Path(name)
 
 
 def _git_listing(root: Path) -> list[str] | None:

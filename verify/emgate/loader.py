@@ -11,7 +11,6 @@ schema, restricted: null, true/false, decimal integers and floats; everything el
 
 from __future__ import annotations
 
-import codecs
 import os
 import re
 import stat
@@ -285,9 +284,9 @@ def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
 BUFFERS: ContextVar[Mapping[Path, str] | None] = ContextVar("emgate_buffers", default=None)
 
 
-def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
+def _read_bytes(path: Path, limit: int = MAX_BYTES + 1) -> bytes:
     buffers = BUFFERS.get()
-    if buffers and (text := buffers.get(Path(path).resolve())) is not None:
+    if buffers and (text := buffers.get(path.resolve())) is not None:
         return text.encode("utf-8", "surrogatepass")[:limit]
     # Opened without blocking and checked on the open descriptor: a FIFO or a device would
     # otherwise hold the run forever (and a check before opening could be raced).
@@ -298,7 +297,7 @@ def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
             raise InputError(
                 "not a regular file (a pipe, device, socket or folder): emgate reads only"
                 " regular files",
-                Location(Path(path), 1, 1, "$"),
+                Location(path, 1, 1, "$"),
             )
         with os.fdopen(fd, "rb") as handle:
             fd = -1
@@ -313,26 +312,7 @@ def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
             os.close(fd)
 
 
-#: Characters of a file's head in which discovery looks for its ``schema:`` line.
-HEAD_CHARS = 4096
 _CONTROL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f\ufffe\uffff]")
-
-
-def read_head(path: Path | str) -> str | None:
-    """The first :data:`HEAD_CHARS` characters of a file, or None when they hold anything
-    :func:`read_text` would refuse (or the file cannot be read): the caller then reads it
-    whole, to report the located error."""
-    try:
-        raw = _read_bytes(path, 4 * HEAD_CHARS)  # UTF-8 takes at most 4 bytes a character
-    except (OSError, InputError):
-        return None
-    try:  # not final: a character the limit cut in two is left out, not refused
-        text = codecs.getincrementaldecoder("utf-8")().decode(raw, final=False)
-    except UnicodeDecodeError:
-        return None
-    if _CONTROL.search(text):
-        return None
-    return text.removeprefix("\ufeff")[:HEAD_CHARS]
 
 
 def read_text(path: Path) -> str:

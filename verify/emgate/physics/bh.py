@@ -70,11 +70,10 @@ class BHCurve:
         object.__setattr__(self, "_sharing", {})
         # The integral of H dB from 0 to each table point (trapezoids: exact, H is linear
         # between the points), for mean_field_strength.
+        bl, hl = b.tolist(), h.tolist()
         areas = [0.0]
-        for j in range(b.size - 1):
-            areas.append(
-                areas[-1] + 0.5 * (self._bt[j + 1] - self._bt[j]) * (self._ht[j] + self._ht[j + 1])
-            )  # type: ignore[attr-defined]
+        for j in range(len(bl) - 1):
+            areas.append(areas[-1] + 0.5 * (bl[j + 1] - bl[j]) * (hl[j] + hl[j + 1]))
         object.__setattr__(self, "_areas", tuple(areas))
 
 

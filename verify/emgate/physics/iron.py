@@ -11,6 +11,7 @@ circuit and the thermal network as well.
 
 from __future__ import annotations
 
+import math
 from bisect import bisect_right
 from collections.abc import Callable
 
@@ -232,6 +233,8 @@ def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHC
     if not sharing_factor >= 0.0:
         raise ValueError("the slot-flux-sharing factor must be >= 0")
     b_app = abs(float(b_apparent))
+    if not math.isfinite(b_app):
+        raise ValueError("the apparent tooth flux density must be finite")
     if sharing_factor == 0.0 or b_app == 0.0:
         return float(b_apparent)
     # H(B) is linear between table points (and at slope 1/mu0 beyond the last), so

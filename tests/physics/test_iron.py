@@ -244,3 +244,10 @@ def test_solve_increasing_always_halves_the_bracket_in_five_evaluations() -> Non
     root = solve_increasing(cube, 0.0, 10.0)
     assert abs(root - math.pi) < 1e-11
     assert len(calls) <= 2 + 5 * math.ceil(math.log2(10.0 / (1e-12 * math.pi)))
+
+
+@pytest.mark.parametrize(("b_app", "k_s"), [(math.nan, 0.5), (math.inf, 0.5), (1.8, math.inf)])
+def test_real_tooth_flux_density_refuses_non_finite_input(b_app: float, k_s: float) -> None:
+    # the exact segment solve must refuse what the bracketed solve it replaced refused
+    with pytest.raises(ValueError):
+        real_tooth_flux_density(b_app, k_s, M350)

@@ -230,8 +230,8 @@ def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHC
     ----------
     Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical Machines, ch. 3.
     """
-    if not sharing_factor >= 0.0:
-        raise ValueError("the slot-flux-sharing factor must be >= 0")
+    if not 0.0 <= sharing_factor < math.inf:
+        raise ValueError("the slot-flux-sharing factor must be finite and >= 0")
     b_app = abs(float(b_apparent))
     if not math.isfinite(b_app):
         raise ValueError("the apparent tooth flux density must be finite")

@@ -251,3 +251,24 @@ def test_real_tooth_flux_density_refuses_non_finite_input(b_app: float, k_s: flo
     # the exact segment solve must refuse what the bracketed solve it replaced refused
     with pytest.raises(ValueError):
         real_tooth_flux_density(b_app, k_s, M350)
+
+
+def test_solve_increasing_takes_the_ends_it_is_given() -> None:
+    # [calc] the same root (scipy brentq, 1e-11 absolute as above) with two evaluations
+    # fewer when f(lo) and f(hi) come with the bracket; given ends that do not bracket a
+    # root are refused as computed ones are
+    def func(x: float) -> float:
+        return x**3 + x - 3.0
+
+    counted: list[list[float]] = [[], []]
+    for calls, ends in zip(counted, (None, (func(0.0), func(2.0))), strict=True):
+
+        def f(x: float, calls: list[float] = calls) -> float:
+            calls.append(x)
+            return func(x)
+
+        root = solve_increasing(f, 0.0, 2.0, ends=ends)
+        assert root == pytest.approx(brentq(func, 0.0, 2.0, xtol=1e-14), abs=1e-11)
+    assert len(counted[1]) == len(counted[0]) - 2
+    with pytest.raises(ValueError):
+        solve_increasing(func, 0.0, 2.0, ends=(1.0, 2.0))

@@ -47,6 +47,7 @@ def solve_increasing(
     xtol: float = 0.0,
     rtol: float = 1e-12,
     maxiter: int = 300,
+    ends: tuple[float, float] | None = None,
 ) -> float:
     """Root of a non-decreasing scalar function inside a bracket.
 
@@ -69,6 +70,9 @@ def solve_increasing(
         tolerance in the unit of the variable, and relative tolerance).
     maxiter : int
         Cap on evaluations; reached only with tolerances below the float resolution.
+    ends : (float, float), optional
+        ``f(lo)`` and ``f(hi)`` when the caller has them already (they are not computed
+        again; the bracket is checked on them all the same).
 
     Returns
     -------
@@ -88,7 +92,7 @@ def solve_increasing(
     """
     if not lo <= hi:
         raise ValueError("the bracket needs lo <= hi")
-    flo, fhi = f(lo), f(hi)
+    flo, fhi = ends if ends is not None else (f(lo), f(hi))
     if not flo <= 0.0 <= fhi:
         raise ValueError("the bracket does not enclose a root of the increasing function")
     if flo == 0.0:

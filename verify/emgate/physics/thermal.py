@@ -169,14 +169,15 @@ def _solve_surface_rise(heat: float, conductance: Callable[[float], float]) -> f
     # instead of doubling a bracket from 1 K. Each end is checked, not assumed (a forced
     # film's coefficient may fall a little as the air warms), and widened if it fails.
     hi = min(heat / conductance(1e-6), _MAX_SURFACE_RISE)
-    while (g_hi := conductance(hi)) * hi < heat:
+    while (f_hi := hi * (g_hi := conductance(hi)) - heat) < 0.0:
         if hi >= _MAX_SURFACE_RISE:
             raise ValueError("the surface cannot shed this heat at any plausible temperature")
         hi = min(2.0 * hi, _MAX_SURFACE_RISE)
     lo = heat / g_hi
-    if not lo * conductance(lo) <= heat:
-        lo = 0.0
-    return solve_increasing(lambda rise: rise * conductance(rise) - heat, lo, hi)
+    if not (f_lo := lo * conductance(lo) - heat) <= 0.0:
+        lo, f_lo = 0.0, -heat
+    # the ends' values go with them: the solver need not compute them again
+    return solve_increasing(lambda rise: rise * conductance(rise) - heat, lo, hi, ends=(f_lo, f_hi))
 
 
 def _air_surface(

@@ -187,6 +187,8 @@ class Policy:
 
     def for_file(self, path: Path) -> RulePolicy:
         """The policy for one record: the last matching override wins, else the base."""
+        if not self.overrides:  # (no path to resolve: a record costs two resolves else)
+            return self.base
         rel = self.relative(path)
         if rel is None:
             return self.base

@@ -212,7 +212,8 @@ def test_solve_increasing_rejects_a_bracket_without_a_root() -> None:
     [
         # convex on the bracket: plain regula falsi keeps one end and creeps in from the other
         (lambda x: math.exp(x) - 2.0, 0.0, 5.0, 12),
-        # a winding's temperature rise against its losses: rise x conductance(rise) = heat
+        # the shape of a surface's rise x conductance(rise) = heat (invented coefficients;
+        # the reference is brentq)
         (lambda x: x * (3.0 + 0.8 * x**0.25) - 400.0, 0.0, 400.0, 10),
     ],
 )

@@ -282,7 +282,7 @@ def repository_root(start: Path) -> Path | None:
 
 def materials_sources(root: Path) -> list[Source]:
     """Every materials file under a repository root."""
-    scratch = RunResult()  # an empty change: the other files' heads are read, not their texts
+    scratch = RunResult()  # an empty change: every file is read, the records are not kept
     sources = discover([root], scratch, changes=ChangeSet())
     return [s for s in sources if s.declared == MATERIALS_SCHEMA]
 

@@ -284,10 +284,10 @@ def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
 BUFFERS: ContextVar[Mapping[Path, str] | None] = ContextVar("emgate_buffers", default=None)
 
 
-def _read_bytes(path: Path, limit: int = MAX_BYTES + 1) -> bytes:
+def _read_bytes(path: Path) -> bytes:
     buffers = BUFFERS.get()
     if buffers and (text := buffers.get(path.resolve())) is not None:
-        return text.encode("utf-8", "surrogatepass")[:limit]
+        return text.encode("utf-8", "surrogatepass")[: MAX_BYTES + 1]
     # Opened without blocking and checked on the open descriptor: a FIFO or a device would
     # otherwise hold the run forever (and a check before opening could be raced).
     fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
@@ -301,8 +301,9 @@ def _read_bytes(path: Path, limit: int = MAX_BYTES + 1) -> bytes:
             )
         with os.fdopen(fd, "rb") as handle:
             fd = -1
-            # A read sized to the file: read(limit) would allocate the whole limit (1 MiB)
+            # A read sized to the file: read(MAX_BYTES + 1) would allocate the whole 1 MiB
             # first, which costs more than reading a record. One byte more shows growth.
+            limit = MAX_BYTES + 1
             raw = handle.read(min(limit, info.st_size + 1))
             if info.st_size < len(raw) < limit:
                 raw += handle.read(limit - len(raw))

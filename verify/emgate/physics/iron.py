@@ -14,26 +14,14 @@ from __future__ import annotations
 import math
 from bisect import bisect_right
 from collections.abc import Callable
+from typing import overload
 
 import numpy as np
 
-from emgate.physics.bh import BHCurve, h_from_b, mean_field_strength
+from emgate.physics.bh import BHCurve, h_from_b, mean_field_strength, mean_field_strength_sine
 from emgate.physics.constants import MU0
 
 _EPS = float(np.finfo(float).eps)
-
-# Composite 3-point Gauss-Legendre rule on [0, 1]: H(B) is piecewise linear with kinks at the
-# table points, so many short panels beat one high-order rule. Nodes written out, as
-# numpy.polynomial would add milliseconds to the import.
-_PANELS = 256
-_GL_X = np.array([-np.sqrt(0.6), 0.0, np.sqrt(0.6)])
-_GL_W = np.array([5.0, 8.0, 5.0]) / 9.0
-_EDGES = np.linspace(0.0, 1.0, _PANELS + 1)
-_NODES = (_EDGES[:-1, None] + (_GL_X[None, :] + 1.0) / (2.0 * _PANELS)).ravel()
-_WEIGHTS = np.tile(_GL_W / (2.0 * _PANELS), _PANELS)
-#: sin(pi x / 2) at the nodes: the sinusoidal yoke's flux density over its peak.
-_SIN_NODES = np.sin(0.5 * np.pi * _NODES)
-
 
 #: Interpolation steps allowed in a row that do not halve the bracket; then a bisection.
 _STALL = 4
@@ -208,7 +196,19 @@ def slot_flux_sharing_factor(
     return (slot_pitch * stack_length - iron) / iron
 
 
-def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHCurve) -> float:
+@overload
+def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHCurve) -> float: ...
+
+
+@overload
+def real_tooth_flux_density(
+    b_apparent: np.ndarray, sharing_factor: float | np.ndarray, curve: BHCurve
+) -> np.ndarray: ...
+
+
+def real_tooth_flux_density(
+    b_apparent: float | np.ndarray, sharing_factor: float | np.ndarray, curve: BHCurve
+) -> float | np.ndarray:
     """Real tooth flux density from the apparent one, with the slot sharing the flux.
 
     Solves ``B_app = B_real + mu0 k_s H(B_real)``. The right side increases strictly with
@@ -216,24 +216,31 @@ def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHC
     grows at 1/mu0, see :mod:`emgate.physics.bh`), so the root lies in [0, B_app] and is
     found exactly, on the segment of the table that holds it.
 
+    Arrays (of one shape, or broadcast) are solved element by element by the same formulas,
+    for the sweep's vectorised path.
+
     Parameters
     ----------
-    b_apparent : float
+    b_apparent : float or numpy.ndarray
         Apparent tooth flux density [T]; odd symmetry for negative values.
-    sharing_factor : float
+    sharing_factor : float or numpy.ndarray
         Slot-flux-sharing factor k_s [-], >= 0.
     curve : BHCurve
         Tooth steel.
 
     Returns
     -------
-    float
+    float or numpy.ndarray
         Real tooth flux density [T], with ``|B_real| <= |B_app|`` (equal when k_s = 0).
 
     References
     ----------
     Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical Machines, ch. 3.
     """
+    if isinstance(b_apparent, np.ndarray) or isinstance(sharing_factor, np.ndarray):
+        return _real_tooth_flux_density_array(
+            np.asarray(b_apparent), np.asarray(sharing_factor), curve
+        )
     if not 0.0 <= sharing_factor < math.inf:
         raise ValueError("the slot-flux-sharing factor must be finite and >= 0")
     b_app = abs(float(b_apparent))
@@ -255,6 +262,37 @@ def real_tooth_flux_density(b_apparent: float, sharing_factor: float, curve: BHC
     # H >= 0 bounds the root by b_app; the clamp keeps the last bit of rounding inside it.
     b_real = min(max(b_real, 0.0), b_app)
     return b_real if b_apparent > 0 else -b_real
+
+
+def _real_tooth_flux_density_array(
+    b_apparent: np.ndarray, sharing_factor: np.ndarray, curve: BHCurve
+) -> np.ndarray:
+    """:func:`real_tooth_flux_density` of arrays: the same segment solve, the segment found by
+    ``np.searchsorted`` in the table of each distinct sharing factor (a sweep has few)."""
+    b_in, ks = np.broadcast_arrays(np.asarray(b_apparent, float), np.asarray(sharing_factor, float))
+    if not np.all((ks >= 0.0) & (ks < math.inf)):
+        raise ValueError("the slot-flux-sharing factor must be finite and >= 0")
+    b_app = np.abs(b_in)
+    if not np.all(np.isfinite(b_app)):
+        raise ValueError("the apparent tooth flux density must be finite")
+    bt, ht = np.asarray(curve._bt), np.asarray(curve._ht)  # type: ignore[attr-defined]
+    b_real = b_app.copy()
+    factors, which = np.unique(ks, return_inverse=True)
+    which = which.reshape(ks.shape)
+    for n, k_s in enumerate(factors.tolist()):
+        if k_s == 0.0:
+            continue
+        at = which == n
+        x = b_app[at]
+        c = MU0 * k_s
+        j = np.searchsorted(np.asarray(_sharing_table(curve, c)), x, side="right") - 1
+        last = j >= len(bt) - 1
+        j = np.clip(j, 0, len(bt) - 2)
+        slope = (ht[j + 1] - ht[j]) / (bt[j + 1] - bt[j])
+        inside = (x - c * ht[j] + c * slope * bt[j]) / (1.0 + c * slope)
+        beyond = (x - c * ht[-1] + c * bt[-1] / MU0) / (1.0 + c / MU0)
+        b_real[at] = np.minimum(np.maximum(np.where(last, beyond, inside), 0.0), x)
+    return np.copysign(b_real, b_in)
 
 
 #: Tables g_j = B_j + c H_j kept per curve, for this many sharing constants c at most.
@@ -334,9 +372,9 @@ def yoke_magnetic_voltage(
     """Magnetic voltage along a yoke path on which the flux density varies.
 
     The yoke flux is the gap flux accumulated from a pole axis, so it is zero there and
-    peaks on the interpolar axis. Two distributions over the path: the sinusoidal one
-    integrated numerically (composite Gauss-Legendre, 768 points), the ramp exactly (the
-    area under the piecewise-linear curve, :func:`~emgate.physics.bh.mean_field_strength`):
+    peaks on the interpolar axis. Two distributions over the path, each integrated exactly
+    on the piecewise-linear curve (:func:`~emgate.physics.bh.mean_field_strength_sine`,
+    :func:`~emgate.physics.bh.mean_field_strength`):
 
     - ``ramp_fraction=None``: sinusoidal gap flux, so ``B(x) = B_peak sin(pi x / tau_y)``
       and ``V = tau_y mean(H(B_peak sin theta))`` over theta in [0, pi/2];
@@ -372,12 +410,8 @@ def yoke_magnetic_voltage(
     Pyrhonen, Jokinen, Hrabovcova, Design of Rotating Electrical Machines, ch. 3 (yoke
     magnetic voltage with the flux density varying along the yoke).
     """
-    if ramp_fraction is None:
-        if np.ndim(b_peak):  # variants of a sweep (b_peak and path_length arrays): one product
-            rows = h_from_b(curve, np.multiply.outer(b_peak, _SIN_NODES))
-            return path_length * (np.asarray(rows) @ _WEIGHTS)  # type: ignore[return-value]
-        mean_h = float(_WEIGHTS @ h_from_b(curve, b_peak * _SIN_NODES))
-        return path_length * mean_h
+    if ramp_fraction is None:  # an array of peaks (a sweep's variants) gives an array
+        return path_length * mean_field_strength_sine(curve, b_peak)  # type: ignore[return-value]
     if not 0.0 <= ramp_fraction <= 1.0:
         raise ValueError("the ramp fraction of a yoke must lie in [0, 1]")
     ramp_h = mean_field_strength(curve, b_peak)

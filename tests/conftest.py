@@ -32,6 +32,7 @@ import pytest
 import scipy.constants
 import yaml
 
+from emgate.parallel import MIN_ITEMS_PER_WORKER
 from emgate.physics.bh import BHCurve
 
 if TYPE_CHECKING:
@@ -426,3 +427,28 @@ def requests(drv: Any) -> list[str]:
         if msg.get("method") == "Network.requestWillBeSent":
             urls.append(msg["params"]["request"]["url"])
     return urls
+
+
+#: Records of :func:`many_records`: enough for two --jobs workers.
+RECORDS = 3 * MIN_ITEMS_PER_WORKER
+_STACK_MM = {PUMP: 140.0, SERVO: 60.0, GENSET: 160.0}  # as the bundled records give them
+
+
+def many_records(repo: Path) -> None:
+    """Passing and failing records of all three kinds, a broken one, a taken id, a waiver."""
+    (repo / "designs").mkdir()
+    (repo / "materials").mkdir()
+    shutil.copy(STEELS, repo / "materials" / STEELS.name)
+    bases = (PUMP, SERVO, GENSET)
+    for i in range(RECORDS):
+        base = bases[i % 3]
+        # each record its own stack, a little longer than its base's (which passes its rules)
+        stack = _STACK_MM[base] + 0.1 * i
+        overrides = {"id": f"{base.stem}-{i:03d}", "stator.stack_length": f"{stack:.1f} mm"}
+        if i == 7:
+            overrides["rating.line_current"] = "40 A"  # a current density far past the limit
+        write_variant(repo / "designs", overrides, base=base, name=f"r{i:03d}.yaml")
+    write_variant(repo / "designs", {"id": "pump-drive-4p36s-003"}, name="taken-id.yaml")
+    write_variant(repo / "designs", {"poles": "four"}, name="invalid.yaml")
+    (repo / "designs" / "broken.yaml").write_text("schema: emgate/design@1\nid: [\n")
+    write_config(repo, "files: ['designs/*.yaml']\n")

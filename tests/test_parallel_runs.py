@@ -13,32 +13,10 @@ from pathlib import Path
 
 import pytest
 
-from conftest import GENSET, PUMP, SERVO, STEELS, run_cli, write_config, write_variant
+from conftest import RECORDS, many_records, run_cli
 from emgate.parallel import MIN_ITEMS_PER_WORKER, ordered_map, workers_for
 
-RECORDS = 3 * MIN_ITEMS_PER_WORKER  # enough for two workers
-_STACK_MM = {PUMP: 140.0, SERVO: 60.0, GENSET: 160.0}  # as the bundled records give them
 _TIME = re.compile(r'\btime="[0-9.]+"')
-
-
-def many_records(repo: Path) -> None:
-    """Passing and failing records of all three kinds, a broken one, a taken id, a waiver."""
-    (repo / "designs").mkdir()
-    (repo / "materials").mkdir()
-    shutil.copy(STEELS, repo / "materials" / STEELS.name)
-    bases = (PUMP, SERVO, GENSET)
-    for i in range(RECORDS):
-        base = bases[i % 3]
-        # each record its own stack, a little longer than its base's (which passes its rules)
-        stack = _STACK_MM[base] + 0.1 * i
-        overrides = {"id": f"{base.stem}-{i:03d}", "stator.stack_length": f"{stack:.1f} mm"}
-        if i == 7:
-            overrides["rating.line_current"] = "40 A"  # a current density far past the limit
-        write_variant(repo / "designs", overrides, base=base, name=f"r{i:03d}.yaml")
-    write_variant(repo / "designs", {"id": "pump-drive-4p36s-003"}, name="taken-id.yaml")
-    write_variant(repo / "designs", {"poles": "four"}, name="invalid.yaml")
-    (repo / "designs" / "broken.yaml").write_text("schema: emgate/design@1\nid: [\n")
-    write_config(repo, "files: ['designs/*.yaml']\n")
 
 
 @pytest.mark.parametrize("fmt", ["text", "json", "sarif", "junit", "markdown"])

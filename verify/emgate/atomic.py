@@ -16,20 +16,23 @@ import signal
 import stat
 import tempfile
 import threading
-from collections.abc import Iterator
+from collections.abc import Iterable, Iterator
 from pathlib import Path
+from typing import IO
 
 TEMP_MARK = ".emgate-tmp"
 
 
-def write_atomic(path: Path, text: str, *, parents: bool = False) -> None:
+def write_atomic(path: Path, text: str | Iterable[str], *, parents: bool = False) -> None:
     """Write ``text`` to ``path`` (UTF-8, LF line ends).
 
     Parameters
     ----------
     path : Path
         The file to write; its folder must exist unless ``parents``.
-    text : str
+    text : str or iterable of str
+        The text, or its pieces in order (a report written as it is made: the pieces go to
+        the temporary file one at a time, and the file is replaced only once all are in)
     parents : bool
         Create missing folders (for ``emgate schema --write DIR``, which names a folder).
 
@@ -49,7 +52,7 @@ def write_atomic(path: Path, text: str, *, parents: bool = False) -> None:
     if mode is not None and not stat.S_ISREG(mode):
         # A device, FIFO or link: write through it, never replace the node itself.
         with open(path, "w", encoding="utf-8", newline="\n") as handle:
-            handle.write(text)
+            _write(handle, text)
         return
     remove_stale(path)
     fd, tmp = tempfile.mkstemp(
@@ -58,7 +61,7 @@ def write_atomic(path: Path, text: str, *, parents: bool = False) -> None:
     with _removed_on_sigterm(Path(tmp)):
         try:
             with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
-                handle.write(text)
+                _write(handle, text)
                 handle.flush()
                 os.fsync(handle.fileno())
             umask = os.umask(0)
@@ -68,6 +71,13 @@ def write_atomic(path: Path, text: str, *, parents: bool = False) -> None:
         except BaseException:
             Path(tmp).unlink(missing_ok=True)
             raise
+
+
+def _write(handle: IO[str], text: str | Iterable[str]) -> None:
+    if isinstance(text, str):
+        handle.write(text)
+    else:
+        handle.writelines(text)
 
 
 def remove_stale(path: Path) -> list[Path]:

@@ -7,10 +7,14 @@ import argparse
 import os
 import sys
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from emgate.report import FORMATS
 from emgate.schemas import SCHEMA_KINDS
 from emgate.terms import EXIT_CRASH, EXIT_INPUT, EXIT_OK
+
+if TYPE_CHECKING:
+    from collections.abc import Iterator
 
 #: The formats that read a record's summary alone (its check count, its check closest to a
 #: limit, the rules it ran), never its every outcome: with only these, a run keeps no more.
@@ -293,6 +297,10 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
 
     status, written = EXIT_OK, []
     for name, file in outputs:
+        if result.spool is not None and name not in SUMMARY_FORMATS:
+            # a run spools only when every report asked for reads summaries; a report that
+            # reads every outcome must never see a spooled run's half (fail closed)
+            raise RuntimeError(f"the {name} report cannot read a spooled run")
         if name == "html" and file is not None:
             from emgate.page import write_run
 
@@ -303,14 +311,16 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
                 print(one_line(f"emgate: cannot write html to {file}: {why}"), file=sys.stderr)
                 status = EXIT_INPUT
             continue
-        if name == "text":
-            from emgate.report.text import render
+        text: str | Iterator[str]
+        if name == "text":  # written line by line: a spooled run is read back as it goes
+            from emgate.report.text import lines
 
-            text = render(result, quiet=quiet, colour=file is None and _colour(sys.stdout))
+            colour = file is None and _colour(sys.stdout)
+            text = (f"{line}\n" for line in lines(result, quiet=quiet, colour=colour))
         else:
             text = reporter(name)(result)
         if file is None:
-            sys.stdout.write(text)
+            sys.stdout.writelines(text)
             continue
         try:
             write_atomic(file, text)

@@ -27,14 +27,18 @@ _HEAD_CHARS = 4096
 _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
 
 
-@dataclass
+@dataclass(slots=True)
 class Source:
     path: Path
-    text: str
+    #: The file's text; None for a design record whose text is read again when it is
+    #: checked (``discover(..., design_text=False)``: a large run holds one record's text
+    #: at a time, not every record's from discovery to its check).
+    text: str | None
     declared: str | None
     explicit: bool
-    #: ``path`` resolved (once, in discovery: a change set and the sources' set compare it)
-    key: Path
+    #: ``path`` resolved, as text (once, in discovery: a change set and the sources' set
+    #: compare it; a thousand-record run keeps one for each record)
+    key: str
 
 
 def discover(
@@ -43,6 +47,7 @@ def discover(
     policy: Policy | None = None,
     changes: ChangeSet | None = None,
     verbose: bool = False,
+    design_text: bool = True,
 ) -> list[Source]:
     """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema.
 
@@ -51,7 +56,9 @@ def discover(
     with no schema), and, in a configured repository, whenever the configuration's ``files``
     globs select it or it is named on the command line, unless ``ignore_files`` lists it.
     Otherwise it is skipped (with a note when named, or with ``verbose``). With a change
-    set, only the files the change touches are held to this.
+    set, only the files the change touches are held to this. Without ``design_text`` the
+    design records are read here (read_text's refusals are reported) but their text is not
+    kept: the pipeline reads it again when it checks the record.
     """
     out: list[Source] = []
     # Paths as strings until a file is kept: a thousand-record repository checked for one
@@ -134,7 +141,8 @@ def discover(
                 continue
             if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
                 continue  # read through the policy, not as records
-            out.append(Source(path, text, declared, explicit, Path(key)))
+            kept = text if design_text or declared != DESIGN_SCHEMA else None
+            out.append(Source(path, kept, declared, explicit, key))
     return out
 
 
@@ -266,7 +274,7 @@ def repository_record_ids(root: Path) -> set[str]:
     ids: set[str] = set()
     for src in discover([root], RunResult()):
         if src.declared == DESIGN_SCHEMA:
-            ids.update(_RECORD_ID.findall(src.text))
+            ids.update(_RECORD_ID.findall(src.text or ""))
     return ids
 
 
@@ -294,6 +302,6 @@ def discover_materials(start: Path) -> Catalogue:
     catalogue = Catalogue()
     root = repository_root(start)
     for src in materials_sources(root) if root is not None else []:
-        doc = load_text(src.path, src.text)
+        doc = load_text(src.path, src.text or "")
         catalogue.add_file(doc, validate_materials(doc))
     return catalogue

@@ -23,7 +23,9 @@ from emgate.errors import InputError, InputErrors, display_path
 from emgate.findings import (
     RuleInfo,
     RunResult,
+    Spool,
     anchor,
+    anchor_findings,
     input_finding,
     input_findings,
     source_root,
@@ -59,7 +61,8 @@ def execute(run: Run) -> RunResult:
         )
         for rid, lr in sorted(run.plugins.rules.items())
     ]
-    sources = discover(run.paths, result, run.policy, run.changes, run.verbose)
+    # the design records' texts are read again when each is checked (one held at a time)
+    sources = discover(run.paths, result, run.policy, run.changes, run.verbose, design_text=False)
     named = {src.key for src in sources}
     # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
     folders = {p if p.is_dir() else p.parent for p in run.paths if p.exists()}
@@ -81,7 +84,7 @@ def execute(run: Run) -> RunResult:
             designs.append(src)
             continue
         try:
-            doc = load_text(src.path, src.text)
+            doc = load_text(src.path, src.text or "")
             kind = schema_of(doc)
             if kind == DESIGN_SCHEMA:  # its first schema line and its parsed key disagree
                 raise InputError(
@@ -109,14 +112,16 @@ def execute(run: Run) -> RunResult:
     del docs  # nothing below reads the materials documents again
     seen_ids: dict[str, str] = {}
     interned: dict[frozenset[str], frozenset[str]] = {}
+    if not run.details:  # only the summary reports: the records go to disk as they are done
+        result.spool = Spool()
+        root = run_root(run)
     with rule_guards():
         from emgate.parallel import ordered_map
 
         def one(src: Source) -> RecordDone:
             return check_source(run, src, catalogue, file_waivers)
 
-        for src, done in zip(designs, ordered_map(one, designs, run.jobs), strict=True):
-            src.text = ""  # checked: the run keeps its result, not its text
+        for done in ordered_map(one, designs, run.jobs):
             if done.record_id is not None and done.record_id in seen_ids:
                 # the same verdict as a serial run: a record whose id is taken is not checked
                 result.findings.append(
@@ -131,11 +136,12 @@ def execute(run: Run) -> RunResult:
                 continue
             if done.record_id is not None:
                 seen_ids[done.record_id] = done.file
-            result.findings.extend(done.findings)
-            if run.details:
-                result.records.extend(done.records)
+            if result.spool is not None:
+                anchor_findings(done.findings, root)
+                result.spool.add(done.findings, [r.summarised(interned) for r in done.records])
             else:
-                result.records.extend(r.summarised(interned) for r in done.records)
+                result.findings.extend(done.findings)
+                result.records.extend(done.records)
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | repository_record_ids(run.policy.root)
         result.findings.extend(
@@ -143,9 +149,9 @@ def execute(run: Run) -> RunResult:
         )
     if run.changes is None:
         if (
-            not result.records
+            not result.count_records()
             and all(p.is_dir() for p in run.paths)
-            and not any(f.kind == "input" and f.severity == "error" for f in result.findings)
+            and not any(f.kind == "input" and f.severity == "error" for f in result.each_finding())
         ):  # a glob or folder typo must not pass the gate with nothing checked
             looked = ", ".join(display_path(p) for p in run.paths) or "the files emgate.yaml names"
             result.findings.append(

@@ -1,19 +1,21 @@
-"""Findings and the result of a run: the one structure every reporter reads."""
+"""Findings and the result of a run: the one structure every reporter reads (with the spool
+that holds a large run's records on disk)."""
 
 from __future__ import annotations
 
 import hashlib
+import heapq
 import math
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import TYPE_CHECKING, Literal
+from typing import IO, TYPE_CHECKING, Any, Literal
 
 from emgate.errors import InputError, InputErrors, display_path
 from emgate.rule import Check
 from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK, Severity
 
 if TYPE_CHECKING:
-    from collections.abc import Callable, Iterable
+    from collections.abc import Callable, Iterable, Iterator
 
     from emgate.remedy import Remedy
 
@@ -156,25 +158,78 @@ class RunResult:
     findings: list[Finding] = field(default_factory=list)
     rules: list[RuleInfo] = field(default_factory=list)
     files_read: int = 0
+    #: The design records' findings and summaries, when the run wrote them to disk as it
+    #: went (only the summary reports asked for); ``records`` and ``findings`` then hold the
+    #: rest (the run's, the configuration's, the materials'). Read both through
+    #: :meth:`each_finding` and :meth:`each_record`, and count through the methods below.
+    spool: Spool | None = None
 
     def sort(self) -> None:
         self.findings.sort(key=Finding.sort_key)
         self.records.sort(key=lambda r: (r.file, r.record_id))
 
+    def each_finding(self) -> Iterator[Finding]:
+        """Every finding of the run in report order, the spooled ones included."""
+        if self.spool is None:
+            return iter(self.findings)
+        return heapq.merge(self.findings, self.spool.findings(), key=Finding.sort_key)
+
+    def each_record(self) -> Iterator[RecordResult]:
+        """Every record of the run in report order, the spooled ones included."""
+        if self.spool is None:
+            return iter(self.records)
+        return heapq.merge(self.records, self.spool.records(), key=lambda r: (r.file, r.record_id))
+
     def active(self, severity: Severity) -> list[Finding]:
+        """The unwaived findings of a severity (not the spooled ones: :meth:`count_active`)."""
         return [f for f in self.findings if f.severity == severity and f.waived_by is None]
+
+    def count_active(self, severity: Literal["error", "warning"]) -> int:
+        """How many unwaived findings of a severity, the spooled ones included."""
+        held = len(self.active(severity))
+        if self.spool is None:
+            return held
+        return held + (
+            self.spool.tally.errors if severity == "error" else self.spool.tally.warnings
+        )
+
+    def count_waived(self) -> int:
+        held = sum(1 for f in self.findings if f.waived_by)
+        return held + (self.spool.tally.waived if self.spool is not None else 0)
+
+    def count_records(self) -> int:
+        return len(self.records) + (self.spool.tally.records if self.spool is not None else 0)
+
+    def count_checks(self) -> int:
+        held = sum(r.check_count() for r in self.records)
+        return held + (self.spool.tally.checks if self.spool is not None else 0)
+
+    def rules_ran(self) -> set[str]:
+        """The rules that applied to at least one record."""
+        ran = {rule for r in self.records for rule in r.rules_ran()}
+        return ran | (self.spool.tally.rules_ran if self.spool is not None else set())
 
     @property
     def exit_code(self) -> int:
         """0 clean, 1 a rule found an error, 2 input or configuration, 3 a crash."""
-        live = [f for f in self.findings if f.waived_by is None]
-        if any(f.kind == "crash" for f in live):
+        spooled = self.spool.tally.exit_code if self.spool is not None else EXIT_OK
+        return max(exit_code_of(self.findings), spooled)
+
+
+def exit_code_of(findings: Iterable[Finding]) -> int:
+    """The exit code that findings give: 3 a crash, 2 an input error, 1 an error, else 0
+    (waived findings give none)."""
+    code = EXIT_OK
+    for f in findings:
+        if f.waived_by is not None:
+            continue
+        if f.kind == "crash":
             return EXIT_CRASH
-        if any(f.kind == "input" for f in live):
-            return EXIT_INPUT
-        if any(f.severity == "error" for f in live):
-            return EXIT_FINDINGS
-        return EXIT_OK
+        if f.kind == "input":
+            code = EXIT_INPUT
+        elif f.severity == "error":
+            code = max(code, EXIT_FINDINGS)
+    return code
 
 
 def relative_file(path: Path) -> str:
@@ -212,8 +267,13 @@ def anchor(result: RunResult, root: Path) -> None:
     """Name each finding's file relative to ``root`` too (an absolute path for a file
     outside it), so that SARIF locations and fingerprints do not depend on the folder
     emgate ran in."""
+    anchor_findings(result.findings, root)
+
+
+def anchor_findings(findings: Iterable[Finding], root: Path) -> None:
+    """:func:`anchor` of some findings (a spooled record's, before they are written)."""
     top = root.resolve()
-    for f in result.findings:
+    for f in findings:
         if f.file:
             path = Path(f.file).resolve()
             try:
@@ -250,3 +310,112 @@ def needing_remedies(findings: list[Finding]) -> list[Finding]:
         if f.check is not None and not f.check.passed and f.waived_by is None
         and f.kind == "violation"
     ]  # fmt: skip
+
+
+# The spool: the design records' findings and summaries of a large run, on disk instead of
+# in memory. When only the summary reports are asked for (text, annotations, code quality),
+# each record's findings and summary are written to a temporary file as soon as the record
+# is checked, and read back, one record at a time, when the report is written: the memory of
+# a run then does not grow with its number of records. What the verdict needs (the exit
+# code, the counts of the summary line, the rules that ran) is tallied on the way in.
+#
+# The records are checked in discovery order and reported in the order of their file names;
+# the two agree but for unusual names (a folder ``a`` beside a file ``a-b.yaml``). Where they
+# do not, the spool notices and sorts what it holds when it is read, in memory: the report is
+# the same either way.
+
+
+def record_key(record: RecordResult) -> tuple[str, str]:
+    return (record.file, record.record_id)
+
+
+@dataclass
+class Tally:
+    """What the summary line and the exit code need of the records a spool holds."""
+
+    records: int = 0
+    checks: int = 0
+    rules_ran: set[str] = field(default_factory=set)
+    errors: int = 0  # unwaived
+    warnings: int = 0  # unwaived
+    waived: int = 0
+    exit_code: int = EXIT_OK
+
+    def add(self, findings: list[Finding], records: list[RecordResult]) -> None:
+        self.records += len(records)
+        for r in records:
+            self.checks += r.check_count()
+            self.rules_ran |= r.rules_ran()
+        for f in findings:
+            if f.waived_by:
+                self.waived += 1
+            elif f.severity == "error":
+                self.errors += 1
+            elif f.severity == "warning":
+                self.warnings += 1
+        self.exit_code = max(self.exit_code, exit_code_of(findings))
+
+
+class Spool:
+    """Findings and record summaries, one pickled block a record, in a temporary file."""
+
+    def __init__(self) -> None:
+        import tempfile
+
+        self._file: IO[bytes] = tempfile.TemporaryFile(prefix="emgate-spool-")
+        self._end = 0
+        self.tally = Tally()
+        # the last sort keys written, to notice a record out of report order
+        self._last_finding: tuple[str, int, int, str, str] | None = None
+        self._last_record: tuple[str, str] | None = None
+        self._ordered = True
+
+    def add(self, findings: list[Finding], records: list[RecordResult]) -> None:
+        """One design file's findings (waived and anchored) and record summaries."""
+        findings = sorted(findings, key=Finding.sort_key)
+        records = sorted(records, key=record_key)
+        self.tally.add(findings, records)
+        if findings:
+            if self._last_finding is not None and findings[0].sort_key() < self._last_finding:
+                self._ordered = False
+            self._last_finding = findings[-1].sort_key()
+        if records:
+            if self._last_record is not None and record_key(records[0]) < self._last_record:
+                self._ordered = False
+            self._last_record = record_key(records[-1])
+        import pickle
+
+        self._file.seek(self._end)
+        pickle.dump((findings, records), self._file, protocol=pickle.HIGHEST_PROTOCOL)
+        self._end = self._file.tell()
+
+    def _blocks(self) -> Iterator[tuple[list[Finding], list[RecordResult]]]:
+        """The blocks in the order written; each reader keeps its own place in the file."""
+        import pickle
+
+        self._file.flush()
+        at = 0
+        while at < self._end:
+            self._file.seek(at)
+            block: Any = pickle.load(self._file)
+            at = self._file.tell()
+            yield block
+
+    def findings(self) -> Iterator[Finding]:
+        """Every finding held, in report order (:meth:`Finding.sort_key`)."""
+        if self._ordered:
+            for findings, _ in self._blocks():
+                yield from findings
+        else:
+            yield from sorted((f for fs, _ in self._blocks() for f in fs), key=Finding.sort_key)
+
+    def records(self) -> Iterator[RecordResult]:
+        """Every record summary held, in report order (file, then record id)."""
+        if self._ordered:
+            for _, records in self._blocks():
+                yield from records
+        else:
+            yield from sorted((r for _, rs in self._blocks() for r in rs), key=record_key)
+
+    def close(self) -> None:
+        self._file.close()

@@ -28,7 +28,7 @@ from emgate.findings import (
     needing_remedies,
 )
 from emgate.findings import describe_check as _describe
-from emgate.loader import Document, load_text
+from emgate.loader import Document, load_text, read_text
 from emgate.materials import Catalogue
 from emgate.model import AnyDesign
 from emgate.plugins import PluginSet, describe_exception
@@ -63,8 +63,9 @@ class Run:
     jobs: int = 1
     #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
     remedies: bool = True
-    #: Keep every record's outcomes (False: a :class:`~emgate.findings.RecordSummary`, all
-    #: that the summary reports read, when only they are asked for).
+    #: Keep every record's outcomes (False, when only the summary reports are asked for:
+    #: each design record's findings and :class:`~emgate.findings.RecordSummary` go to the
+    #: run's :class:`~emgate.findings.Spool` on disk as the record is done).
     details: bool = True
 
 
@@ -97,7 +98,8 @@ def check_source(
 
     done = RecordDone(display_path(src.path))
     try:
-        doc = load_text(src.path, src.text)
+        # read again: discovery keeps no design's text (the file's checks are the same)
+        doc = load_text(src.path, read_text(src.path) if src.text is None else src.text)
         kind = schema_of(doc)
     except (InputError, InputErrors) as exc:
         if not _untouched_record(run, src):  # a broken record outside a change is its author's
@@ -154,7 +156,7 @@ def _untouched_record(run: Run, src: Source) -> bool:
         changes is not None
         and not changes.everything
         and src.declared == DESIGN_SCHEMA
-        and src.key not in changes.files
+        and Path(src.key) not in changes.files
     )
 
 

@@ -48,7 +48,7 @@ def annotation(f: Finding) -> str:
 
 
 def render(result: RunResult) -> str:
-    lines = [annotation(f) for f in result.findings]
+    lines = [annotation(f) for f in result.each_finding()]
     final = f"{summary_line(result)}; {rules_line(result)}. {DISCLAIMER}"
     lines.append(command("notice", final, title="emgate"))
     return "\n".join(lines) + "\n"

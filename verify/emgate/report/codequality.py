@@ -54,7 +54,8 @@ def fingerprints(findings: list[Finding]) -> list[str]:
 
 def render(result: RunResult) -> str:
     # fingerprints over every finding, so that waiving one does not rename another
-    pairs = zip(result.findings, fingerprints(result.findings), strict=True)
+    findings = list(result.each_finding())
+    pairs = zip(findings, fingerprints(findings), strict=True)
     items: list[dict[str, Any]] = []
     for f, fp in pairs:
         description = f.message + (f" [{f.record_path}]" if f.record_path != "$" else "")

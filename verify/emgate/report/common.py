@@ -42,7 +42,7 @@ def where(f: Finding) -> str:
 
 def rules_run(result: RunResult) -> list[RuleInfo]:
     """The rules that ran on at least one record (not only loaded), with their versions."""
-    ran = {rule for r in result.records for rule in r.rules_ran()}
+    ran = result.rules_ran()
     known = {r.id: r for r in result.rules}
     return [known.get(rid, RuleInfo(rid, "?", "", "", "")) for rid in sorted(ran)]
 
@@ -56,13 +56,11 @@ def rules_line(result: RunResult) -> str:
 
 def summary_line(result: RunResult) -> str:
     """The verdict and the counts, in one sentence."""
-    checks = sum(r.check_count() for r in result.records)
-    waived = sum(1 for f in result.findings if f.waived_by)
     return (
-        f"{VERDICTS[result.exit_code]}: {len(result.records)} record(s) checked,"
-        f" {len(rules_run(result))} rule(s) run ({checks} checks),"
-        f" {len(result.active('error'))} error(s), {len(result.active('warning'))} warning(s),"
-        f" {waived} waived"
+        f"{VERDICTS[result.exit_code]}: {result.count_records()} record(s) checked,"
+        f" {len(rules_run(result))} rule(s) run ({result.count_checks()} checks),"
+        f" {result.count_active('error')} error(s), {result.count_active('warning')}"
+        f" warning(s), {result.count_waived()} waived"
     )
 
 

@@ -4,6 +4,7 @@ margins too."""
 
 from __future__ import annotations
 
+from collections.abc import Iterator
 from itertools import groupby
 
 from emgate.findings import DISCLAIMER, Finding, RunResult
@@ -38,24 +39,33 @@ def _paint(lines: list[str], key: str, colour: bool) -> list[str]:
     return [f"\x1b[{code}m{line}\x1b[0m" for line in lines]
 
 
-def render(result: RunResult, *, quiet: bool = False, colour: bool = False) -> str:
-    """The report; ``quiet``: the findings (without remedies) and the caution alone
-    (nothing when clean); ``colour``: ANSI colours by severity."""
-    out: list[str] = []
-    for file, group in groupby(result.findings, key=lambda f: f.file):
-        out.append(one_line(file or "(run)"))
+def lines(result: RunResult, *, quiet: bool = False, colour: bool = False) -> Iterator[str]:
+    """The report's lines, one at a time (a spooled run's records are read back as they are
+    written out); ``quiet``: the findings (without remedies) and the caution alone (nothing
+    when clean); ``colour``: ANSI colours by severity."""
+    found = False
+    for file, group in groupby(result.each_finding(), key=lambda f: f.file):
+        found = True
+        yield one_line(file or "(run)")
         for f in group:
-            out.extend(
-                _paint(_lines(f, not quiet), "waived" if f.waived_by else f.severity, colour)
-            )
-        out.append("")
+            yield from _paint(_lines(f, not quiet), "waived" if f.waived_by else f.severity, colour)
+        yield ""
     if quiet:  # every report carries the caution, a quiet one too
-        return "\n".join([*out, DISCLAIMER]) + "\n" if out else ""
-    if result.records:
-        out.extend(one_line(margins_line(r)) for r in result.records)
-        out.append("")
+        if found:
+            yield DISCLAIMER
+        return
+    margins = False
+    for record in result.each_record():
+        margins = True
+        yield one_line(margins_line(record))
+    if margins:
+        yield ""
     verdict = "PASS" if result.exit_code == 0 else "error"
-    out.extend(_paint([one_line(summary_line(result))], verdict, colour))
-    out.append(one_line(rules_line(result)))
-    out.append(DISCLAIMER)
-    return "\n".join(out) + "\n"
+    yield from _paint([one_line(summary_line(result))], verdict, colour)
+    yield one_line(rules_line(result))
+    yield DISCLAIMER
+
+
+def render(result: RunResult, *, quiet: bool = False, colour: bool = False) -> str:
+    """The report as one text (:func:`lines`, each ended by a line feed)."""
+    return "".join(f"{line}\n" for line in lines(result, quiet=quiet, colour=colour))

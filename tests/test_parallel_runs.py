@@ -130,7 +130,7 @@ def test_changed_since_still_reports_an_unreadable_file_outside_the_change(
     assert "scan.yaml:" in result.out and says in result.out
 
 
-@pytest.mark.parametrize("fmt", ["text", "annotations", "codequality"])
+@pytest.mark.parametrize("fmt", ["text", "annotations", "codequality", "sarif"])
 def test_a_summary_report_keeps_summaries_and_says_the_same(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch, fmt: str
 ) -> None:

@@ -17,8 +17,9 @@ if TYPE_CHECKING:
     from collections.abc import Iterator
 
 #: The formats that read a record's summary alone (its check count, its check closest to a
-#: limit, the rules it ran), never its every outcome: with only these, a run keeps no more.
-SUMMARY_FORMATS = frozenset({"text", "annotations", "codequality"})
+#: limit, the rules it ran) and its findings, never its every outcome: with only these, a
+#: run spools its records to disk (``emgate.findings.Spool``).
+SUMMARY_FORMATS = frozenset({"text", "annotations", "codequality", "sarif"})
 
 
 def _untrusted_path_guard() -> None:
@@ -317,6 +318,10 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
 
             colour = file is None and _colour(sys.stdout)
             text = (f"{line}\n" for line in lines(result, quiet=quiet, colour=colour))
+        elif name == "sarif":  # written result by result as well
+            from emgate.report.sarif import chunks
+
+            text = chunks(result)
         else:
             text = reporter(name)(result)
         if file is None:

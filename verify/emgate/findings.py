@@ -81,9 +81,9 @@ class RuleOutcome:
 
 @dataclass(frozen=True, slots=True)
 class RecordSummary:
-    """What the summary reports (text, annotations, code quality) read of a record, kept in
-    place of its outcomes when no other report is asked for: a large run's memory then
-    holds a few hundred bytes a record, not its every check."""
+    """What the summary reports (text, annotations, code quality, SARIF) read of a record,
+    kept in place of its outcomes when no other report is asked for: a large run's memory
+    then holds a few hundred bytes a record, not its every check."""
 
     check_count: int
     closest: tuple[str, Check] | None
@@ -313,10 +313,10 @@ def needing_remedies(findings: list[Finding]) -> list[Finding]:
 
 
 # The spool: the design records' findings and summaries of a large run, on disk instead of
-# in memory. When only the summary reports are asked for (text, annotations, code quality),
-# each record's findings and summary are written to a temporary file as soon as the record
-# is checked, and read back, one record at a time, when the report is written: the memory of
-# a run then does not grow with its number of records. What the verdict needs (the exit
+# in memory. When only the summary reports are asked for (text, annotations, code quality,
+# SARIF), each record's findings and summary are written to a temporary file as soon as the
+# record is checked, and read back, one record at a time, when the report is written: the
+# memory of a run then does not grow with its number of records. What the verdict needs (the exit
 # code, the counts of the summary line, the rules that ran) is tallied on the way in.
 #
 # The records are checked in discovery order and reported in the order of their file names;

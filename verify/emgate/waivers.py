@@ -146,6 +146,8 @@ def invalid_waivers(
     or a tag: a waiver is a reviewed exception, not a switch) and, with a path, a node that
     exists in the record: a typo must not look like a reviewed exception.
     """
+    if not entries:  # the common case: no path of the record need be spelled out
+        return [], []
     import difflib
 
     known = sorted(rules)

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import json
 import re
+from collections.abc import Iterator
 from typing import Any
 from urllib.parse import quote
 
@@ -120,24 +121,27 @@ def _notification(f: Finding) -> dict[str, Any]:
     }
 
 
-def render(result: RunResult) -> str:
+#: Stands in the document for its results, which :func:`chunks` writes one at a time.
+_RESULTS = "\x00results\x00"
+
+
+def chunks(result: RunResult) -> Iterator[str]:
+    """The log in pieces: the rules and the invocation from a first pass over the findings,
+    then each result as it is read (a spooled run's findings are never all in memory)."""
     ran = rules_run(result)
     rules = [_descriptor(r) for r in ran]
     index = {r.id: i for i, r in enumerate(ran)}
-    results: list[dict[str, Any]] = []
     notifications: list[dict[str, Any]] = []
-    for f in result.findings:
+    crashed = False
+    for f in result.each_finding():
+        crashed = crashed or f.kind == "crash"
         if f.kind == "input" and not f.file:
             notifications.append(_notification(f))
-            continue
-        if f.rule not in index:
+        elif f.rule not in index:
             index[f.rule] = len(rules)
             known = BUILTIN.get(f.rule) or RuleInfo(f.rule, "?", f.rule, "", "")
             rules.append(_descriptor(known))
-        results.append(_result(f, index[f.rule]))
-    failed = any(f.kind == "crash" for f in result.findings) or any(
-        n["level"] == "error" for n in notifications
-    )
+    failed = crashed or any(n["level"] == "error" for n in notifications)
     invocation: dict[str, Any] = {"executionSuccessful": not failed, "exitCode": result.exit_code}
     if notifications:
         invocation["toolExecutionNotifications"] = notifications
@@ -155,11 +159,32 @@ def render(result: RunResult) -> str:
             SRCROOT: {"description": {"text": "the root of the repository checked"}}
         },
         "columnKind": "unicodeCodePoints",
-        "results": results,
+        "results": _RESULTS,
         "properties": {
             "verdict": VERDICTS[result.exit_code],
             "rulesRun": [f"{r.id} v{r.version}" for r in ran],
             "disclaimer": DISCLAIMER,
         },
     }
-    return json.dumps({"version": "2.1.0", "runs": [run]}, indent=2) + "\n"
+    text = json.dumps({"version": "2.1.0", "runs": [run]}, indent=2)
+    # The key with its unescaped quotes occurs once: any text inside a string has them escaped.
+    key = '"results": '
+    head, tail = text.split(key + json.dumps(_RESULTS))
+    # what json.dumps(indent=2) writes for the list in place of the mark: one item a block,
+    # indented one level deeper than the key's line
+    key_line = head.rsplit("\n", 1)[1]
+    margin = " " * (len(key_line) - len(key_line.lstrip(" ")))
+    yield head + key
+    first = True
+    for f in result.each_finding():
+        if f.kind == "input" and not f.file:
+            continue
+        item = json.dumps(_result(f, index[f.rule]), indent=2).replace("\n", "\n" + margin + "  ")
+        yield ("[\n" if first else ",\n") + margin + "  " + item
+        first = False
+    yield "[]" if first else "\n" + margin + "]"
+    yield tail + "\n"
+
+
+def render(result: RunResult) -> str:
+    return "".join(chunks(result))

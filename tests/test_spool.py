@@ -13,7 +13,7 @@ from emgate.findings import Finding, RunResult, Spool, exit_code_of
 from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK
 
 
-def _run(repo: Path, details: bool) -> RunResult:
+def _run(repo: Path, details: bool, spool: bool | None = None) -> RunResult:
     from emgate.config import find_config, load_policy
     from emgate.engine import execute
     from emgate.pipeline import Run
@@ -23,6 +23,7 @@ def _run(repo: Path, details: bool) -> RunResult:
     rules = {r: lr.rule for r, lr in plugins.rules.items()}
     policy = load_policy(find_config(repo), rules, repo)
     run = Run(paths=[repo / "designs"], policy=policy, plugins=plugins, details=details)
+    run.spool = not details if spool is None else spool
     run.remedies = False
     return execute(run)
 
@@ -118,12 +119,104 @@ def test_the_exit_code_of_findings_and_of_a_spool_agree(findings: list[Finding],
     spool.close()
 
 
-def test_a_report_of_every_outcome_refuses_a_spooled_run() -> None:
-    # a run spools only when every report asked for reads summaries; JSON reading half a
-    # run would pass a broken record unreported
-    from emgate.commands import _emit
+def test_a_report_that_reads_no_spool_refuses_a_spooled_run(tmp_path: Path) -> None:
+    # a run spools only when every report asked for reads it; JUnit or the HTML index
+    # reading half a run would pass a broken record unreported
+    from emgate.page import plots_available, write_run
+    from emgate.report import reporter
 
     spooled = RunResult(spool=Spool())
-    for fmt in ("json", "junit", "markdown", "html"):
+    with pytest.raises(RuntimeError, match="spooled"):
+        reporter("junit")(spooled)
+    if plots_available():  # (the html extra, which the test set-up installs)
         with pytest.raises(RuntimeError, match="spooled"):
-            _emit(spooled, [(fmt, None)])
+            write_run(spooled, tmp_path / "index.html")
+    held = RunResult()
+    assert held.in_memory("test") is held
+
+
+def test_a_spool_without_a_temporary_folder_keeps_its_records_in_memory(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    import tempfile
+
+    def no_folder(*args: Any, **kwargs: Any) -> Any:
+        raise OSError(30, "Read-only file system")
+
+    monkeypatch.setattr(tempfile, "TemporaryFile", no_folder)
+    spool = Spool()
+    spool.add([_finding(file="a.yaml"), _finding(file="a.yaml", line=2)], [])
+    spool.add([_finding(file="b.yaml", severity="warning")], [])
+    got = [(f.file, f.line) for f in spool.findings()]
+    assert got == [("a.yaml", 1), ("a.yaml", 2), ("b.yaml", 1)]
+    assert RunResult(spool=spool).exit_code == EXIT_FINDINGS
+
+
+@pytest.mark.parametrize("fmt", ["text", "json", "annotations", "junit"])
+def test_a_reader_that_stops_early_does_not_change_the_exit_code(tmp_path: Path, fmt: str) -> None:
+    # `emgate check | head`: the report's reader is gone before the report is written (the
+    # pipe's read end closed at once); the exit code is still the verdict's, 2 for the
+    # broken and invalid records (a broken pipe once ended the run with 0)
+    import subprocess
+    import sys
+
+    many_records(tmp_path)
+    argv = [sys.executable, "-m", "emgate", "check", "--format", fmt, "--remedies", "off"]
+    proc = subprocess.Popen(
+        [*argv, "designs"], cwd=tmp_path, stdout=subprocess.PIPE, stderr=subprocess.PIPE
+    )
+    assert proc.stdout is not None
+    proc.stdout.close()
+    _, err = proc.communicate(timeout=300)
+    assert proc.returncode == 2, err
+    assert b"Traceback" not in err and b"BrokenPipe" not in err, err
+
+
+def test_a_spooled_run_with_every_outcome_writes_the_same_json_and_markdown(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    from emgate.report import writer
+
+    many_records(tmp_path)
+    monkeypatch.chdir(tmp_path)
+    kept, spooled = _run(tmp_path, details=True), _run(tmp_path, details=True, spool=True)
+    assert spooled.spool is not None and spooled.records == []
+    assert all(r.outcomes for r in spooled.each_record())  # the outcomes went to disk too
+    for fmt in ("json", "markdown", "sarif", "text", "annotations", "codequality"):
+        pieces = list(writer(fmt)(spooled))
+        assert "".join(pieces) == "".join(writer(fmt)(kept)), fmt
+        if fmt in ("json", "markdown", "sarif", "text"):
+            assert len(pieces) > len(kept.findings), fmt  # written piece by piece
+
+
+@pytest.mark.parametrize(
+    "doc",
+    [
+        {"a": 1, "items": [], "z": {"k": [1, 2]}},
+        {"items": [{"x": 1, "y": [1, {"z": None}]}, "two", 3.5, []], "after": "x"},
+        {"outer": [{"inner": {"items": [1, 2]}}], "items": [{"items": "nested name"}]},
+        # strings holding the key and a mark-like text, quotes, line ends and controls
+        {"m": '"items": "\u0000stream 0\u0000"', "items": ['"items": ', "\x00stream 0\x00\n"]},
+    ],
+)
+def test_json_chunks_writes_what_json_dumps_writes(doc: dict[str, Any]) -> None:
+    # [calc] external check: the standard library's json.dumps(indent=2) of the same
+    # document, byte for byte, whichever lists are streamed
+    import json
+
+    from emgate.report.common import Stream, json_chunks
+
+    expected = json.dumps(doc, indent=2) + "\n"
+
+    def streamed(node: Any) -> Any:
+        if isinstance(node, dict):
+            return {
+                k: Stream(iter(v)) if k == "items" and isinstance(v, list) else streamed(v)
+                for k, v in node.items()
+            }
+        if isinstance(node, list):
+            return [streamed(v) for v in node]
+        return node
+
+    assert "".join(json_chunks(streamed(doc))) == expected
+    json.loads(expected)

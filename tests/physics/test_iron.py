@@ -135,7 +135,7 @@ def test_yoke_flux_density_closed_form() -> None:
 )
 def test_yoke_magnetic_voltage_linear_steel(ramp: float | None, mean_over_peak: float) -> None:
     # With a linear steel the voltage is path * mean(B)/(mu0 mu_r): closed forms above.
-    # Tolerance 1e-10 relative: Gauss-Legendre integrates the sine to ~1e-15, lines exactly.
+    # Tolerance 1e-10 relative: both distributions are integrated exactly but for rounding.
     b_peak, path, mu_r = 1.4, 0.12, 2000.0
     expected = path * mean_over_peak * b_peak / (MU0 * mu_r)
     got = yoke_magnetic_voltage(b_peak, path, linear_curve(mu_r), ramp)
@@ -336,3 +336,19 @@ def test_mean_field_strength_sine_of_an_array_is_the_scalar_mean_element_by_elem
     got = mean_field_strength_sine(M350, peaks)
     expected = [mean_field_strength_sine(M350, float(b)) for b in peaks]
     np.testing.assert_allclose(got, expected, rtol=1e-14, atol=0.0)
+
+
+def test_mean_field_strength_sine_of_non_finite_peaks_is_not_finite() -> None:
+    # a non-finite peak must not come out as a finite voltage (plausibility refuses it)
+    for peaks in (np.array([math.nan, 1.0]), np.array([math.inf, 1.0]), np.array([-math.inf, 1.0])):
+        got = mean_field_strength_sine(M350, peaks)
+        assert not math.isfinite(got[0]) and math.isfinite(got[1])
+        assert not math.isfinite(mean_field_strength_sine(M350, float(peaks[0])))
+    assert mean_field_strength_sine(M350, math.inf) == math.inf
+    assert mean_field_strength_sine(M350, np.array([-math.inf]))[0] == -math.inf
+
+
+def test_real_tooth_flux_density_of_a_0d_array() -> None:
+    got = real_tooth_flux_density(np.array(1.8), 0.5, M350)
+    assert np.ndim(got) == 0
+    assert float(got) == real_tooth_flux_density(1.8, 0.5, M350)

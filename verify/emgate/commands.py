@@ -14,12 +14,16 @@ from emgate.schemas import SCHEMA_KINDS
 from emgate.terms import EXIT_CRASH, EXIT_INPUT, EXIT_OK
 
 if TYPE_CHECKING:
-    from collections.abc import Iterator
+    from collections.abc import Iterable
 
 #: The formats that read a record's summary alone (its check count, its check closest to a
 #: limit, the rules it ran) and its findings, never its every outcome: with only these, a
-#: run spools its records to disk (``emgate.findings.Spool``).
+#: run keeps (spools) each record's summary, not its outcomes.
 SUMMARY_FORMATS = frozenset({"text", "annotations", "codequality", "sarif"})
+#: The formats that read a run's findings and records through ``RunResult.each_finding`` and
+#: ``each_record``: with only these, a run spools its records to disk as it goes
+#: (``emgate.findings.Spool``), so its memory does not grow with them.
+SPOOLING_FORMATS = SUMMARY_FORMATS | {"json", "markdown"}
 
 
 def _untrusted_path_guard() -> None:
@@ -183,6 +187,7 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
             verbose=args.verbose,
             remedies=args.remedies == "on",
             details=not all(name in SUMMARY_FORMATS for name, _ in outputs),
+            spool=all(name in SPOOLING_FORMATS for name, _ in outputs),
         )
         if args.changed_since:
             from emgate.changes import changed_since
@@ -210,7 +215,11 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
 
     run.jobs = args.jobs or available_cores()
     result = execute(run)
-    return max(result.exit_code, _emit(result, outputs, args.quiet))
+    try:
+        return max(result.exit_code, _emit(result, outputs, args.quiet))
+    finally:
+        if result.spool is not None:
+            result.spool.close()
 
 
 def _narrow(policy, dropped: tuple[str, ...]) -> None:  # type: ignore[no-untyped-def]
@@ -291,17 +300,27 @@ def _colour(stream) -> bool:  # type: ignore[no-untyped-def]
     return stream.isatty() and os.environ.get("TERM") != "dumb"
 
 
+def _to_stdout(text: Iterable[str]) -> None:
+    """Write a report to standard output; a reader that stops early (``| head``) ends the
+    writing, never the run: the exit code stays the verdict's, and the other reports are
+    still written."""
+    try:
+        sys.stdout.writelines(text)
+        sys.stdout.flush()
+    except BrokenPipeError:
+        # nothing more reaches the reader; the interpreter's last flush must not fail either
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+
+
 def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -> int:  # type: ignore[no-untyped-def]
     from emgate.atomic import write_atomic
-    from emgate.report import reporter
+    from emgate.report import writer
     from emgate.report.common import one_line
 
     status, written = EXIT_OK, []
     for name, file in outputs:
-        if result.spool is not None and name not in SUMMARY_FORMATS:
-            # a run spools only when every report asked for reads summaries; a report that
-            # reads every outcome must never see a spooled run's half (fail closed)
-            raise RuntimeError(f"the {name} report cannot read a spooled run")
         if name == "html" and file is not None:
             from emgate.page import write_run
 
@@ -312,20 +331,16 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
                 print(one_line(f"emgate: cannot write html to {file}: {why}"), file=sys.stderr)
                 status = EXIT_INPUT
             continue
-        text: str | Iterator[str]
-        if name == "text":  # written line by line: a spooled run is read back as it goes
-            from emgate.report.text import lines
+        text: Iterable[str]
+        # written piece by piece: a spooled run is read back as it goes
+        if name == "text":
+            from emgate.report.text import chunks
 
-            colour = file is None and _colour(sys.stdout)
-            text = (f"{line}\n" for line in lines(result, quiet=quiet, colour=colour))
-        elif name == "sarif":  # written result by result as well
-            from emgate.report.sarif import chunks
-
-            text = chunks(result)
+            text = chunks(result, quiet=quiet, colour=file is None and _colour(sys.stdout))
         else:
-            text = reporter(name)(result)
+            text = writer(name)(result)
         if file is None:
-            sys.stdout.writelines(text)
+            _to_stdout(text)
             continue
         try:
             write_atomic(file, text)

@@ -274,7 +274,8 @@ def repository_record_ids(root: Path) -> set[str]:
     ids: set[str] = set()
     for src in discover([root], RunResult()):
         if src.declared == DESIGN_SCHEMA:
-            ids.update(_RECORD_ID.findall(src.text or ""))
+            assert src.text is not None  # discover() keeps every text by default
+            ids.update(_RECORD_ID.findall(src.text))
     return ids
 
 
@@ -302,6 +303,7 @@ def discover_materials(start: Path) -> Catalogue:
     catalogue = Catalogue()
     root = repository_root(start)
     for src in materials_sources(root) if root is not None else []:
-        doc = load_text(src.path, src.text or "")
+        assert src.text is not None  # a materials file's text is always kept
+        doc = load_text(src.path, src.text)
         catalogue.add_file(doc, validate_materials(doc))
     return catalogue

@@ -84,7 +84,8 @@ def execute(run: Run) -> RunResult:
             designs.append(src)
             continue
         try:
-            doc = load_text(src.path, src.text or "")
+            assert src.text is not None  # discovery keeps the text of what is no design
+            doc = load_text(src.path, src.text)
             kind = schema_of(doc)
             if kind == DESIGN_SCHEMA:  # its first schema line and its parsed key disagree
                 raise InputError(
@@ -112,7 +113,7 @@ def execute(run: Run) -> RunResult:
     del docs  # nothing below reads the materials documents again
     seen_ids: dict[str, str] = {}
     interned: dict[frozenset[str], frozenset[str]] = {}
-    if not run.details:  # only the summary reports: the records go to disk as they are done
+    if run.spool:  # the records go to disk as they are done
         result.spool = Spool()
         root = run_root(run)
     with rule_guards():
@@ -136,12 +137,15 @@ def execute(run: Run) -> RunResult:
                 continue
             if done.record_id is not None:
                 seen_ids[done.record_id] = done.file
+            records = done.records
+            if not run.details:
+                records = [r.summarised(interned) for r in records]
             if result.spool is not None:
                 anchor_findings(done.findings, root)
-                result.spool.add(done.findings, [r.summarised(interned) for r in done.records])
+                result.spool.add(done.findings, records)
             else:
                 result.findings.extend(done.findings)
-                result.records.extend(done.records)
+                result.records.extend(records)
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = set(seen_ids) | repository_record_ids(run.policy.root)
         result.findings.extend(

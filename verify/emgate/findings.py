@@ -181,17 +181,25 @@ class RunResult:
         return heapq.merge(self.records, self.spool.records(), key=lambda r: (r.file, r.record_id))
 
     def active(self, severity: Severity) -> list[Finding]:
-        """The unwaived findings of a severity (not the spooled ones: :meth:`count_active`)."""
-        return [f for f in self.findings if f.severity == severity and f.waived_by is None]
+        """The unwaived findings of a severity, the spooled ones included (read back: to
+        count them, :meth:`count_active`)."""
+        return [f for f in self.each_finding() if f.severity == severity and f.waived_by is None]
 
     def count_active(self, severity: Literal["error", "warning"]) -> int:
         """How many unwaived findings of a severity, the spooled ones included."""
-        held = len(self.active(severity))
+        held = sum(1 for f in self.findings if f.severity == severity and f.waived_by is None)
         if self.spool is None:
             return held
-        return held + (
-            self.spool.tally.errors if severity == "error" else self.spool.tally.warnings
-        )
+        tally = self.spool.tally
+        return held + (tally.errors if severity == "error" else tally.warnings)
+
+    def in_memory(self, reader: str) -> RunResult:
+        """This result, for a reader of ``findings`` and ``records`` themselves; a spooled
+        run holds only part of them there, and a report of that part would pass what the
+        rest fails (fail closed: an internal error, exit 3)."""
+        if self.spool is not None:
+            raise RuntimeError(f"the {reader} cannot read a spooled run")
+        return self
 
     def count_waived(self) -> int:
         held = sum(1 for f in self.findings if f.waived_by)
@@ -360,9 +368,13 @@ class Spool:
     """Findings and record summaries, one pickled block a record, in a temporary file."""
 
     def __init__(self) -> None:
+        import io
         import tempfile
 
-        self._file: IO[bytes] = tempfile.TemporaryFile(prefix="emgate-spool-")
+        try:
+            self._file: IO[bytes] = tempfile.TemporaryFile(prefix="emgate-spool-")
+        except OSError:  # no writable temporary folder: the run still goes on, in memory
+            self._file = io.BytesIO()
         self._end = 0
         self.tally = Tally()
         # the last sort keys written, to notice a record out of report order

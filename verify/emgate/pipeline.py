@@ -63,10 +63,13 @@ class Run:
     jobs: int = 1
     #: Compute a remedy for each failing check (``emgate check --remedies off`` skips it).
     remedies: bool = True
-    #: Keep every record's outcomes (False, when only the summary reports are asked for:
-    #: each design record's findings and :class:`~emgate.findings.RecordSummary` go to the
-    #: run's :class:`~emgate.findings.Spool` on disk as the record is done).
+    #: Keep every record's outcomes (False: a :class:`~emgate.findings.RecordSummary`, all
+    #: that the summary reports read, when only they are asked for).
     details: bool = True
+    #: Write each design record's findings and result to the run's
+    #: :class:`~emgate.findings.Spool` on disk as the record is done, instead of keeping them
+    #: (when every report asked for reads them through ``each_finding``/``each_record``).
+    spool: bool = False
 
 
 @dataclass

@@ -7,7 +7,7 @@ module computes, for N variants at once, the sheet quantities of the magnetic ci
 the iron's magnetic voltages, saturation factor, total MMF) and of the electrical path
 (series turns, phase current, current density, electric loading, thermal load, copper area,
 slot fill), by the kernel's own formulas on numpy arrays: the B-H lookups on arrays, the
-yoke integrals as one matrix product, the tooth equation B_app = B + mu0 k_s H(B) solved
+yoke integrals in closed form on arrays, the tooth equation B_app = B + mu0 k_s H(B) solved
 exactly on the segment of the steel's table that holds the root, as the scalar path does.
 
 It takes the same inputs as :mod:`emgate.calc` and agrees with it to round-off (a test

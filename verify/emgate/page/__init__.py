@@ -60,7 +60,7 @@ def write_run(result: RunResult, out: Path) -> None:
     )
     if index.parent == out:
         out.mkdir(exist_ok=True)  # FileNotFoundError (an OSError) when the parent is missing
-    pages = gather_result(result)
+    pages = gather_result(result.in_memory("HTML page"))
     for page in pages:
         write_atomic(index.parent / sheet_file_name(page.record_id), page_html(page))
     write_atomic(index, render_index(result, pages, sheet_file_name))

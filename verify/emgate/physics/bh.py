@@ -169,22 +169,25 @@ def mean_field_strength_sine(curve: BHCurve, b: float | np.ndarray) -> float | n
     Returns
     -------
     float or numpy.ndarray
-        Mean field strength [A/m]; 0 for ``b = 0``.
+        Mean field strength [A/m]; 0 for ``b = 0``, infinite for an infinite ``b`` and NaN
+        for NaN (the kernel's callers refuse both).
     """
     bt, lines = curve._bt, curve._lines  # type: ignore[attr-defined]
     if isinstance(b, np.ndarray):
         peaks = np.abs(b.astype(float))[..., None]
-        safe = np.where(peaks > 0.0, peaks, 1.0)
+        safe = np.where(peaks == 0.0, 1.0, peaks)  # (a NaN stays NaN to the end)
         u = np.minimum(np.asarray(bt) / safe, 1.0)  # sin theta_j at the table's points
         d_theta = np.diff(np.arcsin(u), axis=-1, append=0.5 * np.pi)
         d_cos = np.diff(-np.sqrt((1.0 - u) * (1.0 + u)), axis=-1, append=0.0)
         starts, slopes = np.asarray(lines[0]), np.asarray(lines[1])
-        total = (starts * d_theta + slopes * peaks * d_cos).sum(axis=-1)
-        means = np.where(peaks[..., 0] > 0.0, total / (0.5 * np.pi), 0.0)
+        with np.errstate(invalid="ignore"):  # an infinite peak: inf * 0, replaced below
+            total = (starts * d_theta + slopes * peaks * d_cos).sum(axis=-1)
+        means = np.where(peaks[..., 0] == 0.0, 0.0, total / (0.5 * np.pi))
+        means = np.where(np.isinf(peaks[..., 0]), np.inf, means)  # H grows without bound
         return np.copysign(means, b)
     x = abs(float(b))
-    if x == 0.0:
-        return 0.0
+    if x == 0.0 or math.isinf(x):  # (a NaN stays NaN to the end)
+        return math.copysign(x, b) if x else 0.0
     total = 0.0
     theta, cos = 0.0, 1.0
     for j, (a, s) in enumerate(zip(*lines, strict=True)):

@@ -272,7 +272,7 @@ def _real_tooth_flux_density_array(
     b_in, ks = np.broadcast_arrays(np.asarray(b_apparent, float), np.asarray(sharing_factor, float))
     if not np.all((ks >= 0.0) & (ks < math.inf)):
         raise ValueError("the slot-flux-sharing factor must be finite and >= 0")
-    b_app = np.abs(b_in)
+    b_app = np.asarray(np.abs(b_in))  # (an array for a 0-d input too)
     if not np.all(np.isfinite(b_app)):
         raise ValueError("the apparent tooth flux density must be finite")
     bt, ht = np.asarray(curve._bt), np.asarray(curve._ht)  # type: ignore[attr-defined]

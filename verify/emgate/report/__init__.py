@@ -6,13 +6,14 @@ support, and do not replace, a qualified engineer's review.
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Iterable
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:  # the CLI imports FORMATS before it knows what it will run
     from emgate.findings import RunResult
 
 Reporter = Callable[["RunResult"], str]
+Writer = Callable[["RunResult"], Iterable[str]]
 
 
 # format name -> module under emgate.report, imported on demand to keep start-up lean
@@ -32,6 +33,18 @@ def reporter(name: str) -> Reporter:
     from importlib import import_module
 
     return import_module(f"emgate.report.{_MODULES[name]}").render
+
+
+def writer(name: str) -> Writer:
+    """The report of a format in pieces, in order: the reporter's ``chunks`` where it writes
+    as it reads (a spooled run, :class:`~emgate.findings.Spool`), else its whole text."""
+    from importlib import import_module
+
+    module = import_module(f"emgate.report.{_MODULES[name]}")
+    chunks = getattr(module, "chunks", None)
+    if chunks is not None:
+        return chunks
+    return lambda result: [module.render(result)]
 
 
 FORMATS = tuple(_MODULES)

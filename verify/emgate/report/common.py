@@ -2,8 +2,11 @@
 
 from __future__ import annotations
 
+import json
 import math
 import re
+from collections.abc import Iterable, Iterator
+from typing import Any
 
 from emgate.findings import Finding, RecordResult, RuleInfo, RunResult
 from emgate.rule import Check
@@ -91,3 +94,49 @@ def margins_line(record: RecordResult) -> str:
         f"{head}; closest to a limit: {rule}, {c.label} {format_value(c.value, c.unit)}"
         f" of {format_value(c.limit, c.unit)} ({margin_text(c)})"
     )
+
+
+class Stream:
+    """A list in a JSON document whose items are made one at a time (:func:`json_chunks`)."""
+
+    def __init__(self, items: Iterable[Any]) -> None:
+        self.items = items
+
+
+def json_chunks(doc: dict[str, Any]) -> Iterator[str]:
+    """``json.dumps(doc, indent=2) + "\\n"`` in pieces, byte for byte; each :class:`Stream`
+    in ``doc`` (the value of a key) is written item by item as it is read, so that a spooled
+    run's findings and records are never all in memory at once."""
+    streams: list[tuple[str, Stream]] = []
+
+    def marked(node: Any) -> Any:
+        if isinstance(node, dict):
+            out = {}
+            for key, value in node.items():
+                if isinstance(value, Stream):
+                    out[key] = f"\x00stream {len(streams)}\x00"
+                    streams.append((key, value))
+                else:
+                    out[key] = marked(value)
+            return out
+        if isinstance(node, list):
+            return [marked(v) for v in node]
+        return node
+
+    text = json.dumps(marked(doc), indent=2)
+    at = 0
+    for n, (key, stream) in enumerate(streams):
+        # the key with its quotes unescaped: only the document's own structure holds that
+        head = f"{json.dumps(key)}: "
+        where = text.index(head + json.dumps(f"\x00stream {n}\x00"), at)
+        yield text[at:where] + head
+        line = text[text.rindex("\n", 0, where) + 1 : where]
+        margin = " " * (len(line) - len(line.lstrip(" "))) + "  "
+        first = True
+        for item in stream.items:
+            yield ("[\n" if first else ",\n") + margin
+            yield json.dumps(item, indent=2).replace("\n", "\n" + margin)
+            first = False
+        yield "[]" if first else "\n" + margin[:-2] + "]"
+        at = where + len(head) + len(json.dumps(f"\x00stream {n}\x00"))
+    yield text[at:] + "\n"

@@ -3,13 +3,13 @@ unit of the quantity); "display" shows them for people, in the unit a report use
 
 from __future__ import annotations
 
-import json
 import math
+from collections.abc import Iterator
 from typing import Any
 
 from emgate import __version__
-from emgate.findings import DISCLAIMER, Finding, RunResult
-from emgate.report.common import check_display
+from emgate.findings import DISCLAIMER, Finding, RecordResult, RunResult
+from emgate.report.common import Stream, check_display, json_chunks
 from emgate.rule import Check
 from emgate.units import si_unit
 
@@ -59,7 +59,26 @@ def finding_dict(f: Finding) -> dict[str, Any]:
     }
 
 
-def render(result: RunResult) -> str:
+def record_dict(r: RecordResult) -> dict[str, Any]:
+    return {
+        "file": r.file,
+        "record_id": r.record_id,
+        "machine": r.machine,
+        "outcomes": [
+            {
+                "rule": o.rule,
+                "status": o.status,
+                "message": o.message,
+                "checks": [check_dict(c) for c in o.checks],
+            }
+            for o in r.outcomes
+        ],
+    }
+
+
+def chunks(result: RunResult) -> Iterator[str]:
+    """The document in pieces: its findings and records written one at a time as they are
+    read (a spooled run's are never all in memory)."""
     doc = {
         "tool": {"name": "emgate", "version": __version__},
         "exit_code": result.exit_code,
@@ -68,29 +87,17 @@ def render(result: RunResult) -> str:
             for r in result.rules
         ],
         "summary": {
-            "records": len(result.records),
-            "errors": len(result.active("error")),
-            "warnings": len(result.active("warning")),
-            "waived": sum(1 for f in result.findings if f.waived_by),
+            "records": result.count_records(),
+            "errors": result.count_active("error"),
+            "warnings": result.count_active("warning"),
+            "waived": result.count_waived(),
         },
-        "findings": [finding_dict(f) for f in result.findings],
-        "records": [
-            {
-                "file": r.file,
-                "record_id": r.record_id,
-                "machine": r.machine,
-                "outcomes": [
-                    {
-                        "rule": o.rule,
-                        "status": o.status,
-                        "message": o.message,
-                        "checks": [check_dict(c) for c in o.checks],
-                    }
-                    for o in r.outcomes
-                ],
-            }
-            for r in result.records
-        ],
+        "findings": Stream(finding_dict(f) for f in result.each_finding()),
+        "records": Stream(record_dict(r) for r in result.each_record()),
         "notice": DISCLAIMER,
     }
-    return json.dumps(doc, indent=2, sort_keys=False) + "\n"
+    return json_chunks(doc)
+
+
+def render(result: RunResult) -> str:
+    return "".join(chunks(result))

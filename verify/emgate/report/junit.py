@@ -135,6 +135,7 @@ def _count(el: ET.Element, cases: list[ET.Element]) -> None:
 
 
 def render(result: RunResult) -> str:
+    result = result.in_memory("JUnit report")
     run_properties = {
         "emgate.version": __version__,
         "emgate.verdict": VERDICTS[result.exit_code],

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Iterator
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RuleOutcome, RunResult
@@ -68,32 +69,47 @@ def _finding_cells(f: Finding) -> list[str]:
     return [location, severity, f.rule, message]
 
 
-def render(result: RunResult) -> str:
-    out = [f"## emgate: {VERDICTS[result.exit_code]}", "", md(summary_line(result)), ""]
-    out += ["### Findings", ""]
-    if result.findings:
-        header = ["Location", "Severity", "Rule", "Message"]
-        out += _table(header, [_finding_cells(f) for f in result.findings])
-    else:
-        out.append("No findings.")
-    margins = [
-        [r.record_id, o.rule, o.status, *_margin_cells(worst_check(o))]
-        for r in result.records
-        for o in r.outcomes
-        if o.status != "not_applicable"
-    ]
-    out += ["", "### Margins", ""]
-    if margins:
-        out.append("Worst margin of each rule on each record (positive: inside the limit).")
-        out.append("")
-        header = ["Record", "Rule", "Status", "Quantity", "Value", "Limit", "Margin"]
-        out += _table(header, margins)
-    else:
-        out.append("No rule ran on any record.")
-    out += ["", "### Rules", ""]
+def lines(result: RunResult) -> Iterator[str]:
+    """The report's lines, one at a time (a spooled run's records are read as they go)."""
+    yield from [f"## emgate: {VERDICTS[result.exit_code]}", "", md(summary_line(result)), ""]
+    yield from ["### Findings", ""]
+    header = ["Location", "Severity", "Rule", "Message"]
+    found = False
+    for f in result.each_finding():
+        if not found:
+            yield from _table(header, [])
+            found = True
+        yield _row(_finding_cells(f))
+    if not found:
+        yield "No findings."
+    yield from ["", "### Margins", ""]
+    header = ["Record", "Rule", "Status", "Quantity", "Value", "Limit", "Margin"]
+    margins = False
+    for r in result.each_record():
+        for o in r.outcomes:
+            if o.status == "not_applicable":
+                continue
+            if not margins:
+                yield "Worst margin of each rule on each record (positive: inside the limit)."
+                yield ""
+                yield from _table(header, [])
+                margins = True
+            yield _row([r.record_id, o.rule, o.status, *_margin_cells(worst_check(o))])
+    if not margins:
+        yield "No rule ran on any record."
+    yield from ["", "### Rules", ""]
     ran = rules_run(result)
-    out += [md(f"- {r.id} v{r.version} ({r.distribution} {r.distribution_version})") for r in ran]
+    yield from (
+        md(f"- {r.id} v{r.version} ({r.distribution} {r.distribution_version})") for r in ran
+    )
     if not ran:
-        out.append("No rule ran.")
-    out += ["", "---", md(f"emgate {__version__}. {DISCLAIMER}")]
-    return "\n".join(out) + "\n"
+        yield "No rule ran."
+    yield from ["", "---", md(f"emgate {__version__}. {DISCLAIMER}")]
+
+
+def chunks(result: RunResult) -> Iterator[str]:
+    return (f"{line}\n" for line in lines(result))
+
+
+def render(result: RunResult) -> str:
+    return "".join(chunks(result))

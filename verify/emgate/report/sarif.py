@@ -20,7 +20,6 @@ timestamps, so the same input gives the same bytes.
 
 from __future__ import annotations
 
-import json
 import re
 from collections.abc import Iterator
 from typing import Any
@@ -29,7 +28,7 @@ from urllib.parse import quote
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RuleInfo, RunResult
 from emgate.remedy_report import sarif_fixes
-from emgate.report.common import VERDICTS, rules_run
+from emgate.report.common import VERDICTS, Stream, json_chunks, rules_run
 from emgate.report.jsonfmt import check_dict
 
 SRCROOT = "%SRCROOT%"
@@ -121,10 +120,6 @@ def _notification(f: Finding) -> dict[str, Any]:
     }
 
 
-#: Stands in the document for its results, which :func:`chunks` writes one at a time.
-_RESULTS = "\x00results\x00"
-
-
 def chunks(result: RunResult) -> Iterator[str]:
     """The log in pieces: the rules and the invocation from a first pass over the findings,
     then each result as it is read (a spooled run's findings are never all in memory)."""
@@ -159,31 +154,18 @@ def chunks(result: RunResult) -> Iterator[str]:
             SRCROOT: {"description": {"text": "the root of the repository checked"}}
         },
         "columnKind": "unicodeCodePoints",
-        "results": _RESULTS,
+        "results": Stream(
+            _result(f, index[f.rule])
+            for f in result.each_finding()
+            if not (f.kind == "input" and not f.file)
+        ),
         "properties": {
             "verdict": VERDICTS[result.exit_code],
             "rulesRun": [f"{r.id} v{r.version}" for r in ran],
             "disclaimer": DISCLAIMER,
         },
     }
-    text = json.dumps({"version": "2.1.0", "runs": [run]}, indent=2)
-    # The key with its unescaped quotes occurs once: any text inside a string has them escaped.
-    key = '"results": '
-    head, tail = text.split(key + json.dumps(_RESULTS))
-    # what json.dumps(indent=2) writes for the list in place of the mark: one item a block,
-    # indented one level deeper than the key's line
-    key_line = head.rsplit("\n", 1)[1]
-    margin = " " * (len(key_line) - len(key_line.lstrip(" ")))
-    yield head + key
-    first = True
-    for f in result.each_finding():
-        if f.kind == "input" and not f.file:
-            continue
-        item = json.dumps(_result(f, index[f.rule]), indent=2).replace("\n", "\n" + margin + "  ")
-        yield ("[\n" if first else ",\n") + margin + "  " + item
-        first = False
-    yield "[]" if first else "\n" + margin + "]"
-    yield tail + "\n"
+    return json_chunks({"version": "2.1.0", "runs": [run]})
 
 
 def render(result: RunResult) -> str:

@@ -66,6 +66,11 @@ def lines(result: RunResult, *, quiet: bool = False, colour: bool = False) -> It
     yield DISCLAIMER
 
 
+def chunks(result: RunResult, *, quiet: bool = False, colour: bool = False) -> Iterator[str]:
+    """:func:`lines`, each ended by a line feed."""
+    return (f"{line}\n" for line in lines(result, quiet=quiet, colour=colour))
+
+
 def render(result: RunResult, *, quiet: bool = False, colour: bool = False) -> str:
-    """The report as one text (:func:`lines`, each ended by a line feed)."""
-    return "".join(f"{line}\n" for line in lines(result, quiet=quiet, colour=colour))
+    """The report as one text."""
+    return "".join(chunks(result, quiet=quiet, colour=colour))

@@ -23,7 +23,7 @@ SUMMARY_FORMATS = frozenset({"text", "annotations", "codequality", "sarif"})
 #: The formats that read a run's findings and records through ``RunResult.each_finding`` and
 #: ``each_record``: with only these, a run spools its records to disk as it goes
 #: (``emgate.findings.Spool``), so its memory does not grow with them.
-SPOOLING_FORMATS = SUMMARY_FORMATS | {"json", "markdown"}
+SPOOLING_FORMATS = SUMMARY_FORMATS | {"json", "markdown", "junit"}
 
 
 def _untrusted_path_guard() -> None:

@@ -23,11 +23,12 @@ hashed in.
 from __future__ import annotations
 
 import hashlib
-import json
 from collections import Counter
+from collections.abc import Iterable, Iterator
 from typing import Any
 
 from emgate.findings import Finding, RunResult
+from emgate.report.common import Stream, json_chunks
 
 SEVERITIES = {"error": "critical", "warning": "minor", "info": "info"}
 
@@ -36,11 +37,10 @@ def severity(f: Finding) -> str:
     return "blocker" if f.kind == "crash" else SEVERITIES[f.severity]
 
 
-def fingerprints(findings: list[Finding]) -> list[str]:
-    """One unique, stable fingerprint per finding, in order."""
-    shared = Counter(f.fingerprint for f in findings)
+def fingerprints(findings: Iterable[Finding], shared: Counter[str]) -> Iterator[str]:
+    """One unique, stable fingerprint per finding, in order; ``shared`` counts each finding's
+    own fingerprint over all of the run's findings."""
     seen: Counter[tuple[str, str]] = Counter()
-    out = []
     for f in findings:
         fp = f.fingerprint
         if shared[fp] > 1:
@@ -48,32 +48,36 @@ def fingerprints(findings: list[Finding]) -> list[str]:
             seen[key] += 1
             text = "\x1f".join((*key, str(seen[key])))
             fp = hashlib.sha256(text.encode()).hexdigest()[:32]
-        out.append(fp)
-    return out
+        yield fp
+
+
+def _item(f: Finding, fp: str) -> dict[str, Any]:
+    description = f.message + (f" [{f.record_path}]" if f.record_path != "$" else "")
+    level = severity(f)
+    if f.waived_by:
+        description = f"waived {f.severity}: {description}; waived by {f.waived_by}"
+        level = "info"
+        fp = hashlib.sha256(f"{fp}\x1fwaived".encode()).hexdigest()[:32]
+    file = f.file if f.repo_file is None else f.repo_file
+    return {
+        "type": "issue",
+        "check_name": f.rule,
+        "description": description,
+        "categories": ["Bug Risk"],
+        "fingerprint": fp,
+        "severity": level,
+        "location": {"path": file or ".", "lines": {"begin": max(f.line, 1)}},
+    }
+
+
+def chunks(result: RunResult) -> Iterator[str]:
+    """The array in pieces, an issue at a time: the fingerprints shared by several findings
+    from a first pass over them (a spooled run is read twice, never held)."""
+    # fingerprints over every finding, so that waiving one does not rename another
+    shared = Counter(f.fingerprint for f in result.each_finding())
+    paired = zip(result.each_finding(), fingerprints(result.each_finding(), shared), strict=True)
+    return json_chunks(Stream(_item(f, fp) for f, fp in paired))
 
 
 def render(result: RunResult) -> str:
-    # fingerprints over every finding, so that waiving one does not rename another
-    findings = list(result.each_finding())
-    pairs = zip(findings, fingerprints(findings), strict=True)
-    items: list[dict[str, Any]] = []
-    for f, fp in pairs:
-        description = f.message + (f" [{f.record_path}]" if f.record_path != "$" else "")
-        level = severity(f)
-        if f.waived_by:
-            description = f"waived {f.severity}: {description}; waived by {f.waived_by}"
-            level = "info"
-            fp = hashlib.sha256(f"{fp}\x1fwaived".encode()).hexdigest()[:32]
-        file = f.file if f.repo_file is None else f.repo_file
-        items.append(
-            {
-                "type": "issue",
-                "check_name": f.rule,
-                "description": description,
-                "categories": ["Bug Risk"],
-                "fingerprint": fp,
-                "severity": level,
-                "location": {"path": file or ".", "lines": {"begin": max(f.line, 1)}},
-            }
-        )
-    return json.dumps(items, indent=2) + "\n"
+    return "".join(chunks(result))

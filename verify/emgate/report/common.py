@@ -103,10 +103,17 @@ class Stream:
         self.items = items
 
 
-def json_chunks(doc: dict[str, Any]) -> Iterator[str]:
+def json_chunks(doc: dict[str, Any] | Stream) -> Iterator[str]:
     """``json.dumps(doc, indent=2) + "\\n"`` in pieces, byte for byte; each :class:`Stream`
-    in ``doc`` (the value of a key) is written item by item as it is read, so that a spooled
-    run's findings and records are never all in memory at once."""
+    in ``doc`` (the value of a key, or the document itself) is written item by item as it is
+    read, so that a spooled run's findings and records are never all in memory at once."""
+    if isinstance(doc, Stream):
+        first = True
+        for item in doc.items:
+            yield ("[\n  " if first else ",\n  ") + json.dumps(item, indent=2).replace("\n", "\n  ")
+            first = False
+        yield "[]\n" if first else "\n]\n"
+        return
     streams: list[tuple[str, Stream]] = []
 
     def marked(node: Any) -> Any:

@@ -22,6 +22,7 @@ control characters are not allowed in XML 1.0.
 from __future__ import annotations
 
 import xml.etree.ElementTree as ET
+from collections.abc import Iterator
 
 from emgate import __version__
 from emgate.findings import DISCLAIMER, Finding, RuleInfo, RuleOutcome, RunResult, closest_check
@@ -134,47 +135,106 @@ def _count(el: ET.Element, cases: list[ET.Element]) -> None:
     el.set("time", f"{sum(float(c.get('time') or 0) for c in cases):.6f}")
 
 
-def render(result: RunResult) -> str:
-    result = result.in_memory("JUnit report")
+#: A testcase to make: its name (the rule, or the file of input errors), file, findings and
+#: the rule's outcome (None for a finding on no outcome).
+_Case = tuple[str, str, list[Finding], RuleOutcome | None]
+
+
+def _suites(result: RunResult, run_properties: dict[str, str]) -> Iterator[ET.Element]:
+    """Every testsuite in order, made one at a time from the records and findings as they are
+    read (both in file order): a record's suite is its rules' outcomes, with the findings of
+    its file and id; findings of no record's (file, id) make suites of their own after the
+    records', and input errors the input suite last. Only those few findings are held."""
+    known = {r.id: r for r in result.rules}
+    holder = ET.Element("testsuites")  # each suite is made inside it, then let go
+    suites = _Suites(holder, run_properties)
+    # (file, record id) -> rule -> its findings, for the findings on no record
+    extra: dict[tuple[str, str], dict[str, list[Finding]]] = {}
+    inputs: dict[str, list[Finding]] = {}
+    findings = iter(result.each_finding())
+    ahead: list[Finding] = []  # a finding read past the current record's file
+
+    def take(f: Finding) -> None:
+        if f.rule == INPUT:
+            inputs.setdefault(f.file, []).append(f)
+        else:
+            extra.setdefault((f.file, f.record_id), {}).setdefault(f.rule, []).append(f)
+
+    def made(label: str, file: str, cases: list[_Case]) -> ET.Element:
+        suite = suites.add(label, file)
+        for name, case_file, mine, outcome in cases:
+            _testcase(suite, label, name, case_file, mine, outcome, known.get(name))
+        holder.remove(suite)
+        return suite
+
+    for r in result.each_record():
+        mine: dict[str, list[Finding]] = {}
+        while True:
+            f = ahead.pop() if ahead else next(findings, None)
+            if f is None:
+                break
+            if f.file > r.file:
+                ahead.append(f)
+                break
+            if f.file == r.file and f.record_id == r.record_id and f.rule != INPUT:
+                mine.setdefault(f.rule, []).append(f)
+            else:
+                take(f)
+        rules: dict[str, RuleOutcome | None] = {
+            o.rule: o for o in r.outcomes if o.status != "not_applicable"
+        }
+        rules |= {rule: None for rule in mine if rule not in rules}
+        label = r.record_id or r.file or "(configuration)"
+        yield made(
+            label, r.file, [(rule, r.file, mine.get(rule, []), o) for rule, o in rules.items()]
+        )
+    for f in [*ahead, *findings]:
+        take(f)
+    for (file, record_id), by_rule in extra.items():
+        label = record_id or file or "(configuration)"
+        yield made(label, file, [(rule, file, found, None) for rule, found in by_rule.items()])
+    if inputs:
+        yield made(
+            INPUT_SUITE,
+            "",
+            [(file or "(configuration)", file, found, None) for file, found in inputs.items()],
+        )
+    if not suites.names:  # nothing checked: the run's properties still go somewhere
+        yield made("emgate", "", [])
+
+
+def chunks(result: RunResult) -> Iterator[str]:
+    """The XML in pieces, a testsuite at a time: the totals on the root come from a first
+    pass over the suites (a spooled run is read twice, never held)."""
     run_properties = {
         "emgate.version": __version__,
         "emgate.verdict": VERDICTS[result.exit_code],
         "emgate.rules": ", ".join(f"{r.id} v{r.version}" for r in rules_run(result)),
         "disclaimer": DISCLAIMER,
     }
-    known = {r.id: r for r in result.rules}
-    # (file, record id) -> rule -> outcome; findings on no outcome (waivers) add rules
-    groups: dict[tuple[str, str], dict[str, RuleOutcome | None]] = {}
-    for r in result.records:
-        rules = groups.setdefault((r.file, r.record_id), {})
-        rules |= {o.rule: o for o in r.outcomes if o.status != "not_applicable"}
-    for f in result.findings:
-        if f.rule != INPUT:
-            groups.setdefault((f.file, f.record_id), {}).setdefault(f.rule, None)
+    count = {"tests": 0, **dict.fromkeys(_COUNTED, 0)}
+    seconds = 0.0
+    for suite in _suites(result, run_properties):
+        cases = suite.findall("testcase")
+        count["tests"] += len(cases)
+        for tag in _COUNTED:
+            count[tag] += sum(1 for c in cases if c.find(tag) is not None)
+        seconds += sum(float(c.get("time") or 0) for c in cases)
     root = ET.Element("testsuites", name="emgate")
-    suites = _Suites(root, run_properties)
-    for (file, record_id), rules in groups.items():
-        label = record_id or file or "(configuration)"
-        suite = suites.add(label, file)
-        for rule, outcome in rules.items():
-            mine = [
-                f
-                for f in result.findings
-                if (f.file, f.record_id, f.rule) == (file, record_id, rule)
-            ]
-            _testcase(suite, label, rule, file, mine, outcome, known.get(rule))
-    inputs: dict[str, list[Finding]] = {}
-    for f in result.findings:
-        if f.rule == INPUT:
-            inputs.setdefault(f.file, []).append(f)
-    if inputs:
-        suite = suites.add(INPUT_SUITE, "")
-        for file, found in inputs.items():
-            _testcase(suite, INPUT_SUITE, file or "(configuration)", file, found, None, None)
-    if not len(root):  # nothing checked: the run's properties still go somewhere
-        suites.add("emgate", "")
-    for suite in root:
+    root.set("tests", str(count["tests"]))
+    for tag, attr in zip(_COUNTED, ("failures", "errors", "skipped"), strict=True):
+        root.set(attr, str(count[tag]))
+    root.set("time", f"{seconds:.6f}")
+    root.text = "\x00"
+    head, tail = ET.tostring(root, "unicode").split("\x00")
+    yield '<?xml version="1.0" encoding="UTF-8"?>\n' + head
+    for suite in _suites(result, run_properties):
         _count(suite, suite.findall("testcase"))
-    _count(root, root.findall("testsuite/testcase"))
-    ET.indent(root)
-    return '<?xml version="1.0" encoding="UTF-8"?>\n' + ET.tostring(root, "unicode") + "\n"
+        ET.indent(suite, level=1)
+        suite.tail = None
+        yield "\n  " + ET.tostring(suite, "unicode")
+    yield "\n" + tail + "\n"
+
+
+def render(result: RunResult) -> str:
+    return "".join(chunks(result))

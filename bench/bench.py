@@ -18,7 +18,8 @@ Sections:
    against ``emgate check`` of one bundled record.
 2. Many records: a generated repository of N records (the bundled examples varied: id and stack
    length), checked at N/4 and N records; the CPU per record beyond start-up is the slope
-   between the two; peak memory at both sizes says whether memory grows with the count.
+   between the two; peak memory at both sizes says whether memory grows with the count, for
+   the text report and for the formats the CI templates write.
 3. ``--changed-since HEAD`` with one record of N changed (a temporary git repository),
    against a single check of that same record in a repository of its own (materials and
    config alike), and against the single check of section 1 (a record of another kind).
@@ -118,6 +119,19 @@ def make_repository(where: Path, n: int) -> list[Path]:
         path.write_text(text)
         out.append(path)
     return out
+
+
+def ci_formats(tmp: str, name: str) -> list[str]:
+    """The formats of the CI templates' check, the file reports in a folder of their own
+    (outside the repositories: --changed-since must not see them)."""
+    where = Path(tmp) / f"reports-{name}"
+    where.mkdir(exist_ok=True)
+    return [
+        *("--format", "text"),
+        *("--format", f"sarif:{where / 'emgate.sarif'}"),
+        *("--format", f"junit:{where / 'emgate-junit.xml'}"),
+        *("--format", f"codequality:{where / 'emgate-codequality.json'}"),
+    ]
 
 
 def git(where: Path, *args: str) -> None:
@@ -221,6 +235,15 @@ def main() -> None:
             "big": ([exe, "check", *serial, *NO_REMEDIES, "designs"], big),
             "changed": ([exe, "check", *NO_REMEDIES, "--changed-since", "HEAD"], big),
             "alone": ([exe, "check", *NO_REMEDIES, f"designs/{changed.name}"], alone),
+            # the formats the CI templates write (emgate init), every report file kept
+            "small_ci": (
+                [exe, "check", *serial, *NO_REMEDIES, *ci_formats(tmp, "small"), "designs"],
+                small,
+            ),
+            "big_ci": (
+                [exe, "check", *serial, *NO_REMEDIES, *ci_formats(tmp, "big"), "designs"],
+                big,
+            ),
         }
         if jobs:
             commands["parallel"] = (
@@ -245,6 +268,8 @@ def main() -> None:
     print(f"  CPU per record beyond one check, {n} records:  {beyond * 1e3:6.2f} ms")
     grow = (s["big"].median_rss() - s["small"].median_rss()) / (n - quarter)
     print(f"  peak memory per extra record:                  {grow:6.2f} KiB")
+    grow = (s["big_ci"].median_rss() - s["small_ci"].median_rss()) / (n - quarter)
+    print(f"  the same, text + SARIF + JUnit + code quality: {grow:6.2f} KiB")
     print(f"\n3. --changed-since HEAD, one of {n} records changed")
     line(f"the changed record alone ({changed_kind})", s["alone"], one, "one")
     line("emgate check --changed-since HEAD", s["changed"], s["alone"], "alone (target <= 1.2)")

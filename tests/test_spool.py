@@ -79,7 +79,7 @@ def test_records_checked_out_of_report_order_are_reported_in_it(
     monkeypatch.chdir(tmp_path)
     kept, spooled = _run(tmp_path, details=True), _run(tmp_path, details=False)
     assert spooled.spool is not None
-    assert spooled.spool._ordered is False  # it noticed
+    assert not spooled.spool._findings_ordered and not spooled.spool._records_ordered
     files = [f.file for f in spooled.each_finding()]
     assert files == sorted(files) and {"designs/a-b.yaml", "designs/a/x.yaml"} <= set(files)
     assert [r.record_id for r in spooled.each_record()] == ["outer", "inner", "plain"]
@@ -110,7 +110,7 @@ def test_the_exit_code_of_findings_and_of_a_spool_agree(findings: list[Finding],
     assert exit_code_of(findings) == code
     spool = Spool()
     for f in findings:  # one record each
-        spool.add([f], [])
+        spool.add(f.file, [f], [])
     result = RunResult(spool=spool)
     assert result.exit_code == code
     assert result.count_active("error") == sum(
@@ -143,8 +143,8 @@ def test_a_spool_without_a_temporary_folder_keeps_its_records_in_memory(
 
     monkeypatch.setattr(tempfile, "TemporaryFile", no_folder)
     spool = Spool()
-    spool.add([_finding(file="a.yaml"), _finding(file="a.yaml", line=2)], [])
-    spool.add([_finding(file="b.yaml", severity="warning")], [])
+    spool.add("a.yaml", [_finding(file="a.yaml"), _finding(file="a.yaml", line=2)], [])
+    spool.add("b.yaml", [_finding(file="b.yaml", severity="warning")], [])
     got = [(f.file, f.line) for f in spool.findings()]
     assert got == [("a.yaml", 1), ("a.yaml", 2), ("b.yaml", 1)]
     assert RunResult(spool=spool).exit_code == EXIT_FINDINGS
@@ -199,11 +199,15 @@ def test_a_spooled_run_with_every_outcome_writes_the_same_reports(
         # a list alone, streamed whole (the code-quality report)
         {"items": [{"a": [1, {"b": 2}]}, 3]},
         {"items": []},
+        # a placeholder-like text under the same key before the stream, a key with a quote
+        {"a": {"items": "\x00stream 0\x00"}, 'x"y': 1, "items": [1, 2]},
         # strings holding the key and a mark-like text, quotes, line ends and controls
         {"m": '"items": "\u0000stream 0\u0000"', "items": ['"items": ', "\x00stream 0\x00\n"]},
     ],
 )
-def test_json_chunks_writes_what_json_dumps_writes(doc: dict[str, Any]) -> None:
+def test_json_chunks_writes_what_json_dumps_writes(
+    doc: dict[str, Any], monkeypatch: pytest.MonkeyPatch
+) -> None:
     # [calc] external check: the standard library's json.dumps(indent=2) of the same
     # document, byte for byte, whichever lists are streamed
     import json
@@ -224,6 +228,51 @@ def test_json_chunks_writes_what_json_dumps_writes(doc: dict[str, Any]) -> None:
 
     assert "".join(json_chunks(streamed(doc))) == expected
     json.loads(expected)
+    # a document that holds the nonce of the marks itself is written whole, the same
+    import secrets
+
+    monkeypatch.setattr(secrets, "token_hex", lambda n=None: "0" * 16)
+    clash = "\x00stream 0 0000000000000000\x00"
+    got = "".join(json_chunks({"x": clash, **streamed(doc)}))
+    assert got == json.dumps({"x": clash, **doc}, indent=2) + "\n"
     if list(doc) == ["items"]:  # the list itself as the document
         whole = doc["items"]
         assert "".join(json_chunks(Stream(iter(whole)))) == json.dumps(whole, indent=2) + "\n"
+
+
+def test_a_file_waivers_finding_does_not_unorder_the_spool(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # a waiver that suppresses nothing is found on a record but located in waivers.yaml,
+    # which sorts after designs/: it is held aside, and the records stay in report order
+    # (read back one at a time, not sorted in memory)
+    many_records(tmp_path)
+    (tmp_path / "waivers.yaml").write_text(
+        "schema: emgate/waivers@1\nwaivers:\n"
+        "  - rule: current-density\n    record: pump-drive-4p36s-000\n"
+        "    reason: a waiver that suppresses nothing\n    owner: design team\n"
+        "    expires: 2099-01-01\n"
+    )
+    monkeypatch.chdir(tmp_path)
+    kept, spooled = _run(tmp_path, details=True), _run(tmp_path, details=False)
+    assert spooled.spool is not None
+    assert any(f.file == "waivers.yaml" for f in kept.findings)
+    assert spooled.spool._findings_ordered and spooled.spool._records_ordered
+    assert list(spooled.each_finding()) == kept.findings
+    assert _reports(spooled) == _reports(kept)
+
+
+def test_a_closed_standard_error_does_not_change_the_exit_code(tmp_path: Path) -> None:
+    # every report to a file: the summary line goes to standard error, whose reader is
+    # gone (`2>&1 | true`); the verdict stands (a broken pipe there once gave exit 0)
+    import subprocess
+    import sys
+
+    many_records(tmp_path)
+    argv = [sys.executable, "-m", "emgate", "check", "--remedies", "off"]
+    argv += ["--format", f"junit:{tmp_path / 'r.xml'}", "designs"]
+    proc = subprocess.Popen(argv, cwd=tmp_path, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
+    assert proc.stderr is not None
+    proc.stderr.close()
+    assert proc.wait(timeout=300) == 2  # the broken and invalid records
+    assert "<testsuites" in (tmp_path / "r.xml").read_text()

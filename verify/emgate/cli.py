@@ -238,8 +238,9 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("emgate: interrupted", file=sys.stderr)
         return EXIT_CRASH
-    except BrokenPipeError:
-        return EXIT_OK
+    except BrokenPipeError:  # the reader of our output left (| head)
+        # a verdict that could not be told must not read as a pass
+        return EXIT_CRASH if args.command in ("check", "diff") else EXIT_OK
     except Exception as exc:  # fail closed, without a traceback for the user
         if os.environ.get("EMGATE_DEBUG"):
             raise

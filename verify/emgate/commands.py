@@ -304,13 +304,22 @@ def _to_stdout(text: Iterable[str]) -> None:
     """Write a report to standard output; a reader that stops early (``| head``) ends the
     writing, never the run: the exit code stays the verdict's, and the other reports are
     still written."""
+    _written(sys.stdout, text)
+
+
+def _to_stderr(line: str) -> None:
+    """:func:`_to_stdout` for a line on standard error."""
+    _written(sys.stderr, [line + "\n"])
+
+
+def _written(stream, text: Iterable[str]) -> None:  # type: ignore[no-untyped-def]
     try:
-        sys.stdout.writelines(text)
-        sys.stdout.flush()
+        stream.writelines(text)
+        stream.flush()
     except BrokenPipeError:
         # nothing more reaches the reader; the interpreter's last flush must not fail either
         devnull = os.open(os.devnull, os.O_WRONLY)
-        os.dup2(devnull, sys.stdout.fileno())
+        os.dup2(devnull, stream.fileno())
         os.close(devnull)
 
 
@@ -328,7 +337,7 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
                 write_run(result, file)
             except OSError as exc:
                 why = exc.strerror or str(exc)
-                print(one_line(f"emgate: cannot write html to {file}: {why}"), file=sys.stderr)
+                _to_stderr(one_line(f"emgate: cannot write html to {file}: {why}"))
                 status = EXIT_INPUT
             continue
         text: Iterable[str]
@@ -347,11 +356,11 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
             written.append(f"{name} to {file}")
         except OSError as exc:
             message = f"emgate: cannot write {name} report to {file}: {exc.strerror}"
-            print(one_line(message), file=sys.stderr)
+            _to_stderr(one_line(message))
             status = EXIT_INPUT
     if not quiet and all(file is not None for _, file in outputs):  # nothing on the terminal
         from emgate.report.common import summary_line
 
         wrote = f"; wrote {', '.join(written)}" if written else ""
-        print(one_line(f"emgate: {summary_line(result)}{wrote}"), file=sys.stderr)
+        _to_stderr(one_line(f"emgate: {summary_line(result)}{wrote}"))
     return status

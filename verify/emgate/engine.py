@@ -142,7 +142,7 @@ def execute(run: Run) -> RunResult:
                 records = [r.summarised(interned) for r in records]
             if result.spool is not None:
                 anchor_findings(done.findings, root)
-                result.spool.add(done.findings, records)
+                result.spool.add(done.file, done.findings, records)
             else:
                 result.findings.extend(done.findings)
                 result.records.extend(records)

@@ -158,10 +158,11 @@ class RunResult:
     findings: list[Finding] = field(default_factory=list)
     rules: list[RuleInfo] = field(default_factory=list)
     files_read: int = 0
-    #: The design records' findings and summaries, when the run wrote them to disk as it
-    #: went (only the summary reports asked for); ``records`` and ``findings`` then hold the
-    #: rest (the run's, the configuration's, the materials'). Read both through
-    #: :meth:`each_finding` and :meth:`each_record`, and count through the methods below.
+    #: The design records' findings and results, when the run wrote them to disk as it
+    #: went (``emgate check``: every report it writes reads them back); ``records`` and
+    #: ``findings`` then hold the rest (the run's, the configuration's, the materials').
+    #: Read both through :meth:`each_finding` and :meth:`each_record`, and count through the
+    #: methods below.
     spool: Spool | None = None
 
     def sort(self) -> None:
@@ -320,12 +321,13 @@ def needing_remedies(findings: list[Finding]) -> list[Finding]:
     ]  # fmt: skip
 
 
-# The spool: the design records' findings and summaries of a large run, on disk instead of
-# in memory. When only the summary reports are asked for (text, annotations, code quality,
-# SARIF), each record's findings and summary are written to a temporary file as soon as the
-# record is checked, and read back, one record at a time, when the report is written: the
-# memory of a run then does not grow with its number of records. What the verdict needs (the exit
-# code, the counts of the summary line, the rules that ran) is tallied on the way in.
+# The spool: the design records' findings and results of a run, on disk instead of in
+# memory. In ``emgate check`` each record's findings and result (its outcomes, or only its
+# summary when only the summary reports are asked for) are written to a temporary file as
+# soon as the record is checked, and read back, one record at a time, as the reports are
+# written: the memory of a run then does not grow with its records' checks. What the verdict
+# needs (the exit code, the counts of the summary line, the rules that ran) is tallied on
+# the way in.
 #
 # The records are checked in discovery order and reported in the order of their file names;
 # the two agree but for unusual names (a folder ``a`` beside a file ``a-b.yaml``). Where they
@@ -365,7 +367,7 @@ class Tally:
 
 
 class Spool:
-    """Findings and record summaries, one pickled block a record, in a temporary file."""
+    """Findings and record results, one pickled block a design file, in a temporary file."""
 
     def __init__(self) -> None:
         import io
@@ -377,28 +379,32 @@ class Spool:
             self._file = io.BytesIO()
         self._end = 0
         self.tally = Tally()
-        # the last sort keys written, to notice a record out of report order
+        #: A design file's findings located in another file (a file waiver's, in
+        #: waivers.yaml): few, kept here and merged in when read.
+        self._elsewhere: list[Finding] = []
+        # the last sort keys written, to notice a block out of report order
         self._last_finding: tuple[str, int, int, str, str] | None = None
         self._last_record: tuple[str, str] | None = None
-        self._ordered = True
+        self._findings_ordered = self._records_ordered = True
 
-    def add(self, findings: list[Finding], records: list[RecordResult]) -> None:
-        """One design file's findings (waived and anchored) and record summaries."""
-        findings = sorted(findings, key=Finding.sort_key)
-        records = sorted(records, key=record_key)
-        self.tally.add(findings, records)
-        if findings:
-            if self._last_finding is not None and findings[0].sort_key() < self._last_finding:
-                self._ordered = False
-            self._last_finding = findings[-1].sort_key()
-        if records:
-            if self._last_record is not None and record_key(records[0]) < self._last_record:
-                self._ordered = False
-            self._last_record = record_key(records[-1])
+    def add(self, file: str, findings: list[Finding], records: list[RecordResult]) -> None:
+        """One design file's findings (waived and anchored) and record results."""
         import pickle
 
+        self.tally.add(findings, records)
+        own = sorted((f for f in findings if f.file == file), key=Finding.sort_key)
+        self._elsewhere += [f for f in findings if f.file != file]
+        records = sorted(records, key=record_key)
+        if own:
+            if self._last_finding is not None and own[0].sort_key() < self._last_finding:
+                self._findings_ordered = False
+            self._last_finding = own[-1].sort_key()
+        if records:
+            if self._last_record is not None and record_key(records[0]) < self._last_record:
+                self._records_ordered = False
+            self._last_record = record_key(records[-1])
         self._file.seek(self._end)
-        pickle.dump((findings, records), self._file, protocol=pickle.HIGHEST_PROTOCOL)
+        pickle.dump((own, records), self._file, protocol=pickle.HIGHEST_PROTOCOL)
         self._end = self._file.tell()
 
     def _blocks(self) -> Iterator[tuple[list[Finding], list[RecordResult]]]:
@@ -415,19 +421,18 @@ class Spool:
 
     def findings(self) -> Iterator[Finding]:
         """Every finding held, in report order (:meth:`Finding.sort_key`)."""
-        if self._ordered:
-            for findings, _ in self._blocks():
-                yield from findings
-        else:
-            yield from sorted((f for fs, _ in self._blocks() for f in fs), key=Finding.sort_key)
+        own: Iterable[Finding] = (f for fs, _ in self._blocks() for f in fs)
+        if not self._findings_ordered:  # (unusual names: see above) sorted in memory
+            own = sorted(own, key=Finding.sort_key)
+        elsewhere = sorted(self._elsewhere, key=Finding.sort_key)
+        return heapq.merge(own, elsewhere, key=Finding.sort_key)
 
     def records(self) -> Iterator[RecordResult]:
-        """Every record summary held, in report order (file, then record id)."""
-        if self._ordered:
-            for _, records in self._blocks():
-                yield from records
-        else:
-            yield from sorted((r for _, rs in self._blocks() for r in rs), key=record_key)
+        """Every record result held, in report order (file, then record id)."""
+        records: Iterable[RecordResult] = (r for _, rs in self._blocks() for r in rs)
+        if not self._records_ordered:
+            records = sorted(records, key=record_key)
+        return iter(records)
 
     def close(self) -> None:
         self._file.close()

@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import math
 import re
+import secrets
 from collections.abc import Iterable, Iterator
 from typing import Any
 
@@ -115,27 +116,41 @@ def json_chunks(doc: dict[str, Any] | Stream) -> Iterator[str]:
         yield "[]\n" if first else "\n]\n"
         return
     streams: list[tuple[str, Stream]] = []
+    # Each stream's place is marked by a text that occurs nowhere else in the document (a
+    # nonce, checked): the list is written there.
+    nonce = secrets.token_hex(8)
+
+    def mark(n: int) -> str:
+        return f"\x00stream {n} {nonce}\x00"
 
     def marked(node: Any) -> Any:
         if isinstance(node, dict):
             out = {}
             for key, value in node.items():
                 if isinstance(value, Stream):
-                    out[key] = f"\x00stream {len(streams)}\x00"
+                    if not isinstance(key, str):
+                        raise TypeError("a Stream is written under a text key")
+                    out[key] = mark(len(streams))
                     streams.append((key, value))
                 else:
                     out[key] = marked(value)
             return out
-        if isinstance(node, list):
+        if isinstance(node, list | tuple):
             return [marked(v) for v in node]
+        if isinstance(node, Stream):
+            raise TypeError("a Stream is the document itself or the value of a key")
         return node
 
     text = json.dumps(marked(doc), indent=2)
+    if any(text.count(json.dumps(mark(n))) != 1 for n in range(len(streams))):
+        # (a document that holds the nonce itself): written whole
+        yield json.dumps(_resolved(doc), indent=2) + "\n"
+        return
     at = 0
     for n, (key, stream) in enumerate(streams):
-        # the key with its quotes unescaped: only the document's own structure holds that
         head = f"{json.dumps(key)}: "
-        where = text.index(head + json.dumps(f"\x00stream {n}\x00"), at)
+        needle = head + json.dumps(mark(n))
+        where = text.index(needle, at)
         yield text[at:where] + head
         line = text[text.rindex("\n", 0, where) + 1 : where]
         margin = " " * (len(line) - len(line.lstrip(" "))) + "  "
@@ -145,5 +160,16 @@ def json_chunks(doc: dict[str, Any] | Stream) -> Iterator[str]:
             yield json.dumps(item, indent=2).replace("\n", "\n" + margin)
             first = False
         yield "[]" if first else "\n" + margin[:-2] + "]"
-        at = where + len(head) + len(json.dumps(f"\x00stream {n}\x00"))
+        at = where + len(needle)
     yield text[at:] + "\n"
+
+
+def _resolved(node: Any) -> Any:
+    """``node`` with each :class:`Stream` read into a list (the fall-back of json_chunks)."""
+    if isinstance(node, Stream):
+        return [_resolved(v) for v in node.items]
+    if isinstance(node, dict):
+        return {k: _resolved(v) for k, v in node.items()}
+    if isinstance(node, list | tuple):
+        return [_resolved(v) for v in node]
+    return node

@@ -167,19 +167,26 @@ def _suites(result: RunResult, run_properties: dict[str, str]) -> Iterator[ET.El
         holder.remove(suite)
         return suite
 
+    # the current file's findings on records, by record id, until its records are done
+    current: str | None = None
+    by_id: dict[str, list[Finding]] = {}
     for r in result.each_record():
+        if r.file != current:
+            for left in by_id.values():  # findings on no record of that file
+                for lone in left:
+                    take(lone)
+            current, by_id = r.file, {}
+            while (g := ahead.pop() if ahead else next(findings, None)) is not None:
+                if g.file > r.file:
+                    ahead.append(g)
+                    break
+                if g.file == r.file and g.rule != INPUT:
+                    by_id.setdefault(g.record_id, []).append(g)
+                else:
+                    take(g)
         mine: dict[str, list[Finding]] = {}
-        while True:
-            f = ahead.pop() if ahead else next(findings, None)
-            if f is None:
-                break
-            if f.file > r.file:
-                ahead.append(f)
-                break
-            if f.file == r.file and f.record_id == r.record_id and f.rule != INPUT:
-                mine.setdefault(f.rule, []).append(f)
-            else:
-                take(f)
+        for f in by_id.pop(r.record_id, []):
+            mine.setdefault(f.rule, []).append(f)
         rules: dict[str, RuleOutcome | None] = {
             o.rule: o for o in r.outcomes if o.status != "not_applicable"
         }
@@ -188,8 +195,11 @@ def _suites(result: RunResult, run_properties: dict[str, str]) -> Iterator[ET.El
         yield made(
             label, r.file, [(rule, r.file, mine.get(rule, []), o) for rule, o in rules.items()]
         )
-    for f in [*ahead, *findings]:
-        take(f)
+    for left in by_id.values():
+        for lone in left:
+            take(lone)
+    for rest in [*ahead, *findings]:
+        take(rest)
     for (file, record_id), by_rule in extra.items():
         label = record_id or file or "(configuration)"
         yield made(label, file, [(rule, file, found, None) for rule, found in by_rule.items()])

@@ -161,7 +161,7 @@ def rate(fn: Callable[[], int], seconds: float = 1.0) -> float:
     """Items per CPU second of ``fn`` (which returns how many items it did), run repeatedly
     for about ``seconds``; the median of the per-call rates."""
     fn()  # warm
-    rates = []
+    rates: list[float] = []
     end = time.process_time() + seconds
     while time.process_time() < end or len(rates) < 3:
         t0 = time.process_time()

@@ -16,9 +16,10 @@ from emgate.terms import DESIGN_SCHEMA, EXIT_INPUT, EXIT_OK
 from emgate.units import si_unit
 
 
-def load_design(path: Path) -> tuple[Any, Any, Any]:
+def load_design(path: Path) -> tuple[Any, Any, Any, Any]:
     """One design record, validated, with the steel catalogue of its repository resolved:
-    (document, design, catalogue); InputError(s) when it cannot be read."""
+    (document, design, catalogue, calculation), the calculation with every sheet quantity
+    computed once by the plausibility pass; InputError(s) when it cannot be read."""
     from emgate.discovery import discover_materials
     from emgate.loader import load
     from emgate.plausible import plausible_calculation
@@ -31,8 +32,8 @@ def load_design(path: Path) -> tuple[Any, Any, Any]:
     design = validate_design(doc)
     catalogue = discover_materials(path)
     catalogue.resolve(doc, design)
-    plausible_calculation(doc, design, catalogue)  # show refuses what the gate refuses
-    return doc, design, catalogue
+    calc = plausible_calculation(doc, design, catalogue)  # show refuses what the gate refuses
+    return doc, design, catalogue, calc
 
 
 def sheet_values(
@@ -43,10 +44,20 @@ def sheet_values(
     Returns the design; per quantity name (SI value or None, unit, method, error text); and
     the steels it uses as (part, grade, origin of the curve).
     """
-    from emgate.calc import SHEET, Calculation
+    _, design, _, calc = load_design(path)
+    values, steels = sheet_of(calc)
+    return design, values, steels
 
-    _, design, catalogue = load_design(path)
-    calc = Calculation(design, catalogue)
+
+def sheet_of(
+    calc: Any,
+) -> tuple[dict[str, tuple[float | None, str, str, str]], list[tuple[str, str, str]]]:
+    """The sheet of a calculation (the values it computed already are not computed again):
+    per quantity name (SI value or None, unit, method, error text), and the steels it uses
+    as (part, grade, origin of the curve)."""
+    from emgate.calc import SHEET
+
+    design, catalogue = calc.d, calc.catalogue
     out: dict[str, tuple[float | None, str, str, str]] = {}
     for name, entry in SHEET.items():
         if not calc.applies(name):
@@ -65,7 +76,7 @@ def sheet_values(
     if design.rotor.steel and design.rotor.steel != design.stator.steel:
         grades.append(("rotor", design.rotor.steel))
     steels = [(part, name, catalogue.get(name).source) for part, name in grades]
-    return design, out, steels
+    return out, steels
 
 
 def show(path: Path, fmt: str) -> int:

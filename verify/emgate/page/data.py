@@ -37,13 +37,11 @@ def gather(
     (the record of the run whose file or id matches). InputError(s) when it cannot be read.
     A part of the page the calculation cannot compute is left out and named in
     ``problems``."""
-    from emgate.calc import Calculation
     from emgate.errors import display_path
-    from emgate.sheet import load_design, sheet_values
+    from emgate.sheet import load_design, sheet_of
 
-    _, values, steels_used = sheet_values(path)
-    doc, design, catalogue = load_design(path)
-    calc = Calculation(design, catalogue)
+    doc, design, _, calc = load_design(path)  # the sheet computed once, here
+    values, steels_used = sheet_of(calc)
     page = PageData(
         file=shown_as or display_path(path),
         record_id=design.id,

@@ -354,6 +354,21 @@ def test_a_waiver_for_an_unknown_record_is_an_error(repo: Path) -> None:
     assert "'servo-10p21s'" in error["message"]
 
 
+def test_a_waiver_for_a_record_outside_the_run_is_no_typo(repo: Path) -> None:
+    # the record the waiver names is in the repository but not checked (one file named,
+    # as pre-commit names the staged ones): its id is found by reading the repository
+    write_config(repo, "rules:\n  select: [current-density]\n")
+    write_waivers(repo, {**WAIVER, "record": "servo-10p12s"})
+    write_variant(repo, {}, base=SERVO, name="servo.yaml")
+    pump = write_variant(repo, {}, name="pump.yaml")
+    result = check_json("--today", TODAY, pump)
+    assert result.code == 0, result.out
+    assert not result.input_findings()
+    # the same waiver for an id no record in the repository has is a typo
+    write_waivers(repo, {**WAIVER, "record": "servo-10p21s"})
+    assert check_json("--today", TODAY, pump).code == 2
+
+
 @pytest.mark.parametrize(
     ("change", "node", "says"),
     [

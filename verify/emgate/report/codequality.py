@@ -37,9 +37,11 @@ def severity(f: Finding) -> str:
     return "blocker" if f.kind == "crash" else SEVERITIES[f.severity]
 
 
-def fingerprints(findings: Iterable[Finding], shared: Counter[str]) -> Iterator[str]:
-    """One unique, stable fingerprint per finding, in order; ``shared`` counts each finding's
-    own fingerprint over all of the run's findings."""
+def fingerprints(
+    findings: Iterable[Finding], shared: Counter[str]
+) -> Iterator[tuple[Finding, str]]:
+    """Each finding with its unique, stable fingerprint, in order; ``shared`` counts each
+    finding's own fingerprint over all of the run's findings."""
     seen: Counter[tuple[str, str]] = Counter()
     for f in findings:
         fp = f.fingerprint
@@ -48,7 +50,7 @@ def fingerprints(findings: Iterable[Finding], shared: Counter[str]) -> Iterator[
             seen[key] += 1
             text = "\x1f".join((*key, str(seen[key])))
             fp = hashlib.sha256(text.encode()).hexdigest()[:32]
-        yield fp
+        yield f, fp
 
 
 def _item(f: Finding, fp: str) -> dict[str, Any]:
@@ -75,7 +77,7 @@ def chunks(result: RunResult) -> Iterator[str]:
     from a first pass over them (a spooled run is read twice, never held)."""
     # fingerprints over every finding, so that waiving one does not rename another
     shared = Counter(f.fingerprint for f in result.each_finding())
-    paired = zip(result.each_finding(), fingerprints(result.each_finding(), shared), strict=True)
+    paired = fingerprints(result.each_finding(), shared)
     return json_chunks(Stream(_item(f, fp) for f, fp in paired))
 
 

@@ -167,7 +167,7 @@ class RunResult:
 
     def sort(self) -> None:
         self.findings.sort(key=Finding.sort_key)
-        self.records.sort(key=lambda r: (r.file, r.record_id))
+        self.records.sort(key=record_key)
 
     def each_finding(self) -> Iterator[Finding]:
         """Every finding of the run in report order, the spooled ones included."""
@@ -179,7 +179,7 @@ class RunResult:
         """Every record of the run in report order, the spooled ones included."""
         if self.spool is None:
             return iter(self.records)
-        return heapq.merge(self.records, self.spool.records(), key=lambda r: (r.file, r.record_id))
+        return heapq.merge(self.records, self.spool.records(), key=record_key)
 
     def active(self, severity: Severity) -> list[Finding]:
         """The unwaived findings of a severity, the spooled ones included (read back: to
@@ -336,6 +336,7 @@ def needing_remedies(findings: list[Finding]) -> list[Finding]:
 
 
 def record_key(record: RecordResult) -> tuple[str, str]:
+    """The report order of records: by file, then record id."""
     return (record.file, record.record_id)
 
 

@@ -207,6 +207,116 @@ def test_a_limit_in_a_unit_of_the_wrong_dimension_is_refused() -> None:
             wrong: FluxDensity = limit(2.0, "mm", "common practice, no source")
 
 
+def _installed_options() -> list[type[Any]]:
+    from emgate.plugins import load_plugins
+
+    return sorted({r.rule.options for r in load_plugins().rules.values()}, key=lambda c: c.__name__)
+
+
+def test_the_default_check_takes_each_limit_as_pydantic_validates_it() -> None:
+    """The check at class definition runs a limit's text through the field's converters
+    without building the validator; pydantic's own validation of the same text is the
+    reference, for every limit of every installed rule (bundled and the sample pack)."""
+    from emgate.rule import _metadata, _through_field
+
+    limits = 0
+    for cls in _installed_options():
+        for name, info in cls.model_fields.items():
+            if cls.source_of(name) is None:
+                continue
+            text = str(info.json_schema_extra["default_text"])  # type: ignore[index]
+            data: Any = float(text) if " " not in text else text
+            ours = _through_field(_metadata(info), data)
+            theirs = getattr(cls.model_validate({name: data}), name)
+            assert ours == theirs, (cls.__name__, name)  # the same float, bit for bit
+            limits += 1
+    assert limits > 40
+
+
+def test_a_default_outside_its_fields_bounds_or_optional_of_the_wrong_unit_is_refused() -> None:
+    from emgate.api import FluxDensity, Options, limit
+
+    with pytest.raises(TypeError, match="bound"):
+
+        class Above(Options):
+            share: float = limit(0.95, "", "common practice, no source", le=0.91)
+
+    with pytest.raises(TypeError, match="optional"):
+
+        class Optional(Options):
+            optional: FluxDensity | None = limit(2.0, "mm", "common practice, no source")
+
+
+def test_a_limit_with_a_validator_of_its_own_is_checked_by_pydantic() -> None:
+    from typing import Annotated
+
+    from pydantic import AfterValidator
+
+    from emgate.api import Options, limit
+
+    def below_one(v: float) -> float:
+        if v >= 1.0:
+            raise ValueError("must be below 1")
+        return v
+
+    with pytest.raises(TypeError, match="below 1"):
+
+        class Own(Options):
+            share: Annotated[float, AfterValidator(below_one)] = limit(
+                1.5, "", "common practice, no source"
+            )
+
+
+def test_defaults_are_the_options_that_the_class_gives() -> None:
+    from pydantic import ValidationError, model_validator
+
+    from emgate.api import Options
+
+    for cls in _installed_options():
+        assert cls.defaults() == cls(), cls.__name__
+
+    class Ordered(Options):  # a model validator still runs on the defaults
+        low: float = 2.0
+        high: float = 1.0
+
+        @model_validator(mode="after")
+        def _ordered(self) -> Ordered:
+            if self.low > self.high:
+                raise ValueError("low above high")
+            return self
+
+    with pytest.raises(ValidationError, match="low above high"):
+        Ordered.defaults()
+
+    class Required(Options):
+        needed: float
+
+    with pytest.raises(ValidationError, match="needed"):
+        Required.defaults()
+
+
+def test_a_check_that_keeps_the_defaults_builds_no_options_validator() -> None:
+    """Start-up: options the team did not set are never validated, so their validators are
+    not built (pydantic's defer_build); a team's options are: the example repository's
+    emgate.yaml sets current-density's and efficiency's."""
+    import subprocess
+    import sys
+
+    code = (
+        "from emgate.cli import main\n"
+        "import contextlib, io, sys\n"
+        "with contextlib.redirect_stdout(io.StringIO()):\n"
+        f"    main(['check', {str(PUMP)!r}])\n"
+        "from emgate.plugins import load_plugins\n"
+        "print(sorted(i for i, r in load_plugins().rules.items()"
+        " if r.rule.options.__pydantic_complete__))\n"
+    )
+    out = subprocess.run(
+        [sys.executable, "-c", code], capture_output=True, text=True, check=True
+    ).stdout
+    assert out.strip().splitlines()[-1] == "['current-density', 'efficiency']"
+
+
 # --- every check names a sheet quantity -----------------------------------------------------
 
 

@@ -144,7 +144,7 @@ class RulePolicy:
         )
 
     def options_for(self, rule: type[Rule]) -> Options:
-        return self.options.get(rule.id) or rule.options()
+        return self.options.get(rule.id) or rule.options.defaults()
 
     def severity_for(self, rule: type[Rule]) -> Severity:
         return self.severity.get(rule.id, rule.severity)

@@ -127,7 +127,7 @@ def _rule_problem(rule: object, pack: Pack) -> str | None:
     if not (isinstance(options, type) and issubclass(options, Options)):
         return f"rule {rid!r}: options must subclass emgate.api.Options"
     try:
-        rule.options()
+        rule.options.defaults()
     except BaseException as exc:  # a default that does not validate is the pack's bug
         if users_interrupt(exc):
             raise

@@ -15,7 +15,17 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any, ClassVar, Generic, Literal, TypeVar, get_args, get_origin
+from typing import (
+    TYPE_CHECKING,
+    Annotated,
+    Any,
+    ClassVar,
+    Generic,
+    Literal,
+    TypeVar,
+    get_args,
+    get_origin,
+)
 
 from pydantic import BaseModel, ConfigDict, Field
 
@@ -23,6 +33,8 @@ from emgate.model import MACHINE_KINDS
 from emgate.terms import RecordPath, Severity
 
 if TYPE_CHECKING:
+    from pydantic.fields import FieldInfo
+
     from emgate.calc.view import Sheet
     from emgate.model import AnyDesign
 
@@ -65,10 +77,64 @@ class Limit:
     basis: str = ""
 
 
-class Options(BaseModel):
-    """Base of every rule's options model: unknown keys are errors, instances are frozen."""
+_UNHANDLED = object()
 
-    model_config = ConfigDict(extra="forbid", frozen=True)
+
+def _metadata(info: FieldInfo) -> list[Any]:
+    """A field's metadata; an optional field's (``FluxDensity | None``) is its type's."""
+    if info.metadata:
+        return info.metadata
+    args = [a for a in get_args(info.annotation) if a is not type(None)]
+    if len(args) == 1 and get_origin(args[0]) is Annotated:
+        return list(get_args(args[0])[1:])
+    return []
+
+
+def _through_field(metadata: list[Any], value: Any) -> Any:
+    """``value`` through a float field's quantity converters and bounds, as validation
+    takes it: the default check of :class:`Options` without building the model's validator.
+    :data:`_UNHANDLED` for any other metadata (a pack's own validator, say), which only
+    pydantic's own path can apply."""
+    from annotated_types import Ge, GroupedMetadata, Gt, Le, Lt
+    from pydantic import AfterValidator, BeforeValidator, WithJsonSchema
+
+    from emgate.quantity import DimensionPattern
+
+    metadata = [g for m in metadata for g in (m if isinstance(m, GroupedMetadata) else (m,))]
+    validators = [m for m in metadata if isinstance(m, BeforeValidator | AfterValidator)]
+    if any(getattr(m.func, "__module__", None) != "emgate.quantity" for m in validators):
+        return _UNHANDLED
+    for m in reversed(validators):  # pydantic runs the last-declared before validator first
+        if isinstance(m, BeforeValidator):
+            value = m.func(value)  # type: ignore[call-arg]
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        return _UNHANDLED
+    value = float(value)
+    for m in metadata:
+        if isinstance(m, AfterValidator):
+            value = m.func(value)  # type: ignore[call-arg]
+        elif isinstance(m, Ge | Gt | Le | Lt):
+            if not (
+                (isinstance(m, Ge) and value >= m.ge)
+                or (isinstance(m, Gt) and value > m.gt)
+                or (isinstance(m, Le) and value <= m.le)
+                or (isinstance(m, Lt) and value < m.lt)
+            ):
+                raise ValueError(f"{value!r} is outside the field's bound {m!r}")
+        elif not isinstance(m, BeforeValidator | WithJsonSchema | DimensionPattern):
+            return _UNHANDLED
+    return value
+
+
+class Options(BaseModel):
+    """Base of every rule's options model: unknown keys are errors, instances are frozen.
+
+    The validator is built when a team's options are first validated: a run that keeps a
+    rule's defaults takes them from :meth:`defaults` and never builds it (about 1 ms a rule
+    at start-up).
+    """
+
+    model_config = ConfigDict(extra="forbid", frozen=True, defer_build=True)
 
     @classmethod
     def __pydantic_init_subclass__(cls, **kwargs: Any) -> None:
@@ -80,11 +146,24 @@ class Options(BaseModel):
             text = str(extra["default_text"])
             data: Any = float(text) if " " not in text else text
             try:  # the declared unit must be one the field itself accepts
-                parsed = cls.model_validate({name: data})
+                value = _through_field(_metadata(info), data)
+                if value is _UNHANDLED:  # a validator of its own: pydantic's whole path
+                    value = getattr(cls.model_validate({name: data}), name)
             except Exception as exc:
                 raise TypeError(f"{cls.__name__}.{name}: default {text!r}: {exc}") from None
-            if not math.isclose(getattr(parsed, name), info.default, rel_tol=1e-12):
+            if not math.isclose(value, info.default, rel_tol=1e-12):
                 raise TypeError(f"{cls.__name__}.{name}: default {text!r} does not round-trip")
+
+    @classmethod
+    def defaults(cls) -> Options:
+        """The options with every default, as ``cls()`` gives them. With no model validator
+        nothing would be validated (pydantic does not validate defaults), so the instance is
+        built without the model's validator."""
+        if cls.__pydantic_decorators__.model_validators or any(
+            f.is_required() for f in cls.model_fields.values()
+        ):
+            return cls()  # its validators run; a missing required field is the error it was
+        return cls.model_construct()
 
     @classmethod
     def source_of(cls, field: str) -> str | None:

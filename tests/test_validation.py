@@ -277,6 +277,32 @@ def test_invalid_variant_is_one_located_error(
     assert re.search(pattern, error["message"]), error["message"]
 
 
+@pytest.mark.parametrize(
+    "overrides", [{}, *(c[1] for c in CASES)], ids=["valid", *(c[0] for c in CASES)]
+)
+def test_the_kinds_own_model_gives_what_the_union_gives(
+    repo: Path, overrides: dict[str, Any]
+) -> None:
+    """A record is validated by its machine kind's model alone (one validator built at
+    start-up): the same design, or the same located errors, as pydantic's discriminated
+    union of the three kinds."""
+    from pydantic import ValidationError
+
+    from emgate.loader import load
+    from emgate.translate import model_errors
+    from emgate.validate import _design, _design_adapter
+
+    doc = load(write_variant(repo, overrides))
+
+    def outcome(validate: Any) -> Any:
+        try:
+            return validate(doc.data)
+        except ValidationError as exc:
+            return [(e.message, e.location) for e in model_errors(exc, doc)]
+
+    assert outcome(_design) == outcome(_design_adapter().validate_python)
+
+
 def test_several_errors_in_one_record_are_all_reported(repo: Path) -> None:
     path = write_variant(repo, {"air_gap": "3 A", "stator.slots": "36", "poles": 5})
     code, errors = input_errors(path)

@@ -112,6 +112,12 @@ Design = Annotated[
 ]
 AnyDesign = InductionDesign | SurfacePMDesign | SalientFieldDesign
 MACHINE_KINDS = ("induction", "surface_pm", "salient_field")
+#: The design model of each machine kind (the union's members by their tag).
+DESIGN_MODELS: dict[str, type[AnyDesign]] = {
+    "induction": InductionDesign,
+    "surface_pm": SurfacePMDesign,
+    "salient_field": SalientFieldDesign,
+}
 
 #: Tags that pydantic inserts into error locations for discriminated unions.
 UNION_TAGS = frozenset({*MACHINE_KINDS, "semi_closed", "open", "round", "rectangular"})

@@ -87,3 +87,51 @@ def test_the_opening_clearance_is_the_kernels_and_its_limit_is_declared_once(
     assert calls, "the sheet did not use slots.opening_clearance"
     # [calc] pump: opening 2.8 mm less the insulated strand 0.97 mm (rounding only)
     assert value / MM == pytest.approx(2.8 - 0.97, rel=1e-12)
+
+
+# --- what depends on the winding alone is shared between records ---------------------------
+
+
+def _winding_caches() -> list[Any]:
+    from emgate.calc import inductance, winding
+
+    return [
+        f
+        for module in (winding, inductance)
+        for f in vars(module).values()
+        if callable(f) and hasattr(f, "cache_clear")
+    ]
+
+
+def _sheets(paths: list[Path]) -> list[Any]:
+    from emgate.sheet import load_design, sheet_of
+
+    return [sheet_of(load_design(p)[3]) for p in paths]
+
+
+def test_a_records_sheet_is_the_same_whatever_windings_came_before_it() -> None:
+    """The per-winding analysis is computed once per distinct winding in a process: each
+    example's sheet, computed first with every such cache empty, is the same (to the bit)
+    after the other examples, of other windings, have filled them; and a sheet quantity
+    that reads the winding reads it from the cache, not from a stale record."""
+    from conftest import SERVO
+
+    caches = _winding_caches()
+    assert len(caches) >= 7  # layout, factor, problems, THD, family, ratios, slot factors...
+    paths = [PUMP, SERVO, GENSET]
+    alone = []
+    for p in paths:
+        for f in caches:
+            f.cache_clear()
+        alone += _sheets([p])
+    assert _sheets(paths[::-1]) == alone[::-1]
+    assert sum(f.cache_info().currsize for f in caches) >= 3 * 5  # three windings kept
+
+
+def test_the_shared_layout_is_read_only() -> None:
+    from emgate.calc import winding
+
+    layout = winding.layout(calculation(PUMP))
+    assert layout is winding.layout(calculation(PUMP))  # shared, not recomputed
+    with pytest.raises(ValueError, match="read-only"):
+        layout[0, 0] = 0

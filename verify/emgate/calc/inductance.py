@@ -9,6 +9,7 @@ from typing import TYPE_CHECKING
 from emgate import geometry as geo
 from emgate.calc import conductors, magnetic, winding
 from emgate.calc.core import Calculation, memo, quantity
+from emgate.calc.winding import Winding, per_winding
 
 if TYPE_CHECKING:
     import numpy as np
@@ -18,20 +19,27 @@ if TYPE_CHECKING:
 # --- the winding's family and spectrum -------------------------------------------------------
 
 
-@memo
 def family(c: Calculation) -> WindingFamily:
     """Distributed, or tooth coils in one or two layers (emgate.physics.mmf.winding_family)."""
+    return _family(winding.spec(c))
+
+
+@per_winding
+def _family(w: Winding) -> WindingFamily:
     from emgate.physics.mmf import winding_family
 
-    w = c.d.winding
-    return winding_family(c.d.stator.slots, c.d.poles, w.layers, w.coil_pitch)
+    return winding_family(w.slots, 2 * w.pole_pairs, w.layers, w.coil_pitch)
 
 
-@memo
 def harmonic_ratios(c: Calculation) -> HarmonicRatios:
+    return _harmonic_ratios(winding.spec(c))
+
+
+@per_winding
+def _harmonic_ratios(w: Winding) -> HarmonicRatios:
     from emgate.physics.mmf import harmonic_ratios
 
-    return harmonic_ratios(winding.layout(c), c.d.pole_pairs)
+    return harmonic_ratios(winding.winding_layout(w), w.pole_pairs)
 
 
 @quantity("winding.mmf_largest_subharmonic")
@@ -88,22 +96,23 @@ def _table_layers(table: list[str], phases: int) -> tuple[np.ndarray, np.ndarray
     return top, bottom
 
 
-@memo
 def slot_factors(c: Calculation) -> tuple[float, float]:
     """(k1, k2) of the slot leakage from the layers' currents: distributed double layers
     stacked, tooth coils side by side, single layers one phase a slot."""
+    return _slot_factors(winding.spec(c))
+
+
+@per_winding
+def _slot_factors(w: Winding) -> tuple[float, float]:
     from emgate.physics.slot_leakage import slot_leakage_factors
     from emgate.physics.star_of_slots import star_of_slots_layers
 
-    w, d = c.d.winding, c.d
-    if w.layers == 1 or family(c) != "distributed":
-        return slot_leakage_factors(winding.layout(c), stacked=False)
-    if w.layout is not None:
-        top, bottom = _table_layers(w.layout, w.phases)
+    if w.layers == 1 or _family(w) != "distributed":
+        return slot_leakage_factors(winding.winding_layout(w), stacked=False)
+    if w.table is not None:
+        top, bottom = _table_layers(list(w.table), w.phases)
     else:
-        top, lower = star_of_slots_layers(
-            d.stator.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch
-        )
+        top, lower = star_of_slots_layers(w.slots, w.pole_pairs, w.phases, w.layers, w.coil_pitch)
         assert lower is not None
         bottom = lower
     return slot_leakage_factors(top, bottom)
@@ -151,18 +160,16 @@ def slot_leakage_inductance(c: Calculation) -> float:
     )
 
 
-def _coil_groups(c: Calculation) -> tuple[int, float]:
+@per_winding
+def _coil_groups(w: Winding) -> tuple[int, float]:
     """(coil groups of phase A, coils a group): runs of adjacent go sides of one sign."""
     import numpy as np
 
-    w = c.d.winding
-    row = winding.layout(c)[0]
-    if w.layers == 2 and w.layout is None and family(c) == "distributed":
+    row = winding.winding_layout(w)[0]
+    if w.layers == 2 and w.table is None and _family(w) == "distributed":
         from emgate.physics.star_of_slots import star_of_slots_layers
 
-        top, _ = star_of_slots_layers(
-            c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers, w.coil_pitch
-        )
+        top, _ = star_of_slots_layers(w.slots, w.pole_pairs, w.phases, w.layers, w.coil_pitch)
         row = top[0]
         go = np.sign(row)  # every top side starts a coil
     else:
@@ -181,7 +188,7 @@ def end_leakage_inductance(c: Calculation) -> float:
     from emgate.physics.inductance import end_winding_inductance
 
     d, w = c.d, c.d.winding
-    groups, per_group = _coil_groups(c)
+    groups, per_group = _coil_groups(winding.spec(c))
     end_length = conductors.mean_turn_length(c) - 2.0 * d.stator.stack_length
     if end_length <= 0.0:
         return 0.0

@@ -1,8 +1,14 @@
-"""The winding: layout, turns, phase current and voltage, winding factor and MMF."""
+"""The winding: layout, turns, phase current and voltage, winding factor and MMF.
+
+What depends on the winding alone (its layout, winding factor, balance and MMF spectrum) is
+computed once per distinct winding in a process (:func:`per_winding`): the records of a
+family that share a lamination and a winding (stack lengths, turns, ratings) share it.
+"""
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
+import functools
+from typing import TYPE_CHECKING, NamedTuple
 
 from emgate.calc.core import Calculation, memo, quantity
 
@@ -10,15 +16,45 @@ if TYPE_CHECKING:
     import numpy as np
 
 
+class Winding(NamedTuple):
+    """Everything the winding's own analysis reads: nothing of the record beyond it."""
+
+    slots: int
+    pole_pairs: int
+    phases: int
+    layers: int
+    coil_pitch: int
+    table: tuple[str, ...] | None  # the record's explicit slot table, if it gives one
+
+
 @memo
+def spec(c: Calculation) -> Winding:
+    w = c.d.winding
+    table = None if w.layout is None else tuple(w.layout)
+    return Winding(c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers, w.coil_pitch, table)
+
+
+#: Once per distinct winding in the process: what a function of a :class:`Winding` returns
+#: is shared between records and must not be changed (arrays are read-only). It sees only
+#: the Winding, so it cannot depend on the rest of the record.
+per_winding = functools.lru_cache(maxsize=256)
+
+
 def layout(c: Calculation) -> np.ndarray:
-    """Signed coil sides per phase and slot, shape (m, Q)."""
+    """Signed coil sides per phase and slot, shape (m, Q); read-only (it is shared)."""
+    return winding_layout(spec(c))
+
+
+@per_winding
+def winding_layout(w: Winding) -> np.ndarray:
     from emgate.physics.star_of_slots import star_of_slots
 
-    w = c.d.winding
-    if w.layout is not None:
-        return layout_from_table(w.layout, w.phases)
-    return star_of_slots(c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers, w.coil_pitch)
+    if w.table is not None:
+        out = layout_from_table(list(w.table), w.phases)
+    else:
+        out = star_of_slots(w.slots, w.pole_pairs, w.phases, w.layers, w.coil_pitch)
+    out.flags.writeable = False
+    return out
 
 
 @quantity("winding.series_turns")
@@ -57,31 +93,44 @@ def slip(c: Calculation) -> float:
 
 @quantity("winding.winding_factor")
 def winding_factor(c: Calculation) -> float:
+    return _winding_factor(spec(c))
+
+
+@per_winding
+def _winding_factor(w: Winding) -> float:
     import numpy as np
 
     from emgate.physics.winding_factors import winding_factors
 
-    return float(winding_factors(layout(c)[0], np.array([c.d.pole_pairs]))[0])
+    return float(winding_factors(winding_layout(w)[0], np.array([w.pole_pairs]))[0])
 
 
-@memo
 def winding_problems(c: Calculation) -> list[str]:
+    return list(_winding_problems(spec(c)))
+
+
+@per_winding
+def _winding_problems(w: Winding) -> tuple[str, ...]:
     from emgate.physics.winding import balance, feasibility
 
-    w = c.d.winding
-    problems = list(balance(layout(c), c.d.pole_pairs))
-    if w.layout is not None:
-        reason = feasibility(c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers)
+    problems = list(balance(winding_layout(w), w.pole_pairs))
+    if w.table is not None:
+        reason = feasibility(w.slots, w.pole_pairs, w.phases, w.layers)
         if reason:
             problems.append(reason)
-    return problems
+    return tuple(problems)
 
 
 @quantity("winding.mmf_thd")
 def mmf_thd(c: Calculation) -> float:
+    return _mmf_thd(spec(c))
+
+
+@per_winding
+def _mmf_thd(w: Winding) -> float:
     from emgate.physics.mmf import mmf_thd
 
-    return mmf_thd(layout(c), c.d.pole_pairs)
+    return mmf_thd(winding_layout(w), w.pole_pairs)
 
 
 @quantity("winding.mmf_fundamental")

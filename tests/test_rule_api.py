@@ -275,6 +275,18 @@ def test_defaults_are_the_options_that_the_class_gives() -> None:
     for cls in _installed_options():
         assert cls.defaults() == cls(), cls.__name__
 
+    class Shared(Options):  # immutable defaults: one instance serves every record
+        share: float = 0.5
+        grades: tuple[str, ...] = ("M400-50A",)
+
+    class Own(Options):  # a mutable default: each rule run gets its own, as cls() gives
+        grades: list[str] = ["M400-50A"]  # noqa: RUF012 - the case under test
+
+    assert Shared.defaults() is Shared.defaults()
+    first = Own.defaults()
+    first.grades.append("M270-35A")
+    assert Own.defaults().grades == ["M400-50A"]
+
     class Ordered(Options):  # a model validator still runs on the defaults
         low: float = 2.0
         high: float = 1.0

@@ -78,6 +78,14 @@ class Limit:
 
 
 _UNHANDLED = object()
+#: Each options class's defaults, where no rule can change them (frozen, immutable values).
+_DEFAULTS: dict[type[Options], Options] = {}
+
+
+def _immutable(value: object) -> bool:
+    if value is None or isinstance(value, bool | int | float | str | bytes):
+        return True
+    return isinstance(value, tuple | frozenset) and all(_immutable(v) for v in value)
 
 
 def _metadata(info: FieldInfo) -> list[Any]:
@@ -158,12 +166,18 @@ class Options(BaseModel):
     def defaults(cls) -> Options:
         """The options with every default, as ``cls()`` gives them. With no model validator
         nothing would be validated (pydantic does not validate defaults), so the instance is
-        built without the model's validator."""
+        built without the model's validator; and, when every default is immutable, once."""
         if cls.__pydantic_decorators__.model_validators or any(
             f.is_required() for f in cls.model_fields.values()
         ):
             return cls()  # its validators run; a missing required field is the error it was
-        return cls.model_construct()
+        shared = _DEFAULTS.get(cls)
+        if shared is not None:
+            return shared
+        options = cls.model_construct()
+        if all(_immutable(v) for v in options.__dict__.values()):
+            _DEFAULTS[cls] = options
+        return options
 
     @classmethod
     def source_of(cls, field: str) -> str | None:

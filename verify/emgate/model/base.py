@@ -3,6 +3,7 @@ and the constrained strings and fractions of several parts."""
 
 from __future__ import annotations
 
+from functools import cache
 from typing import Annotated, Any, Literal, get_args, get_origin
 
 from pydantic import BaseModel, ConfigDict, Field, StringConstraints, model_validator
@@ -25,13 +26,22 @@ class Strict(BaseModel):
         whole-number field takes it, and 21.5 stays an error."""
         if not isinstance(data, dict):
             return data
-        out = dict(data)
-        for name, info in cls.model_fields.items():
-            key = info.alias or name
-            value = out.get(key)
-            if isinstance(value, float) and value.is_integer() and _whole(info.annotation):
+        out = data
+        for key in _whole_keys(cls):
+            value = data.get(key)
+            if isinstance(value, float) and value.is_integer():
+                if out is data:
+                    out = dict(data)
                 out[key] = int(value)
         return out
+
+
+@cache
+def _whole_keys(cls: type[BaseModel]) -> tuple[str, ...]:
+    """The keys of a model's whole-number fields."""
+    return tuple(
+        info.alias or name for name, info in cls.model_fields.items() if _whole(info.annotation)
+    )
 
 
 def _whole(annotation: Any) -> bool:

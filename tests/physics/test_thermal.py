@@ -4,6 +4,7 @@ values and closed forms."""
 from __future__ import annotations
 
 import math
+from typing import Any
 
 import numpy as np
 import pytest
@@ -271,3 +272,25 @@ def test_radiation_coefficient_linearisation() -> None:
     ts, tsur = 380.0, 313.15
     h_r = convection.radiation_coefficient(0.9, ts, tsur)
     assert h_r * (ts - tsur) == pytest.approx(0.9 * scipy_sigma * (ts**4 - tsur**4), rel=1e-9)
+
+
+@pytest.mark.parametrize(
+    "conductance",
+    [
+        lambda r: 40.0,  # a liquid film: constant
+        lambda r: 12.0 * (1.0 + 0.02 * r) ** 0.25 + 0.3,  # free convection rising with dT
+        lambda r: 55.0 / (1.0 + 1e-3 * r),  # a forced film falling a little as the air warms
+        lambda r: 55.0 / (1.0 + 0.05 * r),  # falling faster: the bracket must widen
+    ],
+    ids=["constant", "rising", "falling-slightly", "falling"],
+)
+@pytest.mark.parametrize("heat", [1e-3, 35.0, 900.0])
+def test_surface_rise_matches_brentq(conductance: Any, heat: float) -> None:
+    # [calc] external check: scipy.optimize.brentq on dT G(dT) = heat. Tolerance 1e-11
+    # relative: both solve to about 1e-12 of the root.
+    from scipy.optimize import brentq
+
+    from emgate.physics.thermal import _solve_surface_rise
+
+    expected = brentq(lambda r: r * conductance(r) - heat, 0.0, 1e5, xtol=1e-14, rtol=1e-14)
+    assert _solve_surface_rise(heat, conductance) == pytest.approx(expected, rel=1e-11)

@@ -9,7 +9,7 @@ lumped winding-rise estimate (:mod:`emgate.physics.thermal`) needs.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from typing import NamedTuple
 
 #: Standard gravity [m/s^2] (CGPM 1901).
 STANDARD_GRAVITY: float = 9.80665
@@ -29,9 +29,9 @@ AIR_SPECIFIC_HEAT: float = 1007.0
 # --- air and correlations --------------------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class AirProperties:
-    """Dry air at one temperature and pressure (SI).
+class AirProperties(NamedTuple):
+    """Dry air at one temperature and pressure (SI). A named tuple: the thermal network
+    builds one per convection evaluation, and a tuple is built faster than a dataclass.
 
     Parameters
     ----------

@@ -35,6 +35,7 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
+from typing import NamedTuple
 
 from emgate.physics.convection import (
     air_properties,
@@ -86,9 +87,9 @@ def gap_resistance(gap: RotorGap, stack_length: float, air_temperature: float) -
     return 1.0 / (h * math.pi * gap.rotor_diameter * stack_length)
 
 
-@dataclass(frozen=True)
-class ThermalStep:
-    """One link of the heat path.
+class ThermalStep(NamedTuple):
+    """One link of the heat path (a named tuple: the network builds one per link and
+    evaluation).
 
     Parameters
     ----------
@@ -167,15 +168,20 @@ def _solve_surface_rise(heat: float, conductance: Callable[[float], float]) -> f
         return 0.0
     # With G non-decreasing the root lies in [heat / G(hi), heat / G(0)]: two evaluations
     # instead of doubling a bracket from 1 K. Each end is checked, not assumed (a forced
-    # film's coefficient may fall a little as the air warms), and widened if it fails.
+    # film's coefficient may fall a little as the air warms), and widened if it fails; an
+    # end that fails bounds the root from its side all the same, and is kept.
+    lo, f_lo = 0.0, -heat
     hi = min(heat / conductance(1e-6), _MAX_SURFACE_RISE)
     while (f_hi := hi * (g_hi := conductance(hi)) - heat) < 0.0:
         if hi >= _MAX_SURFACE_RISE:
             raise ValueError("the surface cannot shed this heat at any plausible temperature")
+        lo, f_lo = hi, f_hi
         hi = min(2.0 * hi, _MAX_SURFACE_RISE)
-    lo = heat / g_hi
-    if not (f_lo := lo * conductance(lo) - heat) <= 0.0:
-        lo, f_lo = 0.0, -heat
+    if lo < (x := heat / g_hi) < hi:
+        if (f_x := x * conductance(x) - heat) <= 0.0:
+            lo, f_lo = x, f_x
+        else:
+            hi, f_hi = x, f_x
     # the ends' values go with them: the solver need not compute them again
     return solve_increasing(lambda rise: rise * conductance(rise) - heat, lo, hi, ends=(f_lo, f_hi))
 
@@ -207,7 +213,8 @@ def _air_surface(
     # At zero heat, report the resistance the surface has as dT tends to 0.
     rise = max(_solve_surface_rise(heat, conductance), 1e-6)
     h_rad = radiation_coefficient(par.emissivity, t_c + rise, t_c) if radiating_area else 0.0
-    return h_air(rise), h_rad, 1.0 / conductance(rise)
+    h = h_air(rise)
+    return h, h_rad, 1.0 / (h * air_area + h_rad * radiating_area)  # conductance(rise)
 
 
 def winding_temperature_rise(

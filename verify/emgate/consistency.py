@@ -18,7 +18,7 @@ from emgate.terms import RecordPath
 def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     """Physically impossible combinations of otherwise valid values."""
     from emgate import geometry
-    from emgate.physics.winding import feasibility
+    from emgate.calc.winding import feasibility, winding_of
 
     out: list[tuple[RecordPath, str]] = []
     st = d.stator
@@ -67,7 +67,7 @@ def consistency_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             )
         )
     if w.layout is None:
-        reason = feasibility(st.slots, d.pole_pairs, w.phases, w.layers)
+        reason = feasibility(winding_of(d))
         if reason:
             out.append((("stator", "slots"), f"no balanced winding: {reason}"))
     elif len(w.layout) != st.slots:
@@ -124,8 +124,8 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
     """What the kernel cannot build: asked of the kernel itself, so that the record, not a
     rule, is reported (exit 2, at the field)."""
     from emgate.calc import conductor_strand_area, slot_winding_area
+    from emgate.calc.winding import parallel_path_counts, winding_layout, winding_of
     from emgate.physics.magnetic_surface_pm import remanence_at
-    from emgate.physics.star_of_slots import parallel_path_counts, star_of_slots
     from emgate.physics.winding import series_turns_per_phase
 
     out: list[tuple[RecordPath, str]] = []
@@ -138,12 +138,9 @@ def _buildable_problems(d: AnyDesign) -> list[tuple[RecordPath, str]]:
             out.append((path, str(exc)))
 
     if w.layout is None and 1 <= w.coil_pitch <= st.slots - 1:
-        attempt(
-            ("winding", "coil_pitch"),
-            lambda: star_of_slots(st.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch),
-        )
+        attempt(("winding", "coil_pitch"), lambda: winding_layout(winding_of(d)))
     if w.layout is None and not out and 1 <= w.coil_pitch <= st.slots - 1:
-        paths = parallel_path_counts(st.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch)
+        paths = parallel_path_counts(winding_of(d))
         if w.parallel_paths not in paths:
             out.append(
                 (

@@ -15,6 +15,8 @@ from emgate.calc.core import Calculation, memo, quantity
 if TYPE_CHECKING:
     import numpy as np
 
+    from emgate.model import AnyDesign
+
 
 class Winding(NamedTuple):
     """Everything the winding's own analysis reads: nothing of the record beyond it."""
@@ -27,11 +29,15 @@ class Winding(NamedTuple):
     table: tuple[str, ...] | None  # the record's explicit slot table, if it gives one
 
 
+def winding_of(d: AnyDesign) -> Winding:
+    w = d.winding
+    table = None if w.layout is None else tuple(w.layout)
+    return Winding(d.stator.slots, d.pole_pairs, w.phases, w.layers, w.coil_pitch, table)
+
+
 @memo
 def spec(c: Calculation) -> Winding:
-    w = c.d.winding
-    table = None if w.layout is None else tuple(w.layout)
-    return Winding(c.d.stator.slots, c.d.pole_pairs, w.phases, w.layers, w.coil_pitch, table)
+    return winding_of(c.d)
 
 
 #: Once per distinct winding in the process: what a function of a :class:`Winding` returns
@@ -55,6 +61,23 @@ def winding_layout(w: Winding) -> np.ndarray:
         out = star_of_slots(w.slots, w.pole_pairs, w.phases, w.layers, w.coil_pitch)
     out.flags.writeable = False
     return out
+
+
+@per_winding
+def feasibility(w: Winding) -> str | None:
+    """Why no balanced winding exists for these slots, poles, phases and layers (None if one
+    does): emgate.physics.winding.feasibility."""
+    from emgate.physics.winding import feasibility
+
+    return feasibility(w.slots, w.pole_pairs, w.phases, w.layers)
+
+
+@per_winding
+def parallel_path_counts(w: Winding) -> tuple[int, ...]:
+    """The numbers of parallel paths whose EMFs are equal (the star of slots' layout)."""
+    from emgate.physics.star_of_slots import parallel_path_counts
+
+    return tuple(parallel_path_counts(w.slots, w.pole_pairs, w.phases, w.layers, w.coil_pitch))
 
 
 @quantity("winding.series_turns")
@@ -111,11 +134,11 @@ def winding_problems(c: Calculation) -> list[str]:
 
 @per_winding
 def _winding_problems(w: Winding) -> tuple[str, ...]:
-    from emgate.physics.winding import balance, feasibility
+    from emgate.physics.winding import balance
 
     problems = list(balance(winding_layout(w), w.pole_pairs))
     if w.table is not None:
-        reason = feasibility(w.slots, w.pole_pairs, w.phases, w.layers)
+        reason = feasibility(w)
         if reason:
             problems.append(reason)
     return tuple(problems)

@@ -135,3 +135,17 @@ def test_the_shared_layout_is_read_only() -> None:
     assert layout is winding.layout(calculation(PUMP))  # shared, not recomputed
     with pytest.raises(ValueError, match="read-only"):
         layout[0, 0] = 0
+
+
+@pytest.mark.parametrize("turns, current", [(1.0, 1.0), (7.0, 13.3), (23.0, 0.41)])
+def test_the_mmf_peak_scales_the_windings_unit_peak(turns: float, current: float) -> None:
+    """The sheet's MMF peak is the winding's peak for one turn and one ampere, scaled: the
+    staircase is linear in both. Held to the kernel's own peak at those turns and current,
+    within 1e-14 relative (a few rounding steps)."""
+    from emgate.calc import winding
+    from emgate.physics.mmf import mmf_peak
+
+    c = calculation(PUMP)
+    unit = winding._unit_mmf_peak(winding.spec(c))
+    expected = mmf_peak(winding.layout(c), turns, current)
+    assert unit * turns * current == pytest.approx(expected, rel=1e-14)

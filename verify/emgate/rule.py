@@ -167,13 +167,13 @@ class Options(BaseModel):
         """The options with every default, as ``cls()`` gives them. With no model validator
         nothing would be validated (pydantic does not validate defaults), so the instance is
         built without the model's validator; and, when every default is immutable, once."""
+        shared = _DEFAULTS.get(cls)
+        if shared is not None:
+            return shared
         if cls.__pydantic_decorators__.model_validators or any(
             f.is_required() for f in cls.model_fields.values()
         ):
             return cls()  # its validators run; a missing required field is the error it was
-        shared = _DEFAULTS.get(cls)
-        if shared is not None:
-            return shared
         options = cls.model_construct()
         if all(_immutable(v) for v in options.__dict__.values()):
             _DEFAULTS[cls] = options

@@ -171,10 +171,17 @@ def mmf_fundamental(c: Calculation) -> float:
 
 @quantity("winding.mmf_peak")
 def mmf_peak(c: Calculation) -> float:
+    # The staircase is linear in the coil turns and the conductor current: the winding's
+    # peak for one turn and one ampere, scaled.
+    w = c.d.winding
+    return _unit_mmf_peak(spec(c)) * w.turns_per_coil * (phase_current(c) / w.parallel_paths)
+
+
+@per_winding
+def _unit_mmf_peak(w: Winding) -> float:
     from emgate.physics.mmf import mmf_peak
 
-    w = c.d.winding
-    return mmf_peak(layout(c), w.turns_per_coil, phase_current(c) / w.parallel_paths)
+    return mmf_peak(winding_layout(w), 1.0, 1.0)
 
 
 def layout_from_table(table: list[str], phases: int) -> np.ndarray:

@@ -15,6 +15,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable
 from dataclasses import dataclass
+from functools import cache
 from typing import (
     TYPE_CHECKING,
     Annotated,
@@ -80,6 +81,18 @@ class Limit:
 _UNHANDLED = object()
 #: Each options class's defaults, where no rule can change them (frozen, immutable values).
 _DEFAULTS: dict[type[Options], Options] = {}
+
+
+@cache
+def _limits(cls: type[Options]) -> dict[str, tuple[str | None, Any]]:
+    """Per field of an options class: the declared source of its default (None for a plain
+    option) and the default, read once (a finding asks for them at every check)."""
+    out: dict[str, tuple[str | None, Any]] = {}
+    for name, info in cls.model_fields.items():
+        extra = info.json_schema_extra
+        source = extra.get(_SOURCE_KEY) if isinstance(extra, dict) else None
+        out[name] = (None if source is None else str(source), info.default)
+    return out
 
 
 def _immutable(value: object) -> bool:
@@ -182,16 +195,15 @@ class Options(BaseModel):
     @classmethod
     def source_of(cls, field: str) -> str | None:
         """The declared source of a field's default limit, None for a plain option."""
-        extra = cls.model_fields[field].json_schema_extra
-        return str(extra[_SOURCE_KEY]) if isinstance(extra, dict) and _SOURCE_KEY in extra else None
+        return _limits(cls)[field][0]
 
     def basis(self, field: str) -> str:
         """Where the limit in ``field`` comes from: its declared source while it is the
         default, else the team's configuration. A limit the team writes in other units ('45
         %', '0.2 mm') may differ from the default in the last bit only; that is still the
         default."""
-        source = self.source_of(field)
-        value, default = getattr(self, field), type(self).model_fields[field].default
+        source, default = _limits(type(self))[field]
+        value = getattr(self, field)
         if (
             source is not None
             and isinstance(value, float)

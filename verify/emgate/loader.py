@@ -36,6 +36,7 @@ _FLOAT = re.compile(r"[-+]?(\.[0-9]+|[0-9]+(\.[0-9]*)?)([eE][-+]?[0-9]+)?")
 _OCTALISH = re.compile(r"[-+]?0[0-9_]+|0o[0-7]+|0x[0-9a-fA-F]+|0b[01]+")
 _BOOL11 = {"yes", "no", "on", "off", "y", "n"}
 _NONFINITE = re.compile(r"[-+]?\.(inf|nan)", re.IGNORECASE)
+_SCALAR = yaml.ScalarEvent
 _PLAIN_TAGS = {
     None,
     "!",
@@ -154,6 +155,18 @@ class _Builder:
         self.nodes += 1
         if self.nodes > MAX_NODES:
             raise self.fail(event.start_mark, f"more than {MAX_NODES} YAML nodes", path)
+        if type(event) is _SCALAR:  # most nodes: the checks below, in their order, inline
+            tag = event.tag
+            if event.anchor is None and (
+                tag is None
+                or not (
+                    (tag not in _PLAIN_TAGS and not event.implicit[0])
+                    or (tag.startswith("!") and tag != "!")
+                )
+            ):
+                mark = event.start_mark
+                self.doc.marks[path] = (mark.line, mark.column)
+                return self.scalar(event, path)
         if isinstance(event, yaml.AliasEvent):
             raise self.fail(
                 event.start_mark,
@@ -187,22 +200,22 @@ class _Builder:
                 items.append(self.node(stream, item, (*path, len(items)), depth + 1))
         if isinstance(event, yaml.MappingStartEvent):
             mapping: dict[str, Any] = {}
+            key_marks = self.doc.key_marks
             for key_event in stream:
                 if isinstance(key_event, yaml.MappingEndEvent):
                     return mapping
                 key = self.key(key_event, path)
+                sub = (*path, key)
                 if key in mapping:
-                    first = self.doc.key_marks[(*path, key)]
+                    first = key_marks[sub]
                     raise self.fail(
                         key_event.start_mark,
                         f"duplicate key {key!r} (first given at line {first[0] + 1})",
-                        (*path, key),
+                        sub,
                     )
-                self.doc.key_marks[(*path, key)] = (
-                    key_event.start_mark.line,
-                    key_event.start_mark.column,
-                )
-                mapping[key] = self.node(stream, next(stream), (*path, key), depth + 1)
+                mark = key_event.start_mark
+                key_marks[sub] = (mark.line, mark.column)
+                mapping[key] = self.node(stream, next(stream), sub, depth + 1)
         raise self.fail(event.start_mark, f"unexpected YAML event {type(event).__name__}", path)
 
     def key(self, event: Any, path: RecordPath) -> str:
@@ -222,6 +235,8 @@ class _Builder:
             raise self.fail(event.start_mark, f"text longer than {MAX_SCALAR} characters", path)
         if event.style or event.tag == "tag:yaml.org,2002:str":
             return value  # quoted or block scalars are text
+        if " " in value:
+            return value  # no null, boolean or number has a space: '0.45 mm' is text
         if value in ("", "~", "null", "Null", "NULL"):
             return None
         if value in ("true", "True", "TRUE"):

@@ -149,3 +149,24 @@ def test_the_mmf_peak_scales_the_windings_unit_peak(turns: float, current: float
     unit = winding._unit_mmf_peak(winding.spec(c))
     expected = mmf_peak(winding.layout(c), turns, current)
     assert unit * turns * current == pytest.approx(expected, rel=1e-14)
+
+
+@pytest.mark.parametrize("turns, current", [(1.0, 1.0), (11.0, 6.5), (40.0, 0.2)])
+def test_the_magnet_eddy_waves_scale_the_windings_unit_waves(turns: float, current: float) -> None:
+    """The magnet eddy estimate takes the winding's travelling waves for one turn and one
+    ampere, scaled: the same orders and directions as the kernel's waves at those turns and
+    current, and amplitudes within 1e-14 relative (a few rounding steps)."""
+    import numpy as np
+
+    from conftest import SERVO
+    from emgate.calc import losses, winding
+    from emgate.physics.losses import mmf_travelling_waves
+
+    c = calculation(SERVO)
+    unit = losses._unit_waves(winding.spec(c))
+    expected = mmf_travelling_waves(
+        winding.layout(c), turns, current, c.d.pole_pairs, 40 * c.d.stator.slots
+    )
+    assert np.array_equal(unit.orders, expected.orders)
+    assert np.array_equal(unit.directions, expected.directions)
+    np.testing.assert_allclose(unit.amplitudes * (turns * current), expected.amplitudes, rtol=1e-14)

@@ -164,7 +164,7 @@ class _Builder:
                     or (tag.startswith("!") and tag != "!")
                 )
             ):
-                mark = event.start_mark
+                mark: Any = event.start_mark
                 self.doc.marks[path] = (mark.line, mark.column)
                 return self.scalar(event, path)
         if isinstance(event, yaml.AliasEvent):

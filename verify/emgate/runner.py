@@ -25,6 +25,7 @@ from typing import TYPE_CHECKING
 from emgate.plugins import describe_exception, users_interrupt, watching_interrupts
 from emgate.rule import Check, Context, Options, Problem, Rule, winding_path
 from emgate.terms import SEVERITIES
+from emgate.units import QuantityError, parse_unit
 
 if TYPE_CHECKING:
     from emgate.model import AnyDesign
@@ -111,7 +112,6 @@ def crash_text(exc: BaseException) -> str:
 
 def _malformed(item: object) -> str:
     """Why a rule's output cannot be reported ('' if it can): the reporters rely on it."""
-    from emgate.units import QuantityError, parse_unit
 
     def path_problem(path: object) -> str:
         if not isinstance(path, tuple | list) or not all(

@@ -15,10 +15,12 @@ from emgate import geometry as geo
 from emgate.calc import conductors, magnetic, winding
 from emgate.calc.conductors import conductor_strand_area
 from emgate.calc.core import Calculation, memo, quantity
+from emgate.calc.winding import Winding, per_winding
 
 if TYPE_CHECKING:
     from emgate.model import AnyDesign
     from emgate.physics.iron_loss import LossCurve, LossSplit
+    from emgate.physics.losses import TravellingWaves
 
 #: Density taken for a repository steel that states none [kg/m^3]: the heaviest built-in
 #: grade (more mass, more loss: the safe side).
@@ -182,19 +184,15 @@ def magnet_eddy_estimate(c: Calculation) -> float:
     d = c.d
     m = geo.magnet_rotor(d).magnet
     w = d.winding
-    waves = lk.mmf_travelling_waves(
-        winding.layout(c),
-        w.turns_per_coil,
-        winding.phase_current(c) / w.parallel_paths,
-        d.pole_pairs,
-        40 * d.stator.slots,
-    )
+    waves = _unit_waves(winding.spec(c))
+    # the waves are linear in the coil turns and the conductor current, as the staircase is
+    scale = w.turns_per_coil * (winding.phase_current(c) / w.parallel_paths)
     r_out = geo.rotor_outer_diameter(d) / 2.0 - geo.magnet_rotor(d).sleeve_thickness
     volume = m.pole_arc * math.pi * (r_out**2 - (r_out - m.thickness) ** 2)
     volume *= d.stator.stack_length
     return lk.magnet_eddy_loss(
         waves.orders,
-        waves.amplitudes,
+        waves.amplitudes * scale,
         waves.directions,
         pole_pairs=d.pole_pairs,
         frequency=d.rating.frequency,
@@ -202,6 +200,18 @@ def magnet_eddy_estimate(c: Calculation) -> float:
         rotor_radius=r_out,
         magnet_volume=volume,
     )
+
+
+@per_winding
+def _unit_waves(w: Winding) -> TravellingWaves:
+    """The winding's MMF travelling waves for one turn and one ampere, up to 40 times the
+    slot count in order (read-only: they are shared)."""
+    from emgate.physics import losses as lk
+
+    waves = lk.mmf_travelling_waves(winding.winding_layout(w), 1.0, 1.0, w.pole_pairs, 40 * w.slots)
+    for array in (waves.orders, waves.amplitudes, waves.directions):
+        array.flags.writeable = False
+    return waves
 
 
 @quantity("losses.rotor")

@@ -7,13 +7,15 @@ the change) a steel it uses changed, or when the configuration or the waivers fi
 
 from __future__ import annotations
 
-import subprocess
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from emgate.config import CONFIG_NAME, WAIVERS_NAME
 from emgate.errors import InputError
+
+if TYPE_CHECKING:
+    import subprocess
 
 
 @dataclass
@@ -39,6 +41,8 @@ class ChangeSet:
 
 
 def _git(args: list[str], cwd: Path) -> subprocess.CompletedProcess[str]:
+    import subprocess  # here: a check without --changed-since never starts git
+
     try:
         return subprocess.run(
             ["git", *args], cwd=cwd, capture_output=True, text=True, check=False, timeout=60

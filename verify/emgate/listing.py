@@ -11,7 +11,6 @@ ignore them (a fresh repository with a ``.venv`` and no ``.gitignore``).
 from __future__ import annotations
 
 import os
-import subprocess
 from pathlib import Path
 
 SUFFIXES = (".yaml", ".yml")
@@ -71,6 +70,8 @@ def _parts(name: str) -> list[str] | Path:
 def _git_listing(root: Path) -> list[str] | None:
     """Git's files under ``root``, or None when ``root`` is not in a work tree (or git is
     missing or does not answer): then the caller walks the folder instead."""
+    import subprocess  # here: a check of named files lists no folder
+
     try:
         done = subprocess.run(
             ["git", "ls-files", "-z", "--cached", "--others", "--exclude-standard", "--", "."],

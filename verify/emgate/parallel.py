@@ -10,7 +10,6 @@ work is too small to pay for the workers, the map runs in this process.
 
 from __future__ import annotations
 
-import multiprocessing
 import os
 from collections.abc import Callable, Iterator, Sequence
 from typing import Any, TypeVar
@@ -35,10 +34,12 @@ def available_cores() -> int:
 
 def workers_for(items: int, jobs: int) -> int:
     """How many worker processes ``jobs`` gives for ``items`` (0: run in this process)."""
-    if jobs <= 1 or "fork" not in multiprocessing.get_all_start_methods():
-        return 0
     n = min(jobs, items // MIN_ITEMS_PER_WORKER)
-    return n if n >= 2 else 0
+    if n < 2:
+        return 0
+    import multiprocessing  # here: a check of a few records starts no worker
+
+    return n if "fork" in multiprocessing.get_all_start_methods() else 0
 
 
 def _call(index: int) -> Any:
@@ -59,6 +60,8 @@ def ordered_map(fn: Callable[[T], R], items: Sequence[T], jobs: int) -> Iterator
     chunk = max(1, min(32, len(items) // (workers * 8)))
     _WORK = (fn, items)
     try:
+        import multiprocessing
+
         with multiprocessing.get_context("fork").Pool(workers) as pool:
             yield from pool.imap(_call, range(len(items)), chunksize=chunk)
     finally:

@@ -217,7 +217,7 @@ def test_the_default_check_takes_each_limit_as_pydantic_validates_it() -> None:
     """The check at class definition runs a limit's text through the field's converters
     without building the validator; pydantic's own validation of the same text is the
     reference, for every limit of every installed rule (bundled and the sample pack)."""
-    from emgate.rule import _metadata, _through_field
+    from emgate.rule import _UNHANDLED, _field_validated, _float_metadata, _plain, _through_field
 
     limits = 0
     for cls in _installed_options():
@@ -226,7 +226,11 @@ def test_the_default_check_takes_each_limit_as_pydantic_validates_it() -> None:
                 continue
             text = str(info.json_schema_extra["default_text"])  # type: ignore[index]
             data: Any = float(text) if " " not in text else text
-            ours = _through_field(_metadata(info), data)
+            metadata = _float_metadata(info)
+            fast = _plain(cls) and not _field_validated(cls, name) and metadata is not None
+            assert fast, (cls.__name__, name)  # every installed limit takes the fast path
+            ours = _through_field(metadata, data)
+            assert ours is not _UNHANDLED, (cls.__name__, name)
             theirs = getattr(cls.model_validate({name: data}), name)
             assert ours == theirs, (cls.__name__, name)  # the same float, bit for bit
             limits += 1
@@ -241,7 +245,7 @@ def test_a_default_outside_its_fields_bounds_or_optional_of_the_wrong_unit_is_re
         class Above(Options):
             share: float = limit(0.95, "", "common practice, no source", le=0.91)
 
-    with pytest.raises(TypeError, match="optional"):
+    with pytest.raises(TypeError, match="which is a length"):
 
         class Optional(Options):
             optional: FluxDensity | None = limit(2.0, "mm", "common practice, no source")
@@ -267,8 +271,86 @@ def test_a_limit_with_a_validator_of_its_own_is_checked_by_pydantic() -> None:
             )
 
 
+def _refused_option_classes() -> dict[str, Any]:
+    """Options classes whose declared default pydantic refuses, each in another way: the
+    default check must refuse them all when the class is defined, whatever path it takes."""
+    from typing import Literal
+
+    from pydantic import ConfigDict, field_validator
+
+    from emgate.api import FluxDensity, Options, Ratio, limit
+
+    src = "common practice, no source"
+
+    def field_validated() -> type:
+        class FieldValidated(Options):
+            share: Ratio = limit(1.5, "1", src)
+
+            @field_validator("share")
+            @classmethod
+            def _at_most_one(cls, v: float) -> float:
+                if v > 1.0:
+                    raise ValueError("a share above 1 is meaningless")
+                return v
+
+        return FieldValidated
+
+    def whole() -> type:
+        class Whole(Options):
+            count: int = limit(2.5, "1", src)
+
+        return Whole
+
+    def choice() -> type:
+        class Choice(Options):
+            level: Literal[1.0, 2.0] = limit(1.5, "1", src)
+
+        return Choice
+
+    def text() -> type:
+        class Text(Options):
+            name: str = limit(1.5, "1", src)
+
+        return Text
+
+    def optional_bounded() -> type:  # the field's gt must not hide the type's own range
+        class OptionalBounded(Options):
+            share: Ratio | None = limit(2000.0, "1", src, gt=0)
+
+        return OptionalBounded
+
+    def either() -> type:
+        class Either(Options):
+            value: Ratio | FluxDensity = limit(2000.0, "1", src)
+
+        return Either
+
+    def finite() -> type:
+        class Finite(Options):
+            model_config = ConfigDict(allow_inf_nan=False)
+            share: float = limit(math.inf, "1", src)
+
+        return Finite
+
+    return {
+        "field validator": field_validated,
+        "int": whole,
+        "literal": choice,
+        "str": text,
+        "optional with a bound": optional_bounded,
+        "union of quantities": either,
+        "no infinity": finite,
+    }
+
+
+@pytest.mark.parametrize("case", sorted(_refused_option_classes()))
+def test_a_default_that_pydantic_refuses_is_refused_at_definition(case: str) -> None:
+    with pytest.raises(TypeError, match="default"):
+        _refused_option_classes()[case]()
+
+
 def test_defaults_are_the_options_that_the_class_gives() -> None:
-    from pydantic import ValidationError, model_validator
+    from pydantic import Field, PrivateAttr, ValidationError, model_validator
 
     from emgate.api import Options
 
@@ -306,11 +388,25 @@ def test_defaults_are_the_options_that_the_class_gives() -> None:
     with pytest.raises(ValidationError, match="needed"):
         Required.defaults()
 
+    class Validated(Options):  # a default to validate: cls() validates it, so do defaults()
+        count: int = Field(2, validate_default=True, ge=3)
+
+    with pytest.raises(ValidationError, match="count"):
+        Validated.defaults()
+
+    class Kept(Options):  # private state: each run gets its own instance
+        _seen: list[str] = PrivateAttr(default_factory=list)
+        share: float = 0.5
+
+    Kept.defaults()._seen.append("record 1")
+    assert Kept.defaults()._seen == []
+
 
 def test_a_check_that_keeps_the_defaults_builds_no_options_validator() -> None:
-    """Start-up: options the team did not set are never validated, so their validators are
-    not built (pydantic's defer_build); a team's options are: the example repository's
-    emgate.yaml sets current-density's and efficiency's."""
+    """Start-up: emgate's own options that the team did not set are never validated, so
+    their validators are not built (pydantic's defer_build); a team's options are (the
+    example repository's emgate.yaml sets current-density's and efficiency's), and a pack's
+    are built whole when it loads."""
     import subprocess
     import sys
 
@@ -326,7 +422,9 @@ def test_a_check_that_keeps_the_defaults_builds_no_options_validator() -> None:
     out = subprocess.run(
         [sys.executable, "-c", code], capture_output=True, text=True, check=True
     ).stdout
-    assert out.strip().splitlines()[-1] == "['current-density', 'efficiency']"
+    assert out.strip().splitlines()[-1] == (
+        "['brennfeld/stack-aspect', 'current-density', 'efficiency']"
+    )
 
 
 # --- every check names a sheet quantity -----------------------------------------------------

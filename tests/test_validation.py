@@ -14,7 +14,7 @@ from typing import Any
 
 import pytest
 
-from conftest import DELETE, GENSET, STEELS, node_mark, run_cli, write_variant
+from conftest import DELETE, GENSET, PUMP, SERVO, STEELS, node_mark, run_cli, write_variant
 
 THREE_PHASE_LAYOUT = ["+A -C"] * 36  # 36 entries of two coil sides; balance is not the point
 
@@ -277,9 +277,17 @@ def test_invalid_variant_is_one_located_error(
     assert re.search(pattern, error["message"]), error["message"]
 
 
-@pytest.mark.parametrize(
-    "overrides", [{}, *(c[1] for c in CASES)], ids=["valid", *(c[0] for c in CASES)]
-)
+KIND_CASES: list[tuple[str, dict[str, Any]]] = [
+    ("valid", {}),
+    *((c[0], c[1]) for c in CASES),
+    ("another kind's rotor", {"machine": "surface_pm"}),
+    ("no kind", {"machine": DELETE}),
+    ("unknown kind", {"machine": "dc_brush"}),
+    ("kind not text", {"machine": 3}),
+]
+
+
+@pytest.mark.parametrize("overrides", [c[1] for c in KIND_CASES], ids=[c[0] for c in KIND_CASES])
 def test_the_kinds_own_model_gives_what_the_union_gives(
     repo: Path, overrides: dict[str, Any]
 ) -> None:
@@ -301,6 +309,16 @@ def test_the_kinds_own_model_gives_what_the_union_gives(
             return [(e.message, e.location) for e in model_errors(exc, doc)]
 
     assert outcome(_design) == outcome(_design_adapter().validate_python)
+
+
+@pytest.mark.parametrize("path", [PUMP, SERVO, GENSET], ids=lambda p: p.stem)
+def test_each_example_kind_validates_as_the_union_does(path: Path) -> None:
+    """Each machine kind's bundled record: its own model and the union give equal designs."""
+    from emgate.loader import load
+    from emgate.validate import _design, _design_adapter
+
+    data = load(path).data
+    assert _design(data) == _design_adapter().validate_python(data)
 
 
 def test_several_errors_in_one_record_are_all_reported(repo: Path) -> None:

@@ -294,3 +294,12 @@ def test_surface_rise_matches_brentq(conductance: Any, heat: float) -> None:
 
     expected = brentq(lambda r: r * conductance(r) - heat, 0.0, 1e5, xtol=1e-14, rtol=1e-14)
     assert _solve_surface_rise(heat, conductance) == pytest.approx(expected, rel=1e-11)
+
+
+def test_a_surface_that_cannot_shed_the_heat_is_refused() -> None:
+    # [calc] dT G(dT) with G = 55 / (1 + 0.05 dT) W/K tends to 1100 W as dT grows: 2000 W
+    # has no finite rise, and the solver says so rather than return a bound.
+    from emgate.physics.thermal import _solve_surface_rise
+
+    with pytest.raises(ValueError, match="cannot shed"):
+        _solve_surface_rise(2000.0, lambda r: 55.0 / (1.0 + 0.05 * r))

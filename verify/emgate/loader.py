@@ -36,6 +36,7 @@ _FLOAT = re.compile(r"[-+]?(\.[0-9]+|[0-9]+(\.[0-9]*)?)([eE][-+]?[0-9]+)?")
 _OCTALISH = re.compile(r"[-+]?0[0-9_]+|0o[0-7]+|0x[0-9a-fA-F]+|0b[01]+")
 _BOOL11 = {"yes", "no", "on", "off", "y", "n"}
 _NONFINITE = re.compile(r"[-+]?\.(inf|nan)", re.IGNORECASE)
+#: The event type of most nodes, compared by identity on the loader's hot path.
 _SCALAR = yaml.ScalarEvent
 _PLAIN_TAGS = {
     None,
@@ -155,15 +156,9 @@ class _Builder:
         self.nodes += 1
         if self.nodes > MAX_NODES:
             raise self.fail(event.start_mark, f"more than {MAX_NODES} YAML nodes", path)
-        if type(event) is _SCALAR:  # most nodes: the checks below, in their order, inline
+        if type(event) is _SCALAR:  # most nodes: the checks below, without the lookups
             tag = event.tag
-            if event.anchor is None and (
-                tag is None
-                or not (
-                    (tag not in _PLAIN_TAGS and not event.implicit[0])
-                    or (tag.startswith("!") and tag != "!")
-                )
-            ):
+            if event.anchor is None and (tag is None or not _refused_tag(tag, event.implicit[0])):
                 mark: Any = event.start_mark
                 self.doc.marks[path] = (mark.line, mark.column)
                 return self.scalar(event, path)
@@ -181,10 +176,7 @@ class _Builder:
             )
         tag = getattr(event, "tag", None)
         implicit: Any = getattr(event, "implicit", True)
-        explicit_tag = tag not in _PLAIN_TAGS and not (
-            isinstance(event, yaml.ScalarEvent) and implicit[0]
-        )
-        if explicit_tag or (tag is not None and tag.startswith("!") and tag != "!"):
+        if _refused_tag(tag, isinstance(event, yaml.ScalarEvent) and implicit[0]):
             raise self.fail(event.start_mark, f"YAML tags such as {tag!r} are not allowed", path)
         self.doc.marks[path] = (event.start_mark.line, event.start_mark.column)
         if isinstance(event, yaml.ScalarEvent):
@@ -292,6 +284,13 @@ def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:
         elif ch in "]}":
             depth -= 1
     return 1, 1
+
+
+def _refused_tag(tag: str | None, plain_scalar: bool) -> bool:
+    """Whether a node's tag is an explicit one, which is refused: a tag other than the
+    plain ones (a plain scalar's resolved tag excepted), or any local ``!tag``."""
+    explicit = tag not in _PLAIN_TAGS and not plain_scalar
+    return explicit or (tag is not None and tag.startswith("!") and tag != "!")
 
 
 #: Unsaved editor text by resolved path, read in place of the file (``emgate lsp``); the

@@ -101,14 +101,21 @@ def _immutable(value: object) -> bool:
     return isinstance(value, tuple | frozenset) and all(_immutable(v) for v in value)
 
 
-def _metadata(info: FieldInfo) -> list[Any]:
-    """A field's metadata; an optional field's (``FluxDensity | None``) is its type's."""
-    if info.metadata:
-        return info.metadata
-    args = [a for a in get_args(info.annotation) if a is not type(None)]
-    if len(args) == 1 and get_origin(args[0]) is Annotated:
-        return list(get_args(args[0])[1:])
-    return []
+def _float_metadata(info: FieldInfo) -> list[Any] | None:
+    """The metadata of a float field, optional or not (``FluxDensity | None``: its type's
+    and the field's own), flattened; None for a field of any other type."""
+    from annotated_types import GroupedMetadata
+
+    metadata = list(info.metadata)
+    if info.annotation is not float:
+        args = [a for a in get_args(info.annotation) if a is not type(None)]
+        if len(args) != 1 or get_origin(args[0]) is not Annotated:
+            return None
+        inner, *extra = get_args(args[0])
+        if inner is not float:
+            return None
+        metadata = extra + metadata
+    return [g for m in metadata for g in (m if isinstance(m, GroupedMetadata) else (m,))]
 
 
 def _through_field(metadata: list[Any], value: Any) -> Any:
@@ -116,19 +123,18 @@ def _through_field(metadata: list[Any], value: Any) -> Any:
     takes it: the default check of :class:`Options` without building the model's validator.
     :data:`_UNHANDLED` for any other metadata (a pack's own validator, say), which only
     pydantic's own path can apply."""
-    from annotated_types import Ge, GroupedMetadata, Gt, Le, Lt
+    from annotated_types import Ge, Gt, Le, Lt
     from pydantic import AfterValidator, BeforeValidator, WithJsonSchema
 
     from emgate.quantity import DimensionPattern
 
-    metadata = [g for m in metadata for g in (m if isinstance(m, GroupedMetadata) else (m,))]
     validators = [m for m in metadata if isinstance(m, BeforeValidator | AfterValidator)]
     if any(getattr(m.func, "__module__", None) != "emgate.quantity" for m in validators):
         return _UNHANDLED
     for m in reversed(validators):  # pydantic runs the last-declared before validator first
         if isinstance(m, BeforeValidator):
             value = m.func(value)  # type: ignore[call-arg]
-    if isinstance(value, bool) or not isinstance(value, int | float):
+    if isinstance(value, bool) or not isinstance(value, int | float) or not math.isfinite(value):
         return _UNHANDLED
     value = float(value)
     for m in metadata:
@@ -145,6 +151,31 @@ def _through_field(metadata: list[Any], value: Any) -> Any:
         elif not isinstance(m, BeforeValidator | WithJsonSchema | DimensionPattern):
             return _UNHANDLED
     return value
+
+
+#: Config keys of an options model that leave float validation and defaults as the base's.
+_PLAIN_CONFIG = frozenset({"extra", "frozen", "defer_build", "title"})
+
+
+@cache
+def _plain(cls: type[Options]) -> bool:
+    """Whether ``cls()`` validates nothing: no model validator, no validated default, no own
+    ``__init__``, no private state, no config beyond the base's (pydantic validates neither
+    defaults nor, for them, field validators). Then :meth:`Options.defaults` needs no
+    validator, and the default check may take a limit through the field's converters."""
+    return (
+        not cls.__pydantic_decorators__.model_validators
+        and set(cls.model_config) <= _PLAIN_CONFIG
+        and not any(f.validate_default for f in cls.model_fields.values())
+        and not any("__init__" in vars(c) for c in cls.__mro__[: cls.__mro__.index(BaseModel)])
+        and not cls.__private_attributes__
+    )
+
+
+def _field_validated(cls: type[Options], name: str) -> bool:
+    """Whether a field validator of the class applies to the field ``name``."""
+    validators = cls.__pydantic_decorators__.field_validators.values()
+    return any(name in v.info.fields or "*" in v.info.fields for v in validators)
 
 
 class Options(BaseModel):
@@ -166,9 +197,11 @@ class Options(BaseModel):
                 continue
             text = str(extra["default_text"])
             data: Any = float(text) if " " not in text else text
+            fast = _plain(cls) and not _field_validated(cls, name)
+            metadata = _float_metadata(info) if fast else None
             try:  # the declared unit must be one the field itself accepts
-                value = _through_field(_metadata(info), data)
-                if value is _UNHANDLED:  # a validator of its own: pydantic's whole path
+                value: Any = _UNHANDLED if metadata is None else _through_field(metadata, data)
+                if value is _UNHANDLED:  # anything else: pydantic's whole path
                     value = getattr(cls.model_validate({name: data}), name)
             except Exception as exc:
                 raise TypeError(f"{cls.__name__}.{name}: default {text!r}: {exc}") from None
@@ -177,15 +210,13 @@ class Options(BaseModel):
 
     @classmethod
     def defaults(cls) -> Options:
-        """The options with every default, as ``cls()`` gives them. With no model validator
-        nothing would be validated (pydantic does not validate defaults), so the instance is
-        built without the model's validator; and, when every default is immutable, once."""
+        """The options with every default, as ``cls()`` gives them: built without the
+        model's validator where ``cls()`` validates nothing (:func:`_plain`), and once where
+        every default is immutable too."""
         shared = _DEFAULTS.get(cls)
         if shared is not None:
             return shared
-        if cls.__pydantic_decorators__.model_validators or any(
-            f.is_required() for f in cls.model_fields.values()
-        ):
+        if not _plain(cls) or any(f.is_required() for f in cls.model_fields.values()):
             return cls()  # its validators run; a missing required field is the error it was
         options = cls.model_construct()
         if all(_immutable(v) for v in options.__dict__.values()):

@@ -8,7 +8,8 @@ family that share a lamination and a winding (stack lengths, turns, ratings) sha
 from __future__ import annotations
 
 import functools
-from typing import TYPE_CHECKING, NamedTuple
+from collections.abc import Callable
+from typing import TYPE_CHECKING, Any, NamedTuple, TypeVar
 
 from emgate.calc.core import Calculation, memo, quantity
 
@@ -16,6 +17,8 @@ if TYPE_CHECKING:
     import numpy as np
 
     from emgate.model import AnyDesign
+
+T = TypeVar("T")
 
 
 class Winding(NamedTuple):
@@ -40,10 +43,17 @@ def spec(c: Calculation) -> Winding:
     return winding_of(c.d)
 
 
-#: Once per distinct winding in the process: what a function of a :class:`Winding` returns
-#: is shared between records and must not be changed (arrays are read-only). It sees only
-#: the Winding, so it cannot depend on the rest of the record.
-per_winding = functools.lru_cache(maxsize=256)
+#: Every function of a :class:`Winding` that :func:`per_winding` keeps.
+PER_WINDING: list[Any] = []  # their lru_cache wrappers (cache_clear, cache_info)
+
+
+def per_winding(fn: Callable[[Winding], T]) -> Callable[[Winding], T]:
+    """``fn`` computed once per distinct winding in the process (256 windings kept): what it
+    returns is shared between records and must not be changed (arrays are read-only). It
+    sees only the Winding, so it cannot depend on the rest of the record."""
+    cached = functools.lru_cache(maxsize=256)(fn)
+    PER_WINDING.append(cached)
+    return cached
 
 
 def layout(c: Calculation) -> np.ndarray:

@@ -11,7 +11,7 @@ the shared ``base``.
 from __future__ import annotations
 
 import datetime as dt
-from typing import Annotated, Any, Literal
+from typing import Annotated, Any, Literal, get_args
 
 from pydantic import AfterValidator, Field, StringConstraints
 
@@ -112,11 +112,9 @@ Design = Annotated[
 ]
 AnyDesign = InductionDesign | SurfacePMDesign | SalientFieldDesign
 MACHINE_KINDS = ("induction", "surface_pm", "salient_field")
-#: The design model of each machine kind (the union's members by their tag).
+#: The design model of each machine kind: the union's members by their tag.
 DESIGN_MODELS: dict[str, type[AnyDesign]] = {
-    "induction": InductionDesign,
-    "surface_pm": SurfacePMDesign,
-    "salient_field": SalientFieldDesign,
+    get_args(m.model_fields["machine"].annotation)[0]: m for m in get_args(AnyDesign)
 }
 
 #: Tags that pydantic inserts into error locations for discriminated unions.

@@ -206,15 +206,16 @@ def _air_surface(
         v = par.air_velocity if cooling == "enclosed_fan" else par.internal_air_velocity
         return forced_convection_coefficient(flow_length, v, t_c + rise, t_c, par.pressure)
 
-    def conductance(rise: float) -> float:
+    def coefficients(rise: float) -> tuple[float, float, float]:
+        """Convection and radiation coefficients, and the surface's conductance [W/K]."""
+        h = h_air(rise)
         h_r = radiation_coefficient(par.emissivity, t_c + rise, t_c) if radiating_area else 0.0
-        return h_air(rise) * air_area + h_r * radiating_area
+        return h, h_r, h * air_area + h_r * radiating_area
 
     # At zero heat, report the resistance the surface has as dT tends to 0.
-    rise = max(_solve_surface_rise(heat, conductance), 1e-6)
-    h_rad = radiation_coefficient(par.emissivity, t_c + rise, t_c) if radiating_area else 0.0
-    h = h_air(rise)
-    return h, h_rad, 1.0 / (h * air_area + h_rad * radiating_area)  # conductance(rise)
+    rise = max(_solve_surface_rise(heat, lambda r: coefficients(r)[2]), 1e-6)
+    h, h_rad, conductance = coefficients(rise)
+    return h, h_rad, 1.0 / conductance
 
 
 def winding_temperature_rise(

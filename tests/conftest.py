@@ -420,12 +420,15 @@ def browser() -> Iterator[Any]:
 
 
 def requests(drv: Any) -> list[str]:
-    """The addresses a browser asked for since its performance log was last read."""
+    """The addresses the pages asked for since the browser's performance log was last read;
+    not those of Chromium's own pages (``chrome://``), which it may open in the background."""
     urls = []
     for entry in drv.get_log("performance"):
         msg = json.loads(entry["message"])["message"]
         if msg.get("method") == "Network.requestWillBeSent":
-            urls.append(msg["params"]["request"]["url"])
+            params = msg["params"]
+            if not str(params.get("documentURL", "")).startswith("chrome:"):
+                urls.append(params["request"]["url"])
     return urls
 
 

@@ -283,6 +283,18 @@ def pages(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
 EXPECTED_PLOTS = {"section", "slot", "star", "mmf", "spectrum", "ampere-turns", "thermal"}
 
 
+def test_the_request_log_sees_a_pages_request_for_an_outside_address(
+    browser: Any, tmp_path: Path
+) -> None:
+    """The offline checks below rest on the performance log: a page that asks for an outside
+    address shows it there (the request fails: ``.invalid`` never resolves, RFC 2606)."""
+    page = tmp_path / "outside.html"
+    page.write_text('<!doctype html><img src="https://emgate.invalid/x.png">', encoding="utf-8")
+    browser.get_log("performance")
+    browser.get(page.as_uri())
+    assert "https://emgate.invalid/x.png" in requests(browser)
+
+
 @pytest.mark.parametrize("record", ["pump-drive-4p36s", "servo-10p12s", "genset-4p48s"])
 def test_page_loads_offline_without_console_errors(
     browser: Any, pages: dict[str, Path], record: str

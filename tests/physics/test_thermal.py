@@ -303,3 +303,38 @@ def test_a_surface_that_cannot_shed_the_heat_is_refused() -> None:
 
     with pytest.raises(ValueError, match="cannot shed"):
         _solve_surface_rise(2000.0, lambda r: 55.0 / (1.0 + 0.05 * r))
+
+
+@pytest.mark.parametrize("method", ["enclosed_natural", "enclosed_fan", "open_ventilated"])
+@pytest.mark.parametrize("ratio", [1.0, 1.07, 0.93, 20.0, 0.05], ids=lambda r: f"heat x{r}")
+def test_a_surface_solve_started_from_a_near_one_gives_the_same_estimate(
+    method: str, ratio: float
+) -> None:
+    """A fixed point's next iterate starts its surface solve from the last one's (heat,
+    rise): the estimate is the one computed from scratch, within 1e-11 relative (both solve
+    to about 1e-12), whether the near solution is close, the same or far; and from a wrong
+    one (ten times the rise), whose bracket fails its check, the solve starts over."""
+    from emgate.physics.thermal import machine_temperature_rise
+    from emgate.physics.thermal_inputs import HeatSources
+
+    geom = demo_geometry()
+    before = machine_temperature_rise(HeatSources(copper_slot=400.0, iron_yoke=150.0), geom, method)
+    assert before.air_surface is not None
+    sources = HeatSources(copper_slot=400.0 * ratio, iron_yoke=150.0)
+    cold = machine_temperature_rise(sources, geom, method)
+    warm = machine_temperature_rise(sources, geom, method, surface_near=before.air_surface)
+    assert warm.winding_rise == pytest.approx(cold.winding_rise, rel=1e-11)
+    assert warm.steps[-1].resistance == pytest.approx(cold.steps[-1].resistance, rel=1e-11)
+    assert warm.convection_coefficient == pytest.approx(cold.convection_coefficient, rel=1e-11)
+    wrong = (before.air_surface[0], 10.0 * before.air_surface[1])
+    astray = machine_temperature_rise(sources, geom, method, surface_near=wrong)
+    assert astray.winding_rise == pytest.approx(cold.winding_rise, rel=1e-11)
+
+
+def test_a_liquid_boundary_has_no_air_surface_to_start_from() -> None:
+    from emgate.physics.thermal import machine_temperature_rise
+    from emgate.physics.thermal_inputs import HeatSources
+
+    sources = HeatSources(copper_slot=400.0, iron_yoke=150.0)
+    for method in ("liquid_jacket", "direct_liquid"):
+        assert machine_temperature_rise(sources, demo_geometry(), method).air_surface is None

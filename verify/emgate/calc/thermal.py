@@ -105,16 +105,20 @@ def operating_point(c: Calculation) -> OperatingPoint:
     geometry, params, gap = _network(c)
     sources = heat_sources(c)
     d = c.d
+    last: list[ThermalEstimate] = []  # the previous iterate: its surface solve starts the next
 
     def estimate(copper: float) -> ThermalEstimate:
-        return machine_temperature_rise(
+        est = machine_temperature_rise(
             sources.with_copper(copper),
             geometry,
             d.cooling.method,
             coolant_temperature=d.cooling.ambient,
             parameters=params,
             rotor_gap=None if d.cooling.method == "open_ventilated" else gap,
+            surface_near=last[0].air_surface if last else None,
         )
+        last[:] = [est]
+        return est
 
     return operating_temperature(
         sources.copper, conductors.conductor_material(c).alpha20, estimate, d.cooling.ambient

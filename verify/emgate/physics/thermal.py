@@ -133,6 +133,10 @@ class ThermalEstimate:
         the gap (:func:`gap_resistance`); None where not estimated.
     sources : HeatSources or None
         The losses the estimate was fed.
+    air_surface : (float, float) or None
+        Heat [W] and rise [K] of the air-cooled surface whose temperature was solved for;
+        None for a liquid-cooled boundary. What ``surface_near`` of
+        :func:`machine_temperature_rise` takes, for the next iterate of a fixed point.
     """
 
     method: str
@@ -144,6 +148,7 @@ class ThermalEstimate:
     radiation_coefficient: float
     rotor_temperature: float | None = None
     sources: HeatSources | None = None
+    air_surface: tuple[float, float] | None = None
 
     @property
     def resistances(self) -> dict[str, float]:
@@ -162,10 +167,35 @@ def _cylinder_resistance(r_in: float, r_out: float, conductivity: float, length:
 _MAX_SURFACE_RISE = 65536.0
 
 
-def _solve_surface_rise(heat: float, conductance: Callable[[float], float]) -> float:
-    """Rise dT with dT * conductance(dT) = heat, conductance(dT) [W/K] non-decreasing."""
+#: The margin [-] a bracket taken from a near solution is widened by on each side: a forced
+#: film's conductance may fall a little as the air warms.
+_NEAR_MARGIN = 0.01
+
+
+def _solve_surface_rise(
+    heat: float,
+    conductance: Callable[[float], float],
+    near: tuple[float, float] | None = None,
+) -> float:
+    """Rise dT with dT * conductance(dT) = heat, conductance(dT) [W/K] non-decreasing.
+
+    ``near`` is (heat, rise) of a solution of the same surface, such as the last iterate's
+    of a fixed point. With G non-decreasing the root for k times that heat lies between the
+    rise and k times it: two evaluations bracket it closely. The ends are checked; where
+    they fail, the bracket is found as without it.
+    """
     if heat <= 0.0:
         return 0.0
+    if near is not None and near[0] > 0.0 and near[1] > 0.0:
+        k = heat / near[0]
+        lo = near[1] * min(1.0, k) * (1.0 - _NEAR_MARGIN)
+        hi = min(near[1] * max(1.0, k) * (1.0 + _NEAR_MARGIN), _MAX_SURFACE_RISE)
+        if lo < hi:
+            f_lo, f_hi = lo * conductance(lo) - heat, hi * conductance(hi) - heat
+            if f_lo <= 0.0 <= f_hi:
+                return solve_increasing(
+                    lambda rise: rise * conductance(rise) - heat, lo, hi, ends=(f_lo, f_hi)
+                )
     # With G non-decreasing the root lies in [heat / G(hi), heat / G(0)]: two evaluations
     # instead of doubling a bracket from 1 K. Each end is checked, not assumed (a forced
     # film's coefficient may fall a little as the air warms), and widened if it fails; an
@@ -195,9 +225,11 @@ def _air_surface(
     flow_length: float,
     coolant_temperature: float,
     par: ThermalParameters,
+    near: tuple[float, float] | None = None,
 ) -> tuple[float, float, float]:
     """Convection coefficient, radiation coefficient and resistance [K/W] of an air-cooled
-    surface, at the surface temperature that sheds ``heat``."""
+    surface, at the surface temperature that sheds ``heat`` (``near``: as
+    :func:`_solve_surface_rise`)."""
     t_c = coolant_temperature
 
     def h_air(rise: float) -> float:
@@ -213,7 +245,7 @@ def _air_surface(
         return h, h_r, h * air_area + h_r * radiating_area
 
     # At zero heat, report the resistance the surface has as dT tends to 0.
-    rise = max(_solve_surface_rise(heat, lambda r: coefficients(r)[2]), 1e-6)
+    rise = max(_solve_surface_rise(heat, lambda r: coefficients(r)[2], near), 1e-6)
     h, h_rad, conductance = coefficients(rise)
     return h, h_rad, 1.0 / conductance
 
@@ -274,6 +306,7 @@ def machine_temperature_rise(
     coolant_temperature: float = 313.15,
     parameters: ThermalParameters | None = None,
     rotor_gap: RotorGap | None = None,
+    surface_near: tuple[float, float] | None = None,
 ) -> ThermalEstimate:
     """Lumped steady-state rise of the mean winding temperature, every loss where it arises.
 
@@ -301,6 +334,10 @@ def machine_temperature_rise(
     parameters : ThermalParameters, optional
     rotor_gap : RotorGap, optional
         With it, the rotor temperature is estimated (:func:`gap_resistance`).
+    surface_near : (float, float), optional
+        ``air_surface`` of an estimate of the same machine with other losses (the last
+        iterate of a fixed point): the air surface's solve starts from it. The result is
+        the same within the solver's tolerance.
 
     Returns
     -------
@@ -342,6 +379,7 @@ def machine_temperature_rise(
     total = src.total
 
     links: list[tuple[str, float, float]] = []  # name, resistance, heat
+    air_surface: tuple[float, float] | None = None
     # Both long sides of the slot cool the bundle: mean rise q w^2 / (12 k) of a slab.
     bundle = width / (12.0 * par.bundle_conductivity * g.winding_height * length * q)
     links.append(("winding bundle", bundle, copper))
@@ -389,9 +427,18 @@ def machine_temperature_rise(
                 name, air_area, rad_area = "frame surface", conv_area, env_area
                 flow_length = frame_length
             h_conv, h_rad, surface = _air_surface(
-                cooling, total, air_area, rad_area, d_frame, flow_length, coolant_temperature, par
+                cooling,
+                total,
+                air_area,
+                rad_area,
+                d_frame,
+                flow_length,
+                coolant_temperature,
+                par,
+                surface_near,
             )
             links.append((name, surface, total))
+            air_surface = (total, surface * total)
         to_coolant = total
 
     if par.coolant_capacity_rate is not None:
@@ -418,4 +465,5 @@ def machine_temperature_rise(
         radiation_coefficient=h_rad,
         rotor_temperature=rotor_temperature,
         sources=src,
+        air_surface=air_surface,
     )

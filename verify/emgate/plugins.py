@@ -130,7 +130,10 @@ def _rule_problem(rule: object, pack: Pack) -> str | None:
         # A pack's options are built whole, as validation will build them: a model that
         # cannot be built is refused here, not when a team first sets its options. emgate's
         # own are built only when set (start-up); the test suite builds each of them.
-        rule.options() if pack.distribution != "emgate" else rule.options.defaults()
+        if pack.distribution == "emgate":
+            rule.options.defaults()
+        else:
+            rule.options()
     except BaseException as exc:  # a default that does not validate is the pack's bug
         if users_interrupt(exc):
             raise

@@ -105,9 +105,10 @@ def operating_point(c: Calculation) -> OperatingPoint:
     geometry, params, gap = _network(c)
     sources = heat_sources(c)
     d = c.d
-    last: list[ThermalEstimate] = []  # the previous iterate: its surface solve starts the next
+    near: tuple[float, float] | None = None  # the last iterate's surface: the next starts there
 
     def estimate(copper: float) -> ThermalEstimate:
+        nonlocal near
         est = machine_temperature_rise(
             sources.with_copper(copper),
             geometry,
@@ -115,9 +116,9 @@ def operating_point(c: Calculation) -> OperatingPoint:
             coolant_temperature=d.cooling.ambient,
             parameters=params,
             rotor_gap=None if d.cooling.method == "open_ventilated" else gap,
-            surface_near=last[0].air_surface if last else None,
+            surface_near=near,
         )
-        last[:] = [est]
+        near = est.air_surface
         return est
 
     return operating_temperature(

@@ -373,3 +373,61 @@ def test_waiver_expiry_is_not_a_date_object_in_the_record(repo: Path) -> None:
 
     path = waiver_repo(repo, SERVO)
     assert load(path).data["waivers"][0]["expires"] == "2027-03-31"
+
+
+# --- numpy's BLAS threads ----------------------------------------------------------------------
+
+_THREADS = Path("/proc/self/task")  # one entry per thread of the process (Linux)
+_PROBE = """
+import os, sys
+sys.argv = ["emgate", "--version"]
+if {entry}:
+    import emgate.cli
+    try:
+        emgate.cli.entry()
+    except SystemExit:
+        pass
+import numpy
+print(os.environ.get("OPENBLAS_NUM_THREADS"), len(os.listdir("/proc/self/task")))
+"""
+
+
+def _probe(entry: bool) -> list[str]:
+    import os
+    import subprocess
+    import sys
+
+    from emgate.cli import BLAS_THREAD_SETTINGS
+
+    env = {k: v for k, v in os.environ.items() if k not in BLAS_THREAD_SETTINGS}
+    done = subprocess.run(
+        [sys.executable, "-c", _PROBE.format(entry=entry)],
+        env=env,
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    return done.stdout.split()[-2:]
+
+
+@pytest.mark.skipif(not _THREADS.is_dir(), reason="counts threads in /proc (Linux only)")
+def test_the_command_line_starts_numpy_with_one_blas_thread() -> None:
+    import os
+
+    assert _probe(entry=True) == ["1", "1"]
+    if (os.cpu_count() or 1) > 1:  # the control: left alone, the pool has a thread per core
+        setting, threads = _probe(entry=False)
+        assert setting == "None"
+        assert int(threads) > 1
+
+
+def test_a_blas_thread_count_the_user_chose_is_kept() -> None:
+    from emgate.cli import one_blas_thread
+
+    for chosen in ({"OPENBLAS_NUM_THREADS": "3"}, {"OMP_NUM_THREADS": "4"}):
+        environ = dict(chosen)
+        one_blas_thread(environ)
+        assert environ == chosen
+    environ = {"OMP_NUM_THREADS": ""}  # set but empty is not a choice
+    one_blas_thread(environ)
+    assert environ["OPENBLAS_NUM_THREADS"] == "1"

@@ -24,9 +24,9 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping
-from dataclasses import dataclass
 from functools import cache
 from types import MappingProxyType
+from typing import NamedTuple
 
 import numpy as np
 
@@ -55,8 +55,7 @@ _TABLE_POINTS_PER_DECADE = 40  # H step ratio 10**(1/40) = 1.059 between table p
 _H_FIRST = 1.0  # [A/m] first table point after the origin
 
 
-@dataclass(frozen=True)
-class _PermeabilityFit:
+class _PermeabilityFit(NamedTuple):
     """Parameters of the Modelica FluxTubes relative-permeability fit of one grade."""
 
     grade: str
@@ -98,8 +97,7 @@ _M530_50A_FIT = _PermeabilityFit(
 )
 
 
-@dataclass(frozen=True)
-class _Grade:
+class _Grade(NamedTuple):
     name: str
     fit: _PermeabilityFit
     density: float  # [kg/m^3], as recalled
@@ -124,8 +122,7 @@ _GRADES: tuple[_Grade, ...] = (
 MAX_SPECIFIC_LOSS: Mapping[str, float] = MappingProxyType({g.name: g.loss for g in _GRADES})
 
 
-@dataclass(frozen=True)
-class LossData:
+class LossData(NamedTuple):
     """What the iron-loss scaling needs of a built-in grade (SI).
 
     Parameters

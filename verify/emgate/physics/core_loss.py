@@ -8,7 +8,7 @@ figure leaves out: punching and burrs, pressing, harmonics and rotating flux.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -52,8 +52,7 @@ def core_loss(
     return float(out) if np.ndim(out) == 0 else out
 
 
-@dataclass(frozen=True)
-class StatorIronMass:
+class StatorIronMass(NamedTuple):
     """Iron masses of a slotted stator [kg].
 
     Parameters

@@ -6,13 +6,12 @@ Celsius, converted with ``T[K] = t[degC] + 273.15``.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from emgate.physics.constants import ZERO_CELSIUS
 
 
-@dataclass(frozen=True)
-class InsulationClass:
+class InsulationClass(NamedTuple):
     """A thermal class and the limits tied to it.
 
     Parameters

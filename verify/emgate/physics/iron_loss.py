@@ -44,6 +44,7 @@ import math
 import re
 from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -58,8 +59,7 @@ EXCESS_SHARE: float = 0.15
 _DESIGNATION = re.compile(r"^\s*M(\d{3,4})-(\d{2,3})([A-Z]{1,2})\s*$", re.IGNORECASE)
 
 
-@dataclass(frozen=True)
-class Designation:
+class Designation(NamedTuple):
     """The figures a grade's name states.
 
     Parameters
@@ -201,8 +201,7 @@ def eddy_skin_factor(thickness_over_skin_depth: float | np.ndarray) -> float | n
     return float(out) if out.ndim == 0 else out
 
 
-@dataclass(frozen=True)
-class LossSplit:
+class LossSplit(NamedTuple):
     """The designation figure split into its terms at 1.5 T, 50 Hz [W/kg].
 
     Parameters
@@ -344,8 +343,7 @@ class LossCurve:
         return float(np.exp(np.interp(math.log(b), lb, lp))), False
 
 
-@dataclass(frozen=True)
-class TableLoss:
+class TableLoss(NamedTuple):
     """Result of :func:`table_specific_loss`.
 
     Parameters

@@ -11,8 +11,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass
-from typing import Literal
+from typing import Literal, NamedTuple
 
 import numpy as np
 
@@ -282,8 +281,7 @@ def friction_windage_estimate(
 # --- balance -------------------------------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class Balance:
+class Balance(NamedTuple):
     """Energy balance of one operating point [W].
 
     Parameters
@@ -365,8 +363,7 @@ def input_power_with_allowance(
 # --- travelling waves of the stator MMF ------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class TravellingWaves:
+class TravellingWaves(NamedTuple):
     """The stator MMF as travelling waves (peak ampere-turns per order and direction).
 
     Parameters

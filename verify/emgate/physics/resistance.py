@@ -7,14 +7,13 @@ Celsius, converted with ``T[K] = t[degC] + 273.15``.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from emgate.physics._checks import check_positive
 from emgate.physics.constants import T20
 
 
-@dataclass(frozen=True)
-class ConductorMaterial:
+class ConductorMaterial(NamedTuple):
     """Resistivity at 20 degC and its linear temperature coefficient.
 
     Parameters

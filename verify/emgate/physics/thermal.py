@@ -34,7 +34,6 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
 from typing import NamedTuple
 
 from emgate.physics.convection import (
@@ -108,8 +107,7 @@ class ThermalStep(NamedTuple):
     rise: float
 
 
-@dataclass(frozen=True)
-class ThermalEstimate:
+class ThermalEstimate(NamedTuple):
     """Result of :func:`winding_temperature_rise`.
 
     Parameters

@@ -8,8 +8,7 @@ arise and what the gap crossing needs. The network itself is
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-from typing import Literal
+from typing import Literal, NamedTuple
 
 from emgate.physics.convection import STANDARD_PRESSURE
 
@@ -26,8 +25,7 @@ CoolingMethod = Literal[
 ]
 
 
-@dataclass(frozen=True)
-class StatorThermalGeometry:
+class StatorThermalGeometry(NamedTuple):
     """Stator dimensions the heat path needs (SI).
 
     Parameters
@@ -69,8 +67,7 @@ class StatorThermalGeometry:
     frame_outer_diameter: float | None = None
 
 
-@dataclass(frozen=True)
-class ThermalParameters:
+class ThermalParameters(NamedTuple):
     """Material and cooling parameters, each default with its source.
 
     Parameters
@@ -138,8 +135,7 @@ class ThermalParameters:
     pressure: float = STANDARD_PRESSURE
 
 
-@dataclass(frozen=True)
-class HeatSources:
+class HeatSources(NamedTuple):
     """Losses [W] by where they arise in the machine.
 
     Parameters
@@ -187,8 +183,7 @@ class HeatSources:
         )
 
 
-@dataclass(frozen=True)
-class RotorGap:
+class RotorGap(NamedTuple):
     """What the gap crossing needs (SI).
 
     Parameters

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from emgate.physics.thermal import ThermalEstimate
 
@@ -21,8 +21,7 @@ FIXED_POINT_MAX_ITERATIONS: int = 200
 RUNAWAY_TEMPERATURE: float = 1273.15
 
 
-@dataclass(frozen=True)
-class OperatingPoint:
+class OperatingPoint(NamedTuple):
     """Result of :func:`operating_temperature`.
 
     Parameters

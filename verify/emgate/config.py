@@ -48,7 +48,7 @@ RuleTimeBudget = Annotated[float, quantity("time"), Field(le=3600.0)]
 
 
 class _Strict(BaseModel):
-    model_config = ConfigDict(extra="forbid", strict=True, frozen=True)
+    model_config = ConfigDict(extra="forbid", strict=True, frozen=True, defer_build=True)
 
 
 class RuleSelection(_Strict):

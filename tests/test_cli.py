@@ -397,7 +397,7 @@ def _probe(entry: bool) -> list[str]:
     import subprocess
     import sys
 
-    from emgate.cli import BLAS_THREAD_SETTINGS
+    from emgate.startup import BLAS_THREAD_SETTINGS
 
     env = {k: v for k, v in os.environ.items() if k not in BLAS_THREAD_SETTINGS}
     done = subprocess.run(
@@ -422,7 +422,7 @@ def test_the_command_line_starts_numpy_with_one_blas_thread() -> None:
 
 
 def test_a_blas_thread_count_the_user_chose_is_kept() -> None:
-    from emgate.cli import one_blas_thread
+    from emgate.startup import one_blas_thread
 
     for chosen in ({"OPENBLAS_NUM_THREADS": "3"}, {"OMP_NUM_THREADS": "4"}):
         environ = dict(chosen)
@@ -431,3 +431,48 @@ def test_a_blas_thread_count_the_user_chose_is_kept() -> None:
     environ = {"OMP_NUM_THREADS": ""}  # set but empty is not a choice
     one_blas_thread(environ)
     assert environ["OPENBLAS_NUM_THREADS"] == "1"
+
+
+# --- garbage collection at start-up --------------------------------------------------------
+
+_GC_PROBE = """
+import gc, sys
+sys.argv = ["emgate", "check", {record!r}]
+import emgate.cli
+try:
+    emgate.cli.entry()
+except SystemExit as exc:
+    code = exc.code
+print(code, gc.isenabled(), gc.get_freeze_count() > 0)
+"""
+
+
+def test_the_command_line_collects_again_once_started() -> None:
+    import subprocess
+    import sys
+
+    done = subprocess.run(
+        [sys.executable, "-c", _GC_PROBE.format(record=str(PUMP))],
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    # exit 0, collection on again for the records, start-up's objects frozen
+    assert done.stdout.split()[-3:] == ["0", "True", "True"], done.stdout + done.stderr
+
+
+def test_a_program_calling_emgate_keeps_its_collection_setting() -> None:
+    import gc
+
+    from emgate.cli import main
+
+    frozen = gc.get_freeze_count()
+    was = gc.isenabled()
+    try:
+        for enabled in (False, True):
+            (gc.enable if enabled else gc.disable)()
+            assert main(["check", str(PUMP)]) == 0
+            assert gc.isenabled() is enabled
+        assert gc.get_freeze_count() == frozen
+    finally:
+        (gc.enable if was else gc.disable)()

@@ -18,6 +18,7 @@ from pathlib import Path
 from emgate import __version__
 from emgate.report import FORMATS
 from emgate.schemas import SCHEMA_KINDS
+from emgate.startup import hold_gc, one_blas_thread
 from emgate.terms import EXIT_CRASH, EXIT_OK
 
 
@@ -254,23 +255,7 @@ def main(argv: list[str] | None = None) -> int:
         return EXIT_CRASH
 
 
-#: What numpy's BLAS reads for its thread count (OpenBLAS, in the wheels on PyPI), in its order.
-BLAS_THREAD_SETTINGS = ("OPENBLAS_NUM_THREADS", "GOTO_NUM_THREADS", "OMP_NUM_THREADS")
-
-
-def one_blas_thread(environ: dict[str, str] | os._Environ[str] = os.environ) -> None:
-    """Ask numpy's BLAS for one thread, unless the user chose a count.
-
-    OpenBLAS starts a thread per core when numpy is imported, and each waits for work by
-    spinning for a while before it sleeps: about 90 ms of CPU on the other core of this
-    2-core machine, on every run, more with more cores. emgate makes no call that a BLAS
-    thread would speed up (its arrays are small, its sweeps elementwise) and ``--jobs``
-    works by processes, which inherit this. Must run before numpy is first imported.
-    """
-    if not any(environ.get(name) for name in BLAS_THREAD_SETTINGS):
-        environ["OPENBLAS_NUM_THREADS"] = "1"
-
-
 def entry() -> None:
     one_blas_thread()
+    hold_gc()
     sys.exit(main())

@@ -11,6 +11,7 @@ from typing import TYPE_CHECKING
 
 from emgate.report import FORMATS
 from emgate.schemas import SCHEMA_KINDS
+from emgate.startup import started
 from emgate.terms import EXIT_CRASH, EXIT_INPUT, EXIT_OK
 
 if TYPE_CHECKING:
@@ -50,6 +51,8 @@ def dispatch(args: argparse.Namespace) -> int:
     from emgate.plugins import load_plugins
 
     plugins = load_plugins()
+    if args.command != "check":  # a check's start-up ends when its run is set up
+        started()
     if args.command == "plugins":
         for pack in plugins.packs:
             n = sum(1 for lr in plugins.rules.values() if lr.pack == pack)
@@ -214,6 +217,7 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
     from emgate.parallel import available_cores
 
     run.jobs = args.jobs or available_cores()
+    started()
     result = execute(run)
     try:
         return max(result.exit_code, _emit(result, outputs, args.quiet))

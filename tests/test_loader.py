@@ -23,6 +23,7 @@ from emgate.loader import (
     MAX_SCALAR,
     load,
     load_text,
+    read_text,
 )
 
 
@@ -283,3 +284,33 @@ def test_loaded_data_equals_pyyaml_for_the_demo_records() -> None:
         # [calc] external check: PyYAML safe_load; the demo records use no construct on
         # which the two schemas differ.
         assert load(path).data == yaml.safe_load(path.read_text(encoding="utf-8"))
+
+
+#: What read_text refuses as binary: C0 controls but tab, line feed and carriage return, DEL,
+#: and the noncharacters U+FFFE and U+FFFF (outside YAML 1.2's character set, section 5.1,
+#: which PyYAML's reader would report less plainly). C1 controls are the reader's to refuse.
+_REFUSED = {*range(0x00, 0x09), 0x0B, 0x0C, *range(0x0E, 0x20), 0x7F, 0xFFFE, 0xFFFF}
+
+
+@pytest.mark.parametrize("context", ["a: 1\nb: x{}y\n", "a: 20 °C\nb: x{}y\n"])
+def test_binary_text_is_refused_whatever_else_the_file_holds(tmp_path: Path, context: str) -> None:
+    # every ASCII code point and the characters around the two noncharacters, in an ASCII
+    # file and in one with UTF-8 multi-byte characters
+    for code in [*range(0x80), 0x85, 0xA0, 0xB5, 0xFFFD, 0xFFFE, 0xFFFF, 0x10000]:
+        path = _write(tmp_path, "t.yaml", context.format(chr(code)))
+        if code in _REFUSED:
+            with pytest.raises(InputError, match=f"control character U\\+{code:04X}") as info:
+                read_text(path)
+            assert info.value.location is not None
+            assert (info.value.location.line, info.value.location.column) == (2, 5)
+        else:
+            assert read_text(path) == context.format(chr(code))
+
+
+def test_a_file_of_the_largest_size_is_read_whole(tmp_path: Path) -> None:
+    text = "a: 1\n#" + "x" * (MAX_BYTES - 7) + "\n"
+    path = _write(tmp_path, "big.yaml", text)
+    assert read_text(path) == text
+    _write(tmp_path, "big.yaml", text + "\n")
+    with pytest.raises(InputError, match="larger than 1024 KiB"):
+        read_text(path)

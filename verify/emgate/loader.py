@@ -313,21 +313,30 @@ def _read_bytes(path: Path) -> bytes:
                 " regular files",
                 Location(path, 1, 1, "$"),
             )
-        with os.fdopen(fd, "rb") as handle:
-            fd = -1
-            # A read sized to the file: read(MAX_BYTES + 1) would allocate the whole 1 MiB
-            # first, which costs more than reading a record. One byte more shows growth.
-            limit = MAX_BYTES + 1
-            raw = handle.read(min(limit, info.st_size + 1))
-            if info.st_size < len(raw) < limit:
-                raw += handle.read(limit - len(raw))
-            return raw
+        # Reads sized to the file: one of MAX_BYTES + 1 would allocate the whole 1 MiB
+        # first, which costs more than reading a record. One byte more shows growth; a file
+        # that grew is read on to the limit. On the descriptor itself: a buffered file
+        # object costs more than the reads of a record.
+        limit = MAX_BYTES + 1
+        want = min(limit, info.st_size + 1)
+        raw = b""
+        while len(raw) < want:
+            chunk = os.read(fd, want - len(raw))
+            if not chunk:
+                break
+            raw += chunk
+            if len(raw) == want:
+                want = limit
+        return raw
     finally:
-        if fd >= 0:
-            os.close(fd)
+        os.close(fd)
 
 
 _CONTROL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f\ufffe\uffff]")
+#: _CONTROL's ASCII characters as bytes, and its two others in UTF-8: text without them has
+#: no match, which bytes.translate tells five times faster than the search.
+_CONTROL_BYTES = bytes([*range(0x00, 0x09), 0x0B, 0x0C, *range(0x0E, 0x20), 0x7F])
+_NONCHARACTERS = (b"\xef\xbf\xbe", b"\xef\xbf\xbf")  # U+FFFE, U+FFFF
 
 
 def read_text(path: Path) -> str:
@@ -350,7 +359,8 @@ def read_text(path: Path) -> str:
             f"expected UTF-8 text, found byte 0x{raw[exc.start]:02x}",
             Location(path, line, col, "$"),
         ) from None
-    bad = _CONTROL.search(text)
+    clean = len(raw.translate(None, _CONTROL_BYTES)) == len(raw)
+    bad = None if clean and not any(n in raw for n in _NONCHARACTERS) else _CONTROL.search(text)
     if bad:
         line = text.count("\n", 0, bad.start()) + 1
         col = bad.start() - (text.rfind("\n", 0, bad.start()) + 1) + 1

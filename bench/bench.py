@@ -50,9 +50,9 @@ FLOOR = "import yaml, numpy, pydantic, pluggy"
 #: The libraries as emgate uses them, printed beside the floor for what part of a check is
 #: emgate's own: pydantic imports its model machinery lazily, on the first use of BaseModel
 #: (the floor does not load it, a check must), and emgate's command line asks numpy's BLAS
-#: for one thread (emgate.startup.one_blas_thread), which makes numpy's import cheaper.
+#: for one thread (the same call here), which makes numpy's import cheaper.
 FLOOR_AS_USED = (
-    "import os; os.environ.setdefault('OPENBLAS_NUM_THREADS', '1'); "
+    "from emgate.startup import one_blas_thread; one_blas_thread(); "
     "import yaml, numpy, pluggy; from pydantic import BaseModel"
 )
 #: The many-record sections check with remedies off: the bundled servo fails on purpose, and

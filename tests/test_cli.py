@@ -415,7 +415,8 @@ def test_the_command_line_starts_numpy_with_one_blas_thread() -> None:
     import os
 
     assert _probe(entry=True) == ["1", "1"]
-    if (os.cpu_count() or 1) > 1:  # the control: left alone, the pool has a thread per core
+    # the control: left alone, the pool has a thread per CPU the process may use
+    if len(os.sched_getaffinity(0)) > 1:
         setting, threads = _probe(entry=False)
         assert setting == "None"
         assert int(threads) > 1

@@ -270,6 +270,10 @@ def main() -> None:
         f"  CPU per record, slope {quarter} -> {n}:            {slope * 1e3:6.2f} ms (target <= 2)"
     )
     print(f"  CPU per record beyond one check, {n} records:  {beyond * 1e3:6.2f} ms")
+    # This machine's speed varies from day to day by up to two times: the slope in units of
+    # the floor compares runs of different days (a day's floor scales both alike).
+    per_mille = slope / floor.median_cpu() * 1e3
+    print(f"  the slope, per mille of the floor:             {per_mille:6.2f}")
     grow = (s["big"].median_rss() - s["small"].median_rss()) / (n - quarter)
     print(f"  peak memory per extra record:                  {grow:6.2f} KiB")
     grow = (s["big_ci"].median_rss() - s["small_ci"].median_rss()) / (n - quarter)

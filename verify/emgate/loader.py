@@ -14,7 +14,7 @@ from __future__ import annotations
 import os
 import re
 import stat
-from collections.abc import Iterator, Mapping
+from collections.abc import Callable, Mapping
 from contextvars import ContextVar
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -107,53 +107,53 @@ class _Builder:
         col = getattr(mark, "column", 0) + 1
         return InputError(message, Location(self.path, line, col, path_string(record_path)))
 
-    def events(self) -> Iterator[Any]:
-        try:
-            while True:
-                event = self.loader.get_event()
-                if event is None:
-                    return
-                yield event
-        except yaml.MarkedYAMLError as exc:
-            mark = exc.problem_mark or exc.context_mark
-            problem = exc.problem or exc.context or ""
-            if "nesting depth" in problem:  # newer libyaml scans ahead and stops at 1000
-                line, col = _flow_depth_mark(self.text, MAX_DEPTH)
-                raise InputError(
-                    f"nesting deeper than {MAX_DEPTH} levels", Location(self.path, line, col, "$")
-                ) from None
-            if problem in _LOST_COLON and mark is not None:
-                lost = _line_without_colon(self.text, mark.line)
-                if lost is not None:
-                    text = self.text.splitlines()[lost]
-                    raise InputError(
-                        "YAML syntax error: a ':' is likely missing after the key on this"
-                        f" line (write 'key: value'; the parser stopped on line"
-                        f" {mark.line + 1}: {problem})",
-                        Location(self.path, lost + 1, len(text) - len(text.lstrip()) + 1, "$"),
-                    ) from None
-            raise self.fail(mark, f"YAML syntax error: {problem}") from None
-        except yaml.YAMLError as exc:
-            raise InputError(f"YAML error: {exc}", Location(self.path, 1, 1, "$")) from None
+    def yaml_error(self, exc: yaml.YAMLError) -> InputError:
+        """libyaml's error, located, in the words a designer reads."""
+        if not isinstance(exc, yaml.MarkedYAMLError):
+            return InputError(f"YAML error: {exc}", Location(self.path, 1, 1, "$"))
+        mark = exc.problem_mark or exc.context_mark
+        problem = exc.problem or exc.context or ""
+        if "nesting depth" in problem:  # newer libyaml scans ahead and stops at 1000
+            line, col = _flow_depth_mark(self.text, MAX_DEPTH)
+            return InputError(
+                f"nesting deeper than {MAX_DEPTH} levels", Location(self.path, line, col, "$")
+            )
+        if problem in _LOST_COLON and mark is not None:
+            lost = _line_without_colon(self.text, mark.line)
+            if lost is not None:
+                text = self.text.splitlines()[lost]
+                return InputError(
+                    "YAML syntax error: a ':' is likely missing after the key on this"
+                    f" line (write 'key: value'; the parser stopped on line"
+                    f" {mark.line + 1}: {problem})",
+                    Location(self.path, lost + 1, len(text) - len(text.lstrip()) + 1, "$"),
+                )
+        return self.fail(mark, f"YAML syntax error: {problem}")
 
     def build(self) -> Document:
+        # libyaml's events straight from the parser (a generator in between cost a fifth of
+        # the build); its errors, raised by any get_event, are translated here.
+        get = self.loader.get_event
+        documents = 0
         try:
-            stream = self.events()
-            documents = 0
-            for event in stream:
+            while (event := get()) is not None:
                 if isinstance(event, yaml.DocumentStartEvent):
                     documents += 1
                     if documents > 1:
                         raise self.fail(event.start_mark, "expected one YAML document, found more")
-                    self.doc.data = self.node(stream, next(stream), (), 0)
+                    self.doc.data = self.node(get, get(), (), 0)
+        except yaml.YAMLError as exc:
+            raise self.yaml_error(exc) from None
         finally:
             self.loader.dispose()
         if documents == 0:
             raise InputError("the file is empty", Location(self.path, 1, 1, "$"))
         return self.doc
 
-    def node(self, stream: Iterator[Any], event: Any, path: RecordPath, depth: int) -> Any:
+    def node(self, get: Callable[[], Any], event: Any, path: RecordPath, depth: int) -> Any:
         self.nodes += 1
+        if event is None:  # (libyaml reports a truncated stream before it ends)
+            raise InputError("the YAML ends inside a value", Location(self.path, 1, 1, "$"))
         if self.nodes > MAX_NODES:
             raise self.fail(event.start_mark, f"more than {MAX_NODES} YAML nodes", path)
         if type(event) is _SCALAR:  # most nodes: the checks below, without the lookups
@@ -186,14 +186,14 @@ class _Builder:
         self.doc.collections.add(path)
         if isinstance(event, yaml.SequenceStartEvent):
             items: list[Any] = []
-            for item in stream:
+            while (item := get()) is not None:
                 if isinstance(item, yaml.SequenceEndEvent):
                     return items
-                items.append(self.node(stream, item, (*path, len(items)), depth + 1))
+                items.append(self.node(get, item, (*path, len(items)), depth + 1))
         if isinstance(event, yaml.MappingStartEvent):
             mapping: dict[str, Any] = {}
             key_marks = self.doc.key_marks
-            for key_event in stream:
+            while (key_event := get()) is not None:
                 if isinstance(key_event, yaml.MappingEndEvent):
                     return mapping
                 key = self.key(key_event, path)
@@ -207,7 +207,7 @@ class _Builder:
                     )
                 mark = key_event.start_mark
                 key_marks[sub] = (mark.line, mark.column)
-                mapping[key] = self.node(stream, next(stream), sub, depth + 1)
+                mapping[key] = self.node(get, get(), sub, depth + 1)
         raise self.fail(event.start_mark, f"unexpected YAML event {type(event).__name__}", path)
 
     def key(self, event: Any, path: RecordPath) -> str:

@@ -41,7 +41,18 @@ def test_parallel_and_serial_reports_are_byte_identical(
 
 def test_ordered_map_keeps_the_order_of_its_inputs() -> None:
     items = list(range(5 * MIN_ITEMS_PER_WORKER))
-    assert list(ordered_map(lambda x: x * x, items, 2)) == [x * x for x in items]
+    squares = [x * x for x in items]
+    assert list(ordered_map(lambda x: x * x, items, 2)) == squares
+    assert list(ordered_map(lambda x: x * x, list(items), 1)) == squares
+
+
+def test_a_serial_map_drops_each_item_once_it_is_done() -> None:
+    # a long run holds the records not yet checked, not every record until the end
+    items = ["a", "b", "c", "d"]
+    left = []
+    for _ in ordered_map(lambda x: x, items, 1):
+        left.append(list(items))
+    assert left == [["d", "c", "b"], ["d", "c"], ["d"], []]
 
 
 def test_jobs_must_be_a_positive_whole_number() -> None:

@@ -29,7 +29,9 @@ _DECLARES = re.compile(r"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
 
 @dataclass(slots=True)
 class Source:
-    path: Path
+    #: The file as discovery named it: text, not a Path (a Path object and its parts cost
+    #: four times the name, and a run holds a Source for every record until it is checked).
+    name: str
     #: The file's text; None for a design record whose text is read again when it is
     #: checked (``discover(..., design_text=False)``: a large run holds one record's text
     #: at a time, not every record's from discovery to its check).
@@ -39,6 +41,10 @@ class Source:
     #: ``path`` resolved, as text (once, in discovery: a change set and the sources' set
     #: compare it; a thousand-record run keeps one for each record)
     key: str
+
+    @property
+    def path(self) -> Path:
+        return Path(self.name)
 
 
 def discover(
@@ -142,7 +148,7 @@ def discover(
             if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
                 continue  # read through the policy, not as records
             kept = text if design_text or declared != DESIGN_SCHEMA else None
-            out.append(Source(path, kept, declared, explicit, key))
+            out.append(Source(name, kept, declared, explicit, key))
     return out
 
 

@@ -110,7 +110,9 @@ def execute(run: Run) -> RunResult:
             except (InputError, InputErrors) as exc:
                 catalogue.failed.append(display_path(doc.path))
                 result.findings.extend(input_findings(exc))
-    del docs  # nothing below reads the materials documents again
+    # nothing below reads the materials documents again, nor the sources but the designs
+    # (which the check drains: a long run holds the records not yet checked)
+    del docs, sources, named
     seen_ids: dict[str, str] = {}
     interned: dict[frozenset[str], frozenset[str]] = {}
     if run.spool:  # the records go to disk as they are done

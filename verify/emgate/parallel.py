@@ -48,13 +48,19 @@ def _call(index: int) -> Any:
     return fn(items[index])
 
 
-def ordered_map(fn: Callable[[T], R], items: Sequence[T], jobs: int) -> Iterator[R]:
-    """``fn`` over ``items``, in order, in up to ``jobs`` forked processes."""
+def ordered_map(fn: Callable[[T], R], items: list[T], jobs: int) -> Iterator[R]:
+    """``fn`` over ``items``, in order, in up to ``jobs`` forked processes.
+
+    In this process the list is emptied as it goes: an item is dropped once it is done, so
+    that a run of many records holds those not yet checked, not all of them. (With workers
+    the parent keeps the list: a worker the pool starts anew forks from it.)
+    """
     global _WORK
     workers = workers_for(len(items), jobs)
     if not workers:
-        for item in items:
-            yield fn(item)
+        items.reverse()
+        while items:
+            yield fn(items.pop())
         return
     # chunks big enough to amortise the round trip, small enough to balance the workers
     chunk = max(1, min(32, len(items) // (workers * 8)))

@@ -201,6 +201,39 @@ def test_sarif_structure() -> None:
     ]
 
 
+def test_display_path_names_a_file_as_pathlib_relates_it_to_the_working_folder(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # Reference: pathlib's own resolve().relative_to(cwd), which display_path computed
+    # until it took strings (it names every record's file). Symbolic links in and out.
+    from emgate.errors import display_path
+
+    work = tmp_path / "work"
+    (work / "designs").mkdir(parents=True)
+    (work / "designs" / "a.yaml").write_text("x")
+    (tmp_path / "outside.yaml").write_text("x")
+    (work / "link.yaml").symlink_to(work / "designs" / "a.yaml")
+    (work / "out-link.yaml").symlink_to(tmp_path / "outside.yaml")
+    (tmp_path / "alias").symlink_to(work, target_is_directory=True)
+    monkeypatch.chdir(work)
+
+    def reference(path: Path) -> str:
+        try:
+            return path.resolve().relative_to(Path.cwd().resolve()).as_posix()
+        except ValueError:
+            return path.as_posix()
+
+    cases = [
+        "designs/a.yaml", "./designs//a.yaml", "designs/../designs/a.yaml", ".", "designs",
+        "link.yaml", "out-link.yaml", "../outside.yaml", str(work / "designs" / "a.yaml"),
+        str(tmp_path / "alias" / "designs" / "a.yaml"), "missing/none.yaml", "/",
+    ]  # fmt: skip
+    for case in cases:
+        assert display_path(Path(case)) == reference(Path(case)), case
+    assert display_path(Path("designs/a.yaml")) == "designs/a.yaml"
+    assert display_path(Path("../outside.yaml")) == "../outside.yaml"  # kept as given
+
+
 def test_sarif_file_outside_the_working_folder_is_an_absolute_uri(sarif_validator) -> None:  # type: ignore[no-untyped-def]
     # display_path keeps a path it cannot make relative; %SRCROOT% would then be wrong
     f = Finding("current-density", "error", "/elsewhere/a b.yaml", 2, 1, "$", "m", "r")

@@ -117,7 +117,7 @@ def execute(run: Run) -> RunResult:
     interned: dict[frozenset[str], frozenset[str]] = {}
     if run.spool:  # the records go to disk as they are done
         result.spool = Spool()
-        root = run_root(run)
+        top = run_root(run).resolve()
     with rule_guards():
         from emgate.parallel import ordered_map
 
@@ -143,7 +143,7 @@ def execute(run: Run) -> RunResult:
             if not run.details:
                 records = [r.summarised(interned) for r in records]
             if result.spool is not None:
-                anchor_findings(done.findings, root)
+                anchor_findings(done.findings, top)
                 result.spool.add(done.file, done.findings, records)
             else:
                 result.findings.extend(done.findings)

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -21,6 +22,16 @@ class Location:
 
 def display_path(path: Path) -> str:
     """A path relative to the working directory where possible, with forward slashes."""
+    if os.name == "posix":  # strings, not pathlib: a check names every record's file
+        try:
+            cwd = os.getcwd()  # the kernel's own: no symbolic link in it to resolve
+            real = os.path.realpath(path)
+        except OSError:
+            return Path(path).as_posix()
+        if real == cwd:
+            return "."
+        inside = cwd if cwd.endswith("/") else cwd + "/"
+        return real[len(inside) :] if real.startswith(inside) else Path(path).as_posix()
     try:
         rel = path.resolve().relative_to(Path.cwd().resolve())
     except (ValueError, OSError):

@@ -276,19 +276,24 @@ def anchor(result: RunResult, root: Path) -> None:
     """Name each finding's file relative to ``root`` too (an absolute path for a file
     outside it), so that SARIF locations and fingerprints do not depend on the folder
     emgate ran in."""
-    anchor_findings(result.findings, root)
+    anchor_findings(result.findings, root.resolve())
 
 
-def anchor_findings(findings: Iterable[Finding], root: Path) -> None:
-    """:func:`anchor` of some findings (a spooled record's, before they are written)."""
-    top = root.resolve()
+def anchor_findings(findings: Iterable[Finding], top: Path) -> None:
+    """:func:`anchor` of some findings (a spooled record's, before they are written);
+    ``top`` is the root resolved (once a run: a spooled run anchors every record)."""
+    named: dict[str, str] = {}  # a record's findings are mostly in its own file
     for f in findings:
         if f.file:
-            path = Path(f.file).resolve()
-            try:
-                f.repo_file = path.relative_to(top).as_posix()
-            except ValueError:
-                f.repo_file = path.as_posix()
+            repo = named.get(f.file)
+            if repo is None:
+                path = Path(f.file).resolve()
+                try:
+                    repo = path.relative_to(top).as_posix()
+                except ValueError:
+                    repo = path.as_posix()
+                named[f.file] = repo
+            f.repo_file = repo
 
 
 def input_finding(exc: InputError) -> Finding:

@@ -167,8 +167,13 @@ def surface_pm_gap(
         magnet_drop = k_leak * b_gap * magnet.thickness / (MU0 * magnet.recoil_permeability)
         return magnet_drop + state(b_gap).total_mmf - coercive_mmf
 
-    # At B_g = Br / k_leak the magnet field is zero and the rest of the loop is not.
-    b_gap = solve_increasing(residual, 0.0, magnet.remanence / k_leak)
+    # With ideal iron the loop is linear in B_g; the iron's magnetic voltage (>= 0) only
+    # lowers the root, so the ideal-iron root (widened by far more than rounding) bounds it
+    # from above, and the solver starts from a bracket a few per cent wide. (At
+    # B_g = Br / k_leak the magnet field is zero and the rest of the loop is not.)
+    linear = k_leak * magnet.thickness / (MU0 * magnet.recoil_permeability)
+    ideal = coercive_mmf / (linear + path.effective_gap / MU0)
+    b_gap = solve_increasing(residual, 0.0, min(magnet.remanence / k_leak, ideal * (1 + 1e-9)))
     magnet_b = k_leak * b_gap
     magnet_h = (magnet_b - magnet.remanence) / (MU0 * magnet.recoil_permeability)
     return SurfacePMResult(**gap_fields(state(b_gap)), magnet_b=magnet_b, magnet_h=magnet_h)

@@ -84,3 +84,27 @@ def test_a_config_without_files_checks_only_the_repositorys_records(
     notes = [f for f in told.json()["findings"] if f["kind"] == "note"]
     assert [(f["file"], f["severity"]) for f in notes] == [("ci.yml", "info")]
     assert "not an emgate file" in notes[0]["message"]
+
+
+@pytest.mark.skipif(os.name != "posix", reason="the NUL key is the POSIX sort key")
+def test_the_listing_sorts_as_the_lists_of_path_parts_sort() -> None:
+    # Reference: pathlib's order of POSIX paths, part by part (PurePosixPath comparison).
+    from pathlib import PurePosixPath
+
+    from hypothesis import given, settings
+    from hypothesis import strategies as st
+
+    from emgate.listing import _parts
+
+    part = st.text(alphabet="ab-._/ Z0\u00e9", min_size=1, max_size=6).filter(
+        lambda p: "/" not in p and p not in (".", "..")
+    )
+    name = st.lists(part, min_size=1, max_size=4).map("/".join)
+
+    @settings(max_examples=300, deadline=None)
+    @given(st.lists(name, min_size=2, max_size=12, unique=True))
+    def same_order(names: list[str]) -> None:
+        assert sorted(names, key=_parts) == sorted(names, key=PurePosixPath)
+
+    same_order()
+    assert sorted(["a-b/x", "a/x", "a/x/y", "a"], key=_parts) == ["a", "a/x", "a/x/y", "a-b/x"]

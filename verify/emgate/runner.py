@@ -61,7 +61,7 @@ def run_rule(
     items = ran.items
     crash = ""
     try:
-        with _plugin_code(budget) as clock:
+        with _Clock(budget) as clock:
             # A pack's rule gets its own copy of the record: the calculation and the other
             # rules read the engine's, so writing past the frozen models changes nothing
             # they see. emgate's own rules share it.
@@ -152,13 +152,6 @@ def crash_text(exc: BaseException) -> str:
 def _malformed(item: object) -> str:
     """Why a rule's output cannot be reported ('' if it can): the reporters rely on it."""
 
-    def path_problem(path: object) -> str:
-        if not isinstance(path, tuple | list) or not all(
-            isinstance(p, str | int) and not isinstance(p, bool) for p in path
-        ):
-            return f"a record path {_short(path)} that is not a tuple of keys and indices"
-        return ""
-
     if isinstance(item, Check):
         for name in ("value", "limit"):
             v = getattr(item, name)
@@ -175,7 +168,7 @@ def _malformed(item: object) -> str:
                 parse_unit(item.unit)
             except QuantityError:
                 return f"a Check whose unit {item.unit!r} emgate does not know"
-        return path_problem(item.path)
+        return _path_problem(item.path)
     if isinstance(item, Problem):
         message: object = item.message  # typed str, but a rule may yield anything
         if not isinstance(message, str):
@@ -183,8 +176,18 @@ def _malformed(item: object) -> str:
         if item.severity is not None and item.severity not in SEVERITIES:
             known = ", ".join(SEVERITIES)
             return f"a Problem of unknown severity {_short(item.severity)} (not one of {known})"
-        return path_problem(item.path)
+        return _path_problem(item.path)
     return f"{_short(item)}, which is neither a Check nor a Problem"
+
+
+def _path_problem(path: object) -> str:
+    if isinstance(path, tuple | list):
+        for p in path:
+            if type(p) is not str and (not isinstance(p, str | int) or isinstance(p, bool)):
+                break
+        else:
+            return ""
+    return f"a record path {_short(path)} that is not a tuple of keys and indices"
 
 
 def _short(value: object) -> str:
@@ -209,13 +212,34 @@ class _OutOfTime(BaseException):
 
 
 class _Clock:
+    """Run rule code within its time budget (``with _Clock(budget) as clock:``, inside
+    :func:`rule_guards`; a class, not a generator: it wraps every rule on every record).
+
+    The budget is a SIGALRM interval timer on the main thread of a POSIX system: it
+    interrupts pure-Python code and sleeps, but a long call inside a C extension only
+    once it returns to the interpreter. Elsewhere (another thread, Windows) the budget is
+    only checked after each yielded item and at the end: a rule that never returns still
+    holds the run there."""
+
     #: Whether the run's alarm is installed, and the budget it was last armed with.
     timer = False
     armed = 0.0
+    __slots__ = ("budget", "start")
 
     def __init__(self, budget: float) -> None:
         self.budget = budget
         self.start = time.monotonic()
+
+    def __enter__(self) -> _Clock:
+        if _Clock.timer:
+            _Clock.armed = self.budget
+            # and again every second, for a rule that catches the first one
+            signal.setitimer(signal.ITIMER_REAL, self.budget, 1.0)
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        if _Clock.timer:
+            signal.setitimer(signal.ITIMER_REAL, 0.0)
 
     def check(self) -> None:
         if time.monotonic() - self.start > self.budget:
@@ -243,24 +267,3 @@ def rule_guards() -> Iterator[None]:
             signal.setitimer(signal.ITIMER_REAL, 0.0)
             signal.signal(signal.SIGALRM, previous)
         _Clock.timer = False
-
-
-@contextmanager
-def _plugin_code(budget: float) -> Iterator[_Clock]:
-    """Run rule code within its time budget (inside :func:`_rule_guards`).
-
-    The budget is a SIGALRM interval timer on the main thread of a POSIX system: it
-    interrupts pure-Python code and sleeps, but a long call inside a C extension only
-    once it returns to the interpreter. Elsewhere (another thread, Windows) the budget is
-    only checked after each yielded item and at the end: a rule that never returns still
-    holds the run there."""
-    clock = _Clock(budget)
-    if _Clock.timer:
-        _Clock.armed = budget
-        # and again every second, for a rule that catches the first one
-        signal.setitimer(signal.ITIMER_REAL, budget, 1.0)
-    try:
-        yield clock
-    finally:
-        if _Clock.timer:
-            signal.setitimer(signal.ITIMER_REAL, 0.0)

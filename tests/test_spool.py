@@ -276,3 +276,17 @@ def test_a_closed_standard_error_does_not_change_the_exit_code(tmp_path: Path) -
     proc.stderr.close()
     assert proc.wait(timeout=300) == 2  # the broken and invalid records
     assert "<testsuites" in (tmp_path / "r.xml").read_text()
+
+
+def test_records_added_while_a_reader_is_part_way_are_all_read_back() -> None:
+    # a write goes to the end whatever place a reader left the file at
+    spool = Spool()
+    names = [f"d/{i:03d}.yaml" for i in range(40)]
+    for name in names[:20]:
+        spool.add(name, [_finding(file=name, message="x" * 300)], [])
+    partial = spool.findings()
+    assert next(partial).file == names[0]  # a reader stops early, the file part way
+    for name in names[20:]:
+        spool.add(name, [_finding(file=name, message="x" * 300)], [])
+    assert [f.file for f in spool.findings()] == names
+    spool.close()

@@ -409,7 +409,8 @@ class Spool:
             if self._last_record is not None and record_key(records[0]) < self._last_record:
                 self._records_ordered = False
             self._last_record = record_key(records[-1])
-        self._file.seek(self._end)
+        if self._file.tell() != self._end:  # a reader moved it (a seek also flushes)
+            self._file.seek(self._end)
         pickle.dump((own, records), self._file, protocol=pickle.HIGHEST_PROTOCOL)
         self._end = self._file.tell()
 

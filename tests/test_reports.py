@@ -232,6 +232,15 @@ def test_display_path_names_a_file_as_pathlib_relates_it_to_the_working_folder(
         assert display_path(Path(case)) == reference(Path(case)), case
     assert display_path(Path("designs/a.yaml")) == "designs/a.yaml"
     assert display_path(Path("../outside.yaml")) == "../outside.yaml"  # kept as given
+    monkeypatch.chdir("/")  # the root as the working folder: nothing to strip but the "/"
+    for case in (str(work / "designs" / "a.yaml"), "tmp", "/", "."):
+        assert display_path(Path(case)) == reference(Path(case)), case
+    gone = tmp_path / "gone"
+    gone.mkdir()
+    monkeypatch.chdir(gone)
+    gone.rmdir()  # a working folder deleted under the run: the name as given, as pathlib
+    assert display_path(Path("designs/a.yaml")) == "designs/a.yaml"
+    assert display_path(work / "designs" / "a.yaml") == (work / "designs" / "a.yaml").as_posix()
 
 
 def test_sarif_file_outside_the_working_folder_is_an_absolute_uri(sarif_validator) -> None:  # type: ignore[no-untyped-def]

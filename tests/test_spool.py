@@ -289,4 +289,6 @@ def test_records_added_while_a_reader_is_part_way_are_all_read_back() -> None:
     for name in names[20:]:
         spool.add(name, [_finding(file=name, message="x" * 300)], [])
     assert [f.file for f in spool.findings()] == names
+    spool.add("d/zzz.yaml", [_finding(file="d/zzz.yaml")], [])  # after a reader read it all
+    assert [f.file for f in spool.findings()] == [*names, "d/zzz.yaml"]
     spool.close()

@@ -193,6 +193,25 @@ def test_surface_pm_loop_matches_brentq() -> None:
     assert result.magnet_h * L_M + result.total_mmf == pytest.approx(0.0, abs=1e-6)
 
 
+@PROPERTY
+@given(gap=st.floats(0.3e-3, 3e-3), br=st.floats(0.4, 1.5))
+def test_surface_pm_solve_finds_brentqs_root_whatever_the_saturation(gap: float, br: float) -> None:
+    # [calc] external check: scipy.optimize.brentq on the same written-out loop, over gaps
+    # and remanences from ideal-like iron to deep saturation: the solve's bracket (the
+    # ideal-iron root from above) must hold everywhere. Tolerance 1e-11 relative: both
+    # solve to ~1e-12.
+    path = make_path(gap + L_M / MU_REC)
+    magnet = dataclasses.replace(MAGNET, remanence=br)
+
+    def loop(b_gap: float) -> float:
+        h_m = (b_gap - br) / (MU0 * MU_REC)
+        return h_m * L_M + b_gap * gap / MU0 + _rectangular_iron_mmf(path, b_gap, 0.8, None)
+
+    expected = brentq(loop, 0.0, br, xtol=1e-15, rtol=1e-15)
+    result = surface_pm_gap(path, magnet, M350, M350)
+    assert result.b_peak == pytest.approx(expected, rel=1e-11)
+
+
 def test_remanence_at_temperature() -> None:
     # [calc] Br(T) = Br20 (1 + alpha (T - T0)); alpha -0.12 %/K is typical of NdFeB
     # (from memory): 1.2 T at 120 degC -> 1.2 (1 - 0.12) = 1.056 T. Tolerance 1e-12 (arithmetic).

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import copy
 import dataclasses
+import datetime
 import math
 import signal
 import threading
@@ -24,6 +25,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, TypeVar, cast
 
 from pydantic import BaseModel
+from pydantic_core import PydanticUndefined as _UNSET
 
 from emgate.plugins import describe_exception, users_interrupt, watching_interrupts
 from emgate.rule import Check, Context, Options, Problem, Rule, winding_path
@@ -107,14 +109,16 @@ def run_rule(
     return ran
 
 
-#: Values a copy may share: nothing in them can be changed.
-_ATOMIC = frozenset({str, int, float, bool, type(None), bytes, frozenset})
+#: Values a copy may share: nothing in them can be changed. (Not frozenset: it may hold an
+#: object that can.)
+_ATOMIC = frozenset({str, int, float, bool, type(None), bytes, datetime.date})
 
 
 def own_copy(design: T) -> T:
-    """A deep copy of a validated record, with nothing mutable shared: what pydantic's
-    ``model_copy(deep=True)`` gives, in a third of its time (no memo: the tree of a record
-    has no cycles; an object the record holds twice is copied twice)."""
+    """A deep copy of a validated record, with nothing mutable shared: equal to pydantic's
+    ``model_copy(deep=True)``, in a third of its time. Unlike it, no memo: an object the
+    record holds twice is copied twice (a validated record's tree of models, dicts, lists
+    and scalars shares nothing and has no cycles; a cycle would end the rule as a crash)."""
     return cast(T, _copied(design))
 
 
@@ -128,7 +132,7 @@ def _copied(node: Any) -> Any:
         return [_copied(v) for v in node]
     if kind is tuple:
         return tuple(_copied(v) for v in node)
-    if isinstance(node, BaseModel):
+    if isinstance(node, BaseModel) and kind.__deepcopy__ is BaseModel.__deepcopy__:
         cls: Any = kind
         out = cls.__new__(cls)  # as pydantic's own copy: a valid model is not validated again
         setattr_ = object.__setattr__
@@ -136,9 +140,11 @@ def _copied(node: Any) -> Any:
         setattr_(out, "__pydantic_extra__", _copied(node.__pydantic_extra__))
         setattr_(out, "__pydantic_fields_set__", set(node.__pydantic_fields_set__))
         private = getattr(node, "__pydantic_private__", None)
-        setattr_(out, "__pydantic_private__", None if private is None else copy.deepcopy(private))
+        if private is not None:  # pydantic's own copy drops what was never set
+            private = copy.deepcopy({k: v for k, v in private.items() if v is not _UNSET})
+        setattr_(out, "__pydantic_private__", private)
         return out
-    return copy.deepcopy(node)  # anything else: Python's own
+    return copy.deepcopy(node)  # anything else (a model with a copy of its own): Python's
 
 
 def crash_text(exc: BaseException) -> str:

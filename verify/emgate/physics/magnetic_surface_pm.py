@@ -169,7 +169,7 @@ def surface_pm_gap(
 
     # With ideal iron the loop is linear in B_g; the iron's magnetic voltage (>= 0) only
     # lowers the root, so the ideal-iron root (widened by far more than rounding) bounds it
-    # from above, and the solver starts from a bracket a few per cent wide. (At
+    # from above, and the first secant step lands within a few per cent of the root. (At
     # B_g = Br / k_leak the magnet field is zero and the rest of the loop is not.)
     linear = k_leak * magnet.thickness / (MU0 * magnet.recoil_permeability)
     ideal = coercive_mmf / (linear + path.effective_gap / MU0)

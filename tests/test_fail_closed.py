@@ -457,6 +457,38 @@ def test_a_link_out_of_the_repository_is_not_followed(tmp_path: Path) -> None:
     assert any("outside" in f["message"] for f in _inputs(result.json()))
 
 
+@pytest.mark.parametrize("git", [False, True], ids=["walk", "git"])
+def test_a_link_in_a_checked_folder_that_leads_nowhere_is_an_error(
+    tmp_path: Path, git: bool
+) -> None:
+    # A record replaced by a dangling link (or a loop) must not pass as if it were absent.
+    import shutil
+    import subprocess
+
+    repo = tmp_path / "repo"
+    (repo / "designs").mkdir(parents=True)
+    shutil.copy(PUMP, repo / "designs" / "pump.yaml")
+    (repo / "designs" / "motor.yaml").symlink_to("gone.yaml")
+    (repo / "designs" / "shared.yaml").symlink_to("../shared/motor.yaml")
+    (repo / "designs" / "a.yaml").symlink_to("b.yaml")
+    (repo / "designs" / "b.yaml").symlink_to("a.yaml")
+    if git:
+        if shutil.which("git") is None:
+            pytest.fail("git is needed (the CI set-up installs it)")
+        subprocess.run(["git", "init", "-q"], cwd=repo, check=True)
+        subprocess.run(["git", "add", "-A"], cwd=repo, check=True)
+    result = run_cli("check", "--format", "json", repo / "designs")
+    assert result.code == 2, result.out + result.err
+    inputs = _inputs(result.json())
+    named = {Path(f["file"]).name: f for f in inputs}
+    assert {"motor.yaml", "shared.yaml", "a.yaml", "b.yaml"} <= set(named), inputs
+    assert named["motor.yaml"]["line"] == 1
+    assert "cannot read file: No such file" in named["motor.yaml"]["message"]
+    assert "symbolic links" in named["a.yaml"]["message"]  # the loop, as the system says
+    assert "leading outside" in named["shared.yaml"]["message"]
+    assert [r["record_id"] for r in result.json()["records"]] == ["pump-drive-4p36s"]
+
+
 def test_a_waivers_file_that_is_no_emgate_file_is_not_quoted(repo: Path) -> None:
     _config(repo, "waivers: notes.yaml\n")
     (repo / "notes.yaml").write_text("first-line-of-a-private-file: 1\n", encoding="utf-8")

@@ -6,6 +6,7 @@ from __future__ import annotations
 import hashlib
 import heapq
 import math
+import os
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import IO, TYPE_CHECKING, Any, Literal
@@ -287,7 +288,8 @@ def anchor_findings(findings: Iterable[Finding], top: Path) -> None:
         if f.file:
             repo = named.get(f.file)
             if repo is None:
-                path = Path(f.file).resolve()
+                # os.path's realpath: pathlib's raises on a symbolic-link loop (Python 3.11)
+                path = Path(os.path.realpath(f.file))
                 try:
                     repo = path.relative_to(top).as_posix()
                 except ValueError:

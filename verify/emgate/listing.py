@@ -35,7 +35,7 @@ def yaml_names(root: Path) -> list[str]:
     discovery of a large repository builds a path object only for the files it keeps."""
     listed = _git_listing(root)
     if listed is None:
-        return sorted((p for p in _walk(root) if os.path.isfile(p)), key=_parts)
+        return sorted((p for p in _walk(root) if _readable_or_link(p)), key=_parts)
     top = str(root)
     verdict: dict[str, bool] = {}
 
@@ -52,7 +52,13 @@ def yaml_names(root: Path) -> list[str]:
         return ok
 
     paths = (os.path.join(top, name) for name in listed if _suffix(name) in SUFFIXES and kept(name))
-    return sorted((p for p in paths if os.path.isfile(p)), key=_parts)
+    return sorted((p for p in paths if _readable_or_link(p)), key=_parts)
+
+
+def _readable_or_link(name: str) -> bool:
+    """A file, or a symbolic link whatever it leads to: a link that leads nowhere (or in a
+    loop) is kept, for discovery to report, not dropped as if it were no record."""
+    return os.path.isfile(name) or os.path.islink(name)
 
 
 def _suffix(name: str) -> str:

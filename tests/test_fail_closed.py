@@ -197,6 +197,42 @@ def test_changed_since_sees_a_record_that_lost_its_schema_line(
     assert error["file"] == "motor.yaml"
 
 
+
+@pytest.mark.parametrize(
+    "written",
+    ["id: {}", "id: '{}'   # the pump line", '"id": {}', "id:   {}\t"],
+    ids=["plain", "quoted-with-comment", "quoted-key", "spaces"],
+)
+def test_changed_since_fails_a_new_record_that_takes_an_unchanged_ones_id(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, written: str
+) -> None:
+    # A copied record that keeps its id passes a check of the change alone unless the ids
+    # of the records the change leaves alone (not parsed, however their id line is written)
+    # are known: the full check of the merged tree would fail.
+    repo = tmp_path / "r"
+    repo.mkdir()
+    _git(repo, "init", "-q")
+    _config(repo)
+    text = PUMP.read_text(encoding="utf-8")
+    rid = re.search(r"^id: (\S+)", text, re.MULTILINE)[1]  # type: ignore[index]
+    kept = re.sub(r"^id: .*$", written.format(rid), text, count=1, flags=re.MULTILINE)
+    (repo / "pump.yaml").write_text(kept, encoding="utf-8")
+    _git(repo, "add", "-A")
+    _git(repo, "commit", "-q", "-m", "start")
+    monkeypatch.chdir(repo)
+    assert _json()[0] == 0  # the tree as committed passes
+    (repo / "another-pump.yaml").write_text(text, encoding="utf-8")
+    for args in (("--changed-since", "HEAD"), ()):
+        code, doc = _json(*args)
+        assert code == 2, (args, doc)
+        (error,) = _inputs(doc)
+        assert f"record id {rid!r} is already used by" in error["message"], error
+        assert error["line"] > 1  # at the id, not at the top of the file
+    code, doc = _json("--changed-since", "HEAD")
+    assert _inputs(doc)[0]["file"] == "another-pump.yaml"  # the change is what is refused
+    assert "pump.yaml" in _inputs(doc)[0]["message"]
+
+
 # --- 5, 8: physically plausible ranges; non-finite is an input error at the field ----------
 
 

@@ -54,6 +54,7 @@ def discover(
     changes: ChangeSet | None = None,
     verbose: bool = False,
     design_text: bool = True,
+    outside_ids: dict[str, str] | None = None,
 ) -> list[Source]:
     """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema.
 
@@ -64,7 +65,9 @@ def discover(
     Otherwise it is skipped (with a note when named, or with ``verbose``). With a change
     set, only the files the change touches are held to this. Without ``design_text`` the
     design records are read here (read_text's refusals are reported) but their text is not
-    kept: the pipeline reads it again when it checks the record.
+    kept: the pipeline reads it again when it checks the record. ``outside_ids`` is filled
+    with the id of each design record outside a change set, and the file that holds it: a
+    changed record may not take the id of one the change leaves alone.
     """
     out: list[Source] = []
     # Paths as strings until a file is kept: a thousand-record repository checked for one
@@ -110,6 +113,9 @@ def discover(
                 continue
             declared = _declared(text)
             if outside and declared in (DESIGN_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA):
+                if outside_ids is not None and declared == DESIGN_SCHEMA:
+                    for rid in record_ids(path, text):
+                        outside_ids.setdefault(rid, name)
                 continue  # outside the change by its path alone: not parsed
             if declared is None:
                 declared, problem, near_miss = _classify(path, text)
@@ -271,7 +277,25 @@ def _resembles(data: dict) -> bool:
     )
 
 
-_RECORD_ID = re.compile(r"^id:\s*['\"]?([a-z0-9][a-z0-9._-]*)", re.MULTILINE)
+#: A top-level ``id:`` line whose whole value is an id (quoted or not, a comment after it)
+_RECORD_ID = re.compile(
+    r"""^id:[ \t]*(['"]?)([a-z0-9][a-z0-9._-]*)\1[ \t]*(?:#.*)?$""", re.MULTILINE
+)
+
+
+def record_ids(path: Path, text: str) -> list[str]:
+    """The id a design record's text gives, without parsing it when an ``id:`` line says it
+    plainly; otherwise (a quoted key, flow style, an id the pattern refuses) as parsed, and
+    none when the text does not parse (its own check reports that)."""
+    found = [m[1] for m in _RECORD_ID.findall(text)]
+    if found:
+        return found
+    try:
+        data = load_text(path, text).data
+    except InputError:
+        return []
+    rid = data.get("id") if isinstance(data, dict) else None
+    return [rid] if isinstance(rid, str) else []
 
 
 def repository_record_ids(root: Path) -> set[str]:
@@ -281,7 +305,7 @@ def repository_record_ids(root: Path) -> set[str]:
     for src in discover([root], RunResult(), design_text=False):  # one text at a time
         if src.declared == DESIGN_SCHEMA:
             try:
-                ids.update(_RECORD_ID.findall(read_text(src.path)))
+                ids.update(record_ids(src.path, read_text(src.path)))
             except InputError:
                 continue  # gone since discovery: its own check reports it
     return ids

@@ -62,7 +62,8 @@ def execute(run: Run) -> RunResult:
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     # the design records' texts are read again when each is checked (one held at a time)
-    sources = discover(run.paths, result, run.policy, run.changes, run.verbose, design_text=False)
+    outside: dict[str, str] = {}  # id -> file, of the records a change set leaves alone
+    sources = discover(run.paths, result, run.policy, run.changes, run.verbose, False, outside)
     named = {src.key for src in sources}
     # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
     folders = {p if p.is_dir() else p.parent for p in run.paths if p.exists()}
@@ -125,13 +126,15 @@ def execute(run: Run) -> RunResult:
             return check_source(run, src, catalogue, file_waivers)
 
         for done in ordered_map(one, designs, run.jobs):
-            if done.record_id is not None and done.record_id in seen_ids:
+            taken = None if done.record_id is None else seen_ids.get(done.record_id)
+            if taken is None and done.record_id in outside:
+                taken = display_path(Path(outside[done.record_id]))
+            if taken is not None:
                 # the same verdict as a serial run: a record whose id is taken is not checked
                 result.findings.append(
                     input_finding(
                         InputError(
-                            f"record id {done.record_id!r} is already used by"
-                            f" {seen_ids[done.record_id]}",
+                            f"record id {done.record_id!r} is already used by {taken}",
                             done.id_location,
                         )
                     )

@@ -108,3 +108,33 @@ def test_the_listing_sorts_as_the_lists_of_path_parts_sort() -> None:
 
     same_order()
     assert sorted(["a-b/x", "a/x", "a/x/y", "a"], key=_parts) == ["a", "a/x", "a/x/y", "a-b/x"]
+
+
+@pytest.mark.parametrize(
+    "text",
+    [
+        "schema: emgate/design@1\nid: pump-a\ntitle: x\n",
+        "id: pump-a\nschema: emgate/design@1\n",  # the first line
+        "schema: emgate/design@1\nid: 'pump-a'   # the pump\n",
+        'schema: emgate/design@1\nid: "pump-a"\r\ntitle: x\r\n',  # CRLF: parsed instead
+        'schema: emgate/design@1\n"id": pump-a\n',  # a quoted key: parsed
+        "{schema: emgate/design@1, id: pump-a}\n",  # flow style: parsed
+        "schema: emgate/design@1\nid:\n  pump-a\n",  # the value on the next line: parsed
+        "schema: emgate/design@1\nid: Pump-A\n",  # an id the schema refuses: as parsed
+        "schema: emgate/design@1\nidle: 3\nid: pump-a",  # no line end at the end
+        "schema: emgate/design@1\nnotes: |\n  id: other\nid: pump-a\n",  # indented: no id
+    ],
+)
+def test_a_records_id_is_read_as_pyyaml_parses_it(text: str, tmp_path: Path) -> None:
+    # Reference: PyYAML's safe_load, the parse a full check would take the id from.
+    import yaml
+
+    from emgate.discovery import record_ids
+
+    assert record_ids(tmp_path / "r.yaml", text) == [yaml.safe_load(text)["id"]]
+
+
+def test_a_record_that_does_not_parse_gives_no_id(tmp_path: Path) -> None:
+    from emgate.discovery import record_ids
+
+    assert record_ids(tmp_path / "r.yaml", "schema: emgate/design@1\nid: [pump\n") == []

@@ -239,6 +239,50 @@ time.sleep(30)
     assert _outcome(doc, "slot-fill")["status"] == "pass"
 
 
+def test_the_time_budget_holds_in_worker_processes(plugin_host: Any, repo: Path) -> None:
+    # A forked worker has no interval timer of its parent's: it starts its own.
+    import time
+
+    _pack(plugin_host, "time.sleep(30)")
+    (repo / "emgate.yaml").write_text(
+        "schema: emgate/config@1\nrule_time_budget: 0.2 s\n", encoding="utf-8"
+    )
+    for i in range(32):  # two workers' worth (emgate.parallel.MIN_ITEMS_PER_WORKER)
+        text = PUMP.read_text(encoding="utf-8").replace(
+            "id: pump-drive-4p36s", f"id: pump-{i:02d}", 1
+        )
+        (repo / f"pump-{i:02d}.yaml").write_text(text, encoding="utf-8")
+    started = time.monotonic()
+    result = run_cli("check", "--format", "json", "--jobs", "2", "--remedies", "off", repo)
+    # 16 records a worker at the budget each; a worker without its alarm would sleep 30 s
+    assert time.monotonic() - started < 25.0
+    assert result.code == 3, result.err
+    doc = result.json()
+    assert len(doc["records"]) == 32
+    for record in doc["records"]:
+        (bad,) = [o for o in record["outcomes"] if o["rule"] == "acme/bad"]
+        assert "longer than its time budget of 0.2 s" in bad["message"]
+
+
+def test_a_rule_that_runs_others_keeps_its_own_deadline() -> None:
+    # A tolerance check runs the other rules on variants, each within its own budget; once
+    # they return, the alarm watches the outer rule's deadline again.
+    import time
+
+    from emgate import runner
+
+    with runner.rule_guards():
+        with pytest.raises(runner._OutOfTime, match=r"budget of 0\.3 s"):
+            with runner._Clock(0.3):
+                with runner._Clock(5.0):
+                    time.sleep(0.05)  # the inner rule, well within its budget
+                time.sleep(10.0)  # the outer one overruns: stopped at its deadline
+        assert runner._Clock.current is None
+        with runner._Clock(0.3):
+            time.sleep(0.1)  # a rule done in time
+        time.sleep(0.4)  # is not stopped past its deadline, once it has returned
+
+
 def test_the_time_budget_is_a_time_of_at_most_an_hour(repo: Path) -> None:
     (repo / "emgate.yaml").write_text(
         "schema: emgate/config@1\nrule_time_budget: 2 h\n", encoding="utf-8"

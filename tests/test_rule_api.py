@@ -666,3 +666,52 @@ def test_a_declared_figure_the_record_has_no_value_for_is_an_error(repo: Path) -
     (finding,) = [f for f in result.json()["findings"] if f["rule"] == "declared-values"]
     assert finding["record_path"] == "$.declared['stator.slot_width_clearance']"
     assert "rectangular strands in an open slot only" in finding["message"]
+
+
+def test_the_quick_look_at_a_rules_check_agrees_with_the_full_one() -> None:
+    # runner._malformed passes the usual Check at a glance; a subclass of Check takes the
+    # full path, which must give the same answer for anything a rule may put in a Check.
+    from dataclasses import dataclass
+
+    from hypothesis import given, settings
+    from hypothesis import strategies as st
+
+    from emgate.rule import Check
+    from emgate.runner import _malformed
+
+    @dataclass(frozen=True, slots=True)
+    class Full(Check):
+        pass
+
+    anything = st.one_of(
+        st.floats(allow_nan=True, allow_infinity=True),
+        st.integers(-3, 3),
+        st.booleans(),
+        st.none(),
+        st.text(max_size=3),
+        st.lists(st.integers(), max_size=1),
+    )
+    texts = st.one_of(st.sampled_from(["", "1", "degC", "T", "A/mm^2", "furlong", "m/s"]), anything)
+    keys = st.one_of(st.text(max_size=3), st.integers(-2, 5), st.booleans(), st.floats())
+    paths = st.one_of(st.tuples(keys, keys), st.lists(keys, max_size=2), anything)
+
+    @settings(max_examples=400, deadline=None)
+    @given(
+        st.one_of(st.text(max_size=3), anything),
+        texts,
+        paths,
+        anything,
+        anything,
+        st.one_of(st.sampled_from(["max", "min", "MAX"]), anything),
+        texts,
+        texts,
+    )
+    def agree(quantity, label, path, value, limit, bound, unit, basis) -> None:  # type: ignore[no-untyped-def]
+        fields = dict(quantity=quantity, label=label, path=path, value=value, limit=limit)
+        fields |= dict(bound=bound, unit=unit, basis=basis)
+        assert _malformed(Check(**fields)) == _malformed(Full(**fields))
+
+    usual = dict(quantity="q", label="l", path=("a", 0), value=1.0, limit=2.0)
+    usual |= dict(bound="max", unit="T", basis="b")
+    assert _malformed(Check(**usual)) == _malformed(Full(**usual)) == ""
+    agree()

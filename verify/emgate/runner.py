@@ -13,7 +13,9 @@ from __future__ import annotations
 import copy
 import dataclasses
 import datetime
+import functools
 import math
+import os
 import signal
 import threading
 import time
@@ -33,6 +35,8 @@ from emgate.terms import SEVERITIES
 from emgate.units import QuantityError, parse_unit
 
 if TYPE_CHECKING:
+    from emgate.calc.thermal import ThermalRunaway
+    from emgate.calc.view import NotComputed
     from emgate.model import AnyDesign
 
 T = TypeVar("T")
@@ -56,9 +60,7 @@ def run_rule(
 ) -> RuleRun | None:
     """Run ``rule`` on ``design`` within ``budget`` seconds (inside :func:`rule_guards`);
     None when the rule does not apply to the record."""
-    from emgate.calc.thermal import ThermalRunaway
-    from emgate.calc.view import UNBALANCED, NotComputed
-
+    ThermalRunaway, NotComputed, UNBALANCED = _calculation_errors()
     ran = RuleRun()
     items = ran.items
     crash = ""
@@ -109,6 +111,16 @@ def run_rule(
     return ran
 
 
+@functools.cache
+def _calculation_errors() -> tuple[type[ThermalRunaway], type[NotComputed], str]:
+    """The calculation's errors a rule may end with, and the words for an unbalanced
+    winding: imported at the first rule, not at start-up, and once, not at every rule."""
+    from emgate.calc.thermal import ThermalRunaway
+    from emgate.calc.view import UNBALANCED, NotComputed
+
+    return ThermalRunaway, NotComputed, UNBALANCED
+
+
 #: Values a copy may share: nothing in them can be changed. (Not frozenset: it may hold an
 #: object that can.)
 _ATOMIC = frozenset({str, int, float, bool, type(None), bytes, datetime.date})
@@ -155,9 +167,28 @@ def crash_text(exc: BaseException) -> str:
     return f"{describe_exception(exc)}{where}"
 
 
+#: Units a Check has been seen to carry that parse: a record's rules yield the same few.
+_UNITS_SEEN: set[str] = {"", "1", "degC"}
+
+
 def _malformed(item: object) -> str:
     """Why a rule's output cannot be reported ('' if it can): the reporters rely on it."""
-
+    if (
+        type(item) is Check
+        and type(item.value) is float
+        and type(item.limit) is float
+        and math.isfinite(item.value)
+        and math.isfinite(item.limit)
+        and type(item.quantity) is str
+        and type(item.label) is str
+        and type(item.basis) is str
+        and type(item.unit) is str
+        and item.unit in _UNITS_SEEN
+        and item.bound in ("max", "min")
+        and type(item.path) is tuple
+        and all(type(p) is str or type(p) is int for p in item.path)
+    ):
+        return ""  # the usual item, as Context.check builds it: the checks below all pass
     if isinstance(item, Check):
         for name in ("value", "limit"):
             v = getattr(item, name)
@@ -169,11 +200,12 @@ def _malformed(item: object) -> str:
                 return f"a Check whose {name} is {_short(getattr(item, name))}, not text"
         if item.bound not in ("max", "min"):
             return f"a Check whose bound is {_short(item.bound)}, not 'max' or 'min'"
-        if item.unit not in ("", "1", "degC"):
+        if item.unit not in _UNITS_SEEN:
             try:
                 parse_unit(item.unit)
             except QuantityError:
                 return f"a Check whose unit {item.unit!r} emgate does not know"
+            _UNITS_SEEN.add(item.unit)
         return _path_problem(item.path)
     if isinstance(item, Problem):
         message: object = item.message  # typed str, but a rule may yield anything
@@ -217,39 +249,67 @@ class _OutOfTime(BaseException):
     ``except Exception`` does not swallow it)."""
 
 
+#: How often the run's timer looks at the running rule's deadline [s]: a rule that overruns
+#: its budget is stopped at most this much later.
+_TICK = 0.05
+
+
 class _Clock:
     """Run rule code within its time budget (``with _Clock(budget) as clock:``, inside
     :func:`rule_guards`; a class, not a generator: it wraps every rule on every record).
 
-    The budget is a SIGALRM interval timer on the main thread of a POSIX system: it
-    interrupts pure-Python code and sleeps, but a long call inside a C extension only
-    once it returns to the interpreter. Elsewhere (another thread, Windows) the budget is
-    only checked after each yielded item and at the end: a rule that never returns still
-    holds the run there."""
+    The budget is a deadline that a SIGALRM interval timer looks at every :data:`_TICK`
+    seconds, on the main thread of a POSIX system: it interrupts pure-Python code and
+    sleeps, but a long call inside a C extension only once it returns to the interpreter.
+    The timer runs for the whole run (a timer armed and disarmed for each rule cost two
+    system calls a rule), and in a forked worker from its first rule. A rule that runs
+    others (a tolerance check) has its deadline back when they return. Elsewhere (another
+    thread, Windows) the budget is only checked after each yielded item and at the end: a
+    rule that never returns still holds the run there."""
 
-    #: Whether the run's alarm is installed, and the budget it was last armed with.
+    #: Whether the run's alarm is installed, the thread it watches, whether this process's
+    #: timer runs, and the innermost rule running on that thread.
     timer = False
-    armed = 0.0
-    __slots__ = ("budget", "start")
+    thread = 0
+    ticking = False
+    current: _Clock | None = None
+    __slots__ = ("budget", "deadline", "outer", "watched")
 
     def __init__(self, budget: float) -> None:
         self.budget = budget
-        self.start = time.monotonic()
+        self.deadline = time.monotonic() + budget
+        self.outer: _Clock | None = None
+        self.watched = False
 
     def __enter__(self) -> _Clock:
-        if _Clock.timer:
-            _Clock.armed = self.budget
-            # and again every second, for a rule that catches the first one
-            signal.setitimer(signal.ITIMER_REAL, self.budget, 1.0)
+        if _Clock.timer and threading.get_ident() == _Clock.thread:
+            if not _Clock.ticking:
+                _Clock.ticking = True
+                signal.setitimer(signal.ITIMER_REAL, _TICK, _TICK)
+            self.outer, self.watched = _Clock.current, True
+            _Clock.current = self  # last: the alarm sees this clock once __exit__ will run
         return self
 
     def __exit__(self, *exc: object) -> None:
-        if _Clock.timer:
-            signal.setitimer(signal.ITIMER_REAL, 0.0)
+        if self.watched:
+            _Clock.current = self.outer
 
     def check(self) -> None:
-        if time.monotonic() - self.start > self.budget:
+        if time.monotonic() > self.deadline:
             raise _OutOfTime(f"it ran longer than its time budget of {self.budget:g} s")
+
+
+def _alarm(signum: int, frame: object) -> None:
+    if (clock := _Clock.current) is not None:
+        clock.check()  # and again every tick, for a rule that catches the first one
+
+
+def _forked() -> None:
+    _Clock.ticking = False  # a child has no interval timer of its parent's
+
+
+if hasattr(os, "register_at_fork"):
+    os.register_at_fork(after_in_child=_forked)
 
 
 @contextmanager
@@ -259,12 +319,8 @@ def rule_guards() -> Iterator[None]:
     timer = hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread()
     previous = None
     if timer:
-
-        def alarm(signum: int, frame: object) -> None:
-            raise _OutOfTime(f"it ran longer than its time budget of {_Clock.armed:g} s")
-
-        previous = signal.signal(signal.SIGALRM, alarm)
-    _Clock.timer = timer
+        previous = signal.signal(signal.SIGALRM, _alarm)
+    _Clock.timer, _Clock.thread = timer, threading.get_ident()
     try:
         with watching_interrupts():
             yield
@@ -272,4 +328,5 @@ def rule_guards() -> Iterator[None]:
         if timer:
             signal.setitimer(signal.ITIMER_REAL, 0.0)
             signal.signal(signal.SIGALRM, previous)
-        _Clock.timer = False
+        _Clock.timer = _Clock.ticking = False
+        _Clock.current = None

@@ -137,11 +137,18 @@ class RulePolicy:
     ignore: tuple[str, ...]
     severity: dict[str, Severity]
     options: dict[str, Options]
+    #: selected() by rule class: asked for every rule of every record
+    _chosen: dict[type[Rule], bool] = field(
+        default_factory=dict, init=False, repr=False, compare=False
+    )
 
     def selected(self, rule: type[Rule]) -> bool:
-        return any(_matches(s, rule) for s in self.select) and not any(
-            _matches(s, rule) for s in self.ignore
-        )
+        chosen = self._chosen.get(rule)
+        if chosen is None:
+            chosen = self._chosen[rule] = any(_matches(s, rule) for s in self.select) and not any(
+                _matches(s, rule) for s in self.ignore
+            )
+        return chosen
 
     def options_for(self, rule: type[Rule]) -> Options:
         return self.options.get(rule.id) or rule.options.defaults()

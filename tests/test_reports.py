@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import json
 import math
+import os
 import re
 import subprocess
 import sys
@@ -230,6 +231,8 @@ def test_display_path_names_a_file_as_pathlib_relates_it_to_the_working_folder(
     ]  # fmt: skip
     for case in cases:
         assert display_path(Path(case)) == reference(Path(case)), case
+        # with the path resolved already, as discovery gives it, the same name
+        assert display_path(Path(case), os.path.realpath(case)) == reference(Path(case)), case
     assert display_path(Path("designs/a.yaml")) == "designs/a.yaml"
     assert display_path(Path("../outside.yaml")) == "../outside.yaml"  # kept as given
     monkeypatch.chdir("/")  # the root as the working folder: nothing to strip but the "/"

@@ -20,12 +20,14 @@ class Location:
         return f"{display_path(self.file)}:{self.line}:{self.column}"
 
 
-def display_path(path: Path) -> str:
-    """A path relative to the working directory where possible, with forward slashes."""
+def display_path(path: Path, real: str | None = None) -> str:
+    """A path relative to the working directory where possible, with forward slashes.
+    ``real``: the path resolved already (discovery resolves each file once)."""
     if os.name == "posix":  # strings, not pathlib: a check names every record's file
         try:
             cwd = os.getcwd()  # the kernel's own: no symbolic link in it to resolve
-            real = os.path.realpath(path)
+            if real is None:
+                real = os.path.realpath(path)
         except OSError:
             return Path(path).as_posix()
         if real == cwd:

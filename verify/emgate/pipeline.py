@@ -99,10 +99,11 @@ def check_source(
     from emgate.plausible import plausible_calculation
     from emgate.validate import schema_of, validate_design
 
-    done = RecordDone(display_path(src.path))
+    path = src.path
+    done = RecordDone(display_path(path, src.key))
     try:
         # read again: discovery keeps no design's text (the file's checks are the same)
-        doc = load_text(src.path, read_text(src.path) if src.text is None else src.text)
+        doc = load_text(path, read_text(path) if src.text is None else src.text)
         kind = schema_of(doc)
     except (InputError, InputErrors) as exc:
         if not _untouched_record(run, src):  # a broken record outside a change is its author's

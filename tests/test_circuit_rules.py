@@ -416,8 +416,8 @@ def test_a_rated_current_that_does_not_fit_the_design_is_a_nameplate_warning(
     # 19 A for 14.6 A: the rating's cos phi falls by 14.6 / 19 (0.84 to about 0.65), the
     # design's barely moves (the same active current; only the copper loss grows): a warning
     # at the rated current, on the lower bound.
-    (tmp_path / "high").mkdir()  # the policy above it applies
-    path = variant(tmp_path / "high", {"rating.line_current": "19 A"})
+    (tmp_path / "high").mkdir()  # the policy above it applies; an id of its own in the repository
+    path = variant(tmp_path / "high", {"id": "pump-high-current", "rating.line_current": "19 A"})
     result = check_json(path)
     low = the_check(result, "nameplate", "rating.power_factor_nameplate", bound="min")
     assert not low["passed"] and low["record_path"] == "$.rating.line_current"

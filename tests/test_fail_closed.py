@@ -197,7 +197,6 @@ def test_changed_since_sees_a_record_that_lost_its_schema_line(
     assert error["file"] == "motor.yaml"
 
 
-
 @pytest.mark.parametrize(
     "written",
     ["id: {}", "id: '{}'   # the pump line", '"id": {}', "id:   {}\t"],
@@ -222,7 +221,8 @@ def test_changed_since_fails_a_new_record_that_takes_an_unchanged_ones_id(
     monkeypatch.chdir(repo)
     assert _json()[0] == 0  # the tree as committed passes
     (repo / "another-pump.yaml").write_text(text, encoding="utf-8")
-    for args in (("--changed-since", "HEAD"), ()):
+    # the change checked alone, the file named as pre-commit names it, the whole tree
+    for args in (("--changed-since", "HEAD"), ("another-pump.yaml",), ()):
         code, doc = _json(*args)
         assert code == 2, (args, doc)
         (error,) = _inputs(doc)

@@ -7,6 +7,8 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import assume, given, settings
+from hypothesis import strategies as st
 from scipy import integrate
 
 from emgate import steels
@@ -492,3 +494,69 @@ def test_iec_60034_1_allowance_for_small_and_fanless_machines() -> None:
     assert rise_limit_allowance(500.0, totally_enclosed_fanless=False) == 5.0
     assert rise_limit_allowance(7500.0, totally_enclosed_fanless=True) == 5.0
     assert rise_limit_allowance(7500.0, totally_enclosed_fanless=False) == 0.0
+
+
+def test_a_slow_fixed_point_is_finished_from_above_in_few_evaluations() -> None:
+    # A linear rise of slope 0.7 at the fixed point [calc]: from the coolant alone the
+    # iteration needs 33 evaluations to 0.01 K; Aitken's extrapolation is exact on a linear
+    # map, so the jump from above lands within the tolerance of the closed form.
+    rth, p20, a, tc = 0.7 / (500.0 * 0.00393), 500.0, 0.00393, 313.15
+    calls = 0
+
+    def estimate(copper: float) -> ThermalEstimate:
+        nonlocal calls
+        calls += 1
+        rise = rth * copper
+        return ThermalEstimate("x", rise, tc + rise, tc, (), 0.0, 0.0)
+
+    op = operating_temperature(p20, a, estimate, tc)
+    exact = (tc + rth * p20 * (1 - a * 293.15)) / (1 - rth * p20 * a)
+    assert op.converged and not op.runaway
+    assert exact - 1e-9 <= op.temperature <= exact + FIXED_POINT_TOLERANCE  # from above
+    assert calls <= 8, calls
+
+
+@settings(max_examples=300, deadline=None)
+@given(
+    st.lists(st.floats(0.05, 1.6), min_size=2, max_size=6),
+    st.lists(st.floats(5.0, 120.0), min_size=5, max_size=5),
+    st.floats(2.0, 60.0),
+)
+def test_the_fixed_point_is_never_below_the_lowest_one(
+    slopes: list[float], lengths: list[float], offset: float
+) -> None:
+    # An increasing piecewise-linear map of the rise x above the coolant [calc], with any
+    # number of fixed points: every fixed point is found in closed form, segment by segment.
+    # Whether it rises from below or finishes from above, the iteration must not report a
+    # temperature below the lowest fixed point, and must report one of the fixed points.
+    p20, a, tc = 1000.0, 0.00393, 300.0
+    edges = [0.0]
+    for length in lengths[: len(slopes) - 1]:
+        edges.append(edges[-1] + length)
+    starts = [offset]
+    for i in range(1, len(slopes)):
+        starts.append(starts[-1] + slopes[i - 1] * (edges[i] - edges[i - 1]))
+
+    def phi(x: float) -> float:
+        i = max(j for j in range(len(edges)) if edges[j] <= x) if x >= 0.0 else 0
+        return starts[i] + slopes[i] * (x - edges[i])
+
+    fixed = []
+    for i, (s, y0, x0) in enumerate(zip(slopes, starts, edges, strict=True)):
+        if s != 1.0:
+            x = (y0 - s * x0) / (1.0 - s)  # y0 + s (x - x0) = x
+            top = edges[i + 1] if i + 1 < len(edges) else math.inf
+            if x0 <= x <= top:
+                fixed.append(x)
+    assume(fixed and min(fixed) < 800.0)  # a fixed point below the run-away temperature
+
+    def estimate(copper: float) -> ThermalEstimate:
+        t = 293.15 + (copper / p20 - 1.0) / a  # the temperature this loss belongs to
+        out = tc + phi(t - tc)
+        return ThermalEstimate("x", out - tc, out, tc, (), 0.0, 0.0)
+
+    op = operating_temperature(p20, a, estimate, tc)
+    assume(op.converged)  # (a tangency can take every iteration)
+    rise = op.temperature - tc
+    assert rise >= min(fixed) - FIXED_POINT_TOLERANCE
+    assert min(abs(rise - x) for x in fixed) <= 2 * FIXED_POINT_TOLERANCE

@@ -138,3 +138,18 @@ def test_a_record_that_does_not_parse_gives_no_id(tmp_path: Path) -> None:
     from emgate.discovery import record_ids
 
     assert record_ids(tmp_path / "r.yaml", "schema: emgate/design@1\nid: [pump\n") == []
+
+
+def test_discovery_keeps_one_copy_of_what_every_record_shares(tmp_path: Path) -> None:
+    # A run holds a Source for each record until it is checked: the declared schema is the
+    # schema's own constant, and a name that is already resolved is its own key.
+    from emgate.discovery import discover
+    from emgate.findings import RunResult
+    from emgate.terms import DESIGN_SCHEMA
+
+    folder = (tmp_path / "designs").resolve()
+    folder.mkdir()
+    shutil.copy(PUMP, folder / "pump.yaml")
+    (source,) = discover([folder], RunResult(), design_text=False)
+    assert source.declared is DESIGN_SCHEMA
+    assert source.key is source.name and source.name == str(folder / "pump.yaml")

@@ -161,7 +161,8 @@ def discover(
 def _declared(text: str) -> str | None:
     """The emgate schema a file's ``schema:`` line declares in its head, if any."""
     m = _DECLARES.search(text, 0, _HEAD_CHARS)
-    return m.group(1) if m and m.group(1) in _KNOWN else None
+    # the schema's own constant, not the match's copy: a run keeps one for every record
+    return _CANONICAL.get(m.group(1)) if m else None
 
 
 def _resolved(name: str, folders: dict[str, str]) -> str:
@@ -173,7 +174,8 @@ def _resolved(name: str, folders: dict[str, str]) -> str:
     real = folders.get(folder)
     if real is None:
         real = folders[folder] = os.path.realpath(folder or ".")
-    return os.path.join(real, base)
+    key = os.path.join(real, base)
+    return name if key == name else key  # one string kept, not two, for a resolved name
 
 
 def _within(key: str, folder: str) -> bool:
@@ -184,6 +186,7 @@ def _within(key: str, folder: str) -> bool:
 #: Top-level keys of emgate records: a file holding one of them is meant as a record.
 RECORD_KEYS = frozenset({"machine", "stator", "rotor", "winding", "air_gap", "steels"})
 _KNOWN = (DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA)
+_CANONICAL = {schema: schema for schema in _KNOWN}
 
 
 def _ignored(path: Path, policy: Policy | None) -> bool:

@@ -525,6 +525,31 @@ def test_a_link_in_a_checked_folder_that_leads_nowhere_is_an_error(
     assert [r["record_id"] for r in result.json()["records"]] == ["pump-drive-4p36s"]
 
 
+def test_a_link_loop_named_or_changed_in_a_configured_repository_is_an_input_error(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # pathlib's resolve raises RuntimeError on a loop (Python 3.11): it ended the run as an
+    # internal error (exit 3) where a named or changed file is related to the repository.
+    repo = tmp_path / "r"
+    repo.mkdir()
+    _git(repo, "init", "-q")
+    _config(repo)
+    write_variant(repo, base=PUMP)
+    _git(repo, "add", "-A")
+    _git(repo, "commit", "-q", "-m", "start")
+    monkeypatch.chdir(repo)
+    Path("a.yaml").symlink_to("b.yaml")
+    Path("b.yaml").symlink_to("a.yaml")
+    code, doc = _json("a.yaml")  # as pre-commit names a staged file
+    assert code == 2, doc
+    (error,) = _inputs(doc)
+    assert "symbolic link that leads to no file" in error["message"], error
+    code, doc = _json("--changed-since", "HEAD")
+    assert code == 2, doc
+    assert {f["file"] for f in _inputs(doc)} == {"a.yaml", "b.yaml"}
+    assert all("symbolic links" in f["message"] for f in _inputs(doc))
+
+
 def test_a_waivers_file_that_is_no_emgate_file_is_not_quoted(repo: Path) -> None:
     _config(repo, "waivers: notes.yaml\n")
     (repo / "notes.yaml").write_text("first-line-of-a-private-file: 1\n", encoding="utf-8")

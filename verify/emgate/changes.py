@@ -12,7 +12,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from emgate.config import CONFIG_NAME, WAIVERS_NAME
-from emgate.errors import InputError
+from emgate.errors import InputError, resolved
 
 if TYPE_CHECKING:
     import subprocess
@@ -28,7 +28,7 @@ class ChangeSet:
 
     def touches(self, path: Path, data: Any) -> bool:
         """Whether a design file (with its raw, unvalidated data) is affected."""
-        if self.everything or path.resolve() in self.files:
+        if self.everything or resolved(path) in self.files:
             return True
         if not self.grades or not isinstance(data, dict):
             return False
@@ -73,9 +73,9 @@ def changed_since(rev: str, cwd: Path, config: Path | None, waivers: Path | None
     if diff.returncode != 0 or untracked.returncode != 0:
         raise InputError(f"git diff against {rev!r} failed: {diff.stderr.strip()}")
     names = [n for n in (diff.stdout + untracked.stdout).split("\0") if n]
-    out = ChangeSet(files={(root / n).resolve() for n in names})
+    out = ChangeSet(files={resolved(root / n) for n in names})
     # Policy files, present or deleted by the change, re-check everything.
-    specials = {p.resolve() for p in (config, waivers) if p is not None}
+    specials = {resolved(p) for p in (config, waivers) if p is not None}
     if out.files & specials or any(p.name in (CONFIG_NAME, WAIVERS_NAME) for p in out.files):
         out.everything = True
     for path in out.files:
@@ -90,8 +90,8 @@ def named_files(
     """Files named on the command line (as pre-commit passes the staged ones), read as a change
     to the repository at ``root``: a named materials file re-checks the records using its
     grades, a named config or waivers file re-checks every record."""
-    out = ChangeSet(files={p.resolve() for p in paths}, named=True)
-    specials = {p.resolve() for p in (config, waivers) if p is not None}
+    out = ChangeSet(files={resolved(p) for p in paths}, named=True)
+    specials = {resolved(p) for p in (config, waivers) if p is not None}
     out.everything = bool(out.files & specials) or any(
         p.name in (CONFIG_NAME, WAIVERS_NAME) for p in out.files
     )
@@ -107,7 +107,7 @@ def _grades_defined(path: Path, root: Path, rev: str | None) -> set[str]:
 
     texts = []
     try:  # a regular file inside the repository only (a link out is not followed)
-        path.resolve().relative_to(root.resolve())
+        resolved(path).relative_to(resolved(root))
         texts.append(read_text(path))
     except (ValueError, OSError, InputError):
         pass  # deleted, not a regular file, or outside: the file's own check reports it

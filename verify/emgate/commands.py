@@ -287,8 +287,10 @@ def _sweep(args: argparse.Namespace) -> int:
 
 
 def _inside(path: Path, root: Path) -> bool:
+    from emgate.errors import resolved
+
     try:
-        path.resolve().relative_to(root.resolve())
+        resolved(path).relative_to(resolved(root))
     except ValueError:
         return False
     return path.is_file()

@@ -23,7 +23,7 @@ from pydantic import (
     ValidationError,
 )
 
-from emgate.errors import InputError, InputErrors
+from emgate.errors import InputError, InputErrors, resolved
 from emgate.loader import Document, load
 from emgate.quantity import quantity
 from emgate.rule import Options, Rule
@@ -175,7 +175,7 @@ class Policy:
     def relative(self, path: Path) -> str | None:
         """``path`` relative to the repository root, or None outside it."""
         try:
-            return path.resolve().relative_to(self.root.resolve()).as_posix()
+            return resolved(path).relative_to(resolved(self.root)).as_posix()
         except (ValueError, OSError):
             return None
 
@@ -226,7 +226,7 @@ def _matches(selector: str, rule: type[Rule]) -> bool:
 
 def find_config(start: Path) -> Path | None:
     """The nearest ``emgate.yaml`` in ``start`` or its parents, up to a git root."""
-    here = start.resolve()
+    here = resolved(start)
     for folder in (here, *here.parents):
         candidate = folder / CONFIG_NAME
         if candidate.is_file():
@@ -375,7 +375,7 @@ def load_policy(
 def _within(path: Path, root: Path) -> bool:
     """Whether ``path``, symbolic links resolved, lies inside ``root``."""
     try:
-        path.resolve().relative_to(root.resolve())
+        resolved(path).relative_to(resolved(root))
     except (ValueError, OSError):
         return False
     return True

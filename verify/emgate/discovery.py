@@ -86,7 +86,12 @@ def discover(
         elif root.exists():
             candidates, explicit, inside = [str(root)], True, None
         else:
-            result.findings.append(input_finding(InputError(f"no such file or folder: {root}")))
+            missing = (
+                f"a symbolic link that leads to no file (dangling, or in a loop): {root}"
+                if os.path.islink(root)
+                else f"no such file or folder: {root}"
+            )
+            result.findings.append(input_finding(InputError(missing)))
             continue
         for name in candidates:
             key = _resolved(name, folders)

@@ -20,6 +20,12 @@ class Location:
         return f"{display_path(self.file)}:{self.line}:{self.column}"
 
 
+def resolved(path: Path) -> Path:
+    """``path.resolve()``, except that a symbolic-link loop is left as it stands (Python
+    3.11's pathlib raises RuntimeError on one): the file's read then reports it, located."""
+    return Path(os.path.realpath(path))
+
+
 def display_path(path: Path, real: str | None = None) -> str:
     """A path relative to the working directory where possible, with forward slashes.
     ``real``: the path resolved already (discovery resolves each file once)."""

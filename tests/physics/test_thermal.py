@@ -331,6 +331,43 @@ def test_a_surface_solve_started_from_a_near_one_gives_the_same_estimate(
     assert astray.winding_rise == pytest.approx(cold.winding_rise, rel=1e-11)
 
 
+@pytest.mark.parametrize("cooling", ["enclosed_natural", "enclosed_fan", "open_ventilated"])
+@pytest.mark.parametrize("heat", [0.5, 60.0, 800.0, 5000.0])
+def test_an_air_surface_gives_the_coefficients_at_its_root(cooling: str, heat: float) -> None:
+    # [calc] external check: the surface rise from scipy.optimize.brentq on
+    # dT (h A + h_r A_r) = heat, with emgate's own film and radiation correlations; the
+    # coefficients and the resistance 1 / (h A + h_r A_r) at that rise. The solve keeps its
+    # last evaluation's coefficients and takes the resistance as rise / heat: 1e-9 relative
+    # leaves room for both solvers' tolerances of about 1e-12.
+    from scipy.optimize import brentq
+
+    from emgate.physics.thermal import _air_surface
+
+    par = ThermalParameters()
+    area, rad_area, diameter, length, t_c = 0.9, 0.45, 0.3, 0.35, 313.15
+
+    def film(rise: float) -> float:
+        if cooling == "enclosed_natural":
+            return convection.natural_convection_coefficient(diameter, t_c + rise, t_c)
+        v = par.air_velocity if cooling == "enclosed_fan" else par.internal_air_velocity
+        return convection.forced_convection_coefficient(length, v, t_c + rise, t_c)
+
+    radiating = rad_area if cooling != "open_ventilated" else 0.0
+
+    def conductance(rise: float) -> float:
+        h_r = (
+            convection.radiation_coefficient(par.emissivity, t_c + rise, t_c) if radiating else 0.0
+        )
+        return film(rise) * area + h_r * radiating
+
+    rise = brentq(lambda r: r * conductance(r) - heat, 1e-9, 1e5, xtol=1e-14, rtol=1e-14)
+    h, h_rad, resistance = _air_surface(cooling, heat, area, radiating, diameter, length, t_c, par)
+    assert h == pytest.approx(film(rise), rel=1e-9)
+    expected_h_r = convection.radiation_coefficient(par.emissivity, t_c + rise, t_c)
+    assert h_rad == (pytest.approx(expected_h_r, rel=1e-9) if radiating else 0.0)
+    assert resistance == pytest.approx(1.0 / conductance(rise), rel=1e-9)
+
+
 def test_a_liquid_boundary_has_no_air_surface_to_start_from() -> None:
     from emgate.physics.thermal import machine_temperature_rise
     from emgate.physics.thermal_inputs import HeatSources

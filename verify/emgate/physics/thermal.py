@@ -242,10 +242,23 @@ def _air_surface(
         h_r = radiation_coefficient(par.emissivity, t_c + rise, t_c) if radiating_area else 0.0
         return h, h_r, h * air_area + h_r * radiating_area
 
+    last = (math.nan, 0.0, 0.0)  # the rise and coefficients of the solver's last evaluation
+
+    def conductance(rise: float) -> float:
+        nonlocal last
+        h, h_r, g = coefficients(rise)
+        last = (rise, h, h_r)
+        return g
+
+    root = _solve_surface_rise(heat, conductance, near)
+    if root > 1e-6 and abs(last[0] - root) <= 1e-10 * root:
+        # Within the solver's tolerance of the root: its last coefficients, and the
+        # resistance rise / heat, which the root makes equal to 1 / G (no evaluation more).
+        return last[1], last[2], root / heat
     # At zero heat, report the resistance the surface has as dT tends to 0.
-    rise = max(_solve_surface_rise(heat, lambda r: coefficients(r)[2], near), 1e-6)
-    h, h_rad, conductance = coefficients(rise)
-    return h, h_rad, 1.0 / conductance
+    rise = max(root, 1e-6)
+    h, h_rad, g = coefficients(rise)
+    return h, h_rad, 1.0 / g
 
 
 def winding_temperature_rise(

@@ -695,7 +695,7 @@ def test_the_quick_look_at_a_rules_check_agrees_with_the_full_one() -> None:
     keys = st.one_of(st.text(max_size=3), st.integers(-2, 5), st.booleans(), st.floats())
     paths = st.one_of(st.tuples(keys, keys), st.lists(keys, max_size=2), anything)
 
-    @settings(max_examples=400, deadline=None)
+    @settings(max_examples=400, deadline=None, derandomize=True)
     @given(
         st.one_of(st.text(max_size=3), anything),
         texts,

@@ -42,8 +42,9 @@ from __future__ import annotations
 
 import math
 import re
+from bisect import bisect_right
 from collections.abc import Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import NamedTuple
 
 import numpy as np
@@ -316,6 +317,12 @@ class LossCurve:
     frequency: float
     flux_density: np.ndarray
     loss: np.ndarray
+    # The curve as Python floats and their logarithms: a record looks it up a few times,
+    # and numpy's calls on a handful of points cost more than the interpolation.
+    _b: tuple[float, ...] = field(init=False, repr=False, compare=False)
+    _p: tuple[float, ...] = field(init=False, repr=False, compare=False)
+    _lb: tuple[float, ...] = field(init=False, repr=False, compare=False)
+    _lp: tuple[float, ...] = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
         b = np.asarray(self.flux_density, dtype=float)
@@ -328,19 +335,27 @@ class LossCurve:
             raise ValueError("B must increase strictly and the loss must not fall along a curve")
         object.__setattr__(self, "flux_density", b)
         object.__setattr__(self, "loss", p)
+        object.__setattr__(self, "_b", tuple(float(x) for x in b))
+        object.__setattr__(self, "_p", tuple(float(x) for x in p))
+        object.__setattr__(self, "_lb", tuple(math.log(x) for x in self._b))
+        object.__setattr__(self, "_lp", tuple(math.log(x) for x in self._p))
 
     def at(self, flux_density: float) -> tuple[float, bool]:
         """[W/kg] at ``B`` and whether it was extrapolated: log-log between points, B^2
         beyond the ends (the hysteresis law)."""
         b = abs(flux_density)
-        lb, lp = np.log(self.flux_density), np.log(self.loss)
+        bs, ps = self._b, self._p
         if b <= 0.0:
             return 0.0, False
-        if b < self.flux_density[0]:
-            return float(self.loss[0] * (b / self.flux_density[0]) ** 2), True
-        if b > self.flux_density[-1]:
-            return float(self.loss[-1] * (b / self.flux_density[-1]) ** 2), True
-        return float(np.exp(np.interp(math.log(b), lb, lp))), False
+        if b < bs[0]:
+            return ps[0] * (b / bs[0]) ** 2, True
+        if b > bs[-1]:
+            return ps[-1] * (b / bs[-1]) ** 2, True
+        lb, lp = self._lb, self._lp
+        j = min(bisect_right(bs, b), len(bs) - 1) - 1  # the segment [j, j + 1] holding b
+        x = math.log(b)
+        slope = (lp[j + 1] - lp[j]) / (lb[j + 1] - lb[j])
+        return math.exp(slope * (x - lb[j]) + lp[j]), False  # numpy.interp's formula
 
 
 class TableLoss(NamedTuple):

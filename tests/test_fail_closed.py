@@ -174,6 +174,25 @@ def _git(repo: Path, *args: str) -> None:
     )
 
 
+def _committed(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, files: dict[str, str] | None = None
+) -> Path:
+    """A configured git repository holding the pump record (or ``files``, name to text)
+    and whatever the caller wrote in it, committed, as the working folder."""
+    repo = tmp_path / "r"
+    repo.mkdir(exist_ok=True)
+    _git(repo, "init", "-q")
+    _config(repo)
+    if files is None:
+        write_variant(repo, base=PUMP)
+    for name, text in (files or {}).items():
+        (repo / name).write_text(text, encoding="utf-8")
+    _git(repo, "add", "-A")
+    _git(repo, "commit", "-q", "-m", "start")
+    monkeypatch.chdir(repo)
+    return repo
+
+
 @pytest.mark.skipif(
     subprocess.run(["git", "--version"], capture_output=True).returncode != 0,
     reason="needs git",
@@ -181,15 +200,9 @@ def _git(repo: Path, *args: str) -> None:
 def test_changed_since_sees_a_record_that_lost_its_schema_line(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
-    repo = tmp_path / "r"
-    repo.mkdir()
-    _git(repo, "init", "-q")
-    _config(repo)
-    path = _variant(repo, "emgate/design@1")
-    write_variant(repo, base=PUMP)
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-q", "-m", "start")
-    monkeypatch.chdir(repo)
+    (tmp_path / "r").mkdir()
+    path = _variant(tmp_path / "r", "emgate/design@1")
+    _committed(tmp_path, monkeypatch)
     path.write_text(path.read_text().replace("schema: emgate/design@1", "schema: 1.5"))
     code, doc = _json("--changed-since", "HEAD")
     assert code == 2, doc
@@ -208,17 +221,10 @@ def test_changed_since_fails_a_new_record_that_takes_an_unchanged_ones_id(
     # A copied record that keeps its id passes a check of the change alone unless the ids
     # of the records the change leaves alone (not parsed, however their id line is written)
     # are known: the full check of the merged tree would fail.
-    repo = tmp_path / "r"
-    repo.mkdir()
-    _git(repo, "init", "-q")
-    _config(repo)
     text = PUMP.read_text(encoding="utf-8")
     rid = re.search(r"^id: (\S+)", text, re.MULTILINE)[1]  # type: ignore[index]
     kept = re.sub(r"^id: .*$", written.format(rid), text, count=1, flags=re.MULTILINE)
-    (repo / "pump.yaml").write_text(kept, encoding="utf-8")
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-q", "-m", "start")
-    monkeypatch.chdir(repo)
+    repo = _committed(tmp_path, monkeypatch, {"pump.yaml": kept})
     assert _json()[0] == 0  # the tree as committed passes
     (repo / "another-pump.yaml").write_text(text, encoding="utf-8")
     # the change checked alone, the file named as pre-commit names it, the whole tree
@@ -530,14 +536,7 @@ def test_a_link_loop_named_or_changed_in_a_configured_repository_is_an_input_err
 ) -> None:
     # pathlib's resolve raises RuntimeError on a loop (Python 3.11): it ended the run as an
     # internal error (exit 3) where a named or changed file is related to the repository.
-    repo = tmp_path / "r"
-    repo.mkdir()
-    _git(repo, "init", "-q")
-    _config(repo)
-    write_variant(repo, base=PUMP)
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-q", "-m", "start")
-    monkeypatch.chdir(repo)
+    _committed(tmp_path, monkeypatch)
     Path("a.yaml").symlink_to("b.yaml")
     Path("b.yaml").symlink_to("a.yaml")
     code, doc = _json("a.yaml")  # as pre-commit names a staged file

@@ -233,7 +233,7 @@ class Options(BaseModel):
         default, else the team's configuration. A limit the team writes in other units ('45
         %', '0.2 mm') may differ from the default in the last bit only; that is still the
         default."""
-        source, default = self.source_of(field), _limits(type(self))[field][1]
+        source, default = _limits(type(self))[field]  # (what source_of gives, and the default)
         value = getattr(self, field)
         if (
             source is not None

@@ -132,8 +132,6 @@ class Sheet(Mapping[str, float]):
 
 
 def _value(c: Calculation, name: str) -> float:
-    from emgate.calc import winding
-
     entry = SHEET.get(name)
     if entry is None:
         raise KeyError(f"{name!r} is not a calculation-sheet name")
@@ -142,6 +140,8 @@ def _value(c: Calculation, name: str) -> float:
     try:
         return c.value(name)
     except (ValueError, ArithmeticError) as exc:
+        from emgate.calc import winding  # here: every rule reads the sheet through _value
+
         if isinstance(exc, NotComputed) or not winding.winding_problems(c):
             raise
         raise NotComputed(name, str(exc)) from exc

@@ -19,12 +19,6 @@ FIXED_POINT_TOLERANCE: float = 0.01
 FIXED_POINT_MAX_ITERATIONS: int = 200
 #: A winding estimated above this [K] (1000 degC) is a run-away, whatever the iteration does.
 RUNAWAY_TEMPERATURE: float = 1273.15
-#: The jump from above (see :func:`operating_temperature`) is tried once the ratio of steps
-#: is below this and has settled to within ``_SETTLED`` of its last value (relative): where
-#: it changes, the extrapolation of a ratio is no estimate of the limit.
-_JUMP_RATIO: float = 0.8
-_SETTLED: float = 0.05
-_MARGIN: float = 1.0
 
 
 class OperatingPoint(NamedTuple):
@@ -73,19 +67,11 @@ def operating_temperature(
 
     Solves ``T = T_c + rise(P_cu(T))`` with ``P_cu(T) = P_cu20 (1 + alpha20 (T - 20 degC))``
     (IEC 60028 linear resistance law) by fixed-point iteration from the coolant temperature.
-    The map g is increasing, so the iterates rise monotonically to the lowest fixed point T*;
+    The map is increasing, so the iterates rise monotonically to the lowest fixed point;
     convergence is declared when the a-posteriori error bound ``dT q / (1 - q)`` (q the
     observed ratio of successive steps) is below ``tolerance``. A ratio of 1 or more, a
     temperature above :data:`RUNAWAY_TEMPERATURE` or a network that cannot shed the heat
     is a thermal run-away, reported in the result.
-
-    Where the ratio has settled below 0.8, the iteration tries once to finish from above:
-    U, Aitken's extrapolation of the iterates raised by a margin, is taken only if the map
-    does not raise it (g(U) <= U). Below T* the map raises every temperature, so such a U
-    lies at or above T*, and the iterates from it fall monotonically to a fixed point at or
-    above T*, never below it (if the iterates stop contracting, the rise from below goes on).
-    The result is then within the tolerance of T* from above: it may err hot, never cold.
-    A U the map raises is dropped (it may lie between two higher fixed points).
 
     Parameters
     ----------
@@ -120,52 +106,29 @@ def operating_temperature(
 
     t = coolant_temperature
     last_step = math.inf
-    q = last_q = 0.0
+    q = 0.0
     est: ThermalEstimate | None = None
-    below: tuple[float, float] | None = None  # (t, last step) of the rise, while falling
-    tried = False  # the jump from above
     for k in range(1, max_iterations + 1):
         try:
             est = estimate(loss_at(t))
         except ValueError:
-            if below is not None:  # from above: the rise from below says what it is
-                (t, last_step), below, q = below, None, 0.0
-                continue
             return OperatingPoint(t, loss_at(t), None, k, False, True, math.inf)
         t_new = est.winding_temperature
         step = abs(t_new - t)
         t = t_new
-        if t > RUNAWAY_TEMPERATURE and below is None:
+        if t > RUNAWAY_TEMPERATURE:
             return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
         if step == 0.0:
             return OperatingPoint(t, loss_at(t), est, k, True, False, 0.0)
         if math.isfinite(last_step):
-            last_q, q = q, step / last_step
+            q = step / last_step
             if q >= 1.0:
-                if below is not None:  # not contracting from above: go on from below
-                    (t, last_step), below, q = below, None, 0.0
-                    continue
                 return OperatingPoint(t, loss_at(t), est, k, False, True, math.inf)
             bound = step * q / (1.0 - q)
             if bound < tolerance:
                 # One more evaluation so the estimate and the loss belong to t itself.
                 est = estimate(loss_at(t))
                 return OperatingPoint(t, loss_at(t), est, k, True, False, bound)
-            if not tried and q < _JUMP_RATIO and abs(q - last_q) <= _SETTLED * q:
-                tried = True
-                limit = t + bound  # Aitken's extrapolation of the rise
-                # raised by the change the last change of the ratio would make in it
-                drift = bound * abs(q - last_q) / (q * (1.0 - q))
-                top = limit + max(tolerance, _MARGIN * drift)
-                if top < RUNAWAY_TEMPERATURE:
-                    try:
-                        from_top = estimate(loss_at(top)).winding_temperature
-                    except ValueError:
-                        from_top = math.inf  # no verdict from there
-                    if from_top <= top:  # top is at or above the lowest fixed point
-                        below = (t, step)
-                        t, last_step, q = from_top, (top - from_top) or math.inf, 0.0
-                        continue
         last_step = step
     bound = last_step * q / (1.0 - q) if q < 1.0 else math.inf
     return OperatingPoint(t, loss_at(t), est, max_iterations, False, False, bound)

@@ -290,3 +290,36 @@ def test_the_time_budget_is_a_time_of_at_most_an_hour(repo: Path) -> None:
     result = run_cli("check", write_variant(repo, {}))
     assert result.code == 2
     assert "rule_time_budget" in result.out + result.err
+
+
+def test_a_rule_that_stops_the_timer_does_not_stop_it_for_the_next(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    import signal
+    import time
+
+    from emgate import runner
+
+    with runner.rule_guards():
+        with runner._Clock(5.0):
+            signal.setitimer(signal.ITIMER_REAL, 0.0)  # a rule's own doing
+            signal.signal(signal.SIGALRM, signal.SIG_IGN)
+        with pytest.raises(runner._OutOfTime), runner._Clock(0.2):
+            time.sleep(3.0)
+
+
+def test_the_alarm_never_leaves_a_rules_clock_behind(monkeypatch: pytest.MonkeyPatch) -> None:
+    # A tick that comes as a rule's clock is left must not raise there: the clock would stay
+    # current, and every later tick would raise into the engine outside any rule. A tick
+    # every 20 us makes the window likely (at the run's 50 ms it is rare, not impossible).
+    from emgate import runner
+
+    monkeypatch.setattr(runner, "_TICK", 2e-5)
+    with runner.rule_guards():
+        for _ in range(3000):
+            try:
+                with runner._Clock(0.0):  # past its budget at once
+                    sum(range(50))
+            except runner._OutOfTime:
+                pass
+            assert runner._Clock.current is None

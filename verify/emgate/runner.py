@@ -24,6 +24,7 @@ from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
+from types import FrameType
 from typing import TYPE_CHECKING, Any, TypeVar, cast
 
 from pydantic import BaseModel
@@ -283,7 +284,10 @@ class _Clock:
 
     def __enter__(self) -> _Clock:
         if _Clock.timer and threading.get_ident() == _Clock.thread:
-            if not _Clock.ticking:
+            # (again where a rule before stopped the timer or took the signal for its own)
+            if signal.getsignal(signal.SIGALRM) is not _alarm:
+                signal.signal(signal.SIGALRM, _alarm)
+            if not _Clock.ticking or signal.getitimer(signal.ITIMER_REAL)[1] != _TICK:
                 _Clock.ticking = True
                 signal.setitimer(signal.ITIMER_REAL, _TICK, _TICK)
             self.outer, self.watched = _Clock.current, True
@@ -299,9 +303,19 @@ class _Clock:
             raise _OutOfTime(f"it ran longer than its time budget of {self.budget:g} s")
 
 
-def _alarm(signum: int, frame: object) -> None:
-    if (clock := _Clock.current) is not None:
+def _alarm(signum: int, frame: FrameType | None) -> None:
+    clock = _Clock.current
+    # Not in run_rule's own code or the clock's: raised there, the alarm would leave the
+    # rule's guard (or the clock current after its rule); the next tick finds the rule.
+    if clock is not None and (frame is None or frame.f_code not in _ENGINE_CODE):
         clock.check()  # and again every tick, for a rule that catches the first one
+
+
+#: The engine's own code around a rule, where the alarm does not raise (the alarm's own, for
+#: a tick that comes while the last one is handled).
+_ENGINE_CODE = frozenset(
+    f.__code__ for f in (run_rule, _Clock.__enter__, _Clock.__exit__, _Clock.check, _alarm)
+)
 
 
 def _forked() -> None:

@@ -123,6 +123,7 @@ def test_the_listing_sorts_as_the_lists_of_path_parts_sort() -> None:
         "schema: emgate/design@1\nid: Pump-A\n",  # an id the schema refuses: as parsed
         "schema: emgate/design@1\nidle: 3\nid: pump-a",  # no line end at the end
         "schema: emgate/design@1\nnotes: |\n  id: other\nid: pump-a\n",  # indented: no id
+        'schema: emgate/design@1\nid: pump-a\ntitle: "a long\nid: other"\n',  # inside a text
     ],
 )
 def test_a_records_id_is_read_as_pyyaml_parses_it(text: str, tmp_path: Path) -> None:

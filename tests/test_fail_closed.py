@@ -186,6 +186,7 @@ def _committed(
     if files is None:
         write_variant(repo, base=PUMP)
     for name, text in (files or {}).items():
+        (repo / name).parent.mkdir(parents=True, exist_ok=True)
         (repo / name).write_text(text, encoding="utf-8")
     _git(repo, "add", "-A")
     _git(repo, "commit", "-q", "-m", "start")
@@ -237,6 +238,19 @@ def test_changed_since_fails_a_new_record_that_takes_an_unchanged_ones_id(
     code, doc = _json("--changed-since", "HEAD")
     assert _inputs(doc)[0]["file"] == "another-pump.yaml"  # the change is what is refused
     assert "pump.yaml" in _inputs(doc)[0]["message"]
+
+
+def test_a_named_record_may_share_its_id_with_a_file_the_files_globs_leave_out(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # A test fixture outside the configuration's files globs is no record of the full
+    # check: a record named as pre-commit names it is not refused for sharing its id.
+    text = PUMP.read_text(encoding="utf-8")
+    _committed(tmp_path, monkeypatch, {"designs/pump.yaml": text, "fixtures/pump.yaml": text})
+    _config(tmp_path / "r", 'files: ["designs/*.yaml"]\n')
+    assert _json()[0] == 0  # the full check: the fixture is not read
+    code, doc = _json("designs/pump.yaml")
+    assert code == 0, _inputs(doc)
 
 
 # --- 5, 8: physically plausible ranges; non-finite is an input error at the field ----------

@@ -118,7 +118,12 @@ def discover(
                 continue
             declared = _declared(text)
             if outside and declared in (DESIGN_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA):
-                if outside_ids is not None and declared == DESIGN_SCHEMA:
+                # only the records a full check reads: not a fixture the files globs leave out
+                if (
+                    outside_ids is not None
+                    and declared == DESIGN_SCHEMA
+                    and (policy is None or not policy.files or policy.selects(path))
+                ):
                     for rid in record_ids(path, text):
                         outside_ids.setdefault(rid, name)
                 continue  # outside the change by its path alone: not parsed
@@ -302,8 +307,9 @@ def record_ids(path: Path, text: str) -> list[str]:
         if m := _RECORD_ID.match(padded, at + 1):
             found.append(m[2])
         at = padded.find("\nid:", at + 1)
-    if found:
+    if len(found) == 1:
         return found
+    # none, or more than one (a line of a multi-line quoted text may begin with "id:"): parsed
     try:
         data = load_text(path, text).data
     except InputError:

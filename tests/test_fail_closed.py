@@ -253,6 +253,24 @@ def test_a_named_record_may_share_its_id_with_a_file_the_files_globs_leave_out(
     assert code == 0, _inputs(doc)
 
 
+@pytest.mark.parametrize("copy", ["another-pump.yaml", "zz-pump.yaml"])
+def test_a_copied_id_is_refused_in_a_change_that_also_edits_a_materials_file(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, copy: str
+) -> None:
+    # With a materials file in the change the records are read, and those its grades do
+    # not touch returned before their id was known: the copy passed. Before and after the
+    # original in file order.
+    text = PUMP.read_text(encoding="utf-8")
+    steels = STEELS.read_text(encoding="utf-8")
+    repo = _committed(tmp_path, monkeypatch, {"pump.yaml": text, "materials/steels.yaml": steels})
+    (repo / "materials" / "steels.yaml").write_text(steels + "\n# a note\n", encoding="utf-8")
+    (repo / copy).write_text(text, encoding="utf-8")
+    code, doc = _json("--changed-since", "HEAD")
+    assert code == 2, doc
+    (error,) = _inputs(doc)
+    assert error["file"] == copy and "is already used by" in error["message"], error
+
+
 # --- 5, 8: physically plausible ranges; non-finite is an input error at the field ----------
 
 

@@ -19,7 +19,7 @@ from emgate.discovery import (
     repository_record_ids,
     repository_root,
 )
-from emgate.errors import InputError, InputErrors, display_path
+from emgate.errors import InputError, InputErrors, Location, display_path
 from emgate.findings import (
     RuleInfo,
     RunResult,
@@ -115,6 +115,7 @@ def execute(run: Run) -> RunResult:
     # (which the check drains: a long run holds the records not yet checked)
     del docs, sources, named
     seen_ids: dict[str, str] = {}
+    claimed: dict[str, Location] = {}  # in a change set: where each checked record's id is
     interned: dict[frozenset[str], frozenset[str]] = {}
     if run.spool:  # the records go to disk as they are done
         result.spool = Spool()
@@ -126,6 +127,19 @@ def execute(run: Run) -> RunResult:
             return check_source(run, src, catalogue, file_waivers)
 
         for done in ordered_map(one, designs, run.jobs):
+            if done.untouched_id is not None:  # (a grades change reads the others too)
+                rid = done.untouched_id
+                if rid in claimed:  # a changed record before it in file order took its id
+                    result.findings.append(
+                        input_finding(
+                            InputError(
+                                f"record id {rid!r} is already used by {done.file}",
+                                claimed[rid],
+                            )
+                        )
+                    )
+                outside.setdefault(rid, done.file)
+                continue
             taken = None if done.record_id is None else seen_ids.get(done.record_id)
             if taken is None and done.record_id in outside:
                 taken = display_path(Path(outside[done.record_id]))
@@ -142,6 +156,8 @@ def execute(run: Run) -> RunResult:
                 continue
             if done.record_id is not None:
                 seen_ids[done.record_id] = done.file
+                if run.changes is not None and done.id_location is not None:
+                    claimed[done.record_id] = done.id_location
             records = done.records
             if not run.details:
                 records = [r.summarised(interned) for r in records]

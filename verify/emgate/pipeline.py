@@ -89,6 +89,8 @@ class RecordDone:
     records: list[RecordResult] = field(default_factory=list)
     record_id: str | None = None
     id_location: Location | None = None
+    #: The id of a record a change leaves alone, as parsed: a changed record may not take it.
+    untouched_id: str | None = None
 
 
 def check_source(
@@ -121,6 +123,8 @@ def check_source(
         )
         return done
     if run.changes is not None and not run.changes.touches(doc.path, doc.data):
+        rid = doc.data.get("id") if isinstance(doc.data, dict) else None
+        done.untouched_id = rid if isinstance(rid, str) else None
         return done
     partial = RunResult()
     try:

@@ -10,6 +10,7 @@ of a design in thermal run-away, ends the rule with a located finding.
 
 from __future__ import annotations
 
+import _signal  # type: ignore[import-not-found]  # (CPython's C module; no stub)
 import copy
 import dataclasses
 import datetime
@@ -250,6 +251,9 @@ class _OutOfTime(BaseException):
     ``except Exception`` does not swallow it)."""
 
 
+#: SIGALRM's number for _signal (0 where there is none: no timer is armed there)
+_SIGALRM = int(getattr(signal, "SIGALRM", 0))
+
 #: How often the run's timer looks at the running rule's deadline [s]: a rule that overruns
 #: its budget is stopped at most this much later.
 _TICK = 0.05
@@ -284,8 +288,10 @@ class _Clock:
 
     def __enter__(self) -> _Clock:
         if _Clock.timer and threading.get_ident() == _Clock.thread:
-            # (again where a rule before stopped the timer or took the signal for its own)
-            if signal.getsignal(signal.SIGALRM) is not _alarm:
+            # (again where a rule before stopped the timer or took the signal for its own;
+            # _signal's getsignal: the signal module's turns each answer into an enum
+            # member or fails to, 2 us a rule)
+            if _signal.getsignal(_SIGALRM) is not _alarm:
                 signal.signal(signal.SIGALRM, _alarm)
             if not _Clock.ticking or signal.getitimer(signal.ITIMER_REAL)[1] != _TICK:
                 _Clock.ticking = True

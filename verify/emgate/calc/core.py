@@ -47,17 +47,21 @@ class Calculation:
         return self.d.machine in SHEET[name].machines and (when is None or when(self.d))
 
 
+_MISSING: Any = object()
+
+
 def memo(fn: Callable[[Calculation], T]) -> Callable[[Calculation], T]:
     """Compute ``fn(c)`` once per calculation."""
     key = f"{fn.__module__}.{fn.__qualname__}"
 
     @functools.wraps(fn)
     def once(c: Calculation) -> T:
-        try:
-            return c._cache[key]
-        except KeyError:
+        # get, not a KeyError caught: a record computes each of some hundred quantities
+        # once, and a raised KeyError costs five times the lookup
+        value = c._cache.get(key, _MISSING)
+        if value is _MISSING:
             value = c._cache[key] = fn(c)
-            return value
+        return value
 
     once.memoized = True  # type: ignore[attr-defined]
     return once

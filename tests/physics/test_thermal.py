@@ -4,6 +4,7 @@ values and closed forms."""
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from typing import Any
 
 import numpy as np
@@ -294,6 +295,34 @@ def test_surface_rise_matches_brentq(conductance: Any, heat: float) -> None:
 
     expected = brentq(lambda r: r * conductance(r) - heat, 0.0, 1e5, xtol=1e-14, rtol=1e-14)
     assert _solve_surface_rise(heat, conductance) == pytest.approx(expected, rel=1e-11)
+
+
+@pytest.mark.parametrize(
+    "conductance",
+    [
+        lambda r: 50.0 * (1.0 + 0.05 * r) ** 0.25,  # a free-convection film: G grows
+        lambda r: 50.0 * (1.0 - 2e-4 * r),  # a forced film in warming air: G falls a little
+    ],
+    ids=["G rising", "G falling"],
+)
+@pytest.mark.parametrize("ratio", [1.0, 1.3, 0.7, 40.0, 0.02])
+def test_a_surface_solve_from_a_near_solution_finds_the_root(
+    conductance: Callable[[float], float], ratio: float
+) -> None:
+    # [calc] external check: scipy.optimize.brentq on dT G(dT) = heat, to 1e-14; the near
+    # solution is the root for 300 W. Where G rises, the rise scaled from it and heat / G
+    # there bracket the root; where G falls, both lie on one side and the margin's step
+    # closes the bracket. 1e-11 relative: the solver's tolerance is about 1e-12.
+    from scipy.optimize import brentq
+
+    from emgate.physics.thermal import _solve_surface_rise
+
+    def root(heat: float) -> float:
+        return brentq(lambda r: r * conductance(r) - heat, 0.0, 2000.0, xtol=1e-14, rtol=1e-14)
+
+    near = (300.0, root(300.0))
+    heat = 300.0 * ratio
+    assert _solve_surface_rise(heat, conductance, near) == pytest.approx(root(heat), rel=1e-11)
 
 
 def test_a_surface_that_cannot_shed_the_heat_is_refused() -> None:

@@ -165,8 +165,8 @@ def _cylinder_resistance(r_in: float, r_out: float, conductivity: float, length:
 _MAX_SURFACE_RISE = 65536.0
 
 
-#: The margin [-] a bracket taken from a near solution is widened by on each side: a forced
-#: film's conductance may fall a little as the air warms.
+#: The margin [-] a bracket taken from a near solution is widened by on its far side: a
+#: forced film's conductance may fall a little as the air warms.
 _NEAR_MARGIN = 0.01
 
 
@@ -178,22 +178,40 @@ def _solve_surface_rise(
     """Rise dT with dT * conductance(dT) = heat, conductance(dT) [W/K] non-decreasing.
 
     ``near`` is (heat, rise) of a solution of the same surface, such as the last iterate's
-    of a fixed point. With G non-decreasing the root for k times that heat lies between the
-    rise and k times it: two evaluations bracket it closely. The ends are checked; where
-    they fail, the bracket is found as without it.
+    of a fixed point. The rise it scales to, and heat / G there, lie on either side of the
+    root when G is non-decreasing (G changes little over the step: the two are close), so
+    two evaluations bracket the root tightly. The ends are checked; where they fail, the
+    bracket is found as without it.
     """
     if heat <= 0.0:
         return 0.0
+
+    def f(rise: float) -> float:
+        return rise * conductance(rise) - heat
+
     if near is not None and near[0] > 0.0 and near[1] > 0.0:
         k = heat / near[0]
-        lo = near[1] * min(1.0, k) * (1.0 - _NEAR_MARGIN)
-        hi = min(near[1] * max(1.0, k) * (1.0 + _NEAR_MARGIN), _MAX_SURFACE_RISE)
-        if lo < hi:
-            f_lo, f_hi = lo * conductance(lo) - heat, hi * conductance(hi) - heat
-            if f_lo <= 0.0 <= f_hi:
-                return solve_increasing(
-                    lambda rise: rise * conductance(rise) - heat, lo, hi, ends=(f_lo, f_hi)
-                )
+        guess = min(near[1] * k, _MAX_SURFACE_RISE)
+        f_guess = guess * (g := conductance(guess)) - heat
+        if f_guess == 0.0:
+            return guess
+        other = min(heat / g, _MAX_SURFACE_RISE)
+        points = sorted(((guess, f_guess), (other, f(other))))
+        if points[0][1] <= 0.0 <= points[1][1]:
+            (lo, f_lo), (hi, f_hi) = points
+            return solve_increasing(f, lo, hi, ends=(f_lo, f_hi))
+        # Both on one side (a forced film's G falls a little as the air warms): the nearer
+        # one bounds the root from that side, a step of the margin the other.
+        if points[0][1] > 0.0:
+            hi, f_hi = points[0]
+            lo = near[1] * min(1.0, k) * (1.0 - _NEAR_MARGIN)
+            if lo < hi and (f_lo := f(lo)) <= 0.0:
+                return solve_increasing(f, lo, hi, ends=(f_lo, f_hi))
+        else:
+            lo, f_lo = points[1]
+            hi = min(near[1] * max(1.0, k) * (1.0 + _NEAR_MARGIN), _MAX_SURFACE_RISE)
+            if lo < hi and (f_hi := f(hi)) >= 0.0:
+                return solve_increasing(f, lo, hi, ends=(f_lo, f_hi))
     # With G non-decreasing the root lies in [heat / G(hi), heat / G(0)]: two evaluations
     # instead of doubling a bracket from 1 K. Each end is checked, not assumed (a forced
     # film's coefficient may fall a little as the air warms), and widened if it fails; an
@@ -211,7 +229,7 @@ def _solve_surface_rise(
         else:
             hi, f_hi = x, f_x
     # the ends' values go with them: the solver need not compute them again
-    return solve_increasing(lambda rise: rise * conductance(rise) - heat, lo, hi, ends=(f_lo, f_hi))
+    return solve_increasing(f, lo, hi, ends=(f_lo, f_hi))
 
 
 def _air_surface(

@@ -501,6 +501,18 @@ def test_a_revision_that_looks_like_an_option_never_reaches_git(
 
 
 @needs_git
+@pytest.mark.parametrize(
+    "rev", ["no-such-branch", "HEAD~5", "0000000000000000000000000000000000000000"]
+)
+def test_a_revision_that_does_not_exist_is_an_input_error(git_repo: Path, rev: str) -> None:
+    # the repository has one commit: none of these names a commit in it
+    result = check_json(f"--changed-since={rev}")
+    assert result.code == 2, result.out
+    (error,) = result.input_findings()
+    assert f"git revision {rev!r} does not exist in {git_repo.name}" in error["message"]
+
+
+@needs_git
 def test_changed_since_outside_a_git_work_tree(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:

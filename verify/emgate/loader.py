@@ -36,6 +36,15 @@ _FLOAT = re.compile(r"[-+]?(\.[0-9]+|[0-9]+(\.[0-9]*)?)([eE][-+]?[0-9]+)?")
 _OCTALISH = re.compile(r"[-+]?0[0-9_]+|0o[0-7]+|0x[0-9a-fA-F]+|0b[01]+")
 _BOOL11 = {"yes", "no", "on", "off", "y", "n"}
 _NONFINITE = re.compile(r"[-+]?\.(inf|nan)", re.IGNORECASE)
+#: Plain scalars that are no text, by the restricted core schema.
+_SPECIAL: dict[str, Any] = {
+    **dict.fromkeys(("", "~", "null", "Null", "NULL")),
+    **dict.fromkeys(("true", "True", "TRUE"), True),
+    **dict.fromkeys(("false", "False", "FALSE"), False),
+}
+_TEXT = object()
+#: The first characters of whatever _INT, _FLOAT, _OCTALISH or _NONFINITE match.
+_NUMBER_START = frozenset("+-.0123456789")
 #: The event type of most nodes, compared by identity on the loader's hot path.
 _SCALAR = yaml.ScalarEvent
 _PLAIN_TAGS = {
@@ -196,7 +205,16 @@ class _Builder:
             while (key_event := get()) is not None:
                 if isinstance(key_event, yaml.MappingEndEvent):
                     return mapping
-                key = self.key(key_event, path)
+                # a plain key without anchor or tag passes key()'s checks but its length
+                key = key_event.value if type(key_event) is _SCALAR else None
+                if (
+                    key is None
+                    or key_event.anchor is not None
+                    or key_event.tag is not None
+                    or len(key) > 200
+                    or (key == "<<" and not key_event.style)
+                ):
+                    key = self.key(key_event, path)
                 sub = (*path, key)
                 if key in mapping:
                     first = key_marks[sub]
@@ -229,12 +247,9 @@ class _Builder:
             return value  # quoted or block scalars are text
         if " " in value:
             return value  # no null, boolean or number has a space: '0.45 mm' is text
-        if value in ("", "~", "null", "Null", "NULL"):
-            return None
-        if value in ("true", "True", "TRUE"):
-            return True
-        if value in ("false", "False", "FALSE"):
-            return False
+        special = _SPECIAL.get(value, _TEXT)
+        if special is not _TEXT:
+            return special
         if value.lower() in _BOOL11:
             raise self.fail(
                 event.start_mark,
@@ -242,27 +257,31 @@ class _Builder:
                 " or quote it for text",
                 path,
             )
-        if _NONFINITE.fullmatch(value):
-            raise self.fail(event.start_mark, f"{value!r} is not a finite number", path)
-        if _OCTALISH.fullmatch(value) and not _INT.fullmatch(value):
-            raise self.fail(
-                event.start_mark,
-                f"ambiguous number {value!r}: YAML 1.1 reads leading zeros as octal or a prefix"
-                " as another base; write a plain decimal number, or quote it for text",
-                path,
-            )
-        if _INT.fullmatch(value) or _FLOAT.fullmatch(value):
-            if len(value) > MAX_NUMBER_CHARS:
-                raise self.fail(
-                    event.start_mark, f"number longer than {MAX_NUMBER_CHARS} characters", path
-                )
-            if _INT.fullmatch(value):
-                return int(value)
-            number = float(value)
-            if number in (float("inf"), float("-inf")):
+        if not value or value[0] not in _NUMBER_START:
+            return value  # no number, octal-looking or not, nor .inf or .nan begins so
+        is_int = _INT.fullmatch(value) is not None
+        if not is_int:
+            if _NONFINITE.fullmatch(value):
                 raise self.fail(event.start_mark, f"{value!r} is not a finite number", path)
-            return number
-        return value
+            if _OCTALISH.fullmatch(value):
+                raise self.fail(
+                    event.start_mark,
+                    f"ambiguous number {value!r}: YAML 1.1 reads leading zeros as octal or a"
+                    " prefix as another base; write a plain decimal number, or quote it for text",
+                    path,
+                )
+            if not _FLOAT.fullmatch(value):
+                return value
+        if len(value) > MAX_NUMBER_CHARS:
+            raise self.fail(
+                event.start_mark, f"number longer than {MAX_NUMBER_CHARS} characters", path
+            )
+        if is_int:
+            return int(value)
+        number = float(value)
+        if number in (float("inf"), float("-inf")):
+            raise self.fail(event.start_mark, f"{value!r} is not a finite number", path)
+        return number
 
 
 def _flow_depth_mark(text: str, limit: int) -> tuple[int, int]:

@@ -320,6 +320,51 @@ def pole_state(
 
     ``arc``: pole-arc fraction of a rectangular gap flux, or None for a sinusoidal one.
     """
+    flux, fundamental, *iron = _pole_parts(
+        path, b_peak, arc, stator_curve, rotor_curve, rotor_flux_factor, rotor_yoke_ramp, pole
+    )
+    return GapResult(
+        b_peak=b_peak,
+        b_fundamental=b_peak * fundamental,
+        flux_per_pole=flux,
+        gap_mmf=b_peak * path.effective_gap / MU0,
+        iron=IronState(*iron),
+    )
+
+
+def pole_mmf(
+    path: PolePath,
+    b_peak: float,
+    arc: float | None,
+    stator_curve: BHCurve,
+    rotor_curve: BHCurve,
+    *,
+    rotor_flux_factor: float = 1.0,
+    rotor_yoke_ramp: float | None = None,
+    pole: SalientPole | None = None,
+) -> float:
+    """``pole_state(...).total_mmf``, the same float, without building the state: a
+    circuit's solver asks for it a dozen times a record."""
+    parts = _pole_parts(
+        path, b_peak, arc, stator_curve, rotor_curve, rotor_flux_factor, rotor_yoke_ramp, pole
+    )
+    # summed as GapResult.total_mmf and IronState.total_mmf sum them
+    gap = b_peak * path.effective_gap / MU0
+    return gap + (parts[4] + parts[6] + parts[8] + parts[11] + parts[13])
+
+
+def _pole_parts(
+    path: PolePath,
+    b_peak: float,
+    arc: float | None,
+    stator_curve: BHCurve,
+    rotor_curve: BHCurve,
+    rotor_flux_factor: float,
+    rotor_yoke_ramp: float | None,
+    pole: SalientPole | None,
+) -> tuple[float, ...]:
+    """The flux per pole, the fundamental over the peak, then the fields of
+    :class:`IronState` in its order."""
     flux_width, fundamental = flux_shape(arc)
     flux = b_peak * flux_width * path.pole_pitch * path.stack_length
     rotor_flux = rotor_flux_factor * flux
@@ -334,34 +379,28 @@ def pole_state(
     ry_mmf = yoke_magnetic_voltage(
         ry_b, 0.5 * path.rotor_yoke.path_length, rotor_curve, rotor_yoke_ramp
     )
-    rotor_teeth = (0.0, 0.0, 0.0)
+    rt_app = rt_b = rt_mmf = 0.0
     if path.rotor_teeth is not None:
-        rotor_teeth = _teeth_state(b_peak, path.rotor_teeth, path, rotor_curve)
+        rt_app, rt_b, rt_mmf = _teeth_state(b_peak, path.rotor_teeth, path, rotor_curve)
     body_b = body_mmf = 0.0
     if pole is not None:
         body_b = rotor_flux / (iron_area * pole.body_width)
         body_mmf = tooth_magnetic_voltage(body_b, pole.body_height, rotor_curve)
-
-    iron = IronState(
-        stator_tooth_b_apparent=st_app,
-        stator_tooth_b=st_b,
-        stator_tooth_mmf=st_mmf,
-        stator_yoke_b=sy_b,
-        stator_yoke_mmf=sy_mmf,
-        rotor_yoke_b=ry_b,
-        rotor_yoke_mmf=ry_mmf,
-        rotor_tooth_b_apparent=rotor_teeth[0],
-        rotor_tooth_b=rotor_teeth[1],
-        rotor_tooth_mmf=rotor_teeth[2],
-        pole_body_b=body_b,
-        pole_body_mmf=body_mmf,
-    )
-    return GapResult(
-        b_peak=b_peak,
-        b_fundamental=b_peak * fundamental,
-        flux_per_pole=flux,
-        gap_mmf=b_peak * path.effective_gap / MU0,
-        iron=iron,
+    return (
+        flux,
+        fundamental,
+        st_app,
+        st_b,
+        st_mmf,
+        sy_b,
+        sy_mmf,
+        ry_b,
+        ry_mmf,
+        rt_app,
+        rt_b,
+        rt_mmf,
+        body_b,
+        body_mmf,
     )
 
 

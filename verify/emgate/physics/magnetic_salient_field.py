@@ -8,11 +8,19 @@ amperes (ampere-turns).
 from __future__ import annotations
 
 import math
+from typing import Any
 
 from emgate.physics.bh import BHCurve
 from emgate.physics.constants import MU0
 from emgate.physics.iron import solve_increasing
-from emgate.physics.magnetic import GapResult, PolePath, SalientPole, flux_shape, pole_state
+from emgate.physics.magnetic import (
+    GapResult,
+    PolePath,
+    SalientPole,
+    flux_shape,
+    pole_mmf,
+    pole_state,
+)
 
 
 def salient_field_gap(
@@ -57,14 +65,15 @@ def salient_field_gap(
     if not (math.isfinite(field_mmf) and field_mmf >= 0.0):
         raise ValueError("the field ampere-turns must be finite and >= 0")
 
-    def state(b_gap: float) -> GapResult:
-        return salient_field_state(path, pole, stator_curve, rotor_curve, b_gap=b_gap)
-
+    arc, kw = _salient_pole(path, pole)
+    curves = (stator_curve, rotor_curve)
     # The gap alone would take all the ampere-turns at B = mu0 F / (kc g).
     b_gap = solve_increasing(
-        lambda b: state(b).total_mmf - field_mmf, 0.0, MU0 * field_mmf / path.effective_gap
+        lambda b: pole_mmf(path, b, arc, *curves, **kw) - field_mmf,
+        0.0,
+        MU0 * field_mmf / path.effective_gap,
     )
-    return state(b_gap)
+    return pole_state(path, b_gap, arc, *curves, **kw)
 
 
 def salient_field_state(
@@ -78,18 +87,19 @@ def salient_field_state(
     """The salient pole's circuit at the peak gap flux density ``b_gap`` [T]: the forward
     direction of :func:`salient_field_gap`, whose ``total_mmf`` is the field ampere-turns
     per pole that flux takes (same flux shape and iron)."""
+    arc, kw = _salient_pole(path, pole)
+    return pole_state(path, b_gap, arc, stator_curve, rotor_curve, **kw)
+
+
+def _salient_pole(path: PolePath, pole: SalientPole) -> tuple[float, dict[str, Any]]:
+    """The flux shape and the iron of a salient pole, as :func:`pole_state` takes them."""
     if pole.shoe_width > path.pole_pitch:
         raise ValueError("the pole shoe is wider than the pole pitch")
-    return pole_state(
-        path,
-        b_gap,
-        pole.shoe_width / path.pole_pitch,
-        stator_curve,
-        rotor_curve,
-        rotor_flux_factor=pole.leakage_factor,
-        rotor_yoke_ramp=min(1.0, pole.body_width / path.rotor_yoke.path_length),
-        pole=pole,
-    )
+    return pole.shoe_width / path.pole_pitch, {
+        "rotor_flux_factor": pole.leakage_factor,
+        "rotor_yoke_ramp": min(1.0, pole.body_width / path.rotor_yoke.path_length),
+        "pole": pole,
+    }
 
 
 def salient_field_for_fundamental(

@@ -12,7 +12,14 @@ from dataclasses import dataclass, replace
 from emgate.physics.bh import BHCurve
 from emgate.physics.constants import MU0
 from emgate.physics.iron import solve_increasing
-from emgate.physics.magnetic import GapResult, PolePath, SurfaceMagnet, gap_fields, pole_state
+from emgate.physics.magnetic import (
+    GapResult,
+    PolePath,
+    SurfaceMagnet,
+    gap_fields,
+    pole_mmf,
+    pole_state,
+)
 
 #: Reference temperature of magnet data sheets [K] (20 degC).
 T_REF = 293.15
@@ -152,20 +159,16 @@ def surface_pm_gap(
     k_leak = magnet.leakage_factor
     coercive_mmf = magnet.remanence * magnet.thickness / (MU0 * magnet.recoil_permeability)
 
+    arc = magnet.arc_fraction
+    curves = (stator_curve, rotor_curve)
+
     def state(b_gap: float) -> GapResult:
-        return pole_state(
-            path,
-            b_gap,
-            magnet.arc_fraction,
-            stator_curve,
-            rotor_curve,
-            rotor_flux_factor=k_leak,
-            rotor_yoke_ramp=magnet.arc_fraction,
-        )
+        return pole_state(path, b_gap, arc, *curves, rotor_flux_factor=k_leak, rotor_yoke_ramp=arc)
 
     def residual(b_gap: float) -> float:
         magnet_drop = k_leak * b_gap * magnet.thickness / (MU0 * magnet.recoil_permeability)
-        return magnet_drop + state(b_gap).total_mmf - coercive_mmf
+        total = pole_mmf(path, b_gap, arc, *curves, rotor_flux_factor=k_leak, rotor_yoke_ramp=arc)
+        return magnet_drop + total - coercive_mmf
 
     # With ideal iron the loop is linear in B_g; the iron's magnetic voltage (>= 0) only
     # lowers the root, so the ideal-iron root (widened by far more than rounding) bounds it

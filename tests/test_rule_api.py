@@ -501,6 +501,8 @@ def test_defaults_are_the_options_that_the_class_gives() -> None:
     first = Own.defaults()
     first.grades.append("M270-35A")
     assert Own.defaults().grades == ["M400-50A"]
+    assert Own.defaults() is not Own.defaults()
+    assert Own.defaults().grades is not Own.defaults().grades
 
     class Ordered(Options):  # a model validator still runs on the defaults
         low: float = 2.0

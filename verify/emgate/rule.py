@@ -79,8 +79,11 @@ class Limit:
 
 
 _UNHANDLED = object()
-#: Each options class's defaults, where no rule can change them (frozen, immutable values).
+#: Each options class's defaults, built once: shared where no rule can change them (frozen,
+#: immutable values), else the template of each use's copy.
 _DEFAULTS: dict[type[Options], Options] = {}
+#: The classes among them with a mutable default (a dict): they are copied for each use.
+_MUTABLE_DEFAULTS: set[type[Options]] = set()
 
 
 @cache
@@ -215,12 +218,15 @@ class Options(BaseModel):
         every default is immutable too."""
         shared = _DEFAULTS.get(cls)
         if shared is not None:
-            return shared
+            return shared if cls not in _MUTABLE_DEFAULTS else shared.model_copy(deep=True)
         if not _plain(cls) or any(f.is_required() for f in cls.model_fields.values()):
             return cls()  # its validators run; a missing required field is the error it was
         options = cls.model_construct()
-        if all(_immutable(v) for v in options.__dict__.values()):
-            _DEFAULTS[cls] = options
+        _DEFAULTS[cls] = options
+        if not all(_immutable(v) for v in options.__dict__.values()):
+            # (a dict option: each rule gets its own copy, built in half the time)
+            _MUTABLE_DEFAULTS.add(cls)
+            return options.model_copy(deep=True)
         return options
 
     @classmethod

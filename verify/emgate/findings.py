@@ -12,6 +12,7 @@ from pathlib import Path
 from typing import IO, TYPE_CHECKING, Any, Literal
 
 from emgate.errors import InputError, InputErrors, display_path
+from emgate.pickling import by_fields
 from emgate.rule import Check
 from emgate.terms import EXIT_CRASH, EXIT_FINDINGS, EXIT_INPUT, EXIT_OK, Severity
 
@@ -33,6 +34,7 @@ def fingerprint(rule: str, file: str, record_id: str, record_path: str) -> str:
     return hashlib.sha256(text.encode()).hexdigest()[:32]
 
 
+@by_fields
 @dataclass(slots=True)
 class Finding:
     rule: str
@@ -69,6 +71,7 @@ class Finding:
         return (self.file, self.line, self.column, self.rule, self.message)
 
 
+@by_fields
 @dataclass(slots=True)
 class RuleOutcome:
     rule: str
@@ -80,6 +83,7 @@ class RuleOutcome:
     seconds: float = 0.0
 
 
+@by_fields
 @dataclass(frozen=True, slots=True)
 class RecordSummary:
     """What the summary reports (text, annotations, code quality, SARIF) read of a record,
@@ -91,6 +95,7 @@ class RecordSummary:
     rules_ran: frozenset[str]
 
 
+@by_fields
 @dataclass(slots=True)
 class RecordResult:
     file: str

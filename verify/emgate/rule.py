@@ -31,6 +31,7 @@ from typing import (
 from pydantic import BaseModel, ConfigDict, Field
 
 from emgate.model import MACHINE_KINDS
+from emgate.pickling import by_fields
 from emgate.terms import RecordPath, Severity
 
 if TYPE_CHECKING:
@@ -254,6 +255,7 @@ class Options(BaseModel):
         return Limit(float(getattr(self, field)), self.basis(field))
 
 
+@by_fields
 @dataclass(frozen=True, slots=True)
 class Check:
     """A recomputed quantity compared with a limit.

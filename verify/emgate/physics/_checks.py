@@ -20,7 +20,7 @@ def check_positive(**values: float) -> None:
 def check_all_positive(name: str, *values: object) -> None:
     """Raise ValueError unless every value (float or array) is finite and > 0."""
     for v in values:
-        if type(v) is float or type(v) is int:  # a record's own path: no array for a float
+        if isinstance(v, float | int):  # a record's own path (numpy's float64 is a float)
             ok = 0.0 < v < math.inf
         else:
             a = np.asarray(v, dtype=float)
@@ -32,7 +32,7 @@ def check_all_positive(name: str, *values: object) -> None:
 def check_all_non_negative(name: str, *values: object) -> None:
     """Raise ValueError unless every value (float or array) is finite and >= 0."""
     for v in values:
-        if type(v) is float or type(v) is int:
+        if isinstance(v, float | int):
             ok = 0.0 <= v < math.inf
         else:
             a = np.asarray(v, dtype=float)
@@ -51,4 +51,6 @@ def check_positive_fields(obj: object, *names: str) -> None:
 
 def float_or_array(value: Num) -> Num:
     """A Python float for scalar inputs (numpy scalars compare to numpy bools), else the array."""
+    if isinstance(value, float):  # (numpy's float64 too) without asking numpy
+        return float(value)
     return float(value) if np.ndim(value) == 0 else value

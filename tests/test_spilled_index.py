@@ -203,3 +203,24 @@ def test_a_check_of_one_record_does_not_import_sqlite() -> None:
         [sys.executable, "-c", code, str(PUMP)], capture_output=True, text=True, check=False
     )
     assert done.stdout.split()[-2:] == ["False", "0"], done.stdout + done.stderr
+
+
+@pytest.mark.skipif(os.name != "posix", reason="the listing is sorted on disk on POSIX")
+def test_a_listing_sorted_on_disk_is_in_the_order_of_one_sorted_in_memory(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    from emgate.listing import _parts, _sorted
+
+    monkeypatch.setattr(emgate.spill, "SPILL_AT", LOW)
+    # a folder beside a file of the same stem, names that are no ASCII or no UTF-8, and a
+    # name git lists twice (a file in conflict)
+    names = ["a-b/x.yaml", "a/x.yaml", "a/b/c.yaml", "a.yaml", "ab.yaml", "é/x.yaml"]
+    names += ["\U0001f600.yaml", os.fsdecode(b"\xff.yaml"), "z/x.yaml", "a/x.yaml"]
+    index = Index()
+    try:
+        listed = list(_sorted(iter(names), index))
+        assert index.spilled
+    finally:
+        index.close()
+    assert listed == sorted(set(names), key=_parts)
+    assert listed.index("a/x.yaml") < listed.index("a-b/x.yaml")  # as paths sort

@@ -20,7 +20,7 @@ from emgate.findings import Finding, RunResult, input_finding
 from emgate.listing import yaml_names
 from emgate.loader import load_text, read_text
 from emgate.materials import Catalogue
-from emgate.spill import SpillMap, SpillSet
+from emgate.spill import Index, SpillMap, SpillSet
 from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
 
 #: Characters at the top of a file in which its ``schema:`` line is looked for.
@@ -68,7 +68,7 @@ def each_source(
     verbose: bool = False,
     design_text: bool = True,
     outside_ids: SpillMap[str] | None = None,
-    seen: SpillSet | None = None,
+    index: Index | None = None,
 ) -> Iterator[Source]:
     """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema,
     in the order named (a folder's files sorted by their path's parts).
@@ -82,13 +82,12 @@ def each_source(
     design records are read here (read_text's refusals are reported) but their text is not
     kept: the pipeline reads it again when it checks the record. ``outside_ids`` is filled
     with the id of each design record outside a change set, and the file that holds it: a
-    changed record may not take the id of one the change leaves alone. ``seen`` holds the
-    resolved names of the files read (a run's index passes one that spills to disk).
+    changed record may not take the id of one the change leaves alone. With a run's
+    ``index`` the names listed and read are held on disk when there are many.
     """
     # Paths as strings until a file is kept: a thousand-record repository checked for one
     # changed file spends its time here, and pathlib's objects cost more than the file reads.
-    if seen is None:
-        seen = SpillSet(None)
+    seen = SpillSet(index)  # resolved names of the files read
     folders: dict[str, str] = {}
     # Outside a change set's files (with no grade or policy change) a record is read and
     # checked as a file (read_text's refusals are reported) but not parsed or kept.
@@ -96,7 +95,8 @@ def each_source(
     changed = {str(p) for p in changes.files} if changes is not None else set()
     for root in paths:
         if root.is_dir():
-            candidates = [p for p in yaml_names(root) if os.path.basename(p) != CONFIG_NAME]
+            listed = yaml_names(root, index)
+            candidates: Iterable[str] = (p for p in listed if os.path.basename(p) != CONFIG_NAME)
             explicit = False
             inside: str | None = str(root.resolve())
         elif root.exists():
@@ -332,13 +332,13 @@ def record_ids(path: Path, text: str) -> list[str]:
     return [rid] if isinstance(rid, str) else []
 
 
-def repository_record_ids(root: Path, among: set[str], seen: SpillSet | None = None) -> set[str]:
+def repository_record_ids(root: Path, among: set[str], index: Index | None = None) -> set[str]:
     """Which of the ids ``among`` a design record in the repository has, checked in this run
     or not, so that a waiver for a record outside the run is not taken for a typo."""
     ids: set[str] = set()
     if not among:
         return ids
-    for src in each_source([root], RunResult(), design_text=False, seen=seen):  # one at a time
+    for src in each_source([root], RunResult(), design_text=False, index=index):  # one at a time
         if src.declared == DESIGN_SCHEMA:
             try:
                 ids.update(among.intersection(record_ids(src.path, read_text(src.path))))

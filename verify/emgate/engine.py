@@ -80,7 +80,7 @@ def _execute(run: Run, index: Index) -> RunResult:
     designs: SpillQueue[Source] = index.queue()
     others: list[Source] = []  # materials (and any file not declared a design): a few
     for src in each_source(
-        run.paths, result, run.policy, run.changes, run.verbose, False, outside, index.keys()
+        run.paths, result, run.policy, run.changes, run.verbose, False, outside, index
     ):
         (designs if src.declared == DESIGN_SCHEMA else others).append(src)
     # a materials file is none of the designs (a file declares one schema): their names
@@ -187,7 +187,7 @@ def _execute(run: Run, index: Index) -> RunResult:
                 result.records.extend(records)
     if file_waivers:  # (only with a config: the waivers file is the config's)
         known = {rid for rid in file_waivers if rid in seen_ids}
-        known |= repository_record_ids(run.policy.root, set(file_waivers) - known, index.keys())
+        known |= repository_record_ids(run.policy.root, set(file_waivers) - known, index)
         result.findings.extend(
             input_finding(e) for e in unknown_record_waivers(file_waivers, known)
         )

@@ -10,7 +10,7 @@ in memory, as :class:`~emgate.findings.Spool` does: the run is the same, only la
 from __future__ import annotations
 
 import os
-from collections.abc import Iterator
+from collections.abc import Callable, Iterable, Iterator
 from typing import TYPE_CHECKING, Any, Generic, TypeVar
 
 if TYPE_CHECKING:
@@ -262,3 +262,51 @@ class SpillMap(Generic[V]):
             f"INSERT OR {conflict} INTO {name} VALUES (?, ?)",
             (_blob(key), _dump(value)),
         )
+
+
+class SpillSorted:
+    """Texts added (a text added twice is kept once), read back sorted by ``key``: on disk,
+    by SQLite's index, not in memory. ``key`` must be one to one, ``unkey`` its inverse,
+    and its order that of UTF-8 bytes (a text's code points: Python's order of texts)."""
+
+    def __init__(
+        self, index: Index | None, key: Callable[[str], str], unkey: Callable[[str], str]
+    ) -> None:
+        self._index = index
+        self._key, self._unkey = key, unkey
+        self._held: dict[str, None] = {}
+        self._table: _Table | None = None
+
+    def update(self, texts: Iterable[str]) -> None:
+        for text in texts:
+            if self._table is None:
+                self._held[text] = None
+                if len(self._held) > SPILL_AT:
+                    self._table = _table(self._index, "k BLOB PRIMARY KEY", rowid=False)
+                    if self._table is not None:
+                        self._insert(self._held)
+                        self._held = {}
+            else:
+                self._insert((text,))
+
+    def _insert(self, texts: Iterable[str]) -> None:
+        assert self._table is not None
+        db, name = self._table
+        rows = ((_blob(self._key(t)),) for t in texts)
+        db.executemany(f"INSERT OR IGNORE INTO {name} VALUES (?)", rows)
+
+    def __iter__(self) -> Iterator[str]:
+        if self._table is None:
+            yield from sorted(self._held, key=self._key)
+            return
+        db, name = self._table
+        after = b""
+        while True:  # a page at a time: the reader writes to the database in between
+            rows = db.execute(
+                f"SELECT k FROM {name} WHERE k > ? ORDER BY k LIMIT ?", (after, PAGE)
+            ).fetchall()
+            if not rows:
+                return
+            after = rows[-1][0]
+            for (k,) in rows:
+                yield self._unkey(k.decode("utf-8", "surrogatepass"))

@@ -24,8 +24,10 @@ V = TypeVar("V")
 #: index is a few MiB at most, and a check of that many is seconds long, so the database's
 #: few ms of set-up are never paid where a run is start-up bound.
 SPILL_AT = 2048
-#: The database's page cache, KiB (SQLite's default is 2 MiB): what it holds in memory.
-CACHE_KIB = 1024
+#: The database's page cache, KiB (SQLite's default is 2 MiB): what it holds in memory. A
+#: record costs a few lookups of an id or a name, each a few pages: the operating system's
+#: file cache serves those the page cache does not hold, far faster than a record's check.
+CACHE_KIB = 256
 #: Items read back at a time from a spilled queue.
 PAGE = 256
 

@@ -26,6 +26,11 @@ Sections:
 4. ``--jobs 1`` against ``--jobs`` the available cores, N records (wall and CPU).
 5. In process: the sweep rate of the scalar path (validation + all rules, one variant at a
    time) against the vectorised magnetic and electrical path on arrays of variants.
+6. Memory at several sizes (``--memory-sizes``, 1,000, 4,000, 16,000 and 32,000 records;
+   ``--memory-only`` runs this section alone): the peak memory of ``emgate check`` of a
+   generated repository, one run a size (memory is not noisy), and its growth per extra
+   record between sizes. Beyond a few thousand records the run's index goes to disk
+   (``emgate.spill``): from there on the figure should stay flat.
 """
 
 from __future__ import annotations
@@ -203,11 +208,40 @@ def compile_bytecode() -> list[str]:
     return done
 
 
+def memory_by_size(exe: str, sizes: list[int], serial: list[str]) -> None:
+    """Section 6: the peak memory of one check a size, and its growth per extra record."""
+    peaks: list[tuple[int, int]] = []  # (records, peak resident KiB)
+    for size in sizes:
+        with tempfile.TemporaryDirectory() as tmp:
+            make_repository(Path(tmp), size)
+            _, wall, rss = child([exe, "check", *serial, *NO_REMEDIES, "designs"], Path(tmp))
+        grow = ""
+        if peaks:
+            before, was = peaks[-1]
+            grow = f"  {(rss - was) / (size - before):+7.3f} KiB per extra record from {before:,}"
+        print(f"  {size:>7,} records   peak rss {rss / 1024:6.1f} MiB  wall {wall:6.1f} s{grow}")
+        peaks.append((size, rss))
+    if len(peaks) > 1:
+        # the verdict from the two largest sizes: the caches of a run (parsed quantities, the
+        # index's page cache) fill over the first few thousand records, once
+        (first, low), (last, high) = peaks[-2], peaks[-1]
+        per = (high - low) / (last - first)
+        verdict = "grows" if per > 0.05 else "does not grow"  # 0.05 KiB: 1 MiB in 20,000
+        print(f"  {first:,} -> {last:,} records: {per:+.3f} KiB per extra record: it {verdict}")
+
+
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--rounds", type=int, default=7)
     ap.add_argument("--records", type=int, default=1000)
     ap.add_argument("--variants", type=int, default=4000, help="array size of the sweep section")
+    ap.add_argument(
+        "--memory-sizes",
+        type=lambda text: [int(n) for n in text.split(",")],
+        default=[1000, 4000, 16000, 32000],
+        help="record counts of the memory section, comma-separated",
+    )
+    ap.add_argument("--memory-only", action="store_true", help="run the memory section alone")
     args = ap.parse_args()
     exe = shutil.which("emgate") or sys.exit("emgate is not installed in this environment")
     cores = len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else os.cpu_count()
@@ -215,6 +249,11 @@ def main() -> None:
     n, quarter = args.records, max(args.records // 4, 1)
     print(f"emgate bench: {args.rounds} rounds, medians; {cores} cores; CPU = user + system")
     print(f"bytecode compiled beforehand, as a wheel install does: {', '.join(compile_bytecode())}")
+    serial = ["--jobs", "1"] if jobs else []
+    if args.memory_only:
+        print(f"\n6. peak memory by size ({'--jobs 1' if jobs else 'serial'}, --remedies off)")
+        memory_by_size(exe, args.memory_sizes, serial)
+        return
     with tempfile.TemporaryDirectory() as tmp:
         big, small = Path(tmp) / "big", Path(tmp) / "small"
         big.mkdir()
@@ -230,7 +269,6 @@ def main() -> None:
         alone = Path(tmp) / "alone"  # the changed record, checked on its own
         make_repository(alone, 0)
         shutil.copy(changed, alone / "designs" / changed.name)
-        serial = ["--jobs", "1"] if jobs else []
         commands: dict[str, tuple[list[str], Path | None]] = {
             "floor": ([sys.executable, "-c", FLOOR], None),
             "floor_used": ([sys.executable, "-c", FLOOR_AS_USED], None),
@@ -292,6 +330,8 @@ def main() -> None:
         print("\n4. --jobs: not available in this emgate")
     print(f"\n5. sweep rates in process ({args.variants} variants a call), per CPU second")
     sweep_rates(args.variants)
+    print(f"\n6. peak memory by size ({'--jobs 1' if jobs else 'serial'}, --remedies off)")
+    memory_by_size(exe, args.memory_sizes, serial)
 
 
 if __name__ == "__main__":

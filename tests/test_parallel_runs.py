@@ -42,8 +42,29 @@ def test_parallel_and_serial_reports_are_byte_identical(
 def test_ordered_map_keeps_the_order_of_its_inputs() -> None:
     items = list(range(5 * MIN_ITEMS_PER_WORKER))
     squares = [x * x for x in items]
-    assert list(ordered_map(lambda x: x * x, items, 2)) == squares
+    assert list(ordered_map(lambda x: x * x, list(items), 2)) == squares
     assert list(ordered_map(lambda x: x * x, list(items), 1)) == squares
+
+
+def test_a_parallel_map_over_many_batches_keeps_their_order(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    # the workers take the items a batch ahead of the results (a spilled queue is not held
+    # in memory): 640 items on two workers are two batches, a hand-over between them
+    import emgate.spill
+
+    monkeypatch.setattr(emgate.spill, "SPILL_AT", 50)
+    index = emgate.spill.Index()
+    queue: emgate.spill.SpillQueue[int] = index.queue()
+    items = list(range(40 * MIN_ITEMS_PER_WORKER))
+    for i in items:
+        queue.append(i)
+    assert index.spilled
+    try:
+        assert list(ordered_map(lambda x: -x, queue, 2)) == [-i for i in items]
+    finally:
+        index.close()
+    assert len(queue) == 0
 
 
 def test_a_serial_map_drops_each_item_once_it_is_done() -> None:

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import os
 import re
-from collections.abc import Iterable
+from collections.abc import Iterable, Iterator
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -20,6 +20,7 @@ from emgate.findings import Finding, RunResult, input_finding
 from emgate.listing import yaml_names
 from emgate.loader import load_text, read_text
 from emgate.materials import Catalogue
+from emgate.spill import Index, SpillMap, SpillSet
 from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
 
 #: Characters at the top of a file in which its ``schema:`` line is looked for.
@@ -54,9 +55,23 @@ def discover(
     changes: ChangeSet | None = None,
     verbose: bool = False,
     design_text: bool = True,
-    outside_ids: dict[str, str] | None = None,
 ) -> list[Source]:
-    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema.
+    """:func:`each_source`, as a list."""
+    return list(each_source(paths, result, policy, changes, verbose, design_text))
+
+
+def each_source(
+    paths: Iterable[Path],
+    result: RunResult,
+    policy: Policy | None = None,
+    changes: ChangeSet | None = None,
+    verbose: bool = False,
+    design_text: bool = True,
+    outside_ids: SpillMap[str] | None = None,
+    index: Index | None = None,
+) -> Iterator[Source]:
+    """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema,
+    in the order named (a folder's files sorted by their path's parts).
 
     Fail closed: a file that is not a valid emgate file is an input error when it resembles
     one (a near-miss ``schema:`` value or key, a list root holding a record, a record's keys
@@ -67,12 +82,12 @@ def discover(
     design records are read here (read_text's refusals are reported) but their text is not
     kept: the pipeline reads it again when it checks the record. ``outside_ids`` is filled
     with the id of each design record outside a change set, and the file that holds it: a
-    changed record may not take the id of one the change leaves alone.
+    changed record may not take the id of one the change leaves alone. With a run's
+    ``index`` the names listed and read are held on disk when there are many.
     """
-    out: list[Source] = []
     # Paths as strings until a file is kept: a thousand-record repository checked for one
     # changed file spends its time here, and pathlib's objects cost more than the file reads.
-    seen: set[str] = set()
+    seen = SpillSet(index)  # resolved names of the files read
     folders: dict[str, str] = {}
     # Outside a change set's files (with no grade or policy change) a record is read and
     # checked as a file (read_text's refusals are reported) but not parsed or kept.
@@ -80,7 +95,8 @@ def discover(
     changed = {str(p) for p in changes.files} if changes is not None else set()
     for root in paths:
         if root.is_dir():
-            candidates = [p for p in yaml_names(root) if os.path.basename(p) != CONFIG_NAME]
+            listed = yaml_names(root, index)
+            candidates: Iterable[str] = (p for p in listed if os.path.basename(p) != CONFIG_NAME)
             explicit = False
             inside: str | None = str(root.resolve())
         elif root.exists():
@@ -95,9 +111,8 @@ def discover(
             continue
         for name in candidates:
             key = _resolved(name, folders)
-            if key in seen:
+            if not seen.add(key):
                 continue
-            seen.add(key)
             if inside is not None and not _within(key, inside):
                 result.findings.append(
                     input_finding(
@@ -164,8 +179,7 @@ def discover(
             if declared in (WAIVERS_SCHEMA, CONFIG_SCHEMA):
                 continue  # read through the policy, not as records
             kept = text if design_text or declared != DESIGN_SCHEMA else None
-            out.append(Source(name, kept, declared, explicit, key))
-    return out
+            yield Source(name, kept, declared, explicit, key)
 
 
 def _declared(text: str) -> str | None:
@@ -318,14 +332,16 @@ def record_ids(path: Path, text: str) -> list[str]:
     return [rid] if isinstance(rid, str) else []
 
 
-def repository_record_ids(root: Path) -> set[str]:
-    """Ids of every design record in the repository, checked in this run or not, so that a
-    waiver for a record outside the run is not taken for a typo."""
+def repository_record_ids(root: Path, among: set[str], index: Index | None = None) -> set[str]:
+    """Which of the ids ``among`` a design record in the repository has, checked in this run
+    or not, so that a waiver for a record outside the run is not taken for a typo."""
     ids: set[str] = set()
-    for src in discover([root], RunResult(), design_text=False):  # one text at a time
+    if not among:
+        return ids
+    for src in each_source([root], RunResult(), design_text=False, index=index):  # one at a time
         if src.declared == DESIGN_SCHEMA:
             try:
-                ids.update(record_ids(src.path, read_text(src.path)))
+                ids.update(among.intersection(record_ids(src.path, read_text(src.path))))
             except InputError:
                 continue  # gone since discovery: its own check reports it
     return ids

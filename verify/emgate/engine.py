@@ -11,10 +11,11 @@ from __future__ import annotations
 import dataclasses
 import functools
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from emgate.discovery import (
     Source,
-    discover,
+    each_source,
     materials_sources,
     repository_record_ids,
     repository_root,
@@ -37,9 +38,22 @@ from emgate.runner import rule_guards
 from emgate.terms import DESIGN_SCHEMA, MATERIALS_SCHEMA
 from emgate.waivers import WaiverEntry, load_waivers_file, unknown_record_waivers
 
+if TYPE_CHECKING:
+    from emgate.spill import Index, SpillMap, SpillQueue
+
 
 def execute(run: Run) -> RunResult:
     """Run the gate over ``run.paths``; never raises for bad input or a failing rule."""
+    from emgate.spill import Index
+
+    index = Index()  # the records to check and the names and ids seen: on disk when many
+    try:
+        return _execute(run, index)
+    finally:
+        index.close()
+
+
+def _execute(run: Run, index: Index) -> RunResult:
     from emgate.explain import explain_markdown
     from emgate.validate import schema_of, validate_materials
 
@@ -62,9 +76,16 @@ def execute(run: Run) -> RunResult:
         for rid, lr in sorted(run.plugins.rules.items())
     ]
     # the design records' texts are read again when each is checked (one held at a time)
-    outside: dict[str, str] = {}  # id -> file, of the records a change set leaves alone
-    sources = discover(run.paths, result, run.policy, run.changes, run.verbose, False, outside)
-    named = {src.key for src in sources}
+    outside: SpillMap[str] = index.map()  # id -> file, of the records a change leaves alone
+    designs: SpillQueue[Source] = index.queue()
+    others: list[Source] = []  # materials (and any file not declared a design): a few
+    for src in each_source(
+        run.paths, result, run.policy, run.changes, run.verbose, False, outside, index
+    ):
+        (designs if src.declared == DESIGN_SCHEMA else others).append(src)
+    # a materials file is none of the designs (a file declares one schema): their names
+    # need not be held to keep the materials files of a repository from being read twice
+    named = {src.key for src in others}
     # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
     folders = {p if p.is_dir() else p.parent for p in run.paths if p.exists()}
     roots = {r for f in folders if (r := repository_root(f)) is not None}
@@ -72,18 +93,14 @@ def execute(run: Run) -> RunResult:
     for root in sorted(roots):
         if root in searched:
             continue  # its materials files are among the sources already
-        sources += [m for m in materials_sources(root) if m.key not in named]
-        named |= {m.key for m in sources}
-    result.files_read = len(sources)
+        others += [m for m in materials_sources(root) if m.key not in named]
+        named |= {m.key for m in others}
+    result.files_read = len(designs) + len(others)
     # Materials (and any file not declared a design) first: the catalogue is complete
     # before the first record is checked. Design files then stream through one at a time
     # (parsed, checked, dropped), in this process or in --jobs worker processes.
     docs: list[tuple[Source, Document, str]] = []
-    designs: list[Source] = []
-    for src in sources:
-        if src.declared == DESIGN_SCHEMA:
-            designs.append(src)
-            continue
+    for src in others:
         try:
             assert src.text is not None  # discovery keeps the text of what is no design
             doc = load_text(src.path, src.text)
@@ -112,10 +129,10 @@ def execute(run: Run) -> RunResult:
                 catalogue.failed.append(display_path(doc.path))
                 result.findings.extend(input_findings(exc))
     # nothing below reads the materials documents again, nor the sources but the designs
-    # (which the check drains: a long run holds the records not yet checked)
-    del docs, sources, named
-    seen_ids: dict[str, str] = {}
-    claimed: dict[str, Location] = {}  # in a change set: where each checked record's id is
+    # (which the check drains)
+    del docs, others, named
+    seen_ids: SpillMap[str] = index.map()  # id -> the file of the first record to claim it
+    claimed: SpillMap[Location] = index.map()  # in a change set: where each checked id is
     interned: dict[frozenset[str], frozenset[str]] = {}
     if run.spool:  # the records go to disk as they are done
         result.spool = Spool()
@@ -129,20 +146,21 @@ def execute(run: Run) -> RunResult:
         for done in ordered_map(one, designs, run.jobs):
             if done.untouched_id is not None:  # (a grades change reads the others too)
                 rid = done.untouched_id
-                if rid in claimed:  # a changed record before it in file order took its id
+                where = claimed.get(rid)
+                if where is not None:  # a changed record before it in file order took its id
                     result.findings.append(
                         input_finding(
-                            InputError(
-                                f"record id {rid!r} is already used by {done.file}",
-                                claimed[rid],
-                            )
+                            InputError(f"record id {rid!r} is already used by {done.file}", where)
                         )
                     )
                 outside.setdefault(rid, done.file)
                 continue
             taken = None if done.record_id is None else seen_ids.get(done.record_id)
-            if taken is None and done.record_id in outside:
-                taken = display_path(Path(outside[done.record_id]))
+            first = (
+                None if taken is not None or done.record_id is None else outside.get(done.record_id)
+            )
+            if first is not None:
+                taken = display_path(Path(first))
             if taken is not None:
                 # the same verdict as a serial run: a record whose id is taken is not checked
                 result.findings.append(
@@ -168,7 +186,8 @@ def execute(run: Run) -> RunResult:
                 result.findings.extend(done.findings)
                 result.records.extend(records)
     if file_waivers:  # (only with a config: the waivers file is the config's)
-        known = set(seen_ids) | repository_record_ids(run.policy.root)
+        known = {rid for rid in file_waivers if rid in seen_ids}
+        known |= repository_record_ids(run.policy.root, set(file_waivers) - known, index)
         result.findings.extend(
             input_finding(e) for e in unknown_record_waivers(file_waivers, known)
         )

@@ -11,7 +11,12 @@ ignore them (a fresh repository with a ``.venv`` and no ``.gitignore``).
 from __future__ import annotations
 
 import os
+from collections.abc import Iterable, Iterator
 from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from emgate.spill import Index
 
 SUFFIXES = (".yaml", ".yml")
 #: Folders never searched, whatever their place: environments, installed packages, caches.
@@ -30,12 +35,14 @@ def yaml_files(root: Path) -> list[Path]:
     return [Path(name) for name in yaml_names(root)]
 
 
-def yaml_names(root: Path) -> list[str]:
+def yaml_names(root: Path, index: Index | None = None) -> Iterable[str]:
     """:func:`yaml_files` as path strings (``root`` joined with each file's relative path):
-    discovery of a large repository builds a path object only for the files it keeps."""
+    discovery of a large repository builds a path object only for the files it keeps. With
+    a run's ``index``, a long listing is sorted on disk (:class:`~emgate.spill.SpillSorted`),
+    not held in memory."""
     listed = _git_listing(root)
     if listed is None:
-        return sorted((p for p in _walk(root) if _readable_or_link(p)), key=_parts)
+        return _sorted((p for p in _walk(root) if _readable_or_link(p)), index)
     top = str(root)
     verdict: dict[str, bool] = {}
 
@@ -52,7 +59,18 @@ def yaml_names(root: Path) -> list[str]:
         return ok
 
     paths = (os.path.join(top, name) for name in listed if _suffix(name) in SUFFIXES and kept(name))
-    return sorted((p for p in paths if _readable_or_link(p)), key=_parts)
+    return _sorted((p for p in paths if _readable_or_link(p)), index)
+
+
+def _sorted(names: Iterator[str], index: Index | None) -> Iterable[str]:
+    """The names, each once, in the order of :func:`_parts`."""
+    if index is None or os.name != "posix":  # (elsewhere the key is a path, not a text)
+        return sorted(dict.fromkeys(names), key=_parts)
+    from emgate.spill import SpillSorted
+
+    out = SpillSorted(index, _posix_parts, _unparts)
+    out.update(names)
+    return out
 
 
 def _readable_or_link(name: str) -> bool:
@@ -72,10 +90,19 @@ def _parts(name: str) -> str | Path:
     it sorts as the list of parts does, and a thousand-file listing sorts without a list of
     parts held for each file. Elsewhere the path itself (Windows paths sort by case-folded
     parts, and git names keep their ``/``)."""
-    return name.replace("/", "\0") if os.name == "posix" else Path(name)
+    return _posix_parts(name) if os.name == "posix" else Path(name)
 
 
-def _git_listing(root: Path) -> list[str] | None:
+def _posix_parts(name: str) -> str:
+    return name.replace("/", "\0")
+
+
+def _unparts(key: str) -> str:
+    """The name :func:`_posix_parts` gave ``key`` for."""
+    return key.replace("\0", "/")
+
+
+def _git_listing(root: Path) -> Iterator[str] | None:
     """Git's files under ``root``, or None when ``root`` is not in a work tree (or git is
     missing or does not answer): then the caller walks the folder instead."""
     import subprocess  # here: a check of named files lists no folder
@@ -92,13 +119,22 @@ def _git_listing(root: Path) -> list[str] | None:
         return None
     if done.returncode != 0:
         return None
-    names = done.stdout.decode("utf-8", "surrogateescape").split("\0")
-    return [name for name in dict.fromkeys(names) if name]  # relative, in git's / form
+    return _names(done.stdout)
 
 
-def _walk(root: Path) -> list[str]:
-    out: list[str] = []
+def _names(listing: bytes) -> Iterator[str]:
+    """The names in git's NUL-separated listing (relative, in git's / form), one at a time:
+    a long listing is not held as a list of texts as well as its bytes."""
+    at = 0
+    while at < len(listing):
+        end = listing.find(b"\0", at)
+        end = len(listing) if end < 0 else end
+        if end > at:
+            yield listing[at:end].decode("utf-8", "surrogateescape")
+        at = end + 1
+
+
+def _walk(root: Path) -> Iterator[str]:
     for folder, dirs, names in os.walk(root):
         dirs[:] = sorted(d for d in dirs if not _skipped(Path(folder, d)))
-        out.extend(os.path.join(folder, n) for n in names if n.endswith(SUFFIXES))
-    return out
+        yield from (os.path.join(folder, n) for n in names if n.endswith(SUFFIXES))

@@ -24,13 +24,15 @@ Sections:
    against a single check of that same record in a repository of its own (materials and
    config alike), and against the single check of section 1 (a record of another kind).
 4. ``--jobs 1`` against ``--jobs`` the available cores, N records (wall and CPU).
-5. In process: the sweep rate of the scalar path (validation + all rules, one variant at a
-   time) against the vectorised magnetic and electrical path on arrays of variants.
-6. Memory at several sizes (``--memory-sizes``, 1,000, 4,000, 16,000 and 32,000 records;
+5. Memory at several sizes (``--memory-sizes``, 1,000, 4,000, 16,000 and 32,000 records;
    ``--memory-only`` runs this section alone): the peak memory of ``emgate check`` of a
    generated repository, one run a size (memory is not noisy), and its growth per extra
    record between sizes. Beyond a few thousand records the run's index goes to disk
-   (``emgate.spill``): from there on the figure should stay flat.
+   (``emgate.spill``): from there on the figure should stay flat. It runs before section 6:
+   Linux counts in a child's peak the resident memory of the parent it was forked from, and
+   section 6 loads the kernel into this process.
+6. In process: the sweep rate of the scalar path (validation + all rules, one variant at a
+   time) against the vectorised magnetic and electrical path on arrays of variants.
 """
 
 from __future__ import annotations
@@ -209,7 +211,7 @@ def compile_bytecode() -> list[str]:
 
 
 def memory_by_size(exe: str, sizes: list[int], serial: list[str]) -> None:
-    """Section 6: the peak memory of one check a size, and its growth per extra record."""
+    """Section 5: the peak memory of one check a size, and its growth per extra record."""
     peaks: list[tuple[int, int]] = []  # (records, peak resident KiB)
     for size in sizes:
         with tempfile.TemporaryDirectory() as tmp:
@@ -251,7 +253,7 @@ def main() -> None:
     print(f"bytecode compiled beforehand, as a wheel install does: {', '.join(compile_bytecode())}")
     serial = ["--jobs", "1"] if jobs else []
     if args.memory_only:
-        print(f"\n6. peak memory by size ({'--jobs 1' if jobs else 'serial'}, --remedies off)")
+        print(f"\n5. peak memory by size ({'--jobs 1' if jobs else 'serial'}, --remedies off)")
         memory_by_size(exe, args.memory_sizes, serial)
         return
     with tempfile.TemporaryDirectory() as tmp:
@@ -328,10 +330,10 @@ def main() -> None:
         print(f"  wall-time speed-up --jobs {cores} over --jobs 1:       {speed:6.2f} x")
     else:
         print("\n4. --jobs: not available in this emgate")
-    print(f"\n5. sweep rates in process ({args.variants} variants a call), per CPU second")
+    print(f"\n5. peak memory by size ({'--jobs 1' if jobs else 'serial'}, --remedies off)")
+    memory_by_size(exe, args.memory_sizes, serial)  # (before section 6: see the notes above)
+    print(f"\n6. sweep rates in process ({args.variants} variants a call), per CPU second")
     sweep_rates(args.variants)
-    print(f"\n6. peak memory by size ({'--jobs 1' if jobs else 'serial'}, --remedies off)")
-    memory_by_size(exe, args.memory_sizes, serial)
 
 
 if __name__ == "__main__":

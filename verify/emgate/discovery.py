@@ -125,9 +125,8 @@ def each_source(
                 )
                 continue
             outside = narrow and key not in changed
-            path = Path(name)
             try:
-                text = read_text(path)
+                text = read_text(name)  # (a path object only for a file kept or refused)
             except InputError as exc:
                 result.findings.append(input_finding(exc))
                 continue
@@ -137,11 +136,12 @@ def each_source(
                 if (
                     outside_ids is not None
                     and declared == DESIGN_SCHEMA
-                    and (policy is None or not policy.files or policy.selects(path))
+                    and (policy is None or not policy.files or policy.selects(Path(name)))
                 ):
-                    for rid in record_ids(path, text):
+                    for rid in record_ids(name, text):
                         outside_ids.setdefault(rid, name)
                 continue  # outside the change by its path alone: not parsed
+            path = Path(name)
             if declared is None:
                 declared, problem, near_miss = _classify(path, text)
                 named = explicit or bool(changes and changes.named and key in changed)
@@ -310,7 +310,7 @@ def _resembles(data: dict) -> bool:
 _RECORD_ID = re.compile(r"""id:[ \t]*(['"]?)([a-z0-9][a-z0-9._-]*)\1[ \t]*(?:#.*)?$""", re.M)
 
 
-def record_ids(path: Path, text: str) -> list[str]:
+def record_ids(path: Path | str, text: str) -> list[str]:
     """The id a design record's text gives, without parsing it when an ``id:`` line says it
     plainly; otherwise (a quoted key, flow style, an id the pattern refuses) as parsed, and
     none when the text does not parse (its own check reports that)."""
@@ -325,7 +325,7 @@ def record_ids(path: Path, text: str) -> list[str]:
         return found
     # none, or more than one (a line of a multi-line quoted text may begin with "id:"): parsed
     try:
-        data = load_text(path, text).data
+        data = load_text(Path(path), text).data
     except InputError:
         return []
     rid = data.get("id") if isinstance(data, dict) else None

@@ -317,9 +317,9 @@ def _refused_tag(tag: str | None, plain_scalar: bool) -> bool:
 BUFFERS: ContextVar[Mapping[Path, str] | None] = ContextVar("emgate_buffers", default=None)
 
 
-def _read_bytes(path: Path) -> bytes:
+def _read_bytes(path: Path | str) -> bytes:
     buffers = BUFFERS.get()
-    if buffers and (text := buffers.get(path.resolve())) is not None:
+    if buffers and (text := buffers.get(Path(path).resolve())) is not None:
         return text.encode("utf-8", "surrogatepass")[: MAX_BYTES + 1]
     # Opened without blocking and checked on the open descriptor: a FIFO or a device would
     # otherwise hold the run forever (and a check before opening could be raced).
@@ -330,7 +330,7 @@ def _read_bytes(path: Path) -> bytes:
             raise InputError(
                 "not a regular file (a pipe, device, socket or folder): emgate reads only"
                 " regular files",
-                Location(path, 1, 1, "$"),
+                Location(Path(path), 1, 1, "$"),
             )
         # Reads sized to the file: one of MAX_BYTES + 1 would allocate the whole 1 MiB
         # first, which costs more than reading a record. One byte more shows growth; a file
@@ -358,16 +358,20 @@ _CONTROL_BYTES = bytes([*range(0x00, 0x09), 0x0B, 0x0C, *range(0x0E, 0x20), 0x7F
 _NONCHARACTERS = (b"\xef\xbf\xbe", b"\xef\xbf\xbf")  # U+FFFE, U+FFFF
 
 
-def read_text(path: Path) -> str:
-    """Read a file as UTF-8 text, refusing oversized, binary or wrongly encoded files."""
+def read_text(path: Path | str) -> str:
+    """Read a file as UTF-8 text, refusing oversized, binary or wrongly encoded files. (A
+    name as text is read as its path: discovery reads a large repository's files without a
+    path object each.)"""
     try:
         raw = _read_bytes(path)
     except OSError as exc:
-        raise InputError(f"cannot read file: {exc.strerror}", Location(path, 1, 1, "$")) from None
+        raise InputError(
+            f"cannot read file: {exc.strerror}", Location(Path(path), 1, 1, "$")
+        ) from None
     if len(raw) > MAX_BYTES:
         raise InputError(
             f"file larger than {MAX_BYTES // 1024} KiB; a design record is a few KiB",
-            Location(path, 1, 1, "$"),
+            Location(Path(path), 1, 1, "$"),
         )
     try:
         text = raw.decode("utf-8")
@@ -376,7 +380,7 @@ def read_text(path: Path) -> str:
         col = exc.start - (raw.rfind(b"\n", 0, exc.start) + 1) + 1
         raise InputError(
             f"expected UTF-8 text, found byte 0x{raw[exc.start]:02x}",
-            Location(path, line, col, "$"),
+            Location(Path(path), line, col, "$"),
         ) from None
     clean = len(raw.translate(None, _CONTROL_BYTES)) == len(raw)
     bad = None if clean and not any(n in raw for n in _NONCHARACTERS) else _CONTROL.search(text)
@@ -385,7 +389,7 @@ def read_text(path: Path) -> str:
         col = bad.start() - (text.rfind("\n", 0, bad.start()) + 1) + 1
         raise InputError(
             f"expected text, found control character U+{ord(bad.group()):04X} (binary file?)",
-            Location(path, line, col, "$"),
+            Location(Path(path), line, col, "$"),
         )
     return text.removeprefix("\ufeff")
 

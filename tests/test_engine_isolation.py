@@ -308,6 +308,24 @@ def test_a_rule_that_stops_the_timer_does_not_stop_it_for_the_next(
             time.sleep(3.0)
 
 
+def test_a_pack_rule_run_by_a_builtin_one_that_stops_the_timer_is_caught_too() -> None:
+    # The tolerance check (emgate's own, trusted) runs the pack's rules on variants: the
+    # timer is looked at again after any pack rule's clock, nested or not, and only then.
+    import signal
+    import time
+
+    from emgate import runner
+
+    with runner.rule_guards():
+        with runner._Clock(5.0, trusted=True):
+            with runner._Clock(5.0):  # a pack's rule
+                signal.setitimer(signal.ITIMER_REAL, 0.0)
+        assert runner._Clock.suspect
+        with pytest.raises(runner._OutOfTime), runner._Clock(0.2, trusted=True):
+            time.sleep(3.0)
+        assert not runner._Clock.suspect
+
+
 def test_the_alarm_never_leaves_a_rules_clock_behind(monkeypatch: pytest.MonkeyPatch) -> None:
     # A tick that comes as a rule's clock is left must not raise there: the clock would stay
     # current, and every later tick would raise into the engine outside any rule. A tick

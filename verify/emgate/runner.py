@@ -140,17 +140,19 @@ def _copied(node: Any) -> Any:
     kind = type(node)
     if kind in _ATOMIC:
         return node
+    # (a scalar is taken as it is without a call: most of a record's values are scalars)
     if kind is dict:
-        return {k: _copied(v) for k, v in node.items()}
+        return {k: v if type(v) in _ATOMIC else _copied(v) for k, v in node.items()}
     if kind is list:
-        return [_copied(v) for v in node]
+        return [v if type(v) in _ATOMIC else _copied(v) for v in node]
     if kind is tuple:
-        return tuple(_copied(v) for v in node)
+        return tuple(v if type(v) in _ATOMIC else _copied(v) for v in node)
     if isinstance(node, BaseModel) and kind.__deepcopy__ is BaseModel.__deepcopy__:
         cls: Any = kind
         out = cls.__new__(cls)  # as pydantic's own copy: a valid model is not validated again
         setattr_ = object.__setattr__
-        setattr_(out, "__dict__", {k: _copied(v) for k, v in node.__dict__.items()})
+        fields = {k: v if type(v) in _ATOMIC else _copied(v) for k, v in node.__dict__.items()}
+        setattr_(out, "__dict__", fields)
         setattr_(out, "__pydantic_extra__", _copied(node.__pydantic_extra__))
         setattr_(out, "__pydantic_fields_set__", set(node.__pydantic_fields_set__))
         private = getattr(node, "__pydantic_private__", None)

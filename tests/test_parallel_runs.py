@@ -60,6 +60,7 @@ def test_a_parallel_map_over_many_batches_keeps_their_order(
     for i in items:
         queue.append(i)
     assert index.spilled
+    assert workers_for(len(queue), 2) == 2  # two worker processes, not this one
     try:
         assert list(ordered_map(lambda x: -x, queue, 2)) == [-i for i in items]
     finally:

@@ -66,3 +66,17 @@ def test_a_field_left_out_of_init_is_refused() -> None:
 
     with pytest.raises(TypeError, match="by_fields"):
         by_fields(Derived)
+
+
+@dataclass(frozen=True, slots=True)
+class Mine(Check):
+    """A pack's own kind of Check (at module level: pickle finds a class by its name)."""
+
+    extra: str = "x"
+
+
+def test_a_subclass_of_a_result_keeps_its_own_type_and_fields() -> None:
+    # a pack may extend Check: its results come back from --jobs workers as they were
+    mine = Mine("q", "l", ("a",), 1.0, 2.0, "max", "A", "", extra="kept")
+    back = pickle.loads(pickle.dumps(mine, protocol=pickle.HIGHEST_PROTOCOL))
+    assert type(back) is Mine and back == mine and back.extra == "kept"

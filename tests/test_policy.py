@@ -502,10 +502,11 @@ def test_a_revision_that_looks_like_an_option_never_reaches_git(
 
 @needs_git
 @pytest.mark.parametrize(
-    "rev", ["no-such-branch", "HEAD~5", "0000000000000000000000000000000000000000"]
+    "rev", ["no-such-branch", "HEAD~5", "0000000000000000000000000000000000000000", "@{upstream}"]
 )
 def test_a_revision_that_does_not_exist_is_an_input_error(git_repo: Path, rev: str) -> None:
-    # the repository has one commit: none of these names a commit in it
+    # the repository has one commit and no remote: none of these names a commit in it (git
+    # ends with 128, not 1, for the missing upstream)
     result = check_json(f"--changed-since={rev}")
     assert result.code == 2, result.out
     (error,) = result.input_findings()

@@ -56,13 +56,14 @@ def _git(args: list[str], cwd: Path) -> subprocess.CompletedProcess[str]:
 def changed_since(rev: str, cwd: Path, config: Path | None, waivers: Path | None) -> ChangeSet:
     """The files changed in the work tree against ``rev`` (committed, staged, unstaged and
     untracked), as a :class:`ChangeSet`."""
-    # One git for both (each costs a process): the work tree's top, then the commit; git
-    # prints the top and ends with 1 when the revision does not exist, with 128 outside a
-    # work tree. (A revision beginning with '-' would be read as an option.)
+    # One git for both (each costs a process): the work tree's top, then the commit. Inside
+    # a work tree git prints the top first, whatever it then makes of the revision (1 for
+    # one that does not exist, 128 for one it cannot read, such as a missing upstream);
+    # outside one it prints nothing. (A revision beginning with '-' would be an option.)
     verify = [] if rev.startswith("-") else ["--verify", "--quiet", f"{rev}^{{commit}}"]
     asked = _git(["rev-parse", "--show-toplevel", *verify], cwd)
     lines = asked.stdout.splitlines()
-    if asked.returncode not in (0, 1) or not lines:
+    if not lines:
         raise InputError(f"--changed-since needs a git work tree; {cwd} is not in one")
     root = Path(lines[0].strip())
     if not verify or asked.returncode != 0 or len(lines) != 2:

@@ -9,6 +9,7 @@ both ways, measured on the bench's records).
 
 from __future__ import annotations
 
+import copyreg
 import dataclasses
 import operator
 from collections.abc import Callable
@@ -19,13 +20,16 @@ T = TypeVar("T")
 
 def by_fields(cls: type[T]) -> type[T]:
     """Give a dataclass of two fields or more a ``__reduce__`` of its fields' values, in
-    the order its ``__init__`` takes them (every field must be an ``__init__`` argument)."""
+    the order its ``__init__`` takes them (every field must be an ``__init__`` argument).
+    A subclass pickles as Python pickles it: its own fields and type are kept."""
     fields = dataclasses.fields(cls)  # type: ignore[arg-type]
     if len(fields) < 2 or not all(f.init for f in fields):
         raise TypeError(f"{cls.__name__}: by_fields needs two fields or more, all in __init__")
     values: Callable[[Any], tuple[Any, ...]] = operator.attrgetter(*(f.name for f in fields))
 
-    def __reduce__(self: Any) -> tuple[type[T], tuple[Any, ...]]:
+    def __reduce__(self: Any) -> Any:
+        if type(self) is not cls:  # a subclass (a pack's own Check): as Python pickles it
+            return copyreg.__newobj__, (type(self),), self.__getstate__()  # type: ignore[attr-defined]
         return cls, values(self)
 
     cls.__reduce__ = __reduce__  # type: ignore[method-assign]

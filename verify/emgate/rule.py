@@ -223,11 +223,13 @@ class Options(BaseModel):
         if not _plain(cls) or any(f.is_required() for f in cls.model_fields.values()):
             return cls()  # its validators run; a missing required field is the error it was
         options = cls.model_construct()
-        _DEFAULTS[cls] = options
         if not all(_immutable(v) for v in options.__dict__.values()):
-            # (a dict option: each rule gets its own copy, built in half the time)
+            # (a dict option: each rule gets its own copy, built in half the time; marked
+            # before it is stored, so that no caller is ever handed the template itself)
             _MUTABLE_DEFAULTS.add(cls)
+            _DEFAULTS[cls] = options
             return options.model_copy(deep=True)
+        _DEFAULTS[cls] = options
         return options
 
     @classmethod

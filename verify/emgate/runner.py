@@ -338,6 +338,7 @@ _ENGINE_CODE = frozenset(
 
 def _forked() -> None:
     _Clock.ticking = False  # a child has no interval timer of its parent's
+    _Clock.suspect = True
 
 
 if hasattr(os, "register_at_fork"):

@@ -104,6 +104,10 @@ class Index:
             db.execute("PRAGMA synchronous = OFF")
             db.execute(f"PRAGMA cache_size = -{CACHE_KIB}")
             db.execute("PRAGMA temp_store = FILE")
+            if os.name == "posix":
+                # nameless from here on (SQLite keeps the open file, and with no journal
+                # opens no other by its name): a run killed outright leaves nothing behind
+                self._remove()
             return db
         except (OSError, sqlite3.Error):  # no writable temporary folder
             self._remove()

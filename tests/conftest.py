@@ -18,6 +18,7 @@ import json
 import math
 import os
 import shutil
+import subprocess
 import sys
 import tempfile
 import textwrap
@@ -455,3 +456,21 @@ def many_records(repo: Path) -> None:
     write_variant(repo / "designs", {"poles": "four"}, name="invalid.yaml")
     (repo / "designs" / "broken.yaml").write_text("schema: emgate/design@1\nid: [\n")
     write_config(repo, "files: ['designs/*.yaml']\n")
+
+
+def git(repo: Path, *args: str) -> str:
+    """Run git in ``repo`` as a throwaway identity, without the user's or the system's
+    settings (no signing, no hooks): its output. A failing git fails the test."""
+    env = {
+        **os.environ,
+        "GIT_AUTHOR_NAME": "t",
+        "GIT_AUTHOR_EMAIL": "t@t",
+        "GIT_COMMITTER_NAME": "t",
+        "GIT_COMMITTER_EMAIL": "t@t",
+        "GIT_CONFIG_GLOBAL": os.devnull,
+        "GIT_CONFIG_NOSYSTEM": "1",
+    }
+    done = subprocess.run(
+        ["git", *args], cwd=repo, env=env, check=True, capture_output=True, text=True
+    )
+    return done.stdout

@@ -6,21 +6,14 @@ from __future__ import annotations
 
 import os
 import shutil
-import subprocess
 from pathlib import Path
 
 import pytest
 
-from conftest import PUMP, run_cli
+from conftest import PUMP, git, run_cli
 from emgate.listing import yaml_files
 
 pytestmark = pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
-
-
-def git(repo: Path, *args: str) -> None:
-    env = {**os.environ, "GIT_AUTHOR_NAME": "t", "GIT_AUTHOR_EMAIL": "t@t"}
-    env |= {"GIT_COMMITTER_NAME": "t", "GIT_COMMITTER_EMAIL": "t@t"}
-    subprocess.run(["git", *args], cwd=repo, env=env, check=True, capture_output=True)
 
 
 def design_repository(root: Path) -> Path:

@@ -6,33 +6,16 @@ from __future__ import annotations
 
 import os
 import shutil
-import subprocess
 from pathlib import Path
 from typing import Any
 
 import pytest
 import yaml
 
-from conftest import DEMO, run_cli, write_variant
+from conftest import DEMO, git, run_cli, write_variant
 
 PUMP_REL = "designs/pump-drive-4p36s.yaml"
 RENAMED_REL = "designs/pump-drive-4p36s-v2.yaml"
-
-
-def _git(repo: Path, *args: str) -> str:
-    env = {
-        **os.environ,
-        "GIT_AUTHOR_NAME": "t",
-        "GIT_AUTHOR_EMAIL": "t@example.invalid",
-        "GIT_COMMITTER_NAME": "t",
-        "GIT_COMMITTER_EMAIL": "t@example.invalid",
-        "GIT_CONFIG_GLOBAL": os.devnull,
-        "GIT_CONFIG_NOSYSTEM": "1",
-    }
-    done = subprocess.run(
-        ["git", *args], cwd=repo, env=env, capture_output=True, text=True, check=True
-    )
-    return done.stdout.strip()
 
 
 def _edit(path: Path, dotted: str, value: Any) -> None:
@@ -54,16 +37,16 @@ def history(tmp_path_factory: pytest.TempPathFactory) -> tuple[Path, list[str]]:
             shutil.copytree(item, repo / item.name)
         else:
             shutil.copy(item, repo / item.name)
-    _git(repo, "init", "-q", "-b", "main")
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-qm", "initial")
+    git(repo, "init", "-q", "-b", "main")
+    git(repo, "add", "-A")
+    git(repo, "commit", "-qm", "initial")
     _edit(repo / PUMP_REL, "stator.slot.bottom_width", "9.2 mm")
-    _git(repo, "commit", "-qam", "geometry: narrower slot bottom")
+    git(repo, "commit", "-qam", "geometry: narrower slot bottom")
     _edit(repo / PUMP_REL, "winding.turns_per_coil", 22)
-    _git(repo, "commit", "-qam", "winding: one more turn per coil")
-    _git(repo, "mv", PUMP_REL, RENAMED_REL)
-    _git(repo, "commit", "-qm", "rename")
-    revs = _git(repo, "rev-list", "--reverse", "HEAD").split()
+    git(repo, "commit", "-qam", "winding: one more turn per coil")
+    git(repo, "mv", PUMP_REL, RENAMED_REL)
+    git(repo, "commit", "-qm", "rename")
+    revs = git(repo, "rev-list", "--reverse", "HEAD").split()
     assert len(revs) == 4
     return repo, revs
 
@@ -81,7 +64,7 @@ def _at(repo: Path, rev: str, rel: str, *cmd: str) -> dict[str, Any]:
     """``emgate CMD`` on a record as it was at ``rev`` (a checkout in a scratch copy)."""
     scratch = repo.parent / f"at-{rev[:8]}"
     if not scratch.exists():
-        _git(repo, "worktree", "add", "-q", "--detach", str(scratch), rev)
+        git(repo, "worktree", "add", "-q", "--detach", str(scratch), rev)
     saved = Path.cwd()
     os.chdir(scratch)
     try:
@@ -265,12 +248,12 @@ def test_two_files_a_newly_failing_check_and_the_head_gate(tmp_path: Path) -> No
 def test_added_and_removed_records(history: tuple[Path, list[str]], tmp_path: Path) -> None:
     repo, revs = history
     clone = tmp_path / "clone"
-    _git(repo, "worktree", "add", "-q", "-b", "add-remove", str(clone), revs[3])
-    _git(clone, "rm", "-q", "designs/genset-4p48s.yaml")
+    git(repo, "worktree", "add", "-q", "-b", "add-remove", str(clone), revs[3])
+    git(clone, "rm", "-q", "designs/genset-4p48s.yaml")
     shutil.copy(clone / "designs/servo-10p12s.yaml", clone / "designs/servo-copy.yaml")
     _edit(clone / "designs/servo-copy.yaml", "id", "servo-copy")
-    _git(clone, "add", "-A")
-    _git(clone, "commit", "-qm", "add and remove")
+    git(clone, "add", "-A")
+    git(clone, "commit", "-qm", "add and remove")
     done = _diff(clone, revs[3], "HEAD", "--format", "json")
     status = {r["record_id"]: r["status"] for r in done.json()["records"]}
     assert status == {"genset-4p48s": "removed", "servo-copy": "added"}
@@ -283,9 +266,9 @@ def test_an_invalid_head_record_is_named_and_fails_the_diff(
 ) -> None:
     repo, revs = history
     clone = tmp_path / "broken"
-    _git(repo, "worktree", "add", "-q", "-b", "broken", str(clone), revs[3])
+    git(repo, "worktree", "add", "-q", "-b", "broken", str(clone), revs[3])
     _edit(clone / "designs/servo-10p12s.yaml", "stator.slots", "twelve")
-    _git(clone, "commit", "-qam", "break a record")
+    git(clone, "commit", "-qam", "break a record")
     done = _diff(clone, revs[3], "HEAD", "--format", "json")
     assert done.code == 2  # the head revision does not pass the gate: invalid input
     (rec,) = done.json()["records"]

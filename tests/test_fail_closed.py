@@ -21,7 +21,7 @@ from pathlib import Path
 import pytest
 import yaml
 
-from conftest import GENSET, PUMP, REPO, SERVO, STEELS, run_cli, write_variant
+from conftest import GENSET, PUMP, REPO, SERVO, STEELS, git, run_cli, write_variant
 
 # The servo record breaks the current-density limit on purpose: checked, it exits 1.
 BROKEN = SERVO
@@ -165,15 +165,6 @@ def test_a_named_non_emgate_file_in_a_configured_repository_is_an_error(
     assert code == 0, doc
 
 
-def _git(repo: Path, *args: str) -> None:
-    subprocess.run(
-        ["git", "-c", "user.name=t", "-c", "user.email=t@t", *args],
-        cwd=repo,
-        check=True,
-        capture_output=True,
-    )
-
-
 def _committed(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch, files: dict[str, str] | None = None
 ) -> Path:
@@ -181,15 +172,15 @@ def _committed(
     and whatever the caller wrote in it, committed, as the working folder."""
     repo = tmp_path / "r"
     repo.mkdir(exist_ok=True)
-    _git(repo, "init", "-q")
+    git(repo, "init", "-q")
     _config(repo)
     if files is None:
         write_variant(repo, base=PUMP)
     for name, text in (files or {}).items():
         (repo / name).parent.mkdir(parents=True, exist_ok=True)
         (repo / name).write_text(text, encoding="utf-8")
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-q", "-m", "start")
+    git(repo, "add", "-A")
+    git(repo, "commit", "-q", "-m", "start")
     monkeypatch.chdir(repo)
     return repo
 

@@ -19,6 +19,8 @@ from pathlib import Path
 import pytest
 import yaml
 
+from conftest import git
+
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "examples" / "design-repo" / "designs" / "pump-drive-4p36s.yaml"
 # The template emgate init writes: the package templates are the one source of the CI files.
@@ -28,20 +30,6 @@ EMGATE = shutil.which("emgate")
 pytestmark = pytest.mark.skipif(
     EMGATE is None or shutil.which("git") is None, reason="needs the emgate script and git"
 )
-
-
-def git(repo: Path, *args: str) -> str:
-    env = {
-        **os.environ,
-        "GIT_AUTHOR_NAME": "t",
-        "GIT_AUTHOR_EMAIL": "t@t",
-        "GIT_COMMITTER_NAME": "t",
-        "GIT_COMMITTER_EMAIL": "t@t",
-    }
-    done = subprocess.run(
-        ["git", *args], cwd=repo, env=env, check=True, capture_output=True, text=True
-    )
-    return done.stdout
 
 
 def template_gate_command() -> list[str]:

@@ -5,15 +5,13 @@ records outside the change unparsed."""
 from __future__ import annotations
 
 import json
-import os
 import re
 import shutil
-import subprocess
 from pathlib import Path
 
 import pytest
 
-from conftest import RECORDS, many_records, run_cli
+from conftest import RECORDS, git, many_records, run_cli
 from emgate.parallel import MIN_ITEMS_PER_WORKER, ordered_map, workers_for
 
 _TIME = re.compile(r'\btime="[0-9.]+"')
@@ -84,19 +82,6 @@ def test_jobs_must_be_a_positive_whole_number() -> None:
         assert "--jobs" in result.err
 
 
-def _git(repo: Path, *args: str) -> None:
-    env = {
-        **os.environ,
-        "GIT_AUTHOR_NAME": "t",
-        "GIT_AUTHOR_EMAIL": "t@t",
-        "GIT_COMMITTER_NAME": "t",
-        "GIT_COMMITTER_EMAIL": "t@t",
-        "GIT_CONFIG_GLOBAL": os.devnull,
-        "GIT_CONFIG_NOSYSTEM": "1",
-    }
-    subprocess.run(["git", *args], cwd=repo, env=env, check=True, capture_output=True)
-
-
 @pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
 def test_changed_since_parses_only_the_changed_record(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
@@ -105,9 +90,9 @@ def test_changed_since_parses_only_the_changed_record(
     (tmp_path / "designs" / "broken.yaml").unlink()
     (tmp_path / "designs" / "invalid.yaml").unlink()
     (tmp_path / "designs" / "taken-id.yaml").unlink()
-    _git(tmp_path, "init", "-q", "-b", "main")
-    _git(tmp_path, "add", "-A")
-    _git(tmp_path, "commit", "-qm", "records")
+    git(tmp_path, "init", "-q", "-b", "main")
+    git(tmp_path, "add", "-A")
+    git(tmp_path, "commit", "-qm", "records")
     changed = tmp_path / "designs" / "r003.yaml"  # a pump record: passes every rule
     changed.write_text(changed.read_text() + "# reviewed\n")
     monkeypatch.chdir(tmp_path)
@@ -152,9 +137,9 @@ def test_changed_since_still_reports_an_unreadable_file_outside_the_change(
     for name in ("broken.yaml", "invalid.yaml", "taken-id.yaml"):
         (tmp_path / "designs" / name).unlink()
     (tmp_path / "designs" / "scan.yaml").write_bytes(content)
-    _git(tmp_path, "init", "-q", "-b", "main")
-    _git(tmp_path, "add", "-A")
-    _git(tmp_path, "commit", "-qm", "records")
+    git(tmp_path, "init", "-q", "-b", "main")
+    git(tmp_path, "add", "-A")
+    git(tmp_path, "commit", "-qm", "records")
     changed = tmp_path / "designs" / "r003.yaml"
     changed.write_text(changed.read_text() + "# reviewed\n")
     monkeypatch.chdir(tmp_path)

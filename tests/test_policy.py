@@ -12,7 +12,6 @@ from __future__ import annotations
 import json
 import os
 import shutil
-import subprocess
 import xml.etree.ElementTree as ET
 from importlib.metadata import version
 from pathlib import Path
@@ -22,7 +21,7 @@ import pytest
 import yaml
 from packaging.version import Version
 
-from conftest import GENSET, PUMP, SERVO, STEELS, CliResult, node_mark, run_cli, write_variant
+from conftest import GENSET, PUMP, SERVO, STEELS, CliResult, git, node_mark, run_cli, write_variant
 
 MM2 = 1e-6  # m^2 per mm^2
 PACK = "brennfeld-emgate-pack"
@@ -396,19 +395,6 @@ def test_an_invalid_waivers_file_is_a_located_error(
 # --- --changed-since -------------------------------------------------------------------------
 
 needs_git = pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
-
-
-def git(repo: Path, *args: str) -> None:
-    env = {
-        **os.environ,
-        "GIT_AUTHOR_NAME": "t",
-        "GIT_AUTHOR_EMAIL": "t@t",
-        "GIT_COMMITTER_NAME": "t",
-        "GIT_COMMITTER_EMAIL": "t@t",
-        "GIT_CONFIG_GLOBAL": os.devnull,  # no signing or hooks from the user's settings
-        "GIT_CONFIG_NOSYSTEM": "1",
-    }
-    subprocess.run(["git", *args], cwd=repo, env=env, check=True, capture_output=True)
 
 
 @pytest.fixture

@@ -15,7 +15,7 @@ from typing import Any
 import pytest
 
 import emgate.spill
-from conftest import PUMP, RECORDS, STEELS, many_records, run_cli, write_config, write_variant
+from conftest import PUMP, RECORDS, STEELS, git, many_records, run_cli, write_config, write_variant
 from emgate.spill import Index, SpillMap, SpillQueue, SpillSet
 
 LOW = 4  # entries a collection holds in memory in these tests before it spills
@@ -89,17 +89,6 @@ def test_a_record_past_the_spill_is_still_refused_its_taken_id(
     assert "record id 'pump-00' is already used by designs/r00.yaml" in result.out
 
 
-def _git(repo: Path, *args: str) -> None:
-    env = {
-        **os.environ,
-        "GIT_AUTHOR_NAME": "t",
-        "GIT_AUTHOR_EMAIL": "t@t",
-        "GIT_COMMITTER_NAME": "t",
-        "GIT_COMMITTER_EMAIL": "t@t",
-    }
-    subprocess.run(["git", *args], cwd=repo, check=True, env=env, capture_output=True)
-
-
 @pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
 @pytest.mark.parametrize("grades", [False, True], ids=["records only", "with a materials file"])
 def test_a_change_may_not_take_the_id_of_a_record_it_leaves_alone_when_spilled(
@@ -115,9 +104,9 @@ def test_a_change_may_not_take_the_id_of_a_record_it_leaves_alone_when_spilled(
     write_config(repo, "files: ['designs/*.yaml']\n")
     for i in range(3 * LOW):
         write_variant(repo / "designs", {"id": f"pump-{i:02d}"}, name=f"r{i:02d}.yaml")
-    _git(repo, "init", "-q")
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-q", "-m", "start")
+    git(repo, "init", "-q")
+    git(repo, "add", "-A")
+    git(repo, "commit", "-q", "-m", "start")
     write_variant(repo / "designs", {"id": "pump-03"}, name="a-copy.yaml")
     write_variant(repo / "designs", {"id": "pump-09"}, name="zz-copy.yaml")
     if grades:

@@ -135,6 +135,23 @@ def _names(listing: bytes) -> Iterator[str]:
 
 
 def _walk(root: Path) -> Iterator[str]:
-    for folder, dirs, names in os.walk(root):
-        dirs[:] = sorted(d for d in dirs if not _skipped(Path(folder, d)))
-        yield from (os.path.join(folder, n) for n in names if n.endswith(SUFFIXES))
+    """The YAML files under ``root`` as ``os.walk`` finds them (a symbolic link to a folder
+    is not entered, a folder that cannot be read is passed over), one at a time: a folder
+    of many thousand records is not held as a list of its names (the caller sorts)."""
+    folders = [os.fspath(root)]
+    while folders:
+        try:
+            entries = os.scandir(folders.pop())
+        except OSError:
+            continue
+        with entries:
+            for entry in entries:
+                try:
+                    is_dir = entry.is_dir()
+                except OSError:
+                    is_dir = False
+                if is_dir:
+                    if not entry.is_symlink() and not _skipped(Path(entry.path)):
+                        folders.append(entry.path)
+                elif entry.name.endswith(SUFFIXES):
+                    yield entry.path

@@ -147,3 +147,48 @@ def test_discovery_keeps_one_copy_of_what_every_record_shares(tmp_path: Path) ->
     (source,) = discover([folder], RunResult(), design_text=False)
     assert source.declared is DESIGN_SCHEMA
     assert source.key is source.name and source.name == str(folder / "pump.yaml")
+
+
+@pytest.mark.parametrize("with_git", [True, False])
+def test_a_listing_leaves_out_the_folders_it_is_told_to_skip(
+    tmp_path: Path, with_git: bool
+) -> None:
+    from emgate.listing import yaml_names
+
+    root = tmp_path / "repo"
+    for name in ("designs/a.yaml", "designs/deep/b.yaml", "odd [*] name/c.yaml", "other/d.yaml"):
+        (root / name).parent.mkdir(parents=True, exist_ok=True)
+        (root / name).write_text("a: 1\n")
+    (root / "odd [x] name").mkdir()  # what the other would match as a glob: still listed
+    (root / "odd [x] name" / "e.yaml").write_text("a: 1\n")
+    if with_git:
+        git(root, "init", "-q")
+    skip = {os.path.realpath(root / "designs"), os.path.realpath(root / "odd [*] name")}
+    skip.add(os.path.realpath(tmp_path))  # a folder that holds the root leaves nothing out
+    listed = [Path(n).relative_to(root).as_posix() for n in yaml_names(root, skip=skip)]
+    assert listed == ["odd [x] name/e.yaml", "other/d.yaml"]
+
+
+@pytest.mark.parametrize("with_git", [True, False])
+@pytest.mark.parametrize("steels_in", ["designs", "materials"])
+def test_a_check_of_a_folder_finds_the_materials_of_its_repository_once(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, with_git: bool, steels_in: str
+) -> None:
+    from conftest import GENSET, STEELS
+
+    root = tmp_path / "repo"
+    (root / "designs" / "gensets").mkdir(parents=True)
+    (root / "emgate.yaml").write_text("schema: emgate/config@1\n")
+    shutil.copy(GENSET, root / "designs" / "gensets" / GENSET.name)
+    (root / steels_in).mkdir(exist_ok=True)
+    shutil.copy(STEELS, root / steels_in / STEELS.name)
+    if with_git:
+        git(root, "init", "-q")
+    monkeypatch.chdir(root)
+    for folder in ("designs/gensets", "designs"):
+        done = run_cli("check", "--format", "json", folder)
+        report = done.json()
+        # the steels are found (else: an unknown grade), and read once (else: each grade
+        # "already defined")
+        assert [f for f in report["findings"] if f["kind"] != "violation"] == [], folder
+        assert [r["record_id"] for r in report["records"]] == ["genset-4p48s"], folder

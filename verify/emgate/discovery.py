@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import os
 import re
-from collections.abc import Iterable, Iterator
+from collections.abc import Collection, Iterable, Iterator
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -69,6 +69,7 @@ def each_source(
     design_text: bool = True,
     outside_ids: SpillMap[str] | None = None,
     index: Index | None = None,
+    skip: Collection[str] = (),
 ) -> Iterator[Source]:
     """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema,
     in the order named (a folder's files sorted by their path's parts).
@@ -83,7 +84,8 @@ def each_source(
     kept: the pipeline reads it again when it checks the record. ``outside_ids`` is filled
     with the id of each design record outside a change set, and the file that holds it: a
     changed record may not take the id of one the change leaves alone. With a run's
-    ``index`` the names listed and read are held on disk when there are many.
+    ``index`` the names listed and read are held on disk when there are many. Folders are
+    not searched under those ``skip`` names (resolved paths).
     """
     # Paths as strings until a file is kept: a thousand-record repository checked for one
     # changed file spends its time here, and pathlib's objects cost more than the file reads.
@@ -95,7 +97,7 @@ def each_source(
     changed = {str(p) for p in changes.files} if changes is not None else set()
     for root in paths:
         if root.is_dir():
-            listed = yaml_names(root, index)
+            listed = yaml_names(root, index, skip)
             candidates: Iterable[str] = (p for p in listed if os.path.basename(p) != CONFIG_NAME)
             explicit = False
             inside: str | None = str(root.resolve())
@@ -357,10 +359,13 @@ def repository_root(start: Path) -> Path | None:
     return None
 
 
-def materials_sources(root: Path) -> list[Source]:
-    """Every materials file under a repository root."""
+def materials_sources(
+    root: Path, searched: Collection[str] = (), index: Index | None = None
+) -> list[Source]:
+    """Every materials file under a repository root but those under the folders ``searched``
+    names (resolved paths: a run has read them already)."""
     scratch = RunResult()  # an empty change: every file is read, the records are not kept
-    sources = discover([root], scratch, changes=ChangeSet())
+    sources = each_source([root], scratch, changes=ChangeSet(), index=index, skip=searched)
     return [s for s in sources if s.declared == MATERIALS_SCHEMA]
 
 

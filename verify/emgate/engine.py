@@ -89,11 +89,13 @@ def _execute(run: Run, index: Index) -> RunResult:
     # one root per folder: emgate.yaml's `files:` may name a thousand files in a few folders
     folders = {p if p.is_dir() else p.parent for p in run.paths if p.exists()}
     roots = {r for f in folders if (r := repository_root(f)) is not None}
-    searched = {p.resolve() for p in run.paths if p.is_dir()}
+    # the materials files of the folders searched are among the sources already
+    searched = {str(p.resolve()) for p in run.paths if p.is_dir()}
     for root in sorted(roots):
-        if root in searched:
-            continue  # its materials files are among the sources already
-        others += [m for m in materials_sources(root) if m.key not in named]
+        if str(root) in searched:
+            continue
+        found = materials_sources(root, searched, index)
+        others += [m for m in found if m.key not in named]
         named |= {m.key for m in others}
     result.files_read = len(designs) + len(others)
     # Materials (and any file not declared a design) first: the catalogue is complete

@@ -11,7 +11,7 @@ ignore them (a fresh repository with a ``.venv`` and no ``.gitignore``).
 from __future__ import annotations
 
 import os
-from collections.abc import Iterable, Iterator
+from collections.abc import Collection, Iterable, Iterator
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -35,14 +35,17 @@ def yaml_files(root: Path) -> list[Path]:
     return [Path(name) for name in yaml_names(root)]
 
 
-def yaml_names(root: Path, index: Index | None = None) -> Iterable[str]:
+def yaml_names(root: Path, index: Index | None = None, skip: Collection[str] = ()) -> Iterable[str]:
     """:func:`yaml_files` as path strings (``root`` joined with each file's relative path):
     discovery of a large repository builds a path object only for the files it keeps. With
     a run's ``index``, a long listing is sorted on disk (:class:`~emgate.spill.SpillSorted`),
-    not held in memory."""
-    listed = _git_listing(root)
+    not held in memory. Nothing is listed under the folders ``skip`` names (resolved paths):
+    a run that has read a folder already looks for materials files in the rest of its
+    repository only."""
+    listed = _git_listing(root, _relative_inside(root, skip))
     if listed is None:
-        return _sorted((p for p in _walk(root) if _readable_or_link(p)), index)
+        walked = _walk(root, frozenset(skip))
+        return _sorted((p for p in walked if _readable_or_link(p)), index)
     top = str(root)
     verdict: dict[str, bool] = {}
 
@@ -71,6 +74,15 @@ def _sorted(names: Iterator[str], index: Index | None) -> Iterable[str]:
     out = SpillSorted(index, _posix_parts, _unparts)
     out.update(names)
     return out
+
+
+def _relative_inside(root: Path, folders: Collection[str]) -> list[str]:
+    """The resolved ``folders`` that lie inside ``root``, relative to it."""
+    if not folders:
+        return []
+    real = os.path.realpath(root)
+    prefix = real if real.endswith(os.sep) else real + os.sep
+    return [os.path.relpath(f, real) for f in folders if f.startswith(prefix)]
 
 
 def _readable_or_link(name: str) -> bool:
@@ -102,14 +114,19 @@ def _unparts(key: str) -> str:
     return key.replace("\0", "/")
 
 
-def _git_listing(root: Path) -> Iterator[str] | None:
-    """Git's files under ``root``, or None when ``root`` is not in a work tree (or git is
-    missing or does not answer): then the caller walks the folder instead."""
+def _git_listing(root: Path, skip: Iterable[str] = ()) -> Iterator[str] | None:
+    """Git's files under ``root`` but those under the folders ``skip`` names (relative to
+    it), or None when ``root`` is not in a work tree (or git is missing or does not
+    answer): then the caller walks the folder instead."""
     import subprocess  # here: a check of named files lists no folder
 
+    left_out = [f":(exclude,literal){folder}" for folder in skip]
     try:
         done = subprocess.run(
-            ["git", "ls-files", "-z", "--cached", "--others", "--exclude-standard", "--", "."],
+            [
+                *("git", "ls-files", "-z", "--cached", "--others", "--exclude-standard"),
+                *("--", ".", *left_out),
+            ],
             cwd=root,
             capture_output=True,
             check=False,
@@ -134,10 +151,11 @@ def _names(listing: bytes) -> Iterator[str]:
         at = end + 1
 
 
-def _walk(root: Path) -> Iterator[str]:
+def _walk(root: Path, skip: frozenset[str] = frozenset()) -> Iterator[str]:
     """The YAML files under ``root`` as ``os.walk`` finds them (a symbolic link to a folder
     is not entered, a folder that cannot be read is passed over), one at a time: a folder
-    of many thousand records is not held as a list of its names (the caller sorts)."""
+    of many thousand records is not held as a list of its names (the caller sorts). The
+    folders ``skip`` names (resolved) are not entered."""
     folders = [os.fspath(root)]
     while folders:
         try:
@@ -151,7 +169,9 @@ def _walk(root: Path) -> Iterator[str]:
                 except OSError:
                     is_dir = False
                 if is_dir:
-                    if not entry.is_symlink() and not _skipped(Path(entry.path)):
+                    if entry.is_symlink() or _skipped(Path(entry.path)):
+                        continue
+                    if not skip or os.path.realpath(entry.path) not in skip:
                         folders.append(entry.path)
                 elif entry.name.endswith(SUFFIXES):
                     yield entry.path

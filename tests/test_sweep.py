@@ -10,7 +10,7 @@ from pathlib import Path
 
 import pytest
 
-from conftest import DEMO, PUMP, run_cli, show_json, write_variant
+from conftest import DEMO, PUMP, REPO, run_cli, show_json, write_variant
 from emgate.sweep import SweepRun, prepare, run_chunk
 
 SPEC = """\
@@ -159,3 +159,16 @@ def test_a_variant_the_kernel_cannot_compute_is_invalid_input_not_a_feasible_row
     assert "winding.temperature_rise cannot be computed" in small.invalid
     assert small.invalid.startswith("$.cooling"), small.invalid  # its driving field
     assert nominal.feasible and not nominal.invalid
+
+
+def test_the_readme_shows_the_demo_sweep_as_the_gate_prints_it(tmp_path: Path) -> None:
+    # The README's sweep block is the gate's own summary (regenerate it with the command
+    # above it when the physics moves): its lines from "81 variants" to the last row shown.
+    readme = (REPO / "README.md").read_text(encoding="utf-8")
+    lines = readme.split("    81 variants:", 1)[1].split("\n\n", 1)[0].splitlines()
+    shown = ["81 variants:" + lines[0], *(line[4:] for line in lines[1:])]
+    spec = REPO / "examples" / "sweeps" / "pump-gap-turns.yaml"
+    out = tmp_path / "pump.csv"
+    printed = run_cli("sweep", PUMP, spec, "--scheduler", "none", "--out", out).out
+    assert len(shown) >= 7
+    assert shown == printed.splitlines()[: len(shown)]

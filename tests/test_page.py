@@ -254,6 +254,96 @@ def test_check_html_writes_an_index_and_every_sheet(tmp_path: Path) -> None:
         assert rec["record_id"] in (out / name).read_text(encoding="utf-8")
 
 
+def _demo_run(tmp_path: Path) -> Any:
+    """The gate's run over the demo repository (the servo fails, with remedies)."""
+    from emgate.page.run import run_gate
+    from emgate.plugins import load_plugins
+
+    return run_gate([DESIGNS.parent], load_plugins())
+
+
+def test_a_pages_findings_and_remedies_are_those_the_run_gives_its_record(
+    tmp_path: Path,
+) -> None:
+    # the index built once must give each record what a search of the run's every finding
+    # gives (the definition: a finding of the record's id or of its file, in the run's order;
+    # a check's remedies are those of the first finding that reports it)
+    from emgate.page.run import RunView
+    from emgate.remedy_report import remedies_for_check
+
+    result = _demo_run(tmp_path)
+    view = RunView.of(result)
+    assert len(result.records) == 3 and any(f.remedies for f in result.findings)
+    assert any(view.findings_of(r) for r in result.records)
+    for record in result.records:
+        searched = [
+            f for f in result.findings if f.record_id == record.record_id or f.file == record.file
+        ]
+        assert view.findings_of(record) == searched
+        for outcome in record.outcomes:
+            for c in outcome.checks:
+                assert view.remedies.get(id(c), []) == remedies_for_check(result, c)
+
+
+def test_each_sheet_is_written_before_the_next_is_drawn(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # a run of many records holds one page at a time, not every page until the last is drawn
+    import emgate.page as page_module
+
+    out = tmp_path / "report"
+    drawn: list[list[str]] = []
+    real = page_module.page_html
+
+    def watched(page: Any) -> str:
+        drawn.append(sorted(p.name for p in out.glob("sheet-*.html")))
+        return real(page)
+
+    monkeypatch.setattr(page_module, "page_html", watched)
+    result = _demo_run(tmp_path)
+    page_module.write_run(result, out)
+    ids = [r.record_id for r in result.records]
+    assert drawn == [sorted(f"sheet-{i}.html" for i in ids[:k]) for k in range(len(ids))]
+
+
+def test_sheets_drawn_in_worker_processes_are_those_of_a_serial_run(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    import emgate.parallel as parallel
+    from emgate.page import write_run
+
+    if "fork" not in __import__("multiprocessing").get_all_start_methods():
+        pytest.skip("worker processes are forked; this platform runs the pages in process")
+    result = _demo_run(tmp_path)
+    monkeypatch.setattr(parallel, "MIN_ITEMS_PER_WORKER", 1)  # two workers for three records
+    assert parallel.workers_for(len(result.records), 2) == 2
+    write_run(result, tmp_path / "serial", jobs=1)
+    write_run(result, tmp_path / "parallel", jobs=2)
+    serial = sorted(p.name for p in (tmp_path / "serial").iterdir())
+    assert serial == sorted(p.name for p in (tmp_path / "parallel").iterdir())
+    assert len(serial) == 4
+    for name in serial:  # byte for byte
+        assert (tmp_path / "serial" / name).read_bytes() == (
+            tmp_path / "parallel" / name
+        ).read_bytes(), name
+
+
+def test_a_sheet_that_cannot_be_written_stops_the_run_with_its_error(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    import emgate.parallel as parallel
+
+    monkeypatch.setattr(parallel, "MIN_ITEMS_PER_WORKER", 1)
+    out = tmp_path / "report"
+    out.mkdir()
+    (out / "sheet-servo-10p12s.html").mkdir()  # a folder where the servo's sheet goes
+    for jobs in ("1", "2"):
+        done = run_cli("check", DESIGNS.parent, "--jobs", jobs, "--format", f"html:{out}")
+        assert done.code == 2, jobs
+        assert "cannot write html" in done.err and "Traceback" not in done.err, jobs
+        assert not (out / "index.html").exists(), jobs  # no index of a partial run
+
+
 def test_check_html_needs_a_file() -> None:
     done = run_cli("check", PUMP, "--format", "html")
     assert done.code == 2 and "html needs a FILE" in done.err

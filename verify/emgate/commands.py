@@ -17,6 +17,8 @@ from emgate.terms import EXIT_CRASH, EXIT_INPUT, EXIT_OK
 if TYPE_CHECKING:
     from collections.abc import Iterable
 
+    from emgate.findings import RunResult
+
 #: The formats that read a record's summary alone (its check count, its check closest to a
 #: limit, the rules it ran) and its findings, never its every outcome: with only these, a
 #: run keeps (spools) each record's summary, not its outcomes.
@@ -220,7 +222,7 @@ def _check(args: argparse.Namespace, plugins) -> int:  # type: ignore[no-untyped
     started()
     result = execute(run)
     try:
-        return max(result.exit_code, _emit(result, outputs, args.quiet))
+        return max(result.exit_code, _emit(result, outputs, args.quiet, run.jobs))
     finally:
         if result.spool is not None:
             result.spool.close()
@@ -329,7 +331,9 @@ def _written(stream, text: Iterable[str]) -> None:  # type: ignore[no-untyped-de
         os.close(devnull)
 
 
-def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -> int:  # type: ignore[no-untyped-def]
+def _emit(
+    result: RunResult, outputs: list[tuple[str, Path | None]], quiet: bool = False, jobs: int = 1
+) -> int:
     from emgate.atomic import write_atomic
     from emgate.report import writer
     from emgate.report.common import one_line
@@ -340,7 +344,7 @@ def _emit(result, outputs: list[tuple[str, Path | None]], quiet: bool = False) -
             from emgate.page import write_run
 
             try:
-                write_run(result, file)
+                write_run(result, file, jobs)
             except OSError as exc:
                 why = exc.strerror or str(exc)
                 _to_stderr(one_line(f"emgate: cannot write html to {file}: {why}"))

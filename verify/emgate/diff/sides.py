@@ -120,7 +120,7 @@ def _evaluate(
     from emgate.config import find_config
     from emgate.errors import InputError, InputErrors
     from emgate.page.data import gather
-    from emgate.page.run import run_gate
+    from emgate.page.run import RunView, run_gate
 
     groups: dict[Path | None, list[str]] = {}
     for rel in rels:
@@ -131,9 +131,10 @@ def _evaluate(
     for config, members in groups.items():
         result = run_gate([tree / r for r in members], plugins, config, root=tree)
         code = max(code, result.exit_code)
+        view = RunView.of(result)  # (indexed once for the group's pages)
         for rel in members:
             try:
-                pages[rel] = gather(tree / rel, result, shown_as=rel)
+                pages[rel] = gather(tree / rel, result, shown_as=rel, view=view)
             except (InputError, InputErrors) as exc:
                 errs = exc.errors if isinstance(exc, InputErrors) else [exc]
                 errors[rel] = "; ".join(str(x).replace(str(tree) + "/", "") for x in errs)

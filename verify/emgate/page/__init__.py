@@ -19,7 +19,7 @@ from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     from emgate.findings import RunResult
-    from emgate.page.content import PageData
+    from emgate.page.content import IndexRow, PageData
 
 
 MISSING_PLOTS = "the html format draws with matplotlib: pip install 'emgate[html]'"
@@ -45,13 +45,15 @@ def sheet_file_name(record_id: str) -> str:
     return f"sheet-{record_id}.html"
 
 
-def write_run(result: RunResult, out: Path) -> None:
+def write_run(result: RunResult, out: Path, jobs: int = 1) -> None:
     """Write a run's index to ``out`` (``out/index.html`` when ``out`` is a folder or does
     not end in .html) and each record's sheet beside it, atomically file by file. A folder
-    ``out`` is made when missing, its parent never (a typo in a path is an error)."""
+    ``out`` is made when missing, its parent never (a typo in a path is an error). A sheet
+    is written as soon as it is drawn (the index keeps a line of it), in up to ``jobs``
+    processes: drawing its plots is most of a run's time."""
     from emgate.atomic import write_atomic
-    from emgate.page.data import gather_result
     from emgate.page.html import render_index
+    from emgate.parallel import ordered_map
 
     if not plots_available():
         raise OSError(MISSING_PLOTS)
@@ -60,10 +62,37 @@ def write_run(result: RunResult, out: Path) -> None:
     )
     if index.parent == out:
         out.mkdir(exist_ok=True)  # FileNotFoundError (an OSError) when the parent is missing
-    pages = gather_result(result.in_memory("HTML page"))
-    for page in pages:
-        write_atomic(index.parent / sheet_file_name(page.record_id), page_html(page))
-    write_atomic(index, render_index(result, pages, sheet_file_name))
+    sheet = _SheetWriter(index.parent, result.in_memory("HTML page"))
+    rows = []
+    # the records by their place: a worker takes its record from the run it was forked
+    # with, where a check is the object its finding reports (a pickled copy is not)
+    for row in ordered_map(sheet, list(range(len(result.records))), jobs):
+        if isinstance(row, OSError):  # (raised in a worker: the first stops the run)
+            raise row
+        rows.append(row)
+    write_atomic(index, render_index(result, rows, sheet_file_name))
+
+
+class _SheetWriter:
+    """Draws and writes one record's sheet; its index line, or the OSError that stopped it."""
+
+    def __init__(self, folder: Path, result: RunResult) -> None:
+        from emgate.page.run import RunView
+
+        self.folder, self.result, self.view = folder, result, RunView.of(result)
+
+    def __call__(self, at: int) -> IndexRow | OSError:
+        from emgate.atomic import write_atomic
+        from emgate.page.content import IndexRow
+        from emgate.page.data import gather
+
+        record = self.result.records[at]
+        page = gather(Path(record.file), self.result, record=record, view=self.view)
+        try:
+            write_atomic(self.folder / sheet_file_name(page.record_id), page_html(page))
+        except OSError as exc:
+            return exc
+        return IndexRow.of(page)
 
 
 def show_html(file: Path, out: Path | None, config: Path | None, plugins: object) -> int:

@@ -203,3 +203,19 @@ class PageData:
             if q.name == name:
                 return q.value
         return None
+
+
+@dataclass(frozen=True)
+class IndexRow:
+    """A record's line in a run's index: what the index keeps of its page once written."""
+
+    record_id: str
+    title: str
+    file: str
+    verdict: int
+    closest: CheckRow | None  # the failing check, or the one closest to its limit
+
+    @classmethod
+    def of(cls, page: PageData) -> IndexRow:
+        closest = page.checks[0] if page.checks else None
+        return cls(page.record_id, page.title, page.file, page.verdict, closest)

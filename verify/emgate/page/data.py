@@ -15,15 +15,10 @@ from typing import TYPE_CHECKING, Any
 
 from emgate.page import figures
 from emgate.page.content import PageData, Quantity
-from emgate.page.run import gather_checks
+from emgate.page.run import RunView, gather_checks
 
 if TYPE_CHECKING:
     from emgate.findings import RecordResult, RunResult
-
-
-def gather_result(result: RunResult) -> list[PageData]:
-    """The page of every record the run checked."""
-    return [gather(Path(r.file), result, record=r) for r in result.records]
 
 
 def gather(
@@ -32,11 +27,12 @@ def gather(
     *,
     record: RecordResult | None = None,
     shown_as: str | None = None,
+    view: RunView | None = None,
 ) -> PageData:
     """Gather the page of the design record at ``path``; its checks come from ``result``
     (the record of the run whose file or id matches). InputError(s) when it cannot be read.
     A part of the page the calculation cannot compute is left out and named in
-    ``problems``."""
+    ``problems``. ``view``: the run indexed once, for the pages of its many records."""
     from emgate.errors import display_path
     from emgate.sheet import load_design, sheet_of
 
@@ -71,7 +67,7 @@ def gather(
     if result is not None:
         if record is None:
             record = next((r for r in result.records if r.record_id == design.id), None)
-        gather_checks(page, result, record)
+        gather_checks(page, view or RunView.of(result), record)
     return page
 
 

@@ -7,7 +7,7 @@ The skeleton and its shared pieces are :mod:`emgate.page.markup`, the sheet's se
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Iterable
 from dataclasses import asdict
 from typing import TYPE_CHECKING
 
@@ -19,7 +19,7 @@ from emgate.report.common import VERDICTS
 
 if TYPE_CHECKING:
     from emgate.findings import RunResult
-    from emgate.page.content import PageData
+    from emgate.page.content import IndexRow, PageData
 
 
 def render_page(page: PageData, plots: dict[str, str]) -> str:
@@ -75,7 +75,9 @@ def _plot_data(p: PageData) -> dict[str, object]:
     }
 
 
-def render_index(result: RunResult, pages: list[PageData], sheet_name: Callable[[str], str]) -> str:
+def render_index(
+    result: RunResult, pages: Iterable[IndexRow], sheet_name: Callable[[str], str]
+) -> str:
     """A run's index: the verdict, and every record with its closest check and its sheet."""
     from emgate.report.common import summary_line
 
@@ -90,7 +92,7 @@ def render_index(result: RunResult, pages: list[PageData], sheet_name: Callable[
     )
     rows, classes = [], []
     for p in pages:
-        closest = p.checks[0] if p.checks else None
+        closest = p.closest
         near = (
             "(no numeric check)"
             if closest is None

@@ -3,14 +3,16 @@
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
 
 from emgate.page.content import CheckRow, PageData, RemedyRow, RuleRow
 
 if TYPE_CHECKING:
-    from emgate.findings import RecordResult, RunResult
+    from emgate.findings import Finding, RecordResult, RuleInfo, RunResult
     from emgate.plugins import PluginSet
+    from emgate.remedy import Remedy
 
 
 def run_gate(
@@ -36,19 +38,50 @@ def run_gate(
     return execute(Run(paths=paths, policy=policy, plugins=plugins))
 
 
-def gather_checks(page: PageData, result: RunResult, record: RecordResult | None) -> None:
+@dataclass
+class RunView:
+    """What the pages of a run's records read of it, indexed once: a record's findings and
+    a check's remedies are looked up, not searched for among the run's every finding (a
+    thousand records' pages would search a thousand times)."""
+
+    exit_code: int
+    infos: dict[str, RuleInfo]
+    #: Each finding with its place in the run's order, by record id and by file.
+    by_record: dict[str, list[tuple[int, Finding]]] = field(default_factory=dict)
+    by_file: dict[str, list[tuple[int, Finding]]] = field(default_factory=dict)
+    #: The remedies of the first finding that reports a check, by the check's identity.
+    remedies: dict[int, list[Remedy]] = field(default_factory=dict)
+
+    @classmethod
+    def of(cls, result: RunResult) -> RunView:
+        view = cls(result.exit_code, {r.id: r for r in result.rules})
+        for at, f in enumerate(result.findings):
+            view.by_record.setdefault(f.record_id, []).append((at, f))
+            view.by_file.setdefault(f.file, []).append((at, f))
+            if f.check is not None:
+                view.remedies.setdefault(id(f.check), list(f.remedies))
+        return view
+
+    def findings_of(self, record: RecordResult) -> list[Finding]:
+        """The findings of the record's id or file, in the run's order."""
+        mine = dict(self.by_record.get(record.record_id, ()))
+        mine.update(self.by_file.get(record.file, ()))
+        return [mine[at] for at in sorted(mine)]
+
+
+def gather_checks(page: PageData, run: RunView, record: RecordResult | None) -> None:
     """The record's checks (with their remedies), rules and other findings from the run,
     and the verdict on the record alone."""
-    from emgate.remedy_report import remedies_for_check, summary
+    from emgate.remedy_report import summary
     from emgate.report.common import check_display
     from emgate.terms import path_string
 
-    page.verdict = result.exit_code
+    page.verdict = run.exit_code
     if record is None:
         page.problems.append("checks: the run did not check this record")
         return
-    infos = {r.id: r for r in result.rules}
-    mine = [f for f in result.findings if f.record_id == record.record_id or f.file == record.file]
+    infos = run.infos
+    mine = run.findings_of(record)
     page.findings = [f"{f.severity}: {f.rule}: {f.message}" for f in mine if f.check is None]
     live = [f for f in mine if f.waived_by is None]
     page.verdict = (
@@ -74,7 +107,7 @@ def gather_checks(page: PageData, result: RunResult, record: RecordResult | None
         )
         for c in o.checks:
             finding = next((f for f in mine if f.rule == o.rule and f.check == c), None)
-            remedies = remedies_for_check(result, c)
+            remedies = run.remedies.get(id(c), [])
             page.checks.append(
                 CheckRow(
                     o.rule,

@@ -247,6 +247,21 @@ def test_loss_curve_refuses_bad_tables() -> None:
         LossCurve(0.0, np.array([0.5, 1.0]), np.array([1.0, 2.0]))
 
 
+def test_two_points_a_float_apart_read_as_a_step_to_the_higher_loss() -> None:
+    # above e^2 T two neighbouring floats can have one logarithm (9 T and the next float:
+    # IEEE 754 doubles): the log-log slope would divide by zero; between two such points the
+    # curve is a step, read on the safe side
+    low = 9.0
+    high = math.nextafter(low, math.inf)
+    assert math.log(low) == math.log(high)  # (the case itself)
+    curve = LossCurve(50.0, np.array([1.0, low, high]), np.array([1.0, 30.0, 31.0]))
+    assert curve.at(low) == (31.0, False)
+    assert curve.at(high) == (31.0, False)
+    # elsewhere the log-log reading holds: at a point, its own loss (within 1e-12 relative,
+    # the round trip through log and exp)
+    assert curve.at(1.0)[0] == pytest.approx(1.0, rel=1e-12)
+
+
 def test_stator_iron_mass_of_a_plain_annulus() -> None:
     # [calc] no slots area: teeth = annulus bore..slot bottom, yoke = the rest
     m = stator_iron_mass(0.1, 0.2, 0.02, 24, 0.0, 0.1, 1.0, 7650.0)

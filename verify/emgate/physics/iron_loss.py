@@ -354,7 +354,10 @@ class LossCurve:
         lb, lp = self._lb, self._lp
         j = min(bisect_right(bs, b), len(bs) - 1) - 1  # the segment [j, j + 1] holding b
         x = math.log(b)
-        slope = (lp[j + 1] - lp[j]) / (lb[j + 1] - lb[j])
+        span = lb[j + 1] - lb[j]
+        if span == 0.0:  # two points a float apart, one logarithm: the higher loss (safe side)
+            return ps[j + 1], False
+        slope = (lp[j + 1] - lp[j]) / span
         return math.exp(slope * (x - lb[j]) + lp[j]), False  # numpy.interp's formula
 
 

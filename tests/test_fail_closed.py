@@ -768,3 +768,39 @@ def test_a_stale_temporary_of_a_dead_run_is_removed(tmp_path: Path) -> None:
     alive.write_text("busy")
     write_atomic(report, "new\n")
     assert sorted(p.name for p in tmp_path.iterdir()) == sorted([alive.name, "r.json"])
+
+
+def test_sigterm_during_a_staged_write_leaves_no_staging_folder(tmp_path: Path) -> None:
+    code = f"""
+import sys, time
+import emgate.atomic as a
+from pathlib import Path
+with a.staging(Path({str(tmp_path / "index.html")!r})) as staged:
+    (staged / "sheet-a.html").write_text("drawn")
+    print("ready", flush=True)
+    time.sleep(60)
+"""
+    proc = subprocess.Popen(
+        [sys.executable, "-c", code], stdout=subprocess.PIPE, text=True, cwd=tmp_path
+    )
+    assert proc.stdout is not None and proc.stdout.readline().strip() == "ready"
+    assert any(p.name.endswith(".emgate-tmp") for p in tmp_path.iterdir())  # premise
+    proc.send_signal(signal.SIGTERM)
+    assert proc.wait(timeout=30) == 128 + signal.SIGTERM
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_a_staged_file_lands_by_rename_or_through_a_link(tmp_path: Path) -> None:
+    from emgate.atomic import land, staging
+
+    elsewhere = tmp_path / "kept.html"
+    elsewhere.write_text("old", encoding="utf-8")
+    (tmp_path / "linked.html").symlink_to(elsewhere)
+    with staging(tmp_path / "index.html") as staged:
+        for name in ("plain.html", "linked.html"):
+            (staged / name).write_text(f"new {name}", encoding="utf-8")
+            land(staged / name, tmp_path / name)
+    assert (tmp_path / "plain.html").read_text(encoding="utf-8") == "new plain.html"
+    assert (tmp_path / "linked.html").is_symlink()  # the link kept, its file written
+    assert elsewhere.read_text(encoding="utf-8") == "new linked.html"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["kept.html", "linked.html", "plain.html"]

@@ -288,7 +288,8 @@ def test_a_pages_findings_and_remedies_are_those_the_run_gives_its_record(
 def test_each_sheet_is_written_before_the_next_is_drawn(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
-    # a run of many records holds one page at a time, not every page until the last is drawn
+    # a run of many records holds one page at a time, not every page until the last is
+    # drawn: each is written to the run's staging folder, and lands with the others at the end
     import emgate.page as page_module
 
     out = tmp_path / "report"
@@ -296,7 +297,8 @@ def test_each_sheet_is_written_before_the_next_is_drawn(
     real = page_module.page_html
 
     def watched(page: Any) -> str:
-        drawn.append(sorted(p.name for p in out.glob("sheet-*.html")))
+        assert list(out.glob("sheet-*.html")) == []  # nothing lands before every sheet is in
+        drawn.append(sorted(p.name for p in out.glob(".index.html.*.emgate-tmp/sheet-*.html")))
         return real(page)
 
     monkeypatch.setattr(page_module, "page_html", watched)
@@ -341,7 +343,71 @@ def test_a_sheet_that_cannot_be_written_stops_the_run_with_its_error(
         done = run_cli("check", DESIGNS.parent, "--jobs", jobs, "--format", f"html:{out}")
         assert done.code == 2, jobs
         assert "cannot write html" in done.err and "Traceback" not in done.err, jobs
-        assert not (out / "index.html").exists(), jobs  # no index of a partial run
+        # none of the run's files: no index, no other sheet, no staging folder
+        assert [p.name for p in out.iterdir()] == ["sheet-servo-10p12s.html"], jobs
+
+
+@pytest.mark.parametrize("jobs", [1, 2])
+def test_a_sheet_that_cannot_be_drawn_leaves_none_of_the_runs_files(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, jobs: int
+) -> None:
+    # an error of the calculation whose exception does not unpickle (its __init__ takes two
+    # arguments): raised in a worker process it would stop the pool's result thread, and the
+    # run would wait forever; the alarm turns such a hang into a failure of this test
+    import signal
+
+    import emgate.page as page_module
+    import emgate.parallel as parallel
+    from emgate.calc.view import NotComputed
+
+    real = page_module.page_html
+
+    def failing(page: Any) -> str:
+        if page.record_id == "pump-drive-4p36s":
+            raise NotComputed("stator.slot_fill", "no strands fit")
+        return real(page)
+
+    monkeypatch.setattr(page_module, "page_html", failing)
+    monkeypatch.setattr(parallel, "MIN_ITEMS_PER_WORKER", 1)
+    result = _demo_run(tmp_path)
+    out = tmp_path / "report"
+    out.mkdir()
+
+    def hung(signum: int, frame: object) -> None:
+        raise AssertionError("the run hung")
+
+    previous = signal.signal(signal.SIGALRM, hung)
+    signal.alarm(120)
+    try:
+        with pytest.raises(RuntimeError, match=r"pump-drive-4p36s.yaml could not be drawn: "):
+            page_module.write_run(result, out, jobs=jobs)
+    finally:
+        signal.alarm(0)
+        signal.signal(signal.SIGALRM, previous)
+    assert list(out.iterdir()) == []  # the genset's sheet, drawn first, did not land
+
+
+def test_a_staging_folder_a_killed_run_left_is_removed_by_the_next(tmp_path: Path) -> None:
+    import subprocess
+    import sys
+
+    from emgate.page import write_run
+
+    out = tmp_path / "report"
+    out.mkdir()
+    dead = subprocess.Popen([sys.executable, "-c", "pass"])  # a process no longer alive
+    dead.wait()
+    left = out / f".index.html.{dead.pid}.abc123.emgate-tmp"
+    left.mkdir()
+    (left / "sheet-old.html").write_text("half a run", encoding="utf-8")
+    write_run(_demo_run(tmp_path), out)
+    assert not left.exists()
+    assert sorted(p.name for p in out.iterdir()) == [
+        "index.html",
+        "sheet-genset-4p48s.html",
+        "sheet-pump-drive-4p36s.html",
+        "sheet-servo-10p12s.html",
+    ]
 
 
 def test_check_html_needs_a_file() -> None:

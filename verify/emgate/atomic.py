@@ -12,11 +12,12 @@ from __future__ import annotations
 
 import contextlib
 import os
+import shutil
 import signal
 import stat
 import tempfile
 import threading
-from collections.abc import Iterable, Iterator
+from collections.abc import Callable, Iterable, Iterator
 from pathlib import Path
 from typing import IO
 
@@ -92,9 +93,44 @@ def remove_stale(path: Path) -> list[Path]:
         if not pid_text.isdigit() or int(pid_text) == os.getpid() or _alive(int(pid_text)):
             continue
         with contextlib.suppress(OSError):
-            tmp.unlink()
+            if tmp.is_dir() and not tmp.is_symlink():  # a staging folder (:func:`staging`)
+                shutil.rmtree(tmp)
+            else:
+                tmp.unlink()
             removed.append(tmp)
     return removed
+
+
+@contextlib.contextmanager
+def staging(path: Path) -> Iterator[Path]:
+    """A temporary folder beside ``path`` for files that land together (:func:`land`, once
+    all are written), removed with whatever is left in it when the block ends or SIGTERM
+    ends the run; one that a run killed outright leaves is removed by the next write of
+    ``path`` (:func:`remove_stale`)."""
+    remove_stale(path)
+    tmp = tempfile.mkdtemp(prefix=f".{path.name}.{os.getpid()}.", suffix=TEMP_MARK, dir=path.parent)
+
+    def remove() -> None:
+        shutil.rmtree(tmp, ignore_errors=True)
+
+    with _removed_on_sigterm(Path(tmp), remove):
+        try:
+            yield Path(tmp)
+        finally:
+            remove()
+
+
+def land(staged: Path, path: Path) -> None:
+    """Move a file written in a :func:`staging` folder to ``path``: a rename, or written
+    through ``path`` when that is a device, FIFO or link, as :func:`write_atomic` does."""
+    try:
+        mode: int | None = os.lstat(path).st_mode
+    except FileNotFoundError:
+        mode = None
+    if mode is not None and not stat.S_ISREG(mode):
+        write_atomic(path, staged.read_text(encoding="utf-8"))
+        return
+    os.replace(staged, path)
 
 
 def _alive(pid: int) -> bool:
@@ -108,15 +144,25 @@ def _alive(pid: int) -> bool:
 
 
 @contextlib.contextmanager
-def _removed_on_sigterm(tmp: Path) -> Iterator[None]:
-    """While writing, SIGTERM removes the temporary and then ends the run as SIGTERM would."""
+def _removed_on_sigterm(tmp: Path, remove: Callable[[], object] | None = None) -> Iterator[None]:
+    """While writing, SIGTERM removes the temporary (``remove``, by default unlinking
+    ``tmp``) and then ends the run as SIGTERM would. A process forked meanwhile (a worker of
+    ``--jobs``) inherits the handler but not the temporary: there SIGTERM ends it alone."""
     if threading.current_thread() is not threading.main_thread():
         yield
         return
     previous = signal.getsignal(signal.SIGTERM)
+    owner = os.getpid()
 
     def stop(signum: int, frame: object) -> None:
-        tmp.unlink(missing_ok=True)
+        if os.getpid() != owner:
+            signal.signal(signal.SIGTERM, signal.SIG_DFL)
+            os.kill(os.getpid(), signal.SIGTERM)
+            return
+        if remove is None:
+            tmp.unlink(missing_ok=True)
+        else:
+            remove()
         signal.signal(signal.SIGTERM, previous)
         raise SystemExit(128 + signum)
 

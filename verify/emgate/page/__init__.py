@@ -14,6 +14,7 @@ the drawings (slot outlines, conductors as placed for the fill). The page of a s
 
 from __future__ import annotations
 
+from errno import EISDIR
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -47,11 +48,15 @@ def sheet_file_name(record_id: str) -> str:
 
 def write_run(result: RunResult, out: Path, jobs: int = 1) -> None:
     """Write a run's index to ``out`` (``out/index.html`` when ``out`` is a folder or does
-    not end in .html) and each record's sheet beside it, atomically file by file. A folder
-    ``out`` is made when missing, its parent never (a typo in a path is an error). A sheet
-    is written as soon as it is drawn (the index keeps a line of it), in up to ``jobs``
-    processes: drawing its plots is most of a run's time."""
-    from emgate.atomic import write_atomic
+    not end in .html) and each record's sheet beside it. A folder ``out`` is made when
+    missing, its parent never (a typo in a path is an error).
+
+    The sheets are drawn in up to ``jobs`` processes (the plots are most of a run's time),
+    each written as soon as it is drawn, into a staging folder beside the index: they land
+    beside it, and the index after them, only once every sheet is drawn. A sheet that
+    cannot be drawn or written leaves none of the run's files (OSError, or RuntimeError
+    for any other failure: an internal error)."""
+    from emgate.atomic import land, staging, write_atomic
     from emgate.page.html import render_index
     from emgate.parallel import ordered_map
 
@@ -62,36 +67,50 @@ def write_run(result: RunResult, out: Path, jobs: int = 1) -> None:
     )
     if index.parent == out:
         out.mkdir(exist_ok=True)  # FileNotFoundError (an OSError) when the parent is missing
-    sheet = _SheetWriter(index.parent, result.in_memory("HTML page"))
-    rows = []
-    # the records by their place: a worker takes its record from the run it was forked
-    # with, where a check is the object its finding reports (a pickled copy is not)
-    for row in ordered_map(sheet, list(range(len(result.records))), jobs):
-        if isinstance(row, OSError):  # (raised in a worker: the first stops the run)
-            raise row
-        rows.append(row)
+    with staging(index) as staged:
+        sheet = _SheetWriter(staged, result.in_memory("HTML page"))
+        rows = []
+        # the records by their place: a worker takes its record from the run it was forked
+        # with, where a check is the object its finding reports (a pickled copy is not)
+        for row in ordered_map(sheet, list(range(len(result.records))), jobs):
+            if isinstance(row, OSError):
+                raise row
+            if isinstance(row, str):
+                raise RuntimeError(row)
+            rows.append(row)
+        names = [sheet_file_name(row.record_id) for row in rows]
+        for name in names:  # a folder in the way, before any sheet lands
+            if (index.parent / name).is_dir():
+                raise IsADirectoryError(EISDIR, "a folder is in the way", str(index.parent / name))
+        for name in names:
+            land(staged / name, index.parent / name)
     write_atomic(index, render_index(result, rows, sheet_file_name))
 
 
 class _SheetWriter:
-    """Draws and writes one record's sheet; its index line, or the OSError that stopped it."""
+    """Draws and writes one record's sheet. Returns its index line, or what stopped it: the
+    OSError, or the text of any other error. Nothing else may leave a worker process: an
+    exception that does not unpickle would stop the pool's result thread, and the run with
+    it."""
 
     def __init__(self, folder: Path, result: RunResult) -> None:
         from emgate.page.run import RunView
 
         self.folder, self.result, self.view = folder, result, RunView.of(result)
 
-    def __call__(self, at: int) -> IndexRow | OSError:
+    def __call__(self, at: int) -> IndexRow | OSError | str:
         from emgate.atomic import write_atomic
         from emgate.page.content import IndexRow
         from emgate.page.data import gather
 
         record = self.result.records[at]
-        page = gather(Path(record.file), self.result, record=record, view=self.view)
         try:
+            page = gather(Path(record.file), self.result, record=record, view=self.view)
             write_atomic(self.folder / sheet_file_name(page.record_id), page_html(page))
         except OSError as exc:
-            return exc
+            return OSError(exc.errno, exc.strerror or str(exc), exc.filename)
+        except Exception as exc:  # (a worker's KeyboardInterrupt is the pool's to handle)
+            return f"the sheet of {record.file} could not be drawn: {type(exc).__name__}: {exc}"
         return IndexRow.of(page)
 
 

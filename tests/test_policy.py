@@ -727,3 +727,41 @@ def test_an_explicit_file_without_an_emgate_schema_is_skipped_with_a_note(repo: 
     alone = run_cli("check", ci)
     assert alone.code == 0, alone.out
     assert "skipped" in alone.out
+
+
+def test_a_path_relative_to_the_repository_is_what_pathlib_makes_of_it(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # the definition: both paths resolved, the one relative to the other (pathlib), or
+    # None outside; the resolved root is kept, and discovery's resolved name taken as given
+    from emgate.config import Policy
+
+    root = tmp_path / "repo"
+    (root / "designs" / "deep").mkdir(parents=True)
+    (root / "designs" / "a.yaml").write_text("a: 1\n")
+    (tmp_path / "repo-other").mkdir()  # shares the root's name as a prefix
+    (tmp_path / "link").symlink_to(root / "designs")
+    monkeypatch.chdir(root)
+    policy = Policy(root=tmp_path / "link" / "..")  # (a root named through a link)
+    cases = [
+        root,
+        root / "designs" / "a.yaml",
+        root / "designs" / "deep" / "missing.yaml",
+        tmp_path / "link" / "a.yaml",
+        tmp_path / "repo-other" / "x.yaml",
+        tmp_path,
+        Path("designs/a.yaml"),
+        Path("."),
+    ]
+
+    def by_pathlib(path: Path) -> str | None:
+        try:
+            return path.resolve().relative_to(policy.root.resolve()).as_posix()
+        except ValueError:
+            return None
+
+    got = [policy.relative(p) for p in cases]
+    assert got == [by_pathlib(p) for p in cases]
+    assert got[:4] == [".", "designs/a.yaml", "designs/deep/missing.yaml", "designs/a.yaml"]
+    assert got[4:6] == [None, None]
+    assert [policy.relative(p, os.path.realpath(p)) for p in cases] == got

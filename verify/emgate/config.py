@@ -8,6 +8,7 @@ validated against that rule's own options model, with located errors.
 from __future__ import annotations
 
 import fnmatch
+import os
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from functools import cache
@@ -172,19 +173,38 @@ class Policy:
     #: Longest time one rule may take on one record [s].
     rule_time_budget: float = 60.0
 
-    def relative(self, path: Path) -> str | None:
-        """``path`` relative to the repository root, or None outside it."""
+    #: The root resolved, once (a change of a large repository asks for every file outside it).
+    _top: str | None = field(default=None, init=False, repr=False, compare=False)
+
+    def relative(self, path: Path | str, real: str | None = None) -> str | None:
+        """``path`` relative to the repository root (in / form; "." for the root itself), or
+        None outside it. ``real``: the path resolved already (discovery resolves each file
+        once)."""
+        if os.name != "posix":  # (Windows compares paths case-folded: pathlib does that)
+            try:
+                return resolved(Path(path)).relative_to(resolved(self.root)).as_posix()
+            except (ValueError, OSError):
+                return None
         try:
-            return resolved(path).relative_to(resolved(self.root)).as_posix()
-        except (ValueError, OSError):
+            if self._top is None:
+                self._top = os.path.realpath(self.root)
+            full = os.path.realpath(path) if real is None else real
+        except OSError:
             return None
+        top = self._top
+        if full == top:
+            return "."
+        prefix = top if top.endswith(os.sep) else top + os.sep
+        if not full.startswith(prefix):
+            return None
+        return full[len(prefix) :]
 
     def inside(self, path: Path) -> bool:
         return self.relative(path) is not None
 
-    def selects(self, path: Path) -> bool:
-        """Whether the ``files`` globs select a file."""
-        rel = self.relative(path)
+    def selects(self, path: Path | str, real: str | None = None) -> bool:
+        """Whether the ``files`` globs select a file (``real``: as :meth:`relative`)."""
+        rel = self.relative(path, real)
         return rel is not None and glob_match(rel, self.files)
 
     def ignored(self, path: Path) -> bool:

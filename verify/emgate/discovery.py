@@ -138,7 +138,7 @@ def each_source(
                 if (
                     outside_ids is not None
                     and declared == DESIGN_SCHEMA
-                    and (policy is None or not policy.files or policy.selects(Path(name)))
+                    and (policy is None or not policy.files or policy.selects(name, key))
                 ):
                     for rid in record_ids(name, text):
                         outside_ids.setdefault(rid, name)

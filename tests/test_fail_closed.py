@@ -804,3 +804,26 @@ def test_a_staged_file_lands_by_rename_or_through_a_link(tmp_path: Path) -> None
     assert (tmp_path / "linked.html").is_symlink()  # the link kept, its file written
     assert elsewhere.read_text(encoding="utf-8") == "new linked.html"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["kept.html", "linked.html", "plain.html"]
+
+
+def test_a_process_forked_while_staging_leaves_the_staging_folder_alone(tmp_path: Path) -> None:
+    # a --jobs worker inherits the run's SIGTERM handler, and the pool ends its workers with
+    # SIGTERM: the worker must die as SIGTERM says, not remove the run's staging folder
+    code = f"""
+import os, signal, sys, time
+import emgate.atomic as a
+from pathlib import Path
+with a.staging(Path({str(tmp_path / "index.html")!r})) as staged:
+    child = os.fork()
+    if child == 0:
+        os.kill(os.getpid(), signal.SIGTERM)
+        time.sleep(10)
+        os._exit(0)
+    _, status = os.waitpid(child, 0)
+    print(os.WIFSIGNALED(status) and os.WTERMSIG(status) == signal.SIGTERM, staged.is_dir())
+"""
+    done = subprocess.run(
+        [sys.executable, "-c", code], capture_output=True, text=True, cwd=tmp_path, timeout=60
+    )
+    assert done.stdout.split() == ["True", "True"], done.stderr
+    assert list(tmp_path.iterdir()) == []  # and the run's own exit removed it

@@ -347,6 +347,51 @@ def test_a_sheet_that_cannot_be_written_stops_the_run_with_its_error(
         assert [p.name for p in out.iterdir()] == ["sheet-servo-10p12s.html"], jobs
 
 
+@pytest.mark.parametrize(
+    "in_the_way",
+    ["index.html", "sheet-servo-10p12s.html"],
+)
+@pytest.mark.parametrize("kind", ["folder", "link into a missing folder"])
+def test_a_place_a_file_cannot_land_is_found_before_any_lands(
+    tmp_path: Path, in_the_way: str, kind: str
+) -> None:
+    out = tmp_path / "report"
+    out.mkdir()
+    if kind == "folder":
+        (out / in_the_way).mkdir()
+    else:
+        (out / in_the_way).symlink_to(tmp_path / "missing" / "x.html")
+    done = run_cli("check", DESIGNS.parent, "--format", f"html:{out}")
+    assert done.code == 2 and "Traceback" not in done.err
+    assert f"cannot write html to {out}: " in done.err and in_the_way in done.err  # named
+    assert [p.name for p in out.iterdir()] == [in_the_way]  # nothing of the run landed
+
+
+@pytest.mark.parametrize("jobs", [1, 2])
+def test_a_sheet_a_worker_cannot_write_leaves_none_of_the_runs_files(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch, jobs: int
+) -> None:
+    import emgate.atomic
+    import emgate.parallel as parallel
+    from emgate.page import write_run
+
+    real = emgate.atomic.write_atomic
+
+    def refusing(path: Path, text: Any, **kw: Any) -> None:
+        if path.name == "sheet-pump-drive-4p36s.html":
+            raise PermissionError(13, "Permission denied", str(path))
+        real(path, text, **kw)
+
+    monkeypatch.setattr(emgate.atomic, "write_atomic", refusing)
+    monkeypatch.setattr(parallel, "MIN_ITEMS_PER_WORKER", 1)
+    out = tmp_path / "report"
+    out.mkdir()
+    with pytest.raises(PermissionError, match="Permission denied") as raised:
+        write_run(_demo_run(tmp_path), out, jobs=jobs)
+    assert raised.value.filename.endswith("sheet-pump-drive-4p36s.html")
+    assert list(out.iterdir()) == []
+
+
 @pytest.mark.parametrize("jobs", [1, 2])
 def test_a_sheet_that_cannot_be_drawn_leaves_none_of_the_runs_files(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch, jobs: int

@@ -186,3 +186,31 @@ def test_a_summary_report_keeps_summaries_and_says_the_same(
     assert kept == len(checked)  # every checked record summarised in the summary-only run,
     assert len(summarised) == kept  # and none in the run that writes JSON too
     assert alone.out == both.out
+
+
+def _interrupted(x: int) -> int:
+    import os
+    import signal
+
+    if x == 3:  # Ctrl-C reaches the whole process group, the workers with the run
+        os.kill(os.getpid(), signal.SIGINT)
+    return x
+
+
+def test_a_worker_leaves_ctrl_c_to_the_run(capfd: pytest.CaptureFixture[str]) -> None:
+    # a worker that took the interrupt itself would print its traceback and lose its item
+    # (the map would wait for it forever: the alarm turns that into a failure)
+    import signal
+
+    def hung(signum: int, frame: object) -> None:
+        raise AssertionError("the map hung")
+
+    items = list(range(2 * MIN_ITEMS_PER_WORKER))
+    previous = signal.signal(signal.SIGALRM, hung)
+    signal.alarm(60)
+    try:
+        assert list(ordered_map(_interrupted, list(items), 2)) == items
+    finally:
+        signal.alarm(0)
+        signal.signal(signal.SIGALRM, previous)
+    assert "KeyboardInterrupt" not in capfd.readouterr().err

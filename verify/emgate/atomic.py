@@ -5,12 +5,15 @@ Anything else the path names is written in place and never replaced: a character
 null device), a FIFO, or a symbolic link (its target is written, the link kept). A temporary is
 named ``.NAME.PID.emgate-tmp...``: it is removed when the write fails or the run is stopped by
 SIGTERM, and a later write of the same report removes one whose process is gone (SIGKILL).
+Files that land together (an HTML index and its sheets) are written into a staging folder of
+the same name's pattern first, and moved into place once all are in (:func:`staging`).
 A report path in a folder that does not exist is an error; nothing creates folders unasked.
 """
 
 from __future__ import annotations
 
 import contextlib
+import errno
 import os
 import shutil
 import signal
@@ -118,6 +121,23 @@ def staging(path: Path) -> Iterator[Path]:
             yield Path(tmp)
         finally:
             remove()
+
+
+def check_landing(path: Path) -> None:
+    """Raise the OSError that :func:`land` would meet at ``path`` that can be seen before
+    anything lands: a folder in the way, a symbolic link in a loop or into a folder that does
+    not exist. (An error of the rename or the write itself can still come later.)"""
+    if os.path.isdir(path):
+        raise IsADirectoryError(errno.EISDIR, "a folder is in the way", str(path))
+    if os.path.islink(path):
+        real = os.path.realpath(path)
+        try:
+            os.stat(path)
+        except FileNotFoundError:  # a dangling link: written through, its folder must exist
+            if not os.path.isdir(os.path.dirname(real)):
+                raise FileNotFoundError(
+                    errno.ENOENT, "a link into a folder that does not exist", str(path)
+                ) from None
 
 
 def land(staged: Path, path: Path) -> None:

@@ -347,6 +347,8 @@ def _emit(
                 write_run(result, file, jobs)
             except OSError as exc:
                 why = exc.strerror or str(exc)
+                if exc.filename:
+                    why += f": {exc.filename}"
                 _to_stderr(one_line(f"emgate: cannot write html to {file}: {why}"))
                 status = EXIT_INPUT
             continue

@@ -47,6 +47,14 @@ def workers_for(items: int, jobs: int) -> int:
     return n if "fork" in multiprocessing.get_all_start_methods() else 0
 
 
+def _ignore_interrupt() -> None:
+    """A worker leaves Ctrl-C to the run's process, which ends the pool (each worker would
+    print the traceback of its own KeyboardInterrupt)."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
 def _call(item: Any) -> Any:
     assert _WORK is not None
     return _WORK(item)
@@ -83,7 +91,7 @@ def ordered_map(fn: Callable[[T], R], items: list[T] | SpillQueue[T], jobs: int)
     try:
         import multiprocessing
 
-        with multiprocessing.get_context("fork").Pool(workers) as pool:
+        with multiprocessing.get_context("fork").Pool(workers, _ignore_interrupt) as pool:
 
             def submit() -> Iterator[R] | None:
                 part = list(islice(taken, batch))

@@ -14,9 +14,10 @@ the drawings (slot outlines, conductors as placed for the fill). The page of a s
 
 from __future__ import annotations
 
-from errno import EISDIR
+import os
+from dataclasses import dataclass
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, NoReturn
 
 if TYPE_CHECKING:
     from emgate.findings import RunResult
@@ -52,11 +53,12 @@ def write_run(result: RunResult, out: Path, jobs: int = 1) -> None:
     missing, its parent never (a typo in a path is an error).
 
     The sheets are drawn in up to ``jobs`` processes (the plots are most of a run's time),
-    each written as soon as it is drawn, into a staging folder beside the index: they land
-    beside it, and the index after them, only once every sheet is drawn. A sheet that
-    cannot be drawn or written leaves none of the run's files (OSError, or RuntimeError
-    for any other failure: an internal error)."""
-    from emgate.atomic import land, staging, write_atomic
+    each written as soon as it is drawn, into a staging folder beside the index: the sheets
+    land, and the index last, only once all are in and every place they go is checked
+    (:func:`emgate.atomic.check_landing`). A sheet that cannot be drawn or written leaves
+    none of the run's files (OSError, or RuntimeError for any other failure: an internal
+    error); only an error of a rename itself, after the checks, can leave part of them."""
+    from emgate.atomic import check_landing, land, staging, write_atomic
     from emgate.page.html import render_index
     from emgate.parallel import ordered_map
 
@@ -73,32 +75,48 @@ def write_run(result: RunResult, out: Path, jobs: int = 1) -> None:
         # the records by their place: a worker takes its record from the run it was forked
         # with, where a check is the object its finding reports (a pickled copy is not)
         for row in ordered_map(sheet, list(range(len(result.records))), jobs):
-            if isinstance(row, OSError):
-                raise row
-            if isinstance(row, str):
-                raise RuntimeError(row)
+            if isinstance(row, _Failed):
+                row.throw()
             rows.append(row)
-        names = [sheet_file_name(row.record_id) for row in rows]
-        for name in names:  # a folder in the way, before any sheet lands
-            if (index.parent / name).is_dir():
-                raise IsADirectoryError(EISDIR, "a folder is in the way", str(index.parent / name))
+        write_atomic(staged / index.name, render_index(result, rows, sheet_file_name))
+        names = [*(sheet_file_name(row.record_id) for row in rows), index.name]  # index last
+        for name in names:
+            check_landing(index.parent / name)
         for name in names:
             land(staged / name, index.parent / name)
-    write_atomic(index, render_index(result, rows, sheet_file_name))
+
+
+@dataclass(frozen=True)
+class _Failed:
+    """What stopped a sheet in a worker process, as plain data: an exception that does not
+    unpickle would stop the pool's result thread, and the run with it."""
+
+    message: str
+    trace: str
+    #: (errno, strerror, filename) of an OSError; None for any other error
+    os_error: tuple[int | None, str, str | None] | None = None
+
+    def throw(self) -> NoReturn:
+        if self.os_error is not None:
+            exc: Exception = OSError(*self.os_error)
+        else:
+            exc = RuntimeError(self.message)
+        exc.add_note(f"in the process that drew the sheet:\n{self.trace}")
+        raise exc
 
 
 class _SheetWriter:
-    """Draws and writes one record's sheet. Returns its index line, or what stopped it: the
-    OSError, or the text of any other error. Nothing else may leave a worker process: an
-    exception that does not unpickle would stop the pool's result thread, and the run with
-    it."""
+    """Draws and writes one record's sheet into the staging folder; its index line. In a
+    worker process an error comes back as :class:`_Failed`; in the run's own process it is
+    raised as it is."""
 
     def __init__(self, folder: Path, result: RunResult) -> None:
         from emgate.page.run import RunView
 
         self.folder, self.result, self.view = folder, result, RunView.of(result)
+        self.home = os.getpid()
 
-    def __call__(self, at: int) -> IndexRow | OSError | str:
+    def __call__(self, at: int) -> IndexRow | _Failed:
         from emgate.atomic import write_atomic
         from emgate.page.content import IndexRow
         from emgate.page.data import gather
@@ -108,9 +126,19 @@ class _SheetWriter:
             page = gather(Path(record.file), self.result, record=record, view=self.view)
             write_atomic(self.folder / sheet_file_name(page.record_id), page_html(page))
         except OSError as exc:
-            return OSError(exc.errno, exc.strerror or str(exc), exc.filename)
-        except Exception as exc:  # (a worker's KeyboardInterrupt is the pool's to handle)
-            return f"the sheet of {record.file} could not be drawn: {type(exc).__name__}: {exc}"
+            if os.getpid() == self.home:
+                raise
+            import traceback
+
+            trace = traceback.format_exc()
+            return _Failed(str(exc), trace, (exc.errno, exc.strerror or str(exc), exc.filename))
+        except Exception as exc:
+            text = f"the sheet of {record.file} could not be drawn: {type(exc).__name__}: {exc}"
+            if os.getpid() == self.home:
+                raise RuntimeError(text) from exc
+            import traceback
+
+            return _Failed(text, traceback.format_exc())
         return IndexRow.of(page)
 
 

@@ -4,11 +4,13 @@ YAML file that is not an emgate file is skipped silently unless ``--verbose`` as
 
 from __future__ import annotations
 
+import json
 import os
 import shutil
 from pathlib import Path
 
 import pytest
+import yaml
 
 from conftest import PUMP, git, run_cli
 from emgate.listing import yaml_files
@@ -192,3 +194,28 @@ def test_a_check_of_a_folder_finds_the_materials_of_its_repository_once(
         # "already defined")
         assert [f for f in report["findings"] if f["kind"] != "violation"] == [], folder
         assert [r["record_id"] for r in report["records"]] == ["genset-4p48s"], folder
+
+
+@pytest.mark.parametrize("with_git", [True, False])
+def test_the_materials_of_a_repository_are_found_as_discovery_finds_them(
+    tmp_path: Path, with_git: bool
+) -> None:
+    # a file whose head declares another schema is passed over by its head alone; any other
+    # goes through discovery: a materials file written in flow style (no schema line) is
+    # found, one reached by a link from outside the repository is not
+    from conftest import STEELS
+    from emgate.discovery import materials_sources
+
+    root = tmp_path / "repo"
+    (root / "designs").mkdir(parents=True)
+    (root / "emgate.yaml").write_text("schema: emgate/config@1\n")
+    shutil.copy(PUMP, root / "designs" / PUMP.name)
+    shutil.copy(STEELS, root / "steels.yaml")
+    flow = yaml.safe_load(STEELS.read_text(encoding="utf-8"))
+    (root / "designs" / "flow.yaml").write_text(json.dumps(flow), encoding="utf-8")
+    (tmp_path / "outside.yaml").write_text(STEELS.read_text(encoding="utf-8"))
+    (root / "linked.yaml").symlink_to(tmp_path / "outside.yaml")
+    if with_git:
+        git(root, "init", "-q")
+    found = [Path(s.name).relative_to(root).as_posix() for s in materials_sources(root)]
+    assert found == ["designs/flow.yaml", "steels.yaml"]

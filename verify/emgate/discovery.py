@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import os
 import re
+import stat
 from collections.abc import Collection, Iterable, Iterator
 from dataclasses import dataclass
 from pathlib import Path
@@ -69,7 +70,6 @@ def each_source(
     design_text: bool = True,
     outside_ids: SpillMap[str] | None = None,
     index: Index | None = None,
-    skip: Collection[str] = (),
 ) -> Iterator[Source]:
     """Files named, and *.yaml / *.yml under folders named, that declare an emgate schema,
     in the order named (a folder's files sorted by their path's parts).
@@ -84,8 +84,7 @@ def each_source(
     kept: the pipeline reads it again when it checks the record. ``outside_ids`` is filled
     with the id of each design record outside a change set, and the file that holds it: a
     changed record may not take the id of one the change leaves alone. With a run's
-    ``index`` the names listed and read are held on disk when there are many. Folders are
-    not searched under those ``skip`` names (resolved paths).
+    ``index`` the names listed and read are held on disk when there are many.
     """
     # Paths as strings until a file is kept: a thousand-record repository checked for one
     # changed file spends its time here, and pathlib's objects cost more than the file reads.
@@ -97,7 +96,7 @@ def each_source(
     changed = {str(p) for p in changes.files} if changes is not None else set()
     for root in paths:
         if root.is_dir():
-            listed = yaml_names(root, index, skip)
+            listed = yaml_names(root, index)
             candidates: Iterable[str] = (p for p in listed if os.path.basename(p) != CONFIG_NAME)
             explicit = False
             inside: str | None = str(root.resolve())
@@ -364,9 +363,40 @@ def materials_sources(
 ) -> list[Source]:
     """Every materials file under a repository root but those under the folders ``searched``
     names (resolved paths: a run has read them already)."""
-    scratch = RunResult()  # an empty change: every file is read, the records are not kept
-    sources = each_source([root], scratch, changes=ChangeSet(), index=index, skip=searched)
+    # A file whose head declares another emgate schema is no materials file, as discovery
+    # would find: its head alone is read (a check of one file in a repository of thousands
+    # read every record whole). The others are read as discovery reads them.
+    top = os.path.realpath(root)
+    heads = (n for n in yaml_names(root, index, searched) if _head_schema(n) not in _NOT_MATERIALS)
+    # (a symbolic link leading outside the repository is none of its files)
+    kept = [Path(name) for name in heads if _within(os.path.realpath(name), top)]
+    scratch = RunResult()  # (the findings of a search for materials are not the run's)
+    sources = each_source(kept, scratch, changes=ChangeSet(), index=index)
     return [s for s in sources if s.declared == MATERIALS_SCHEMA]
+
+
+_NOT_MATERIALS = frozenset({DESIGN_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA})
+_DECLARES_BYTES = re.compile(rb"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
+
+
+def _head_schema(name: str) -> str | None:
+    """The schema the first ``schema:`` line in a file's first bytes declares (as
+    :func:`_declared` reads it from the text); None when there is none or the file cannot
+    be read (then discovery reads it and says why)."""
+    try:
+        fd = os.open(name, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    except OSError:
+        return None
+    try:
+        if not stat.S_ISREG(os.fstat(fd).st_mode):
+            return None
+        head = os.read(fd, _HEAD_CHARS)
+    except OSError:
+        return None
+    finally:
+        os.close(fd)
+    m = _DECLARES_BYTES.search(head)
+    return m.group(1).decode("ascii") if m else None
 
 
 def discover_materials(start: Path) -> Catalogue:

@@ -427,7 +427,7 @@ def test_the_sheet_finds_a_checks_remedies_from_its_outcome() -> None:
     from emgate.engine import execute
     from emgate.pipeline import Run
     from emgate.plugins import load_plugins
-    from emgate.remedy_report import remedies_for, remedies_for_check
+    from emgate.remedy_report import remedies_by_check, remedies_for
 
     plugins = load_plugins()
     rules = {rid: lr.rule for rid, lr in plugins.rules.items()}
@@ -437,11 +437,12 @@ def test_the_sheet_finds_a_checks_remedies_from_its_outcome() -> None:
     (record,) = result.records
     failing_checks = [c for o in record.outcomes for c in o.checks if not c.passed]
     assert failing_checks
+    by_check = remedies_by_check(result.findings)
     for c in failing_checks:
         (finding,) = [f for f in result.findings if f.check is c]
-        assert remedies_for_check(result, c) == remedies_for(finding) != []
+        assert by_check.get(id(c), []) == remedies_for(finding) != []
     passing = next(c for o in record.outcomes for c in o.checks if c.passed)
-    assert remedies_for_check(result, passing) == []
+    assert by_check.get(id(passing), []) == []
 
 
 def test_a_value_the_kernel_cannot_compute_is_no_fix(

@@ -24,7 +24,7 @@ from pydantic import (
     ValidationError,
 )
 
-from emgate.errors import InputError, InputErrors, resolved
+from emgate.errors import InputError, InputErrors, resolved, within
 from emgate.loader import Document, load
 from emgate.quantity import quantity
 from emgate.rule import Options, Rule
@@ -191,13 +191,7 @@ class Policy:
             full = os.path.realpath(path) if real is None else real
         except OSError:
             return None
-        top = self._top
-        if full == top:
-            return "."
-        prefix = top if top.endswith(os.sep) else top + os.sep
-        if not full.startswith(prefix):
-            return None
-        return full[len(prefix) :]
+        return within(full, self._top)
 
     def inside(self, path: Path) -> bool:
         return self.relative(path) is not None

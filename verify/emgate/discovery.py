@@ -9,17 +9,16 @@ from __future__ import annotations
 
 import os
 import re
-import stat
 from collections.abc import Collection, Iterable, Iterator
 from dataclasses import dataclass
 from pathlib import Path
 
 from emgate.changes import ChangeSet
 from emgate.config import CONFIG_NAME, Policy
-from emgate.errors import InputError, Location, display_path
+from emgate.errors import InputError, Location, display_path, within
 from emgate.findings import Finding, RunResult, input_finding
 from emgate.listing import yaml_names
-from emgate.loader import load_text, read_text
+from emgate.loader import load_text, read_head, read_text
 from emgate.materials import Catalogue
 from emgate.spill import Index, SpillMap, SpillSet
 from emgate.terms import CONFIG_SCHEMA, DESIGN_SCHEMA, MATERIALS_SCHEMA, WAIVERS_SCHEMA
@@ -114,7 +113,7 @@ def each_source(
             key = _resolved(name, folders)
             if not seen.add(key):
                 continue
-            if inside is not None and not _within(key, inside):
+            if inside is not None and within(key, inside) is None:
                 result.findings.append(
                     input_finding(
                         InputError(
@@ -201,11 +200,6 @@ def _resolved(name: str, folders: dict[str, str]) -> str:
         real = folders[folder] = os.path.realpath(folder or ".")
     key = os.path.join(real, base)
     return name if key == name else key  # one string kept, not two, for a resolved name
-
-
-def _within(key: str, folder: str) -> bool:
-    """Whether a resolved path lies inside a resolved folder."""
-    return key == folder or key.startswith(folder if folder.endswith(os.sep) else folder + os.sep)
 
 
 #: Top-level keys of emgate records: a file holding one of them is meant as a record.
@@ -369,14 +363,14 @@ def materials_sources(
     top = os.path.realpath(root)
     heads = (n for n in yaml_names(root, index, searched) if _head_schema(n) not in _NOT_MATERIALS)
     # (a symbolic link leading outside the repository is none of its files)
-    kept = [Path(name) for name in heads if _within(os.path.realpath(name), top)]
+    kept = [Path(name) for name in heads if within(os.path.realpath(name), top) is not None]
     scratch = RunResult()  # (the findings of a search for materials are not the run's)
     sources = each_source(kept, scratch, changes=ChangeSet(), index=index)
     return [s for s in sources if s.declared == MATERIALS_SCHEMA]
 
 
 _NOT_MATERIALS = frozenset({DESIGN_SCHEMA, WAIVERS_SCHEMA, CONFIG_SCHEMA})
-_DECLARES_BYTES = re.compile(rb"^schema:\s*['\"]?(emgate/[a-z]+@\d+)", re.MULTILINE)
+_DECLARES_BYTES = re.compile(_DECLARES.pattern.encode("ascii"), re.MULTILINE)
 
 
 def _head_schema(name: str) -> str | None:
@@ -384,17 +378,9 @@ def _head_schema(name: str) -> str | None:
     :func:`_declared` reads it from the text); None when there is none or the file cannot
     be read (then discovery reads it and says why)."""
     try:
-        fd = os.open(name, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
-    except OSError:
+        head = read_head(name, _HEAD_CHARS)
+    except (OSError, InputError):
         return None
-    try:
-        if not stat.S_ISREG(os.fstat(fd).st_mode):
-            return None
-        head = os.read(fd, _HEAD_CHARS)
-    except OSError:
-        return None
-    finally:
-        os.close(fd)
     m = _DECLARES_BYTES.search(head)
     return m.group(1).decode("ascii") if m else None
 

@@ -20,6 +20,15 @@ class Location:
         return f"{display_path(self.file)}:{self.line}:{self.column}"
 
 
+def within(path: str, folder: str) -> str | None:
+    """``path`` relative to ``folder`` (both resolved, as texts; "." for the folder itself),
+    or None when it lies outside: by whole parts (``/a/bc`` is not inside ``/a/b``)."""
+    if path == folder:
+        return "."
+    prefix = folder if folder.endswith(os.sep) else folder + os.sep
+    return path[len(prefix) :] if path.startswith(prefix) else None
+
+
 def resolved(path: Path) -> Path:
     """``path.resolve()``, except that a symbolic-link loop is left as it stands (Python
     3.11's pathlib raises RuntimeError on one): the file's read then reports it, located."""

@@ -15,6 +15,8 @@ from collections.abc import Collection, Iterable, Iterator
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from emgate.errors import within
+
 if TYPE_CHECKING:
     from emgate.spill import Index
 
@@ -81,8 +83,7 @@ def _relative_inside(root: Path, folders: Collection[str]) -> list[str]:
     if not folders:
         return []
     real = os.path.realpath(root)
-    prefix = real if real.endswith(os.sep) else real + os.sep
-    return [os.path.relpath(f, real) for f in folders if f.startswith(prefix)]
+    return [rel for f in folders if (rel := within(f, real)) not in (None, ".")]
 
 
 def _readable_or_link(name: str) -> bool:

@@ -317,10 +317,16 @@ def _refused_tag(tag: str | None, plain_scalar: bool) -> bool:
 BUFFERS: ContextVar[Mapping[Path, str] | None] = ContextVar("emgate_buffers", default=None)
 
 
-def _read_bytes(path: Path | str) -> bytes:
+def read_head(path: Path | str, size: int) -> bytes:
+    """The first ``size`` bytes of a regular file (an editor's buffer of it if open), for a
+    look at its head; OSError, or InputError for a file that is no regular file."""
+    return _read_bytes(path, size)
+
+
+def _read_bytes(path: Path | str, limit: int = MAX_BYTES + 1) -> bytes:
     buffers = BUFFERS.get()
     if buffers and (text := buffers.get(Path(path).resolve())) is not None:
-        return text.encode("utf-8", "surrogatepass")[: MAX_BYTES + 1]
+        return text.encode("utf-8", "surrogatepass")[:limit]
     # Opened without blocking and checked on the open descriptor: a FIFO or a device would
     # otherwise hold the run forever (and a check before opening could be raced).
     fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
@@ -336,7 +342,6 @@ def _read_bytes(path: Path | str) -> bytes:
         # first, which costs more than reading a record. One byte more shows growth; a file
         # that grew is read on to the limit. On the descriptor itself: a buffered file
         # object costs more than the reads of a record.
-        limit = MAX_BYTES + 1
         want = min(limit, info.st_size + 1)
         raw = b""
         while len(raw) < want:

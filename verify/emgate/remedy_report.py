@@ -7,9 +7,8 @@ from collections.abc import Iterable
 from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
-    from emgate.findings import Finding, RunResult
+    from emgate.findings import Finding
     from emgate.remedy import Remedy
-    from emgate.rule import Check
 
 
 def remedies_for(finding: Finding) -> list[Remedy]:
@@ -18,11 +17,15 @@ def remedies_for(finding: Finding) -> list[Remedy]:
     return list(finding.remedies)
 
 
-def remedies_for_check(result: RunResult, check: Check) -> list[Remedy]:
-    """The remedies of a check of a rule's outcome (``RecordResult.outcomes[i].checks``), as
-    the HTML sheet reads checks: those of the finding that reports it (empty for a passing
-    or waived check)."""
-    return next((list(f.remedies) for f in result.findings if f.check is check), [])
+def remedies_by_check(findings: Iterable[Finding]) -> dict[int, list[Remedy]]:
+    """The remedies of each check of the rules' outcomes (``RecordResult.outcomes[i].checks``),
+    as the HTML sheet reads checks, by the check's identity: those of the first finding that
+    reports it (a passing or waived check has none: no entry)."""
+    by: dict[int, list[Remedy]] = {}
+    for f in findings:
+        if f.check is not None:
+            by.setdefault(id(f.check), list(f.remedies))
+    return by
 
 
 def summary(remedies: Iterable[Remedy]) -> str:

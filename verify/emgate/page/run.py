@@ -54,12 +54,13 @@ class RunView:
 
     @classmethod
     def of(cls, result: RunResult) -> RunView:
+        from emgate.remedy_report import remedies_by_check
+
         view = cls(result.exit_code, {r.id: r for r in result.rules})
         for at, f in enumerate(result.findings):
             view.by_record.setdefault(f.record_id, []).append((at, f))
             view.by_file.setdefault(f.file, []).append((at, f))
-            if f.check is not None:
-                view.remedies.setdefault(id(f.check), list(f.remedies))
+        view.remedies = remedies_by_check(result.findings)
         return view
 
     def findings_of(self, record: RecordResult) -> list[Finding]:

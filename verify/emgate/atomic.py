@@ -130,11 +130,10 @@ def check_landing(path: Path) -> None:
     if os.path.isdir(path):
         raise IsADirectoryError(errno.EISDIR, "a folder is in the way", str(path))
     if os.path.islink(path):
-        real = os.path.realpath(path)
         try:
-            os.stat(path)
+            os.stat(path)  # (a loop raises here)
         except FileNotFoundError:  # a dangling link: written through, its folder must exist
-            if not os.path.isdir(os.path.dirname(real)):
+            if not os.path.isdir(os.path.dirname(os.path.realpath(path))):
                 raise FileNotFoundError(
                     errno.ENOENT, "a link into a folder that does not exist", str(path)
                 ) from None
